@@ -1,0 +1,375 @@
+"""Result types shared by every method.
+
+Everything a method returns is a frozen dataclass built from these pieces:
+
+* :class:`Estimate` -- a value with an (asymmetric) band ``[lower, upper]``.
+  The band is an *estimate* of the uncertainty obtained from the spread of
+  stable approximations (across orders, precisions, methods); it is not a
+  proof. ``str()`` prints only the digits the band supports.
+* :class:`Status` -- why a method succeeded or failed.
+* :class:`Singularity` -- location (real and imaginary parts, each an
+  Estimate), kind and exponent.
+* :class:`Provenance` -- method, options, number of terms, digits, version and
+  a hash of the input.
+
+All numbers are serialised as decimal strings by :meth:`to_dict` so a JSON
+round trip loses no digit.
+
+>>> e = Estimate(mpf("0.2500003"), mpf("0.2499990"), mpf("0.2500010"))
+>>> str(e)
+'0.2500003(14)'
+>>> e.contains(0.25)
+True
+"""
+from __future__ import annotations
+
+import enum
+import math
+from dataclasses import dataclass, field, fields
+from typing import Any, Optional
+
+import mpmath
+from mpmath import mpf
+
+from ._version import __version__
+
+__all__ = [
+    "Estimate", "Status", "Singularity", "Provenance", "MethodResult",
+    "num_to_str", "str_to_num", "format_value_error",
+]
+
+
+# ----------------------------------------------------------------------------
+# numbers <-> decimal strings
+# ----------------------------------------------------------------------------
+
+def num_to_str(x, dps: Optional[int] = None) -> str:
+    """Decimal string of a number without losing digits.
+
+    ints and Fractions are written exactly (``"44/45"``); mpf with all the
+    digits of their binary precision unless ``dps`` is given.
+    """
+    from fractions import Fraction
+    if isinstance(x, bool):
+        raise TypeError("booleans are not numbers here")
+    if isinstance(x, int):
+        return str(x)
+    if isinstance(x, Fraction):
+        return str(x.numerator) if x.denominator == 1 else f"{x.numerator}/{x.denominator}"
+    if isinstance(x, float):
+        return repr(x)
+    if isinstance(x, mpmath.mpc) or isinstance(x, complex):
+        x = mpmath.mpc(x)
+        re, im = num_to_str(x.real, dps), num_to_str(x.imag, dps)
+        sign = "-" if im.startswith("-") else "+"
+        return f"{re}{sign}{im.lstrip('-')}j"
+    if isinstance(x, mpmath.mpf):
+        if not mpmath.isfinite(x):
+            return "nan" if mpmath.isnan(x) else ("inf" if x > 0 else "-inf")
+        if x == 0:
+            return "0"
+        if dps is None:
+            dps = int(_prec_of(x) * 0.30103) + 1
+        return mpmath.nstr(x, dps, strip_zeros=True, min_fixed=-5, max_fixed=dps + 1)
+    return str(x)
+
+
+def _prec_of(x: mpmath.mpf) -> int:
+    # the precision a number carries is the current working precision at
+    # which it is printed; mpf do not store it, so use the mantissa size or
+    # the working precision, whichever is larger.
+    man = x._mpf_[1]
+    return max(int(man).bit_length(), mpmath.mp.prec)
+
+
+def str_to_num(s: str):
+    """Inverse of :func:`num_to_str` at the current working precision."""
+    from fractions import Fraction
+    s = s.strip()
+    if s.endswith("j"):
+        return mpmath.mpc(s.replace(" ", ""))  # mpmath parses "a+bj"
+    try:
+        return int(s)
+    except ValueError:
+        pass
+    if "/" in s:
+        return Fraction(s)
+    return mpmath.mpf(s)
+
+
+# ----------------------------------------------------------------------------
+# value(error) formatting: one rounding rule for value and band
+# ----------------------------------------------------------------------------
+
+def format_value_error(value, lower, upper, max_digits: int = 60) -> str:
+    """Format ``value`` with the digits supported by the band ``[lower, upper]``.
+
+    The error is the larger half-distance to the band ends, rounded to one
+    (or two, if its first digit is 1) significant figures; the value is
+    rounded to the same decimal place: ``0.250000(1)``. A zero-width band
+    prints ``max_digits`` digits. A band wider than the value prints the
+    value with one digit and the band explicitly.
+    """
+    value, lower, upper = mpf(value), mpf(lower), mpf(upper)
+    err = max(abs(upper - value), abs(value - lower))
+    if not mpmath.isfinite(value):
+        return num_to_str(value)
+    if err == 0:
+        return mpmath.nstr(value, max_digits)
+    if not mpmath.isfinite(err):
+        return f"{mpmath.nstr(value, 3)} (band unbounded)"
+    e10 = int(mpmath.floor(mpmath.log10(err)))
+    lead = int(err / mpf(10) ** e10)
+    ndig_err = 2 if lead == 1 else 1
+    place = e10 - ndig_err + 1            # decimal exponent of last printed digit
+    if value != 0 and abs(value) < err:
+        return f"{mpmath.nstr(value, 2)} [{mpmath.nstr(lower, 2)}, {mpmath.nstr(upper, 2)}]"
+    err_units = int(mpmath.ceil(err / mpf(10) ** place))
+    if place >= 0:
+        v = int(mpmath.nint(value / mpf(10) ** place)) * 10 ** place
+        return f"{v}({err_units * 10 ** place})"
+    decimals = -place
+    scaled = mpmath.nint(value * mpf(10) ** decimals)
+    sign = "-" if scaled < 0 else ""
+    digits = str(abs(int(scaled))).rjust(decimals + 1, "0")
+    txt = f"{sign}{digits[:-decimals]}.{digits[-decimals:]}"
+    if value != 0 and abs(value) >= mpf(10) ** 6 or (value != 0 and abs(value) < mpf(10) ** -5):
+        # switch to scientific notation for very large/small numbers
+        ex = int(mpmath.floor(mpmath.log10(abs(value))))
+        return format_value_error(value / mpf(10) ** ex, lower / mpf(10) ** ex,
+                                  upper / mpf(10) ** ex, max_digits) + f"e{ex}"
+    return f"{txt}({err_units})"
+
+
+# ----------------------------------------------------------------------------
+# Estimate
+# ----------------------------------------------------------------------------
+
+@dataclass(frozen=True)
+class Estimate:
+    """A real value with a band ``lower <= value <= upper``.
+
+    Notes
+    -----
+    The band is built by the method that made the estimate (see its
+    ``how`` text, recorded in the result's diagnostics); in resum it comes from
+    the spread of stable approximations across orders, precisions and
+    methods, widened by a safety factor. It is meant to contain the truth, but
+    it is not a rigorous bound.
+    """
+
+    value: Any
+    lower: Any
+    upper: Any
+
+    def __post_init__(self):
+        for f in ("value", "lower", "upper"):
+            object.__setattr__(self, f, mpf(getattr(self, f)))
+        if self.lower > self.value or self.upper < self.value:
+            lo, hi = min(self.lower, self.value), max(self.upper, self.value)
+            object.__setattr__(self, "lower", lo)
+            object.__setattr__(self, "upper", hi)
+
+    @classmethod
+    def from_spread(cls, value, samples, safety: float = 1.0, floor=0) -> "Estimate":
+        """Band from ``value`` and the spread of ``samples`` around it."""
+        value = mpf(value)
+        samples = [mpf(s) for s in samples] or [value]
+        lo = min(samples + [value])
+        hi = max(samples + [value])
+        w = max(value - lo, hi - value, mpf(floor)) * mpf(safety)
+        return cls(value, value - w, value + w)
+
+    @classmethod
+    def exact(cls, value) -> "Estimate":
+        return cls(value, value, value)
+
+    @property
+    def error(self):
+        """Half-width that encloses the band symmetrically."""
+        return max(self.upper - self.value, self.value - self.lower)
+
+    @property
+    def width(self):
+        return self.upper - self.lower
+
+    def contains(self, x) -> bool:
+        x = mpf(x)
+        return bool(self.lower <= x <= self.upper)
+
+    def digits(self) -> float:
+        """Significant decimal digits supported by the band (relative)."""
+        if self.error == 0:
+            return math.inf
+        if self.value == 0:
+            return 0.0
+        return max(0.0, float(-mpmath.log10(self.error / abs(self.value))))
+
+    def __str__(self):
+        return format_value_error(self.value, self.lower, self.upper)
+
+    def __float__(self):
+        return float(self.value)
+
+    def to_dict(self) -> dict:
+        dps = _dps_for_band(self)
+        return {"value": num_to_str(self.value, dps), "lo": num_to_str(self.lower, dps),
+                "hi": num_to_str(self.upper, dps)}
+
+    @classmethod
+    def from_dict(cls, d: dict) -> "Estimate":
+        return cls(mpf(d["value"]), mpf(d["lo"]), mpf(d["hi"]))
+
+
+def _dps_for_band(e: Estimate) -> int:
+    """Digits to write: those supported by the band plus three guard digits."""
+    if e.error == 0 or e.value == 0:
+        return max(3, int(mpmath.mp.dps))
+    d = e.digits()
+    return int(min(max(d + 3, 3), mpmath.mp.dps + 5))
+
+
+# ----------------------------------------------------------------------------
+# Status, Singularity, Provenance
+# ----------------------------------------------------------------------------
+
+class Status(str, enum.Enum):
+    """Outcome of a method. ``success`` is True only for CONVERGED."""
+
+    CONVERGED = "converged"
+    NOT_CONVERGED = "not converged"
+    UNSTABLE_PRECISION = "unstable in precision"
+    UNSTABLE_ORDER = "unstable in order"
+    SPURIOUS_POLES = "spurious poles"
+    TOO_FEW_TERMS = "too few terms"
+    NOT_APPLICABLE = "not applicable"
+    DISAGREE = "methods disagree"
+    FAILED = "failed"
+
+
+KINDS = ("pole", "branch", "log", "essential", "branch-log", "unknown")
+
+
+@dataclass(frozen=True)
+class Singularity:
+    """A singular point ``x_c`` of ``f(x) ~ A (1 - x/x_c)^exponent``.
+
+    ``kind`` is one of ``pole`` (negative integer exponent), ``branch``
+    (non-integer exponent), ``log`` (logarithmic; exponent 0 or the power
+    multiplying the log), ``essential``, ``branch-log`` or ``unknown``.
+    """
+
+    re: Estimate
+    im: Estimate
+    kind: str = "unknown"
+    exponent: Optional[Estimate] = None
+    method: str = ""
+    note: str = ""
+
+    @property
+    def location(self) -> mpmath.mpc:
+        return mpmath.mpc(self.re.value, self.im.value)
+
+    @property
+    def modulus(self):
+        return abs(self.location)
+
+    def to_dict(self) -> dict:
+        return {"re": num_to_str(self.re.value, _dps_for_band(self.re)),
+                "im": num_to_str(self.im.value, _dps_for_band(self.im)),
+                "re_band": self.re.to_dict(), "im_band": self.im.to_dict(),
+                "exponent": None if self.exponent is None else self.exponent.to_dict(),
+                "kind": self.kind, "method": self.method, "note": self.note}
+
+    @classmethod
+    def from_dict(cls, d: dict) -> "Singularity":
+        re = Estimate.from_dict(d["re_band"]) if "re_band" in d else Estimate.exact(mpf(d["re"]))
+        im = Estimate.from_dict(d["im_band"]) if "im_band" in d else Estimate.exact(mpf(d["im"]))
+        ex = None if d.get("exponent") is None else Estimate.from_dict(d["exponent"])
+        return cls(re, im, d.get("kind", "unknown"), ex, d.get("method", ""), d.get("note", ""))
+
+
+@dataclass(frozen=True)
+class Provenance:
+    method: str
+    options: dict = field(default_factory=dict)
+    n_terms: int = 0
+    dps: int = 0
+    input_hash: str = ""
+    version: str = __version__
+
+    def to_dict(self) -> dict:
+        return {"method": self.method, "options": _jsonable(self.options), "n_terms": self.n_terms,
+                "dps": self.dps, "input_hash": self.input_hash, "version": self.version}
+
+    @classmethod
+    def from_dict(cls, d: dict) -> "Provenance":
+        return cls(d["method"], dict(d.get("options", {})), int(d.get("n_terms", 0)),
+                   int(d.get("dps", 0)), d.get("input_hash", ""), d.get("version", __version__))
+
+
+def _jsonable(obj):
+    """Make diagnostics JSON-friendly: numbers become decimal strings."""
+    from fractions import Fraction
+    if isinstance(obj, dict):
+        return {str(k): _jsonable(v) for k, v in obj.items()}
+    if isinstance(obj, (list, tuple)):
+        return [_jsonable(v) for v in obj]
+    if isinstance(obj, (mpmath.mpf, mpmath.mpc, Fraction, complex)):
+        return num_to_str(obj, 20)
+    if isinstance(obj, float):
+        return repr(obj)
+    if isinstance(obj, enum.Enum):
+        return obj.value
+    if hasattr(obj, "to_dict"):
+        return obj.to_dict()
+    return obj
+
+
+jsonable = _jsonable
+
+
+@dataclass(frozen=True)
+class MethodResult:
+    """What one estimator returns for one series.
+
+    ``radius`` and ``singularities`` are in the series' expansion variable.
+    ``growth`` is ``"finite radius"``, ``"entire-like"`` or ``"factorial"``;
+    for factorial growth ``borel_singularity`` (A) and ``borel_exponent``
+    (b in c_n ~ S A^-n Gamma(n+b)) are set. ``diagnostics`` holds the per-order
+    tables and the text ``how`` that says how each band was obtained.
+    """
+
+    method: str
+    success: bool
+    status: Status
+    message: str = ""
+    radius: Optional[Estimate] = None
+    singularities: tuple = ()
+    growth: str = ""
+    borel_singularity: Optional[Estimate] = None
+    borel_exponent: Optional[Estimate] = None
+    diagnostics: dict = field(default_factory=dict)
+    provenance: Optional[Provenance] = None
+
+    def to_dict(self) -> dict:
+        return {
+            "method": self.method, "success": self.success, "status": self.status.value,
+            "message": self.message,
+            "radius": None if self.radius is None else self.radius.to_dict(),
+            "singularities": [s.to_dict() for s in self.singularities],
+            "growth": self.growth,
+            "borel_singularity": None if self.borel_singularity is None else self.borel_singularity.to_dict(),
+            "borel_exponent": None if self.borel_exponent is None else self.borel_exponent.to_dict(),
+            "diagnostics": _jsonable(self.diagnostics),
+            "provenance": None if self.provenance is None else self.provenance.to_dict(),
+        }
+
+    @classmethod
+    def from_dict(cls, d: dict) -> "MethodResult":
+        est = lambda k: None if d.get(k) is None else Estimate.from_dict(d[k])  # noqa: E731
+        return cls(d["method"], bool(d["success"]), Status(d["status"]), d.get("message", ""),
+                   est("radius"), tuple(Singularity.from_dict(s) for s in d.get("singularities", [])),
+                   d.get("growth", ""), est("borel_singularity"), est("borel_exponent"),
+                   dict(d.get("diagnostics", {})),
+                   None if d.get("provenance") is None else Provenance.from_dict(d["provenance"]))
