@@ -1,0 +1,22 @@
+"""Errors for invalid input.
+
+:class:`InputError` is raised for anything the user can fix (malformed file,
+unknown option, too few terms, precision too low). Its message is one line
+that names the file, line or field and says what to do; the command line
+prints it without a traceback and exits with code 2.
+"""
+from __future__ import annotations
+
+
+class InputError(ValueError):
+    """Invalid input; ``str(err)`` is a one-line message for the user."""
+
+    def __init__(self, message: str, *, where: str = ""):
+        self.where = where
+        self.bare = message
+        super().__init__(f"{where}: {message}" if where else message)
+
+    def at(self, where: str) -> "InputError":
+        """The same error located more precisely (prefixes ``where``)."""
+        loc = f"{where}: {self.where}" if self.where else where
+        return InputError(self.bare, where=loc)
