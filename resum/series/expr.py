@@ -1,0 +1,272 @@
+"""A small, safe parser for coefficient expressions.
+
+Grammar (our own; no ``eval``, no attribute access, bounded size)::
+
+    expr   := term (("+" | "-") term)*
+    term   := unary (("*" | "/") unary)*
+    unary  := ("+" | "-") unary | power
+    power  := atom (("^" | "**") unary)?
+    atom   := number | constant | function "(" expr ")" | "(" expr ")"
+
+numbers: ``3``, ``44/45`` (as ``44 / 45``), ``-1.25``, ``6.02e23``, ``2.5j``
+(imaginary); constants: ``pi``, ``catalan``, ``euler_gamma``, ``I`` (the
+imaginary unit); functions: ``zeta``, ``log``, ``sqrt``, ``exp``, ``sin``,
+``cos``, ``gamma``.
+
+Integers and ratios of integers stay exact (``fractions.Fraction``); anything
+else is evaluated with mpmath at the requested digits. A decimal literal
+carries the significant digits it was written with; that count is reported
+so that callers can refuse input less precise than the question needs.
+
+>>> evaluate_expression("44/45").value
+Fraction(44, 45)
+>>> v = evaluate_expression("-8*(73/630*pi^6 + 4*zeta(3)^2)", dps=25)
+>>> v.exact, mpmath.nstr(v.value, 20)
+(False, '-937.43062784825374188')
+"""
+from __future__ import annotations
+
+import re
+from dataclasses import dataclass
+from fractions import Fraction
+from typing import Optional
+
+import mpmath
+
+from ..context import workdps
+from ..errors import InputError
+
+__all__ = ["evaluate_expression", "ExprValue", "MAX_LENGTH"]
+
+MAX_LENGTH = 20000      # characters in one expression
+MAX_DEPTH = 60          # nesting of parentheses / unary operators
+MAX_INT_EXPONENT = 4096
+MAX_ZETA_ARG = 100000
+
+_TOKEN = re.compile(r"""
+    (?P<num>(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?[jJ]?)
+  | (?P<name>[A-Za-z_][A-Za-z_0-9]*)
+  | (?P<op>\*\*|[-+*/^(),])
+  | (?P<ws>\s+)
+""", re.VERBOSE)
+
+_CONSTANTS = {
+    "pi": lambda: mpmath.pi,
+    "catalan": lambda: mpmath.catalan,
+    "euler_gamma": lambda: mpmath.euler,
+    "I": lambda: mpmath.mpc(0, 1),
+}
+_FUNCTIONS = {
+    "zeta": mpmath.zeta, "log": mpmath.log, "sqrt": mpmath.sqrt, "exp": mpmath.exp,
+    "sin": mpmath.sin, "cos": mpmath.cos, "gamma": mpmath.gamma,
+}
+
+
+@dataclass(frozen=True)
+class ExprValue:
+    """Parsed value.
+
+    ``value`` is an int/Fraction when ``exact``; otherwise an mpf/mpc.
+    ``digits`` is the number of significant digits carried by the least
+    precise decimal literal used (None if none was used; then the value is
+    as accurate as the working precision).
+    """
+
+    value: object
+    exact: bool
+    digits: Optional[int]
+
+
+def _sig_digits(lit: str) -> int:
+    mant = re.split(r"[eE]", lit.rstrip("jJ"))[0].replace(".", "").lstrip("0")
+    return max(1, len(mant))
+
+
+class _Parser:
+    def __init__(self, text: str, dps: int):
+        self.text = text
+        self.dps = dps
+        self.tokens = []
+        pos = 0
+        while pos < len(text):
+            m = _TOKEN.match(text, pos)
+            if not m:
+                raise InputError(f"unexpected character {text[pos]!r} at position {pos + 1} in {text!r}")
+            if m.lastgroup != "ws":
+                self.tokens.append((m.lastgroup, m.group(), pos))
+            pos = m.end()
+        self.i = 0
+        self.depth = 0
+        self.digits = None
+
+    def peek(self):
+        return self.tokens[self.i] if self.i < len(self.tokens) else (None, None, len(self.text))
+
+    def take(self, want=None):
+        tok = self.peek()
+        if tok[0] is None:
+            raise InputError(f"expression {self.text!r} ends too early")
+        if want is not None and tok[1] != want:
+            raise InputError(f"expected {want!r} at position {tok[2] + 1} in {self.text!r}")
+        self.i += 1
+        return tok
+
+    def _enter(self):
+        self.depth += 1
+        if self.depth > MAX_DEPTH:
+            raise InputError(f"expression nested more than {MAX_DEPTH} deep")
+
+    def parse(self):
+        if not self.tokens:
+            raise InputError("empty expression")
+        v = self.expr()
+        if self.i != len(self.tokens):
+            tok = self.peek()
+            raise InputError(f"unexpected {tok[1]!r} at position {tok[2] + 1} in {self.text!r}")
+        return v
+
+    def expr(self):
+        v = self.term()
+        while self.peek()[1] in ("+", "-"):
+            op = self.take()[1]
+            w = self.term()
+            v = v + w if op == "+" else v - w
+        return v
+
+    def term(self):
+        v = self.unary()
+        while self.peek()[1] in ("*", "/"):
+            op = self.take()[1]
+            w = self.unary()
+            if op == "*":
+                v = v * w
+            else:
+                if w == 0:
+                    raise InputError(f"division by zero in {self.text!r}")
+                v = Fraction(v) / w if isinstance(v, int) and isinstance(w, int) else v / w
+        return v
+
+    def unary(self):
+        if self.peek()[1] in ("+", "-"):
+            op = self.take()[1]
+            self._enter()
+            v = self.unary()
+            self.depth -= 1
+            return -v if op == "-" else v
+        return self.power()
+
+    def power(self):
+        base = self.atom()
+        if self.peek()[1] in ("^", "**"):
+            self.take()
+            self._enter()
+            ex = self.unary()
+            self.depth -= 1
+            if isinstance(ex, (int, Fraction)) and Fraction(ex).denominator == 1:
+                ex = int(ex)
+                if abs(ex) > MAX_INT_EXPONENT:
+                    raise InputError(f"exponent {ex} too large (limit {MAX_INT_EXPONENT})")
+                if isinstance(base, (int, Fraction)):
+                    if base == 0 and ex < 0:
+                        raise InputError(f"0 to a negative power in {self.text!r}")
+                    return Fraction(base) ** ex
+                return base ** ex
+            return mpmath.power(_mp(base), _mp(ex))
+        return base
+
+    def atom(self):
+        kind, text, pos = self.take()
+        if kind == "num":
+            if text[-1] in "jJ":
+                self._note_digits(text)
+                return mpmath.mpc(0, self._decimal(text[:-1]))
+            if re.fullmatch(r"\d+", text):
+                return int(text)
+            self._note_digits(text)
+            return self._decimal(text)
+        if kind == "name":
+            if text in _CONSTANTS:
+                return _CONSTANTS[text]()
+            if text in _FUNCTIONS:
+                self.take("(")
+                self._enter()
+                arg = self.expr()
+                self.depth -= 1
+                self.take(")")
+                return self._call(text, arg)
+            valid = ", ".join(sorted(_CONSTANTS) + [f + "()" for f in sorted(_FUNCTIONS)])
+            raise InputError(f"unknown name {text!r} in {self.text!r}; known: {valid}")
+        if text == "(":
+            self._enter()
+            v = self.expr()
+            self.depth -= 1
+            self.take(")")
+            return v
+        raise InputError(f"unexpected {text!r} at position {pos + 1} in {self.text!r}")
+
+    def _decimal(self, text):
+        # keep every written digit, however many
+        with workdps(max(self.dps, _sig_digits(text) + 10)):
+            return mpmath.mpf(text)
+
+    def _note_digits(self, text):
+        d = _sig_digits(text)
+        self.digits = d if self.digits is None else min(self.digits, d)
+
+    def _call(self, name, arg):
+        if name == "zeta":
+            if arg == 1:
+                raise InputError("zeta(1) is infinite")
+            if isinstance(arg, (int, Fraction)) and abs(arg) > MAX_ZETA_ARG:
+                raise InputError(f"zeta argument too large (limit {MAX_ZETA_ARG})")
+        if name == "log" and arg == 0:
+            raise InputError("log(0) is infinite")
+        if name == "sqrt" and isinstance(arg, (int, Fraction)) and arg >= 0:
+            r = Fraction(arg)
+            import math
+            rn, rd = math.isqrt(r.numerator), math.isqrt(r.denominator)
+            if rn * rn == r.numerator and rd * rd == r.denominator:
+                return Fraction(rn, rd)
+        if name == "gamma" and isinstance(arg, int) and arg <= 0:
+            raise InputError(f"gamma({arg}) is infinite")
+        return _FUNCTIONS[name](_mp(arg))
+
+
+def _mp(v):
+    if isinstance(v, Fraction):
+        return mpmath.mpf(v.numerator) / v.denominator
+    return mpmath.mpmathify(v)
+
+
+def evaluate_expression(text: str, dps: int = 30) -> ExprValue:
+    """Evaluate a coefficient expression at ``dps`` working digits.
+
+    Raises :class:`resum.errors.InputError` with a one-line reason for
+    anything it refuses (unknown names, bad syntax, over-long or over-deep
+    input, infinite values).
+    """
+    if not isinstance(text, str):
+        raise InputError(f"expected an expression as text, got {type(text).__name__}")
+    if len(text) > MAX_LENGTH:
+        raise InputError(f"expression longer than {MAX_LENGTH} characters")
+    longest = max((_sig_digits(m.group()) for m in re.finditer(r"(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?", text)),
+                  default=0)
+    work = max(dps, longest) + 10     # arithmetic on long literals keeps all their digits
+    with workdps(work):
+        p = _Parser(text, work)
+        try:
+            v = p.parse()
+        except (ZeroDivisionError, OverflowError, ValueError) as exc:
+            if isinstance(exc, InputError):
+                raise
+            raise InputError(f"cannot evaluate {text!r}: {exc}") from None
+        if isinstance(v, Fraction) and v.denominator == 1:
+            v = int(v)
+        exact = isinstance(v, (int, Fraction)) and p.digits is None
+        if not exact:
+            v = _mp(v)
+            if isinstance(v, mpmath.mpc) and v.imag == 0:
+                v = v.real
+            if not mpmath.isfinite(v):
+                raise InputError(f"{text!r} is not finite")
+    return ExprValue(v, exact, p.digits)

@@ -1,0 +1,505 @@
+"""Reading and writing series files (three formats of our own).
+
+JSON series document (``.json``)::
+
+    {"variable": "x", "coefficients": ["1", "1/2", "pi^2/6", "0.3333333333333333333"]}
+
+optional keys: ``format`` ("resum-series/1"), ``name``, ``description``,
+``start`` (power of the first coefficient, default 0), ``coupling`` (for
+example ``"x = g^2"`` or ``{"symbol": "g", "power": 2, "scale": "1"}``),
+``digits`` (digits every inexact coefficient carries; overrides what the
+literals show), ``exact`` (true: decimal literals are exact values),
+``provenance`` (object), ``metadata`` (free-form object, kept). Any other key
+is refused. Coefficients are strings (expressions allowed) or JSON integers;
+JSON floats are read from their text, digit for digit.
+
+CSV (``.csv``)::
+
+    # name: demo
+    # coupling: x = g^2
+    order,coefficient
+    0,1
+    1,-1/3
+
+orders ascending, missing orders are zero.
+
+Plain text (any other extension)::
+
+    # comments start with '#'
+    variable: x
+    coupling: x = g^2
+    1
+    -4/3*pi^2
+
+``key: value`` header lines (the same keys as JSON, scalars only) before the
+first coefficient, then one coefficient per line.
+
+Every reader raises :class:`resum.errors.InputError` naming the file and the
+line or field. Writers write atomically (temporary file, then rename) and
+keep every digit: exact numbers as integers or ``p/q``, inexact ones with the
+digits the series carries.
+"""
+from __future__ import annotations
+
+import json
+import os
+import re
+import tempfile
+from fractions import Fraction
+from pathlib import Path
+from typing import Optional
+
+import mpmath
+
+from ..context import DEFAULT, Context
+from ..errors import InputError
+from ..results import num_to_str
+from .core import Coupling, Series
+from .expr import evaluate_expression
+
+__all__ = ["read_series", "write_series", "series_from_dict", "series_to_dict",
+           "parse_coupling", "atomic_write_text", "FORMAT_TAG", "MAX_TERMS"]
+
+FORMAT_TAG = "resum-series/1"
+MAX_TERMS = 100000
+MAX_FILE_BYTES = 200 * 1024 * 1024
+_JSON_KEYS = {"format", "name", "description", "variable", "start", "coupling", "digits",
+              "exact", "coefficients", "provenance", "metadata"}
+_HEADER_KEYS = {"format", "name", "description", "variable", "start", "coupling", "digits", "exact"}
+
+
+# ---------------------------------------------------------------- helpers
+
+def parse_coupling(text: str, variable: str = "x") -> Coupling:
+    """Parse ``"x = g^2"``, ``"g^2"``, ``"x = 4*g^2"`` or ``"x = g^2/16"``."""
+    t = text.replace(" ", "")
+    if "=" in t:
+        lhs, t = t.split("=", 1)
+        if lhs != variable:
+            raise InputError(f"coupling {text!r} must relate the variable {variable!r} "
+                             f"(write '{variable} = g^2')")
+    m = re.fullmatch(r"(?:(?P<pre>[^A-Za-z_]+)\*)?(?P<sym>[A-Za-z_]\w*)(?:(?:\^|\*\*)(?P<pow>\d+))?"
+                     r"(?:/(?P<div>[^A-Za-z_]+))?", t)
+    if not m:
+        raise InputError(f"cannot read coupling {text!r}; write it like 'x = g^2' or 'x = 4*g^2'")
+    scale = Fraction(1)
+    if m.group("pre"):
+        scale *= _exact_scale(m.group("pre"), text)
+    if m.group("div"):
+        scale /= _exact_scale(m.group("div"), text)
+    scale = int(scale) if scale.denominator == 1 else scale
+    return Coupling(symbol=m.group("sym"), power=int(m.group("pow") or 1), scale=scale)
+
+
+def _exact_scale(s, text):
+    v = evaluate_expression(s, 30)
+    if not v.exact or v.value == 0:
+        raise InputError(f"coupling {text!r}: the scale must be a non-zero rational number")
+    return Fraction(v.value)
+
+
+def _coupling_from_json(obj, variable, where):
+    if obj is None:
+        return None
+    if isinstance(obj, str):
+        try:
+            return parse_coupling(obj, variable)
+        except InputError as e:
+            raise e.at(where)
+    if isinstance(obj, dict):
+        extra = set(obj) - {"symbol", "power", "scale"}
+        if extra:
+            raise InputError(f"unknown key {sorted(extra)[0]!r}; allowed: symbol, power, scale", where=where)
+        try:
+            scale = _exact_scale(str(obj.get("scale", "1")), str(obj))
+            scale = int(scale) if scale.denominator == 1 else scale
+            return Coupling(symbol=str(obj.get("symbol", "g")), power=int(obj.get("power", 1)), scale=scale)
+        except (TypeError, ValueError) as e:
+            raise InputError(str(e), where=where) from None
+    raise InputError("must be a string like 'x = g^2' or an object {symbol, power, scale}", where=where)
+
+
+def _parse_coefficient(text, where, dps, exact_decimals):
+    if isinstance(text, bool) or not isinstance(text, (str, int)):
+        raise InputError(f"coefficient must be a string or an integer, got {type(text).__name__}",
+                         where=where)
+    if isinstance(text, int):
+        return text, None
+    t = text.strip()
+    low = t.lower()
+    if low in ("nan", "+nan", "-nan", "inf", "+inf", "-inf", "infinity", "-infinity"):
+        raise InputError(f"coefficient {t!r} is not finite; give a finite number", where=where)
+    if exact_decimals and re.fullmatch(r"[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?", t):
+        return _exact_decimal(t), None
+    try:
+        v = evaluate_expression(t, dps)
+    except InputError as e:
+        raise e.at(where) from None
+    return v.value, v.digits
+
+
+def _parse_dps(declared, ctx):
+    """Digits to parse at: the working digits, or more if the file declares more."""
+    try:
+        return max(ctx.work_dps, int(declared) + 10) if declared is not None else ctx.work_dps
+    except (TypeError, ValueError):
+        return ctx.work_dps
+
+
+def _exact_decimal(t):
+    return Fraction(t) if Fraction(t).denominator != 1 else int(Fraction(t))
+
+
+def _build(coeffs, digits_list, meta, where_of, ctx):
+    if not coeffs:
+        raise InputError("no coefficients; a series needs at least one", where=where_of(None))
+    if len(coeffs) > MAX_TERMS:
+        raise InputError(f"more than {MAX_TERMS} coefficients", where=where_of(None))
+    variable = meta.get("variable", "x")
+    if not isinstance(variable, str) or not variable.isidentifier():
+        raise InputError(f"variable {variable!r} is not a name (use letters, digits, '_')",
+                         where=where_of("variable"))
+    start = meta.get("start", 0)
+    try:
+        start = int(start)
+    except (TypeError, ValueError):
+        raise InputError(f"start must be an integer, got {start!r}", where=where_of("start")) from None
+    coupling = _coupling_from_json(meta.get("coupling"), variable, where_of("coupling"))
+    digits = meta.get("digits")
+    inexact_digits = [d for d in digits_list if d is not None]
+    any_inexact = any(not isinstance(c, (int, Fraction)) for c in coeffs)
+    if digits is not None:
+        try:
+            digits = int(digits)
+            if digits < 1:
+                raise ValueError
+        except (TypeError, ValueError):
+            raise InputError(f"digits must be a positive integer, got {meta.get('digits')!r}",
+                             where=where_of("digits")) from None
+    elif any_inexact:
+        # literals carry what they show; expressions carry the working precision
+        digits = min(inexact_digits) if inexact_digits else ctx.work_dps
+        if not inexact_digits:
+            digits = ctx.work_dps
+    if not any_inexact:
+        digits = None
+    with ctx.working():
+        s = Series(tuple(coeffs), variable=variable, start=start, digits=digits, coupling=coupling,
+                   name=str(meta.get("name", "")), description=str(meta.get("description", "")),
+                   provenance=dict(meta.get("provenance", {}) or {}))
+    if s.is_zero():
+        raise InputError("every coefficient is zero; nothing to analyse", where=where_of("coefficients"))
+    if "metadata" in meta:
+        s = Series(s.coefficients, s.variable, s.start, s.digits, s.coupling, s.name, s.description,
+                   {**s.provenance, "metadata": meta["metadata"]})
+    return s
+
+
+def _least_precise(digits_list):
+    best = None
+    for i, d in enumerate(digits_list):
+        if d is not None and (best is None or d < digits_list[best]):
+            best = i
+    return best
+
+
+# ---------------------------------------------------------------- readers
+
+def series_from_dict(doc: dict, ctx: Optional[Context] = None, where: str = "") -> Series:
+    """Build a Series from a JSON series document (already parsed)."""
+    ctx = ctx or DEFAULT
+    if not isinstance(doc, dict):
+        raise InputError("a series document must be a JSON object", where=where)
+    extra = set(doc) - _JSON_KEYS
+    if extra:
+        k = sorted(extra)[0]
+        raise InputError(f"unknown key {k!r}; allowed keys: {', '.join(sorted(_JSON_KEYS))} "
+                         f"(put free-form information under 'metadata')", where=where)
+    if "coefficients" not in doc:
+        raise InputError("missing key 'coefficients'", where=where)
+    fmt = doc.get("format", FORMAT_TAG)
+    if fmt != FORMAT_TAG:
+        raise InputError(f"format {fmt!r} is not {FORMAT_TAG!r}", where=_w(where, "format"))
+    cs = doc["coefficients"]
+    if not isinstance(cs, list):
+        raise InputError("must be a list of strings", where=_w(where, "coefficients"))
+    exact_dec = doc.get("exact", False)
+    if not isinstance(exact_dec, bool):
+        raise InputError("must be true or false", where=_w(where, "exact"))
+    for key in ("name", "description", "variable"):
+        if key in doc and not isinstance(doc[key], str):
+            raise InputError("must be a string", where=_w(where, key))
+    if "provenance" in doc and not isinstance(doc["provenance"], dict):
+        raise InputError("must be an object", where=_w(where, "provenance"))
+    coeffs, digs = [], []
+    dps = _parse_dps(doc.get("digits"), ctx)
+    for k, c in enumerate(cs):
+        if isinstance(c, _JsonFloat):
+            c = str(c)
+        v, d = _parse_coefficient(c, _w(where, f"coefficients[{k}]"), dps, exact_dec)
+        coeffs.append(v)
+        digs.append(d)
+    s = _build(coeffs, digs, doc, lambda key: _w(where, key or "coefficients"), ctx)
+    _keep_where(s, digs, lambda i: _w(where, f"coefficients[{i}]"))
+    return s
+
+
+class _JsonFloat(str):
+    """A JSON number with a fraction or exponent, kept as its text."""
+
+
+def _w(where, key):
+    return f"{where}: {key}" if where else key
+
+
+_WHERE_LEAST = {}
+
+
+def _keep_where(series, digs, loc):
+    i = _least_precise(digs)
+    if i is not None:
+        _WHERE_LEAST[id(series)] = loc(i)
+
+
+def least_precise_location(series) -> Optional[str]:
+    """Where the least precise coefficient of a freshly read series sits (file and line/field)."""
+    return _WHERE_LEAST.get(id(series))
+
+
+def _read_text_file(path: Path) -> str:
+    try:
+        size = path.stat().st_size
+    except FileNotFoundError:
+        raise InputError("file not found", where=str(path)) from None
+    except OSError as e:
+        raise InputError(f"cannot read file ({e.strerror})", where=str(path)) from None
+    if path.is_dir():
+        raise InputError("is a directory, not a series file", where=str(path))
+    if size > MAX_FILE_BYTES:
+        raise InputError(f"file larger than {MAX_FILE_BYTES // 2**20} MiB", where=str(path))
+    raw = path.read_bytes()
+    try:
+        return raw.decode("utf-8-sig")
+    except UnicodeDecodeError as e:
+        raise InputError(f"not UTF-8 text (bad byte at offset {e.start}); save the file as UTF-8",
+                         where=str(path)) from None
+
+
+def read_series(path, ctx: Optional[Context] = None, fmt: Optional[str] = None) -> Series:
+    """Read a series file (JSON, CSV or plain text, chosen by extension or ``fmt``)."""
+    ctx = ctx or DEFAULT
+    path = Path(path)
+    text = _read_text_file(path)
+    fmt = fmt or _guess_format(path, text)
+    if fmt == "json":
+        try:
+            doc = json.loads(text, parse_float=_JsonFloat, parse_constant=_refuse_constant)
+        except json.JSONDecodeError as e:
+            raise InputError(f"line {e.lineno}: malformed JSON ({e.msg})", where=str(path)) from None
+        except InputError as e:
+            raise e.at(str(path)) from None
+        s = series_from_dict(doc, ctx, where=str(path))
+    elif fmt == "csv":
+        s = _read_csv(text, str(path), ctx)
+    elif fmt == "text":
+        s = _read_plain(text, str(path), ctx)
+    else:
+        raise InputError(f"unknown format {fmt!r}; use json, csv or text", where=str(path))
+    prov = dict(s.provenance)
+    prov.setdefault("file", path.name)
+    out = Series(s.coefficients, s.variable, s.start, s.digits, s.coupling, s.name or path.stem,
+                 s.description, prov)
+    if id(s) in _WHERE_LEAST:
+        _WHERE_LEAST[id(out)] = _WHERE_LEAST.pop(id(s))
+    return out
+
+
+def _refuse_constant(name):
+    raise InputError(f"{name} is not a finite number; give finite coefficients")
+
+
+def _guess_format(path: Path, text: str) -> str:
+    ext = path.suffix.lower()
+    if ext == ".json":
+        return "json"
+    if ext == ".csv":
+        return "csv"
+    if ext in (".txt", ".dat", ".ser", ""):
+        return "json" if text.lstrip().startswith("{") else "text"
+    return "json" if text.lstrip().startswith("{") else "text"
+
+
+def _header_line(line, meta, where):
+    key, _, value = line.partition(":")
+    key = key.strip()
+    if key not in _HEADER_KEYS:
+        raise InputError(f"unknown header key {key!r}; allowed: {', '.join(sorted(_HEADER_KEYS))}",
+                         where=where)
+    value = value.strip()
+    if key == "exact":
+        if value.lower() not in ("true", "false", "yes", "no"):
+            raise InputError("exact must be true or false", where=where)
+        value = value.lower() in ("true", "yes")
+    meta[key] = value
+
+
+_HEADER_RE = re.compile(r"^\s*([A-Za-z_]\w*)\s*:(.*)$")
+
+
+def _read_plain(text, fname, ctx):
+    meta, coeffs, digs, lines = {}, [], [], []
+    for lineno, raw in enumerate(text.splitlines(), 1):
+        line = raw.split("#", 1)[0].strip()
+        if not line:
+            continue
+        m = _HEADER_RE.match(line)
+        if m and not coeffs:
+            _header_line(line, meta, f"{fname}: line {lineno}")
+            continue
+        if m:
+            raise InputError(f"header line {m.group(1)!r} after the first coefficient; "
+                             "put 'key: value' lines at the top", where=f"{fname}: line {lineno}")
+        v, d = _parse_coefficient(line, f"{fname}: line {lineno}", _parse_dps(meta.get("digits"), ctx),
+                                  meta.get("exact", False))
+        coeffs.append(v)
+        digs.append(d)
+        lines.append(lineno)
+    s = _build(coeffs, digs, meta, lambda key: fname if key is None else f"{fname}: {key}", ctx)
+    _keep_where(s, digs, lambda i: f"{fname}: line {lines[i]}")
+    return s
+
+
+def _read_csv(text, fname, ctx):
+    import csv
+    import io
+    meta, pairs, header_seen = {}, [], False
+    body = []
+    for lineno, raw in enumerate(text.splitlines(), 1):
+        s = raw.strip()
+        if not s:
+            continue
+        if s.startswith("#"):
+            inner = s[1:].strip()
+            if _HEADER_RE.match(inner) and not pairs:
+                _header_line(inner, meta, f"{fname}: line {lineno}")
+            continue
+        body.append((lineno, raw))
+    last = None
+    for lineno, raw in body:
+        row = next(csv.reader(io.StringIO(raw)))
+        row = [c.strip() for c in row]
+        if not header_seen and not pairs and row and row[0].lower() in ("order", "n", "k", "power"):
+            header_seen = True
+            continue
+        if len(row) != 2:
+            raise InputError(f"expected 2 columns (order, coefficient), found {len(row)}",
+                             where=f"{fname}: line {lineno}")
+        try:
+            order = int(row[0])
+        except ValueError:
+            raise InputError(f"order {row[0]!r} is not an integer", where=f"{fname}: line {lineno}") from None
+        if last is not None and order <= last:
+            raise InputError(f"orders must increase (order {order} after {last})",
+                             where=f"{fname}: line {lineno}")
+        last = order
+        v, d = _parse_coefficient(row[1], f"{fname}: line {lineno}", _parse_dps(meta.get("digits"), ctx),
+                                  meta.get("exact", False))
+        pairs.append((order, v, d, lineno))
+    if not pairs:
+        raise InputError("no coefficients; a series needs at least one", where=fname)
+    start = pairs[0][0]
+    if "start" in meta and int(meta["start"]) != start:
+        raise InputError(f"header start {meta['start']} disagrees with the first order {start}", where=fname)
+    meta["start"] = start
+    n = pairs[-1][0] - start + 1
+    coeffs, digs, lines = [0] * n, [None] * n, [0] * n
+    for order, v, d, lineno in pairs:
+        coeffs[order - start] = v
+        digs[order - start] = d
+        lines[order - start] = lineno
+    s = _build(coeffs, digs, meta, lambda key: fname if key is None else f"{fname}: {key}", ctx)
+    _keep_where(s, digs, lambda i: f"{fname}: line {lines[i]}")
+    return s
+
+
+# ---------------------------------------------------------------- writers
+
+def _coef_text(c, digits):
+    if isinstance(c, (int, Fraction)):
+        return num_to_str(c)
+    return num_to_str(c, digits)
+
+
+def series_to_dict(series: Series) -> dict:
+    """The JSON series document for ``series`` (every digit kept)."""
+    d = {"format": FORMAT_TAG}
+    if series.name:
+        d["name"] = series.name
+    if series.description:
+        d["description"] = series.description
+    d["variable"] = series.variable
+    if series.start:
+        d["start"] = series.start
+    if series.coupling is not None:
+        d["coupling"] = series.coupling.describe(series.variable)
+    if series.digits is not None:
+        d["digits"] = series.digits
+    prov = {k: v for k, v in series.provenance.items() if k != "metadata"}
+    if prov:
+        from ..results import jsonable
+        d["provenance"] = jsonable(prov)
+    if "metadata" in series.provenance:
+        d["metadata"] = series.provenance["metadata"]
+    d["coefficients"] = [_coef_text(c, series.digits) for c in series.coefficients]
+    return d
+
+
+def atomic_write_text(path, text: str) -> None:
+    """Write ``text`` to ``path`` atomically (temporary file in the same folder, then rename)."""
+    path = Path(path)
+    folder = path.parent if str(path.parent) else Path(".")
+    if not folder.exists():
+        raise InputError("folder does not exist", where=str(folder))
+    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=folder)
+    try:
+        with os.fdopen(fd, "w", encoding="utf-8") as fh:
+            fh.write(text)
+            fh.flush()
+            os.fsync(fh.fileno())
+        os.replace(tmp, path)
+    except BaseException:
+        try:
+            os.unlink(tmp)
+        except OSError:
+            pass
+        raise
+
+
+def write_series(series: Series, path, fmt: Optional[str] = None) -> Path:
+    """Write ``series`` to ``path`` (format from the extension or ``fmt``), atomically."""
+    path = Path(path)
+    fmt = fmt or {".json": "json", ".csv": "csv"}.get(path.suffix.lower(), "text")
+    if fmt == "json":
+        text = json.dumps(series_to_dict(series), indent=1) + "\n"
+    elif fmt in ("csv", "text"):
+        lines = []
+        meta = series_to_dict(series)
+        hdr = [(k, meta[k]) for k in ("format", "name", "variable", "coupling", "digits") if k in meta]
+        if fmt == "text" and series.start:
+            hdr.append(("start", series.start))
+        pre = "# " if fmt == "csv" else ""
+        if series.description:
+            lines.append("# " + series.description.replace("\n", " "))
+        for k, v in hdr:
+            lines.append(f"{pre}{k}: {v}")
+        if fmt == "csv":
+            lines.append("order,coefficient")
+            for k, c in enumerate(meta["coefficients"]):
+                lines.append(f"{series.start + k},{c}")
+        else:
+            lines.extend(meta["coefficients"])
+        text = "\n".join(lines) + "\n"
+    else:
+        raise InputError(f"unknown format {fmt!r}; use json, csv or text", where=str(path))
+    atomic_write_text(path, text)
+    return path
