@@ -1,0 +1,72 @@
+"""The ``resum`` command line: thin subcommands over the library.
+
+Results go to stdout (or files), logs and progress to stderr. Exit codes:
+0 ok, 1 some estimates failed, 2 usage or input error.
+"""
+from __future__ import annotations
+
+import argparse
+import importlib
+import sys
+from typing import List, Optional
+
+from . import __version__
+from .errors import InputError
+
+# subcommand name -> module under resum.commands
+COMMANDS = {
+    "tour": "tour",
+    "analyze": "analyze",
+    "evaluate": "evaluate",
+    "generate": "generate",
+    "scan": "family",
+}
+
+
+class _Parser(argparse.ArgumentParser):
+    def error(self, message):  # one line, exit 2
+        self.exit(2, f"{self.prog}: error: {message} (see '{self.prog} --help')\n")
+
+
+def build_parser() -> argparse.ArgumentParser:
+    p = _Parser(prog="resum", description="Singularity analysis and resummation of long "
+                                          "perturbative series, with error bands.")
+    p.add_argument("--version", action="version", version=f"resum {__version__}")
+    sub = p.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
+    for name, modname in COMMANDS.items():
+        try:
+            mod = importlib.import_module(f"resum.commands.{modname}")
+        except ModuleNotFoundError as exc:
+            if exc.name and exc.name.startswith("resum.commands"):
+                continue          # command not built yet in this checkout
+            raise
+        sp = sub.add_parser(name, help=mod.HELP, description=getattr(mod, "DESCRIPTION", mod.HELP))
+        mod.add_arguments(sp)
+        sp.set_defaults(_run=mod.run)
+    return p
+
+
+def main(argv: Optional[List[str]] = None) -> int:
+    """Run the command line with ``argv``; returns the exit code."""
+    parser = build_parser()
+    try:
+        args = parser.parse_args(argv)
+    except SystemExit as exc:
+        return int(exc.code or 0)
+    if not getattr(args, "_run", None):
+        parser.print_help(sys.stderr)
+        return 2
+    try:
+        return int(args._run(args) or 0)
+    except InputError as exc:
+        print(f"resum {args.command}: error: {exc}", file=sys.stderr)
+        return 2
+    except KeyboardInterrupt:
+        print("resum: interrupted", file=sys.stderr)
+        return 130
+    except BrokenPipeError:
+        return 0
+
+
+def run() -> None:  # console-script entry point
+    sys.exit(main())

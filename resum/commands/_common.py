@@ -1,0 +1,82 @@
+"""Helpers shared by the subcommands: options, loading, output."""
+from __future__ import annotations
+
+import json
+import sys
+from typing import Optional, Tuple
+
+from ..context import DEFAULT, Context
+from ..errors import InputError
+from ..series.core import Series
+from ..series.io import atomic_write_text, least_precise_location, read_series
+
+__all__ = ["add_common_options", "load_series", "context_for", "emit_json", "atomic_write",
+           "fail", "log"]
+
+atomic_write = atomic_write_text
+
+
+def add_common_options(parser, json_flag: bool = True, dps: bool = True) -> None:
+    """``--dps N`` (digits to report) and ``--json`` (stdout holds one JSON document)."""
+    if dps:
+        parser.add_argument("--dps", type=_positive_int, default=None, metavar="N",
+                            help="decimal digits to work to (default: what the input supports, "
+                                 f"at most {DEFAULT.dps})")
+    if json_flag:
+        parser.add_argument("--json", action="store_true",
+                            help="print one JSON document on stdout and nothing else")
+
+
+def _positive_int(text):
+    import argparse
+    try:
+        v = int(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"{text!r} is not an integer") from None
+    if v < 5:
+        raise argparse.ArgumentTypeError(f"{v} is too small; use at least 5 digits")
+    if v > 20000:
+        raise argparse.ArgumentTypeError(f"{v} is too large; use at most 20000 digits")
+    return v
+
+
+def context_for(series: Optional[Series], dps: Optional[int], where: str = "") -> Context:
+    """The working context for a series: ``dps`` if given (checked against the
+    digits the coefficients carry), else the default capped by those digits."""
+    carried = None if series is None else series.digits
+    if dps is None:
+        d = DEFAULT.dps if carried is None else min(DEFAULT.dps, carried)
+        return Context(dps=max(5, d))
+    if carried is not None and carried < dps:
+        loc = least_precise_location(series) or where or "input"
+        raise InputError(f"coefficient carries only {carried} digits but --dps {dps} was asked; "
+                         f"lower --dps to at most {carried} or give more digits", where=loc)
+    return Context(dps=dps)
+
+
+def load_series(path: str, dps: Optional[int] = None) -> Tuple[Series, Context]:
+    """Read a series file and choose its working context (see :func:`context_for`)."""
+    probe = Context(dps=max(dps or DEFAULT.dps, DEFAULT.dps))
+    s = read_series(path, probe)
+    if s.n_terms < 2:
+        raise InputError(f"only {s.n_terms} coefficient; give at least 2 (most methods need 10 or more)",
+                         where=str(path))
+    ctx = context_for(s, dps, where=str(path))
+    if ctx.work_dps > probe.work_dps:
+        s = read_series(path, ctx)
+    return s, ctx
+
+
+def emit_json(obj) -> None:
+    """Write one JSON document to stdout."""
+    sys.stdout.write(json.dumps(obj, indent=1) + "\n")
+    sys.stdout.flush()
+
+
+def fail(message: str, where: str = ""):
+    raise InputError(message, where=where)
+
+
+def log(message: str) -> None:
+    """A log line on stderr."""
+    print(f"resum: {message}", file=sys.stderr, flush=True)
