@@ -1,0 +1,87 @@
+"""Series operations against closed forms (exact rationals; mpmath as reference)."""
+import math
+from fractions import Fraction
+
+import mpmath
+import pytest
+
+from resum import Context, Coupling, Series
+from resum.context import workdps
+
+N = 12
+
+
+def geometric(n=N):
+    return Series([1] * n)
+
+
+def test_exp_log_roundtrip_exact():
+    # log(1/(1-x)) = sum x^k/k; exp of it is 1/(1-x)  (common practice, no source)
+    s = geometric()
+    lg = s.log()
+    assert lg.coefficients == tuple([0] + [Fraction(1, k) for k in range(1, N)])
+    assert lg.exp().coefficients == s.coefficients
+
+
+def test_exp_of_x_gives_inverse_factorials():
+    e = Series([0, 1] + [0] * (N - 2)).exp()
+    assert e.coefficients == tuple(Fraction(1, math.factorial(k)) for k in range(N))
+
+
+def test_reciprocal_division_and_multiplication():
+    s = geometric()
+    assert s.reciprocal().coefficients == tuple([1, -1] + [0] * (N - 2))
+    assert (s * s).coefficients == tuple(range(1, N + 1))
+    assert (s / s).coefficients == tuple([1] + [0] * (N - 1))
+
+
+def test_compose_and_substitutions():
+    # 1/(1-y) with y = x/(1-x)... gives (1-x)/(1-2x) = 1 + x + 2x^2 + 4x^3 ...
+    y = Series([0] + [1] * (N - 1))
+    c = geometric().compose(y)
+    assert c.coefficients == tuple([1] + [2 ** (k - 1) for k in range(1, N)])
+    assert geometric(4).rescale(3).coefficients == (1, 3, 9, 27)
+    assert geometric(3).substitute_power(2).coefficients == (1, 0, 1, 0, 1)
+
+
+def test_derivative_and_log_derivative():
+    s = geometric()
+    assert s.derivative().coefficients == tuple(range(1, N))
+    # d/dx log(1/(1-x)) = 1/(1-x)
+    assert s.log_derivative().coefficients == tuple([1] * (N - 1))
+    x2 = Series([0, 0, 1, 1, 1])
+    ld = x2.log_derivative()
+    assert ld.start == -1 and ld.coefficients[0] == 2
+
+
+def test_borel_and_borel_le_roy():
+    # Borel of sum n! x^n is 1/(1-t)  (common practice, no source)
+    s = Series([math.factorial(n) for n in range(N)])
+    assert s.borel().coefficients == tuple([1] * N)
+    with workdps(40):
+        b = s.borel(Fraction(1, 2), ctx=Context(dps=30))
+        for n, c in enumerate(b.coefficients):
+            ref = mpmath.factorial(n) / mpmath.gamma(n + mpmath.mpf(3) / 2)
+            assert abs(c - ref) < mpmath.mpf(10) ** -30 * ref
+
+
+def test_coupling_relation():
+    s = Series([0, 4, -1], coupling=Coupling("g", 2, 1))
+    assert s.coupling.to_variable(mpmath.mpf("0.5")) == mpmath.mpf("0.25")
+    assert s.coupling.from_variable(mpmath.mpf("0.25")) == mpmath.mpf("0.5")
+    g = s.in_coupling()
+    assert g.variable == "g" and g.coefficients == (0, 0, 4, 0, -1)
+
+
+def test_inexact_series_records_digits():
+    with workdps(60):
+        s = Series([mpmath.mpf(1) / 3] * 5, digits=50)
+    assert not s.is_exact and s.digits == 50
+    assert (s + geometric(5)).digits == 50
+
+
+def test_rejects_non_finite():
+    with pytest.raises(ValueError):
+        Series([1, mpmath.nan])
+    with pytest.raises(TypeError):
+        Series([1, "2"])
