@@ -1,0 +1,243 @@
+"""The output folder of a family run: spec copy, one record per point, summary.
+
+Layout of ``DIR``::
+
+    DIR/spec.toml        the spec as given (copied at the first run)
+    DIR/run.json         study name, spec digest, number of points
+    DIR/points/p00000.json ...   one record per point, written atomically
+    DIR/summary.csv      one row per recorded point (flattened)
+    DIR/summary.json     the same rows plus counts
+    DIR/plots/           family figures (PNG and PDF)
+
+Each record is written to a temporary file in ``DIR/points`` and renamed
+into place (``os.replace``), so a record on disk is always complete; a run
+killed at any moment loses only the points still being computed. Leftover
+temporary files are removed when a run starts.
+"""
+from __future__ import annotations
+
+import csv
+import io
+import json
+import time
+from pathlib import Path
+from typing import Iterable, Optional
+
+from ..errors import InputError
+from ..series.io import atomic_write_text
+from .spec import FamilySpec
+
+__all__ = ["RunFolder", "flatten_record", "summary_rows", "RUN_FORMAT"]
+
+RUN_FORMAT = "resum-family-run/1"
+
+
+def _dump(obj) -> str:
+    return json.dumps(obj, indent=1, sort_keys=True) + "\n"
+
+
+class RunFolder:
+    """The output folder of one study (see the module docstring)."""
+
+    def __init__(self, path):
+        self.path = Path(path)
+        self.points = self.path / "points"
+        self.plots = self.path / "plots"
+
+    # ----------------------------------------------------------- preparation
+    def prepare(self, spec: FamilySpec, resume: bool = False) -> None:
+        """Create the folder, or check that it belongs to ``spec``.
+
+        Raises InputError when ``DIR`` holds a run of a different spec, or
+        holds records of this one and ``resume`` is False.
+        """
+        meta_path = self.path / "run.json"
+        if self.path.exists() and not self.path.is_dir():
+            raise InputError("exists and is not a folder; choose another -o", where=str(self.path))
+        if meta_path.exists():
+            try:
+                meta = json.loads(meta_path.read_text(encoding="utf-8"))
+            except (OSError, ValueError):
+                raise InputError("run.json is unreadable; choose a new -o folder",
+                                 where=str(meta_path)) from None
+            if meta.get("spec_digest") != spec.digest:
+                raise InputError(
+                    f"holds a run of a different spec (study {meta.get('study')!r}); "
+                    "use a new -o folder, or restore the spec saved in it as spec.toml",
+                    where=str(self.path))
+            n = len(self.record_paths())
+            if n and not resume:
+                raise InputError(f"already holds {n} point records of this study; pass --resume "
+                                 "to continue it or choose a new -o folder", where=str(self.path))
+        elif self.path.exists() and any(self.path.iterdir()):
+            raise InputError("is not empty and holds no resum run; choose a new -o folder",
+                             where=str(self.path))
+        self.points.mkdir(parents=True, exist_ok=True)
+        for tmp in self.points.glob(".*.tmp"):
+            try:
+                tmp.unlink()
+            except OSError:
+                pass
+        if not meta_path.exists():
+            atomic_write_text(self.path / "spec.toml", spec.text or "")
+            atomic_write_text(meta_path, _dump({
+                "format": RUN_FORMAT, "study": spec.name, "spec_digest": spec.digest,
+                "n_points": spec.n_points, "source": spec.source,
+                "axes": [a.name for a in spec.axes], "plot_against": spec.plot_against,
+                "created": time.strftime("%Y-%m-%dT%H:%M:%SZ", time.gmtime())}))
+
+    # -------------------------------------------------------------- records
+    def record_path(self, key: str) -> Path:
+        return self.points / f"{key}.json"
+
+    def record_paths(self) -> list:
+        if not self.points.is_dir():
+            return []
+        return sorted(p for p in self.points.glob("p*.json"))
+
+    def write_record(self, record: dict) -> Path:
+        path = self.record_path(record["key"])
+        atomic_write_text(path, _dump(record))
+        return path
+
+    def read_record(self, key: str) -> Optional[dict]:
+        path = self.record_path(key)
+        try:
+            return json.loads(path.read_text(encoding="utf-8"))
+        except FileNotFoundError:
+            return None
+        except ValueError:  # cannot happen with atomic writes; treat as missing
+            return None
+
+    def records(self) -> list:
+        out = []
+        for p in self.record_paths():
+            try:
+                out.append(json.loads(p.read_text(encoding="utf-8")))
+            except ValueError:
+                continue
+        return sorted(out, key=lambda r: r["index"])
+
+    def statuses(self) -> dict:
+        """``{key: status}`` of the records on disk."""
+        return {r["key"]: r.get("status", "failed") for r in self.records()}
+
+    # -------------------------------------------------------------- summary
+    def write_summary(self, spec: FamilySpec) -> dict:
+        recs = self.records()
+        rows = summary_rows(recs)
+        counts = {"points": spec.n_points, "recorded": len(recs),
+                  "ok": sum(r["status"] == "ok" for r in recs),
+                  "failed": sum(r["status"] != "ok" for r in recs)}
+        counts["missing"] = spec.n_points - counts["recorded"]
+        atomic_write_text(self.path / "summary.json", _dump(
+            {"format": "resum-family-summary/1", "study": spec.name, "spec_digest": spec.digest,
+             "counts": counts, "rows": rows}))
+        atomic_write_text(self.path / "summary.csv", rows_to_csv(rows))
+        return counts
+
+
+# ----------------------------------------------------------------------------
+# flattening records into table rows
+# ----------------------------------------------------------------------------
+
+def _est(prefix: str, e, row: dict) -> None:
+    if isinstance(e, dict) and "value" in e:
+        row[prefix] = e.get("value")
+        if "lo" in e:
+            row[prefix + "_lo"] = e.get("lo")
+            row[prefix + "_hi"] = e.get("hi")
+    elif e is not None and not isinstance(e, (dict, list)):
+        row[prefix] = e
+
+
+def _sing_fields(prefix, s, row):
+    if not isinstance(s, dict):
+        return
+    for k in ("re", "im"):
+        band = s.get(f"{k}_band")
+        if isinstance(band, dict):
+            _est(f"{prefix}_{k}", band, row)
+        elif k in s:
+            _est(f"{prefix}_{k}", s[k], row)
+    if s.get("exponent") is not None:
+        _est(f"{prefix}_exponent", s["exponent"], row)
+    if s.get("kind"):
+        row[f"{prefix}_kind"] = s["kind"]
+
+
+def _values_fields(prefix, values, row):
+    for v in values or []:
+        if not isinstance(v, dict) or "at" not in v:
+            continue
+        at = v["at"]
+        _est(f"{prefix}@{at}", {"value": v.get("value"), **({"lo": v["lo"], "hi": v["hi"]}
+                                                             if "lo" in v else {})}, row)
+
+
+def flatten_record(rec: dict, n_sing: int = 2) -> dict:
+    """One summary-table row (strings) from a point record."""
+    row = {"key": rec["key"], "index": rec["index"], "status": rec.get("status", "")}
+    labels = rec.get("labels", {})
+    for k in rec.get("axes", sorted(labels)):
+        row[k] = labels.get(k)
+    tasks = rec.get("tasks", {})
+    co = tasks.get("coefficients")
+    if co:
+        row["n_terms"] = co.get("n_terms")
+        ratio = co.get("ratio") or {}
+        row["ratio_growth"] = ratio.get("growth", "")
+        _est("ratio_radius", ratio.get("radius"), row)
+        _est("ratio_borel_distance", ratio.get("borel_distance"), row)
+        row["ratio_status"] = ratio.get("status", "")
+    an = tasks.get("analyze")
+    if isinstance(an, dict):
+        for k in ("status", "growth"):
+            if k in an:
+                row[f"analyze_{k}"] = an[k]
+        _est("radius", an.get("radius"), row)
+        _est("borel_singularity", an.get("borel_singularity"), row)
+        for i, s in enumerate((an.get("singularities") or [])[:n_sing]):
+            _sing_fields(f"sing{i + 1}", s, row)
+    ev = tasks.get("evaluate")
+    if isinstance(ev, dict):
+        _values_fields("value", ev.get("values"), row)
+    tr = tasks.get("truth")
+    if isinstance(tr, dict):
+        _values_fields("truth", tr.get("values"), row)
+    st = tasks.get("strong")
+    if isinstance(st, dict):
+        for k, v in st.items():
+            if isinstance(v, dict) and "value" in v:
+                _est(f"strong_{k}", v, row)
+            elif isinstance(v, (str, int, float)) and k in ("status", "exponent", "power"):
+                row[f"strong_{k}"] = v
+    err = rec.get("error")
+    if err:
+        row["error"] = f"{err.get('step')}: {err.get('type')}: {err.get('message')}"
+    secs = (rec.get("run") or {}).get("seconds", {})
+    if "total" in secs:
+        row["seconds"] = secs["total"]
+    return row
+
+
+def summary_rows(records: Iterable[dict]) -> list:
+    return [flatten_record(r) for r in records]
+
+
+def rows_to_csv(rows: list) -> str:
+    cols = []
+    for r in rows:
+        for k in r:
+            if k not in cols:
+                cols.append(k)
+    # errors and timings last
+    cols = [c for c in cols if c not in ("error", "seconds")] + [c for c in ("error", "seconds")
+                                                                 if c in cols]
+    buf = io.StringIO()
+    w = csv.DictWriter(buf, fieldnames=cols, lineterminator="\n")
+    w.writeheader()
+    for r in rows:
+        w.writerow({k: ("" if r.get(k) is None else r.get(k)) for k in cols})
+    return buf.getvalue()
+

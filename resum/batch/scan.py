@@ -1,0 +1,133 @@
+"""Running a family: choose the points to do, hand them to a runner, write records.
+
+In Python::
+
+    spec = load_spec("studies/bes_angles/spec.toml")
+    outcome = run_family(spec, "out", runner=ProcessRunner(jobs=4))
+    outcome.counts   # {'points': 25, 'recorded': 25, 'ok': 25, 'failed': 0, 'missing': 0}
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from typing import Optional
+
+from .progress import Progress
+from .records import RunFolder
+from .runners import SerialRunner
+from .spec import FamilySpec
+
+__all__ = ["run_family", "FamilyOutcome", "plan"]
+
+
+@dataclass(frozen=True)
+class FamilyOutcome:
+    """What a run did.
+
+    ``computed`` are the point indices computed in this run, ``skipped`` those
+    finished by an earlier run; ``counts`` are the totals over the folder
+    (points, recorded, ok, failed, missing); ``interrupted`` is True when the
+    run was stopped before every point was done.
+    """
+
+    folder: str
+    computed: tuple
+    skipped: tuple
+    counts: dict
+    interrupted: bool = False
+    plots: tuple = field(default=())
+
+    @property
+    def success(self) -> bool:
+        return not self.interrupted and self.counts.get("failed", 0) == 0 \
+            and self.counts.get("missing", 0) == 0
+
+
+def plan(spec: FamilySpec, folder: RunFolder, retry_failed: bool = False):
+    """``(todo, skipped)``: indices to compute and indices already recorded."""
+    status = folder.statuses()
+    todo, skipped = [], []
+    for i in range(spec.n_points):
+        key = spec.point(i).key
+        st = status.get(key)
+        if st == "ok" or (st is not None and not retry_failed):
+            skipped.append(i)
+        else:
+            todo.append(i)
+    return todo, skipped
+
+
+def run_family(spec: FamilySpec, outdir, runner=None, resume: bool = False,
+               retry_failed: bool = False, quiet: bool = False, stream=None,
+               plots: bool = True, on_record=None) -> FamilyOutcome:
+    """Compute every point of ``spec`` not yet recorded in ``outdir``.
+
+    Parameters
+    ----------
+    spec : FamilySpec
+    outdir : path
+        The run folder (see :mod:`resum.batch.records`). A folder holding a
+        run of another spec is refused; one holding records of this spec
+        needs ``resume=True``.
+    runner : SerialRunner, ProcessRunner or DaskRunner
+    resume : bool
+        Continue a run: points with a record are skipped.
+    retry_failed : bool
+        With ``resume``, compute again the points whose record says failed.
+    quiet : bool
+        No progress display (``--json``).
+    plots : bool
+        Draw the family figures into ``outdir/plots`` at the end.
+
+    Returns
+    -------
+    FamilyOutcome
+        Ctrl-C stops the run after writing what has finished; the outcome
+        then has ``interrupted=True`` (and the summary covers what is on disk).
+    """
+    runner = runner or SerialRunner()
+    folder = RunFolder(outdir)
+    folder.prepare(spec, resume=resume or retry_failed)
+    todo, skipped = plan(spec, folder, retry_failed=retry_failed)
+    prog = Progress(spec.n_points, label=spec.name, stream=stream, quiet=quiet,
+                    skipped=len(skipped))
+    running = set()
+    computed = []
+
+    def started(i):
+        running.add(i)
+        prog.set_running(len(running))
+
+    def record(rec):
+        folder.write_record(rec)
+        running.discard(rec["index"])
+        computed.append(rec["index"])
+        prog.running = len(running)
+        prog.finished(rec["status"] == "ok")
+        if on_record is not None:
+            on_record(rec)
+
+    interrupted = False
+    try:
+        if todo:
+            runner.run(spec, todo, started, record)
+    except KeyboardInterrupt:
+        interrupted = True
+    finally:
+        counts = folder.write_summary(spec)
+        prog.close("interrupted: finished points are saved; rerun with --resume to go on"
+                   if interrupted else "")
+    made = ()
+    if plots and not interrupted:
+        made = tuple(_plots(spec, folder))
+    return FamilyOutcome(str(folder.path), tuple(sorted(computed)), tuple(skipped), counts,
+                         interrupted, made)
+
+
+def _plots(spec, folder):
+    try:
+        import matplotlib  # noqa: F401
+    except ImportError:  # pragma: no cover - plot extra not installed
+        return []
+    from ..plots.family import write_family_plots
+    return write_family_plots(folder.records(), folder.plots, x=spec.plot_against,
+                              title=spec.name)

@@ -1,0 +1,357 @@
+"""The tasks a family spec can ask for at every grid point.
+
+Each task takes the series built at the point (and the point's source
+parameters), runs one library entry point and returns a JSON-ready dict in
+a fixed layout. Numbers are decimal strings; every estimate carries its band
+as ``{"value", "lo", "hi"}``. Tasks never print or write files.
+
+Tasks
+-----
+coefficients
+    What the coefficients alone say, without any resummation: number of
+    terms, digits carried, partial sums at ``at`` (with the size of the last
+    term kept, which is *not* an error band), and a ratio estimate of the
+    radius of convergence (or, for factorially growing coefficients, of the
+    nearest Borel-plane singularity) -- see :func:`ratio_estimate`.
+analyze
+    :func:`resum.analysis.analyze`: radius, singularities with exponents,
+    growth, Borel singularity, each with its band.
+evaluate
+    :func:`resum.resummation.evaluate` at the couplings ``at`` with
+    ``method``.
+strong
+    :func:`resum.resummation.probe_strong_coupling`: leading strong-coupling
+    behaviour with bands.
+truth
+    The source's own finite-coupling evaluator (where it has one) at ``at``,
+    for comparison with ``evaluate``.
+"""
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from fractions import Fraction
+from typing import Callable, Mapping
+
+import mpmath
+
+from ..context import Context
+from ..errors import InputError
+from ..results import Estimate, Status, num_to_str
+
+__all__ = ["TASKS", "TaskDef", "validate_task", "ratio_estimate", "estimate_json"]
+
+
+@dataclass(frozen=True)
+class TaskDef:
+    name: str
+    help: str
+    options: Mapping          # option -> kind: "numbers", "int", "bool", "str", "strs", "table"
+    run: Callable
+    required: tuple = ()
+
+
+# ----------------------------------------------------------------------------
+# helpers
+# ----------------------------------------------------------------------------
+
+def estimate_json(e, dps=None):
+    """``{"value", "lo", "hi"}`` of an Estimate (None stays None)."""
+    if e is None:
+        return None
+    if isinstance(e, dict):
+        return e
+    return e.to_dict()
+
+
+def _num(x, dps):
+    if isinstance(x, (int, Fraction)):
+        return num_to_str(x)
+    return num_to_str(x, dps)
+
+
+def _numbers(vals, dps, key):
+    from .spec import _number
+    if not isinstance(vals, list) or not vals:
+        raise InputError(f"{key}: expected a non-empty list of numbers")
+    out = []
+    for i, v in enumerate(vals):
+        out.append(_number(v, dps, f"{key}[{i}]"))
+    return out
+
+
+def _check_kind(key, val, kind, dps):
+    if kind == "numbers":
+        return _numbers(val, dps, key)
+    if kind == "int":
+        if not isinstance(val, int) or isinstance(val, bool):
+            raise InputError(f"{key}: expected an integer, got {val!r}")
+        return val
+    if kind == "bool":
+        if not isinstance(val, bool):
+            raise InputError(f"{key}: expected true or false, got {val!r}")
+        return val
+    if kind == "str":
+        if not isinstance(val, str):
+            raise InputError(f"{key}: expected a string, got {val!r}")
+        return val
+    if kind == "strs":
+        if not isinstance(val, list) or not all(isinstance(v, str) for v in val) or not val:
+            raise InputError(f"{key}: expected a non-empty list of strings")
+        return list(val)
+    if kind == "table":
+        if not isinstance(val, dict):
+            raise InputError(f"{key}: expected a table")
+        return dict(val)
+    raise AssertionError(kind)
+
+
+def validate_task(name: str, opts: dict, dps: int, source_name: str, source) -> dict:
+    """Check a task's options; returns them converted (numbers parsed)."""
+    td = TASKS[name]
+    out = {}
+    for k, kind in td.options.items():
+        if k in opts:
+            out[k] = _check_kind(k, opts[k], kind, dps)
+    for k in td.required:
+        if k not in out:
+            raise InputError(f"task {name!r} needs option {k!r}")
+    check = _CHECKS.get(name)
+    if check:
+        check(out, source_name, source)
+    return out
+
+
+# ----------------------------------------------------------------------------
+# coefficients: partial sums and a plain ratio estimate
+# ----------------------------------------------------------------------------
+
+def ratio_estimate(coeffs, ctx: Context, tail: int = 8, digits=None) -> dict:
+    """Ratio-method estimate of the radius from coefficients alone.
+
+    With ``r_n = c_n / c_{n-d}`` (``d`` the spacing of the non-zero
+    coefficients) and the usual ansatz ``r_n ~ mu^d (1 + (gamma - 1) d / n)``
+    the linear intercepts ``m_n = (n r_n - (n - d) r_{n-d}) / d`` tend to
+    ``mu^d`` faster than ``r_n``; the radius is ``|m_n|^(-1/d)`` at the
+    highest order. When ``log|r_n|`` grows like ``log n`` (factorial growth,
+    ``c_n ~ A^-n n!``) the radius is zero and the same intercept applied to
+    ``r_n / n`` estimates ``1/|A|``, the distance of the nearest Borel-plane
+    singularity.
+
+    Returns a dict with ``growth`` ("finite radius" or "factorial"),
+    ``radius`` or ``borel_distance`` (estimate dicts), ``status`` and
+    ``how``.
+
+    Notes
+    -----
+    The band is twice the spread of the last ``tail`` intercepts around the
+    last one, and never narrower than the rounding of the intercepts
+    (``n`` times the relative precision ``10^-digits`` of the coefficients,
+    ``digits`` defaulting to ``ctx.dps``). It is an estimate, not a bound: intercepts oscillate when
+    several singularities share the nearest modulus (complex pairs), then
+    the band is wide and the status says ``not converged``.
+
+    Examples
+    --------
+    >>> from resum.context import Context
+    >>> ctx = Context(dps=20)
+    >>> r = ratio_estimate([(n + 1) * mpmath.mpf(2) ** -n for n in range(30)], ctx)
+    >>> r["growth"], r["radius"]["value"][:6]
+    ('finite radius', '2.0000')
+
+    References
+    ----------
+    common practice, no source (ratio method with linear intercepts in 1/n).
+    """
+    with ctx.working():
+        c = [mpmath.mpf(x) if not isinstance(x, mpmath.mpc) else x for x in coeffs]
+        nz = [k for k, x in enumerate(c) if x != 0]
+        base = {"method": "ratio", "tail": tail}
+        if len(nz) < tail + 3:
+            return {**base, "status": Status.TOO_FEW_TERMS.value, "growth": "",
+                    "radius": None, "borel_distance": None,
+                    "how": f"needs at least {tail + 3} non-zero coefficients, has {len(nz)}"}
+        d = 0
+        for a, b in zip(nz, nz[1:]):
+            d = math.gcd(d, b - a)
+        # use indices on the lattice nz[0] + k d, starting after the first few
+        ns = [n for n in range(nz[0] + d, len(c), d) if c[n - d] != 0 and c[n] != 0]
+        r = {n: c[n] / c[n - d] for n in ns}
+        keys = sorted(r)
+        # growth: slope of log|r_n| against log n over the last half
+        half = keys[len(keys) // 2:]
+        if len(half) >= 2 and half[0] > 0:
+            slope = (mpmath.log(abs(r[half[-1]])) - mpmath.log(abs(r[half[0]]))) / \
+                (mpmath.log(half[-1]) - mpmath.log(half[0]))
+        else:
+            slope = mpmath.mpf(0)
+        factorial = slope > mpmath.mpf("0.5") * d
+        seq = {n: (r[n] / mpmath.mpf(n) ** d if factorial else r[n]) for n in keys}
+        inter = []
+        for n in keys:
+            if n - d in seq:
+                m = (n * seq[n] - (n - d) * seq[n - d]) / d
+                if m != 0:
+                    inter.append((n, abs(m) ** (-mpmath.mpf(1) / d)))
+        if len(inter) < tail:
+            return {**base, "status": Status.TOO_FEW_TERMS.value, "growth": "",
+                    "radius": None, "borel_distance": None,
+                    "how": f"only {len(inter)} usable ratio intercepts"}
+        last = inter[-1][1]
+        samples = [v for _, v in inter[-tail:]]
+        dig = ctx.dps if digits is None else min(int(digits), ctx.dps)
+        floor = abs(last) * inter[-1][0] * mpmath.mpf(10) ** (-dig)
+        est = Estimate.from_spread(last, samples, safety=2, floor=floor / 2)
+        rel = est.error / abs(last) if last != 0 else mpmath.inf
+        status = Status.CONVERGED if rel < mpmath.mpf("0.01") else Status.NOT_CONVERGED
+        if factorial:
+            # m_n -> 1/A^d for r_n / n^d; the distance is |A| = m^(-1/d) ... but
+            # r_n/n^d ~ A^-d, so the intercept power -1/d gives |A| directly.
+            out = {**base, "growth": "factorial", "radius": estimate_json(Estimate.exact(0)),
+                   "borel_distance": estimate_json(est)}
+        else:
+            out = {**base, "growth": "finite radius", "radius": estimate_json(est),
+                   "borel_distance": None}
+        out.update(status=status.value, spacing=d, orders_used=[inter[-tail][0], inter[-1][0]],
+                   log_slope=num_to_str(slope, 6),
+                   how=(f"intercepts (n r_n - (n-d) r_(n-d))/d of the ratios r_n = c_n/c_(n-d), d={d}"
+                        f"{', divided by n^d' if factorial else ''}; band = 2 x spread of the last "
+                        f"{tail}"))
+        return out
+
+
+def _run_coefficients(series, params, ctx, opts, source):
+    dense = series.dense(ctx)
+    out = {"n_terms": series.n_terms, "digits": series.digits,
+           "exact": series.is_exact, "variable": series.variable}
+    out["ratio"] = ratio_estimate(dense, ctx, tail=opts.get("tail", 8), digits=series.digits)
+    sums = []
+    with ctx.working():
+        for x in opts.get("at", []):
+            xv = mpmath.mpf(x.numerator) / x.denominator if isinstance(x, Fraction) else mpmath.mpf(x)
+            s = mpmath.mpf(0)
+            last = mpmath.mpf(0)
+            for n, cn in enumerate(dense):
+                term = cn * xv ** n
+                s += term
+                if cn != 0:
+                    last = abs(term)
+            sums.append({"at": _num(x, ctx.dps), "partial_sum": num_to_str(s, ctx.dps),
+                         "last_term": num_to_str(last, 6)})
+    out["partial_sums"] = sums
+    out["note"] = ("partial sums of all terms; last_term is the size of the last non-zero term, "
+                   "not an error band")
+    return out
+
+
+# ----------------------------------------------------------------------------
+# analyze / evaluate / strong / truth: thin wrappers over the library
+# ----------------------------------------------------------------------------
+
+def _result_json(res) -> dict:
+    """A result object as JSON: its contract dict when it has one, else to_dict()."""
+    if hasattr(res, "contract_dict"):
+        return res.contract_dict()
+    if hasattr(res, "to_dict"):
+        return res.to_dict()
+    raise TypeError(f"cannot record a {type(res).__name__}")
+
+
+def _run_analyze(series, params, ctx, opts, source):
+    from ..analysis import analyze
+    kw = {}
+    if "methods" in opts:
+        kw["methods"] = opts["methods"]
+    res = analyze(series, ctx=ctx, verify=opts.get("verify", True), **kw)
+    return _result_json(res)
+
+
+def _points_arg(vals):
+    return list(vals)
+
+
+def _run_evaluate(series, params, ctx, opts, source):
+    from ..resummation import evaluate
+    res = evaluate(series, _points_arg(opts["at"]), ctx=ctx, method=opts.get("method", "auto"),
+                   verify=opts.get("verify", True))
+    return _result_json(res)
+
+
+def _run_strong(series, params, ctx, opts, source):
+    from ..resummation import probe_strong_coupling
+    kw = dict(opts.get("options", {}))
+    res = probe_strong_coupling(series, ctx=ctx, **kw)
+    return _result_json(res)
+
+
+def truth_function(source):
+    """The source's finite-coupling evaluator, or None."""
+    for attr in ("truth", "exact", "finite_coupling"):
+        f = source.get(attr) if isinstance(source, Mapping) else getattr(source, attr, None)
+        if callable(f):
+            return f
+    return None
+
+
+def _run_truth(series, params, ctx, opts, source):
+    f = truth_function(source)
+    res = f(ctx, _points_arg(opts["at"]), **params)
+    if hasattr(res, "to_dict") or hasattr(res, "contract_dict"):
+        return _result_json(res)
+    out = []
+    for x, v in zip(opts["at"], res):
+        out.append({"at": _num(x, ctx.dps),
+                    **(estimate_json(v) if isinstance(v, Estimate) else {"value": _num(v, ctx.dps)})})
+    return {"values": out}
+
+
+def _check_truth(opts, source_name, source):
+    if truth_function(source) is None:
+        raise InputError(f"source {source_name!r} has no finite-coupling evaluator; "
+                         "drop the truth task")
+
+
+def _check_module(mod, name):
+    def check(opts, source_name, source):
+        import importlib
+        try:
+            m = importlib.import_module(f"resum.{mod}")
+        except ImportError:
+            raise InputError(f"task needs resum.{mod}, which is not available in this "
+                             "installation") from None
+        if not hasattr(m, name):
+            raise InputError(f"task needs resum.{mod}.{name}, which is not available")
+        methods = getattr(m, "METHODS", None)
+        asked = opts.get("methods") or ([opts["method"]] if "method" in opts else [])
+        if methods is not None:
+            for a in asked:
+                if a != "auto" and a not in methods:
+                    raise InputError(f"unknown method {a!r}; known: {', '.join(sorted(methods))}")
+    return check
+
+
+def _check_coefficients(opts, source_name, source):
+    if opts.get("tail", 8) < 3:
+        raise InputError("tail must be at least 3")
+
+
+TASKS = {
+    "coefficients": TaskDef("coefficients", "partial sums and a plain ratio estimate",
+                            {"at": "numbers", "tail": "int"}, _run_coefficients),
+    "analyze": TaskDef("analyze", "radius, singularities and exponents with bands",
+                       {"methods": "strs", "verify": "bool"}, _run_analyze),
+    "evaluate": TaskDef("evaluate", "resummed values at given couplings",
+                        {"at": "numbers", "method": "str", "verify": "bool"}, _run_evaluate,
+                        required=("at",)),
+    "strong": TaskDef("strong", "strong-coupling probe", {"options": "table"}, _run_strong),
+    "truth": TaskDef("truth", "finite-coupling ground truth from the source",
+                     {"at": "numbers"}, _run_truth, required=("at",)),
+}
+
+_CHECKS = {
+    "coefficients": _check_coefficients,
+    "analyze": _check_module("analysis", "analyze"),
+    "evaluate": _check_module("resummation", "evaluate"),
+    "strong": _check_module("resummation", "probe_strong_coupling"),
+    "truth": _check_truth,
+}
