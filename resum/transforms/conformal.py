@@ -1,0 +1,285 @@
+"""Conformal maps of a cut plane onto the unit disk, and series re-expansion.
+
+A function analytic in the plane minus cuts is a function of ``w`` analytic
+in the unit disk ``|w| < 1`` once the cut plane is mapped onto the disk with
+``x = 0 -> w = 0``. Re-expanding the series in ``w`` moves every singularity
+to ``|w| = 1`` and puts every point of the cut plane inside the disk, so the
+re-expanded series converges (slowly near the rim) at points far outside the
+original disk of convergence.
+
+Two families, both exact rational functions ``x(w)``:
+
+* :class:`RayMap` -- one cut from the branch point ``x0`` radially out to
+  infinity (for ``x0 < 0`` the cut ``(-inf, x0]``)::
+
+      w = (sqrt(1 - x/x0) - 1) / (sqrt(1 - x/x0) + 1),   x = -4 x0 w / (1 - w)^2
+
+* :class:`ArcMap` -- two branch points ``s1, s2`` joined by one cut through
+  the far side: two real cuts ``(-inf, -a] U [b, inf)`` (``s1 = b, s2 = -a``)
+  or a complex-conjugate pair ``s, conj(s)`` joined by a circular arc that
+  crosses the real axis at ``|s|^2 / Re s``::
+
+      y = (x - s1)/(x - s2),  y0 = s1/s2,  w = (sqrt(y/y0) - 1)/(sqrt(y/y0) + 1)
+      x = 4 s1 w / (y0 (1 + w)^2 - (1 - w)^2)
+
+Orientation: ``w`` is chosen so that ``dx/dw`` at 0 has a positive real part
+(small positive ``x`` maps to small positive ``w`` for real data).
+
+>>> import mpmath
+>>> from resum.context import workdps
+>>> m = RayMap(mpmath.mpf(-1) / 16)
+>>> with workdps(30):
+...     w = m.w_of_x(1)
+...     back = m.x_of_w(w)
+>>> mpmath.nstr(w, 12), mpmath.nstr(back, 12)
+('0.609611796798', '1.0')
+
+References
+----------
+.. [1] R. Seznec and J. Zinn-Justin, "Summation of divergent series by order
+   dependent mappings", J. Math. Phys. 20 (1979) 1398.
+.. [2] I. Caprini and J. Fischer, "Accelerated convergence of perturbative QCD
+   by optimal conformal mapping of the Borel plane", Phys. Rev. D 60 (1999) 054014.
+.. [3] O. Costin and G. V. Dunne, "Resurgent extrapolation: rebuilding a
+   function from asymptotic data. Painleve I", J. Phys. A 52 (2019) 445205,
+   arXiv:1904.11593 (conformal maps for Pade in the Borel plane).
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass
+from fractions import Fraction
+from typing import Sequence
+
+import mpmath
+
+from ._arb import compose_series, rational_series
+
+__all__ = ["ConformalMap", "RayMap", "ArcMap", "choose_map", "pull_back", "rim_factor"]
+
+
+def _phase(d):
+    """Unit number ``d/|d|``, exactly +-1 for real ``d``."""
+    d = mpmath.mpmathify(d)
+    if not isinstance(d, mpmath.mpc) or d.imag == 0:
+        return 1 if mpmath.re(d) >= 0 else -1
+    return d / abs(d)
+
+
+def _real_if_close(z, dps):
+    if isinstance(z, mpmath.mpc) and abs(z.imag) <= mpmath.mpf(10) ** (-dps) * (1 + abs(z.real)):
+        return z.real
+    return z
+
+
+def _mp(z):
+    z = mpmath.mpmathify(z)
+    if isinstance(z, mpmath.mpc) and z.imag == 0:
+        return z.real
+    return z
+
+
+class ConformalMap:
+    """Base class: a map ``x(w)`` of the unit disk onto a cut plane."""
+
+    kind = "abstract"
+
+    def w_of_x(self, x):  # pragma: no cover - abstract
+        raise NotImplementedError
+
+    def x_of_w(self, w):  # pragma: no cover - abstract
+        raise NotImplementedError
+
+    def x_series(self, n: int, dps: int) -> list:  # pragma: no cover - abstract
+        """First ``n`` Taylor coefficients of ``x(w)`` (``x(0) = 0``)."""
+        raise NotImplementedError
+
+    def branch_points(self) -> tuple:  # pragma: no cover - abstract
+        raise NotImplementedError
+
+    def on_cut(self, x, tol=mpmath.mpf(10) ** -12) -> bool:
+        """True when ``x`` lies on (or numerically at) the cut, where the map has no single value."""
+        w = self.w_of_x(x)
+        return bool(abs(w) >= 1 - tol)
+
+    def describe(self) -> str:  # pragma: no cover - abstract
+        raise NotImplementedError
+
+    def to_dict(self) -> dict:  # pragma: no cover - abstract
+        raise NotImplementedError
+
+    @staticmethod
+    def from_dict(d: dict) -> "ConformalMap":
+        if d["kind"] == "ray":
+            return RayMap(mpmath.mpmathify(d["x0"]))
+        if d["kind"] == "arc":
+            return ArcMap(mpmath.mpmathify(d["s1"]), mpmath.mpmathify(d["s2"]))
+        raise ValueError(f"unknown map kind {d['kind']!r}")
+
+
+@dataclass(frozen=True)
+class RayMap(ConformalMap):
+    """One cut from ``x0`` radially to infinity.
+
+    Parameters
+    ----------
+    x0 : number (real or complex, non-zero)
+        The branch point nearest the origin; exact Fractions keep the
+        re-expansion exact.
+    """
+
+    x0: object
+    kind = "ray"
+
+    def __post_init__(self):
+        if self.x0 == 0:
+            raise ValueError("the branch point of a conformal map cannot be 0")
+
+    def _sign(self):
+        return _phase(-4 * _mp(self.x0))        # dx/dw at w = 0
+
+    def w_of_x(self, x):
+        x0 = _mp(self.x0)
+        s = mpmath.sqrt(1 - mpmath.mpmathify(x) / x0)
+        return _mp(self._sign() * (s - 1) / (s + 1))
+
+    def x_of_w(self, w):
+        w = mpmath.mpmathify(w) / self._sign()
+        return _mp(-4 * _mp(self.x0) * w / (1 - w) ** 2)
+
+    def x_series(self, n: int, dps: int) -> list:
+        x0 = self.x0
+        sg = self._sign()
+        if isinstance(x0, (int, Fraction)) and sg in (1, -1):
+            return [0] + [-4 * x0 * k * sg ** k for k in range(1, n)]
+        x0 = _mp(x0)
+        return [mpmath.mpf(0)] + [_mp(-4 * x0 * k * sg ** (-k)) for k in range(1, n)]
+
+    def branch_points(self) -> tuple:
+        return (_mp(self.x0),)
+
+    def rim_point(self):
+        """The value of ``w`` that ``x = infinity`` maps to."""
+        return mpmath.mpf(self._sign())
+
+    def describe(self) -> str:
+        return f"one cut from x0 = {mpmath.nstr(_mp(self.x0), 12)} radially to infinity"
+
+    def to_dict(self) -> dict:
+        from ..results import num_to_str
+        return {"kind": "ray", "x0": num_to_str(_mp(self.x0), 30)}
+
+
+@dataclass(frozen=True)
+class ArcMap(ConformalMap):
+    """Two branch points ``s1, s2`` joined by one cut through the far side.
+
+    ``ArcMap(b, -a)`` with ``a, b > 0`` is the plane with the two real cuts
+    ``(-inf, -a]`` and ``[b, inf)``; ``ArcMap(s, conj(s))`` the plane cut along
+    the circular arc from ``s`` to ``conj(s)`` that avoids the origin.
+    """
+
+    s1: object
+    s2: object
+    kind = "arc"
+
+    def __post_init__(self):
+        if self.s1 == 0 or self.s2 == 0 or self.s1 == self.s2:
+            raise ValueError("an arc map needs two distinct non-zero branch points")
+
+    def _y0(self):
+        return _mp(self.s1) / _mp(self.s2)
+
+    def _sign(self):
+        return _phase(4 * _mp(self.s1) / (self._y0() - 1))
+
+    def w_of_x(self, x):
+        x = mpmath.mpmathify(x)
+        s1, s2 = _mp(self.s1), _mp(self.s2)
+        y = (x - s1) / (x - s2)
+        r = mpmath.sqrt(y / self._y0())
+        return _mp(self._sign() * (r - 1) / (r + 1))
+
+    def x_of_w(self, w):
+        w = mpmath.mpmathify(w) / self._sign()
+        y0 = self._y0()
+        return _mp(4 * _mp(self.s1) * w / (y0 * (1 + w) ** 2 - (1 - w) ** 2))
+
+    def x_series(self, n: int, dps: int) -> list:
+        y0 = self._y0()
+        sg = self._sign()
+        num = [mpmath.mpf(0), 4 * _mp(self.s1) / sg]
+        den = [y0 - 1, (2 * y0 + 2) / sg, (y0 - 1) / sg ** 2]
+        out = rational_series(num, den, n, dps)
+        out[0] = mpmath.mpf(0)
+        return [_real_if_close(c, dps) for c in out]
+
+    def branch_points(self) -> tuple:
+        return (_mp(self.s1), _mp(self.s2))
+
+    def rim_point(self):
+        """``w`` for ``x = infinity``."""
+        return self.w_of_x(mpmath.mpf(10) ** (mpmath.mp.dps + 5))
+
+    def describe(self) -> str:
+        return (f"one cut joining {mpmath.nstr(_mp(self.s1), 12)} and {mpmath.nstr(_mp(self.s2), 12)}"
+                " through the far side")
+
+    def to_dict(self) -> dict:
+        from ..results import num_to_str
+        return {"kind": "arc", "s1": num_to_str(_mp(self.s1), 30), "s2": num_to_str(_mp(self.s2), 30)}
+
+
+def pull_back(coeffs: Sequence, cmap: ConformalMap, dps: int, n: int | None = None) -> list:
+    """Coefficients in ``w`` of ``f(x(w))`` from the coefficients of ``f`` in ``x``.
+
+    The first ``n`` coefficients in ``w`` need exactly the first ``n``
+    coefficients in ``x`` (``x(w) = O(w)``), so nothing is lost or invented.
+    Exact input and an exact :class:`RayMap` stay exact.
+    """
+    n = len(coeffs) if n is None else n
+    return compose_series(list(coeffs)[:n], cmap.x_series(n, dps), n, dps)
+
+
+def rim_factor(alpha, n: int, rim=1) -> list:
+    """Coefficients of ``(1 - w/rim)^alpha`` to ``n`` terms (binomial series).
+
+    Multiplying ``f(x(w))`` by this factor absorbs a known power behaviour at
+    the rim point ``w = rim`` (for :class:`RayMap`, ``x -> infinity`` sits at
+    ``w = 1`` and ``x^p`` behaves like ``(1 - w)^(-2p)``).
+    """
+    alpha = mpmath.mpmathify(alpha)
+    rim = mpmath.mpmathify(rim)
+    out = [mpmath.mpf(1)]
+    for k in range(1, n):
+        out.append(out[-1] * (k - 1 - alpha) / k / rim)
+    return out
+
+
+def choose_map(singularities, *, rel_tol=0.05) -> ConformalMap | None:
+    """A map from the singularities found by an analysis (nearest first).
+
+    ``singularities``: :class:`resum.results.Singularity` objects or numbers
+    (locations in the expansion variable). Rules (common practice, no source):
+    a complex-conjugate nearest pair -> :class:`ArcMap` joining the pair; a real
+    nearest singularity with a real one of the opposite sign no farther than
+    three times away -> :class:`ArcMap` with the two real cuts; otherwise a
+    :class:`RayMap` from the nearest. Returns ``None`` for an empty list.
+    """
+    locs = []
+    for s in singularities:
+        z = s.location if hasattr(s, "location") else mpmath.mpmathify(s)
+        z = mpmath.mpc(z)
+        if z != 0:
+            locs.append(z)
+    if not locs:
+        return None
+    locs.sort(key=abs)
+    z = locs[0]
+    r = abs(z)
+    if abs(z.imag) > rel_tol * r:
+        return ArcMap(z, mpmath.conj(z))
+    xr = z.real
+    for u in locs[1:]:
+        if abs(u.imag) <= rel_tol * abs(u) and u.real * xr < 0 and abs(u) <= 3 * r:
+            return ArcMap(xr, u.real)
+    return RayMap(xr)
