@@ -73,50 +73,50 @@ class ProcessRunner:
     def run(self, spec, indices: Sequence[int], on_start: Callable, on_record: Callable) -> None:
         todo = list(indices)
         todo.reverse()                 # pop() from the end keeps the spec's order
-        deaths = {}                    # index -> number of pool deaths while in flight
+        suspects = []                  # in flight when a worker died: rerun one at a time
         ctx = _mp_context()
-        while todo:
+        while todo or suspects:
             pool = cf.ProcessPoolExecutor(max_workers=self.jobs, mp_context=ctx)
-            inflight = {}
+            inflight = {}              # future -> (index, ran alone)
             broken = False
             try:
-                while todo or inflight:
-                    while todo and len(inflight) < self.jobs and not broken:
-                        i = todo.pop()
-                        try:
-                            fut = pool.submit(compute_point, spec, i, self.name)
-                        except cf.process.BrokenProcessPool:
-                            todo.append(i)
-                            broken = True
-                            break
-                        inflight[fut] = i
-                        on_start(i)
-                    if not inflight:
-                        break
+                while (todo or suspects or inflight) and not broken:
+                    if suspects:
+                        # isolate: only once nothing else runs, one suspect at a time
+                        if not inflight:
+                            i = suspects.pop(0)
+                            inflight[pool.submit(compute_point, spec, i, self.name)] = (i, True)
+                            on_start(i)
+                    else:
+                        while todo and len(inflight) < self.jobs:
+                            i = todo.pop()
+                            inflight[pool.submit(compute_point, spec, i, self.name)] = (i, False)
+                            on_start(i)
                     done, _ = cf.wait(list(inflight), return_when=cf.FIRST_COMPLETED)
                     for fut in done:
-                        i = inflight.pop(fut)
+                        i, alone = inflight.pop(fut)
                         try:
                             rec = fut.result()
                         except cf.process.BrokenProcessPool:
                             broken = True
-                            deaths[i] = deaths.get(i, 0) + 1
-                            if deaths[i] >= 2:
+                            if alone:
                                 on_record(failure_record(
-                                    spec, i, "the worker process died twice while computing "
-                                    "this point (killed or out of memory)", runner=self.name))
+                                    spec, i, "the worker process died while computing this "
+                                    "point alone (killed, crashed or out of memory)",
+                                    runner=self.name))
                             else:
-                                todo.append(i)
+                                suspects.append(i)
                             continue
                         on_record(rec)
-                    if broken and not inflight:
-                        break
+                # a broken pool fails every future still in flight: those are suspects too
+                for fut, (i, alone) in inflight.items():
+                    suspects.append(i)
             except BaseException:
                 pool.shutdown(wait=False, cancel_futures=True)
                 _terminate(pool)
                 raise
             else:
-                pool.shutdown(wait=True, cancel_futures=True)
+                pool.shutdown(wait=not broken, cancel_futures=True)
 
 
 def _terminate(pool) -> None:

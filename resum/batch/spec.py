@@ -391,7 +391,9 @@ def parse_spec(text: str, path: str = "<spec>", sources=None) -> FamilySpec:
     try:
         raw = tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
-        raise InputError(f"TOML syntax error: {exc}", where=path) from None
+        m = re.search(r"at line (\d+)", str(exc))
+        where = f"{path}:{m.group(1)}" if m else path
+        raise InputError(f"TOML syntax error: {exc}", where=where) from None
     v = _Validator(raw, text, path, sources)
     return v.run()
 
@@ -494,6 +496,11 @@ class _Validator:
 
         # grid
         combine = self._combine(raw.get("grid", {}), [a.name for a in axes])
+        lengths = {a.name: len(a) for a in axes}
+        for g in combine:
+            if len({lengths[n] for n in g}) > 1:
+                raise self.err("grid.combine", "zipped axes must have the same length: " +
+                               ", ".join(f"{n} has {lengths[n]}" for n in g))
         n = 1
         for g in combine:
             n *= len(axes[[a.name for a in axes].index(g[0])])

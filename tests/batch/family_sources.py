@@ -4,10 +4,12 @@
 for rational a and R; radius R, a branch point (pole for integer a) at x = R
 (closed form, common practice, no source). ``R <= 0`` is refused by the
 build, which gives the tests a point that fails for a reason of its own.
-``slow_binomial`` sleeps ``delay`` seconds first, for the interrupt test.
+``delay`` makes the build sleep (interrupt tests); ``crash = true`` ends
+the process computing the point (dead-worker tests).
 """
 from __future__ import annotations
 
+import os
 import time
 from fractions import Fraction
 
@@ -17,7 +19,9 @@ from resum.errors import InputError
 from resum.series import Series
 
 
-def _build(ctx, radius=2, exponent=1, orders=30, delay=0):
+def _build(ctx, radius=2, exponent=1, orders=30, delay=0, crash=False):
+    if crash:       # the worker process dies (as if killed or out of memory)
+        os._exit(3)
     if radius <= 0:
         raise InputError(f"radius must be positive, got {radius}")
     exact = all(isinstance(v, (int, Fraction)) for v in (radius, exponent))
@@ -48,6 +52,7 @@ PARAMS = [
     {"name": "exponent", "type": "float", "default": 1, "help": "a in (1 - x/R)^-a"},
     {"name": "orders", "type": "int", "default": 30, "help": "number of terms"},
     {"name": "delay", "type": "float", "default": 0, "help": "seconds to sleep (tests)"},
+    {"name": "crash", "type": "bool", "default": False, "help": "end the process (tests)"},
 ]
 
 binomial = {"name": "binomial", "help": "(1 - x/R)^-a", "params": PARAMS, "build": _build}

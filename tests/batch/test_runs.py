@@ -1,0 +1,185 @@
+"""Family runs: runners agree, failures are recorded, interrupted runs resume.
+
+The series come from tests/batch/family_sources.py: (1 - x/R)^-a, whose
+radius is R and whose sum is known in closed form (common practice, no
+source); mpmath evaluates the closed form for the checks.
+"""
+import json
+import os
+import signal
+import subprocess
+import sys
+import time
+from pathlib import Path
+
+import mpmath
+import pytest
+
+from resum.batch import (ProcessRunner, SerialRunner, parse_spec, run_family, strip_run)
+from resum.commands.family import main
+from resum.errors import InputError
+
+ROOT = Path(__file__).resolve().parents[2]
+SRC = "tests.batch.family_sources:binomial"
+
+
+def spec_text(radii, orders=40, delay=0, extra_fixed=""):
+    vals = ", ".join(f'"{r}"' if isinstance(r, str) else str(r) for r in radii)
+    return f"""
+[study]
+name = "runs"
+source = "{SRC}"
+dps = 30
+[fixed]
+orders = {orders}
+delay = {delay}
+{extra_fixed}
+[axes]
+radius = {{ values = [{vals}] }}
+exponent = {{ values = ["1/2", 2] }}
+[tasks.coefficients]
+at = [0.5]
+"""
+
+
+def records(folder):
+    return {p.name: json.loads(p.read_text()) for p in sorted(Path(folder, "points").glob("*.json"))}
+
+
+SMALL = spec_text([1, "3/2", "pi/2", -1])
+
+
+def test_serial_run_records_and_truth(tmp_path):
+    spec = parse_spec(SMALL, path="spec.toml")
+    out = run_family(spec, tmp_path / "o", runner=SerialRunner(), quiet=True, plots=False)
+    assert out.counts == {"points": 8, "recorded": 8, "ok": 6, "failed": 2, "missing": 0}
+    recs = records(tmp_path / "o")
+    assert len(recs) == 8
+    with mpmath.workdps(40):
+        for r in recs.values():
+            if r["status"] != "ok":
+                # R = -1 is refused by the source; the error is kept, the run went on
+                assert r["params"]["radius"] == "-1"
+                assert r["error"]["step"] == "build"
+                assert "radius must be positive" in r["error"]["message"]
+                continue
+            R = mpmath.mpf(r["params"]["radius"])
+            a = mpmath.mpf(r["params"]["exponent"])
+            rad = r["tasks"]["coefficients"]["ratio"]["radius"]
+            # honest: the band holds R; sharp: the band is narrow
+            assert mpmath.mpf(rad["lo"]) <= R <= mpmath.mpf(rad["hi"])
+            assert mpmath.mpf(rad["hi"]) - mpmath.mpf(rad["lo"]) < mpmath.mpf(10) ** -20
+            # partial sum at x = 1/2 against the closed form (1 - x/R)^-a; the
+            # tail after 40 terms is below (x/R)^40 * 40^a / (1 - x/R) (common practice)
+            ps = mpmath.mpf(r["tasks"]["coefficients"]["partial_sums"][0]["partial_sum"])
+            x = mpmath.mpf("0.5")
+            tail = (x / R) ** 40 * 40 ** a / (1 - x / R)
+            assert abs(ps - (1 - x / R) ** (-a)) < tail
+    summary = json.loads((tmp_path / "o" / "summary.json").read_text())
+    assert summary["counts"]["failed"] == 2 and len(summary["rows"]) == 8
+    csv = (tmp_path / "o" / "summary.csv").read_text().splitlines()
+    assert csv[0].startswith("key,index,status,radius,exponent") and len(csv) == 9
+
+
+def test_runners_give_identical_records(tmp_path):
+    spec = parse_spec(SMALL, path="spec.toml")
+    run_family(spec, tmp_path / "serial", runner=SerialRunner(), quiet=True, plots=False)
+    run_family(spec, tmp_path / "pool", runner=ProcessRunner(jobs=2), quiet=True, plots=False)
+    a, b = records(tmp_path / "serial"), records(tmp_path / "pool")
+    assert a.keys() == b.keys() and len(a) == 8
+    for k in a:
+        assert strip_run(a[k]) == strip_run(b[k]), k
+    assert {r["run"]["runner"] for r in b.values()} == {"process"}
+
+
+def test_dask_local_cluster_identical(tmp_path):
+    pytest.importorskip("distributed")
+    from resum.batch import DaskRunner
+    spec = parse_spec(spec_text([1, "pi/2"]), path="spec.toml")
+    run_family(spec, tmp_path / "serial", runner=SerialRunner(), quiet=True, plots=False)
+    run_family(spec, tmp_path / "dask", runner=DaskRunner("local:2"), quiet=True, plots=False)
+    a, b = records(tmp_path / "serial"), records(tmp_path / "dask")
+    assert a.keys() == b.keys() and len(a) == 4
+    for k in a:
+        assert strip_run(a[k]) == strip_run(b[k]), k
+    assert {r["run"]["runner"] for r in b.values()} == {"dask"}
+
+
+def test_dead_worker_is_recorded_and_the_rest_finish(tmp_path):
+    text = spec_text([1, 2], extra_fixed="")
+    text = text.replace('exponent = { values = ["1/2", 2] }',
+                        'exponent = { values = ["1/2", 2] }\ncrash = { values = [false, true] }')
+    spec = parse_spec(text, path="spec.toml")
+    out = run_family(spec, tmp_path / "o", runner=ProcessRunner(jobs=2), quiet=True, plots=False)
+    recs = records(tmp_path / "o")
+    assert len(recs) == 8
+    for r in recs.values():
+        if r["params"]["crash"]:
+            assert r["status"] == "failed" and r["error"]["type"] == "WorkerLost"
+        else:
+            assert r["status"] == "ok"
+    assert out.counts["failed"] == 4
+
+
+def test_reuse_of_a_folder(tmp_path):
+    spec = parse_spec(SMALL, path="spec.toml")
+    run_family(spec, tmp_path / "o", quiet=True, plots=False)
+    with pytest.raises(InputError, match="--resume"):
+        run_family(spec, tmp_path / "o", quiet=True, plots=False)
+    other = parse_spec(SMALL.replace("dps = 30", "dps = 31"), path="spec.toml")
+    with pytest.raises(InputError, match="different spec"):
+        run_family(other, tmp_path / "o", resume=True, quiet=True, plots=False)
+    # resume with nothing to do computes nothing; --retry-failed redoes the failed ones
+    again = run_family(spec, tmp_path / "o", resume=True, quiet=True, plots=False)
+    assert again.computed == () and len(again.skipped) == 8
+    retry = run_family(spec, tmp_path / "o", resume=True, retry_failed=True, quiet=True, plots=False)
+    assert retry.computed == (6, 7)
+    (tmp_path / "junk").mkdir()
+    (tmp_path / "junk" / "x.txt").write_text("x")
+    with pytest.raises(InputError, match="not empty"):
+        run_family(spec, tmp_path / "junk", quiet=True, plots=False)
+
+
+@pytest.mark.parametrize("how", ["kill", "interrupt"])
+def test_killed_run_resumes_without_loss(tmp_path, how):
+    spec_path = tmp_path / "spec.toml"
+    spec_path.write_text(spec_text([1, 2, 3, 4, 5], delay=0.25))
+    out = tmp_path / "o"
+    proc = subprocess.Popen([sys.executable, "-m", "resum.commands.family", str(spec_path),
+                             "-o", str(out), "--jobs", "1", "--no-plots"], cwd=ROOT,
+                            stdout=subprocess.DEVNULL, stderr=subprocess.PIPE)
+    deadline = time.time() + 30
+    while time.time() < deadline and len(list((out / "points").glob("p*.json"))) < 3:
+        time.sleep(0.05)
+    proc.send_signal(signal.SIGKILL if how == "kill" else signal.SIGINT)
+    rc = proc.wait(timeout=30)
+    proc.stderr.close()
+    assert rc == (-signal.SIGKILL if how == "kill" else 130)
+    before = {p.name: (p.read_bytes(), p.stat().st_mtime_ns) for p in (out / "points").glob("p*.json")}
+    assert 3 <= len(before) < 10
+    for raw, _ in before.values():
+        json.loads(raw)   # every record on disk is complete
+    rc = main([str(spec_path), "-o", str(out), "--jobs", "1", "--resume", "--no-plots", "--json"])
+    assert rc == 0
+    after = {p.name: (p.read_bytes(), p.stat().st_mtime_ns) for p in (out / "points").glob("p*.json")}
+    assert len(after) == 10
+    for name, val in before.items():
+        assert after[name] == val, f"{name} was recomputed"
+    assert not list((out / "points").glob(".*.tmp"))
+
+
+def test_cli_exit_codes(tmp_path, capsys):
+    spec_path = tmp_path / "spec.toml"
+    spec_path.write_text(SMALL)
+    assert main([str(spec_path), "-o", str(tmp_path / "a"), "--jobs", "1", "--no-plots",
+                 "--json"]) == 1          # two points fail
+    doc = json.loads(capsys.readouterr().out)
+    assert doc["counts"]["failed"] == 2
+    spec_path.write_text(spec_text([1, 2]))
+    assert main([str(spec_path), "-o", str(tmp_path / "b"), "--jobs", "1", "--no-plots"]) == 0
+    capsys.readouterr()
+    spec_path.write_text(SMALL.replace("[tasks.coefficients]", "[tasks.nothing]"))
+    assert main([str(spec_path), "-o", str(tmp_path / "c")]) == 2
+    err = capsys.readouterr().err
+    assert "tasks.nothing" in err and len(err.strip().splitlines()) == 1
+    assert main([str(spec_path), "-o", str(tmp_path / "c"), "--retry-failed"]) == 2

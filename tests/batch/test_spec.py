@@ -1,0 +1,128 @@
+"""Validation of family specs: every mistake is a one-line InputError naming the key."""
+import textwrap
+
+import mpmath
+import pytest
+
+from resum.batch import load_spec, parse_spec
+from resum.errors import InputError
+
+SRC = "tests.batch.family_sources:binomial"
+
+GOOD = f"""
+[study]
+name = "demo"
+source = "{SRC}"
+dps = 30
+
+[fixed]
+orders = 20
+
+[axes]
+radius = {{ range = {{ start = 1, stop = "pi/2", num = 3 }} }}
+exponent = {{ values = ["1/2", 2] }}
+
+[tasks.coefficients]
+at = [0.25, "1/3"]
+"""
+
+
+def parse(text):
+    return parse_spec(textwrap.dedent(text), path="spec.toml")
+
+
+def test_good_spec_grid_and_values():
+    spec = parse(GOOD)
+    assert spec.n_points == 6
+    pts = spec.points()
+    # product order: the last axis runs fastest
+    assert [p.axis_index for p in pts[:2]] == [{"radius": 0, "exponent": 0},
+                                              {"radius": 0, "exponent": 1}]
+    # the range end is pi/2 to the study's digits (mpmath.pi, reference library)
+    stop = pts[-1].params["radius"]
+    with mpmath.workdps(40):
+        assert abs(stop - mpmath.pi / 2) < mpmath.mpf(10) ** -35
+        mid = pts[2].params["radius"]
+        assert abs(mid - (1 + mpmath.pi / 2) / 2) < mpmath.mpf(10) ** -35
+    assert spec.fixed == {"orders": 20}
+    assert spec.tasks["coefficients"]["at"][1] == pytest.approx(1 / 3)
+
+
+def test_zipped_axes():
+    text = GOOD.replace('exponent = { values = ["1/2", 2] }', 'exponent = { values = [1, 2, 3] }')
+    text += '\n[grid]\ncombine = [["radius", "exponent"]]\n'
+    spec = parse(text)
+    assert spec.n_points == 3
+    assert [p.params["exponent"] for p in spec.points()] == [1, 2, 3]
+
+
+def test_digest_ignores_comments_and_layout():
+    a = parse(GOOD)
+    b = parse("# a comment\n" + GOOD.replace("dps = 30", "dps   =   30   # digits"))
+    c = parse(GOOD.replace("dps = 30", "dps = 31"))
+    assert a.digest == b.digest != c.digest
+
+
+@pytest.mark.parametrize("edit, words", [
+    (("[fixed]", "[fixd]"), ["fixd", "unknown table"]),
+    (("dps = 30", "dps = 30\ncolour = 1"), ["study.colour", "unknown key"]),
+    (("dps = 30", 'dps = "thirty"'), ["study.dps", "expected int"]),
+    (("dps = 30", "dps = 3"), ["study.dps", "out of range"]),
+    ((f'source = "{SRC}"', 'source = "nowhere"'), ["study.source", "unknown source"]),
+    (("orders = 20", "orderz = 20"), ["fixed.orderz", "unknown key", "orders"]),
+    (("orders = 20", "orders = 2.5"), ["fixed.orders", "integer"]),
+    (("num = 3", "number = 3"), ["axes.radius.range", "number"]),
+    (('["1/2", 2]', '["1/2", "foo(2)"]'), ["axes.exponent.values", "foo"]),
+    (('["1/2", 2]', '["1/2", "1/2"]'), ["axes.exponent", "repeats"]),
+    (("[tasks.coefficients]", "[tasks.coefficient]"), ["tasks.coefficient", "unknown key"]),
+    (("at = [0.25", "when = [0.25"), ["tasks.coefficients.when", "unknown option"]),
+    (("at = [0.25", "tail = 2\nat = [0.25"), ["tasks.coefficients", "tail"]),
+    (("[fixed]\norders = 20", "[fixed]\norders = 20\nradius = 1"), ["axes.radius", "both fixed"]),
+])
+def test_bad_specs_name_the_key(edit, words):
+    text = GOOD.replace(*edit)
+    assert text != GOOD
+    with pytest.raises(InputError) as err:
+        parse(text)
+    msg = str(err.value)
+    assert "\n" not in msg
+    assert msg.startswith("spec.toml:")
+    for w in words:
+        assert w in msg, msg
+
+
+def test_error_gives_the_line():
+    text = textwrap.dedent(GOOD).replace("orders = 20", "orderz = 20")
+    line = text.splitlines().index("orderz = 20") + 1
+    with pytest.raises(InputError, match=rf"^spec.toml:{line}: fixed.orderz"):
+        parse_spec(text, path="spec.toml")
+
+
+def test_toml_syntax_error_has_line(tmp_path):
+    p = tmp_path / "bad.toml"
+    p.write_text(GOOD.replace("dps = 30", "dps = = 30"))
+    with pytest.raises(InputError, match=r"bad.toml:5: TOML syntax error: .*line 5, column 7"):
+        load_spec(p)
+
+
+def test_grid_errors():
+    with pytest.raises(InputError, match="grid.combine.*not combined"):
+        parse(GOOD + '\n[grid]\ncombine = ["radius"]\n')
+    with pytest.raises(InputError, match="grid.combine.*same length"):
+        parse(GOOD + '\n[grid]\ncombine = [["radius", "exponent"]]\n')
+    with pytest.raises(InputError, match="grid.combine.*not an axis"):
+        parse(GOOD + '\n[grid]\ncombine = ["radius", "exponent", "colour"]\n')
+
+
+def test_missing_tables_and_file(tmp_path):
+    with pytest.raises(InputError, match=r"\[tasks\]"):
+        parse(GOOD.split("[tasks.coefficients]")[0])
+    with pytest.raises(InputError, match=r"\[axes\]"):
+        parse(GOOD.replace("[axes]", "[fixed2]").split("[fixed2]")[0] + "[tasks.coefficients]\n")
+    with pytest.raises(InputError, match="cannot read the spec"):
+        load_spec(tmp_path / "missing.toml")
+
+
+def test_truth_task_needs_an_evaluator():
+    with pytest.raises(InputError, match="no finite-coupling evaluator"):
+        parse(GOOD + "\n[tasks.truth]\nat = [1]\n")
