@@ -1,0 +1,165 @@
+"""Private numeric helpers shared by the singularity estimators.
+
+Linear solves, polynomial roots and Padé denominators at an explicit number
+of decimal digits, done in ball arithmetic (python-flint) for speed. Every
+function takes ``dps`` and restores flint's working precision on exit, so no
+global state leaks. Inputs and outputs are mpmath numbers.
+
+These helpers return ``None`` (never a wrong number) when a system is
+singular or a ball is too wide to say anything at the requested precision.
+
+>>> import mpmath
+>>> from resum.context import workdps
+>>> with workdps(30):
+...     r = poly_roots([mpmath.mpf(2), mpmath.mpf(-3), mpmath.mpf(1)], 30)   # 2 - 3x + x^2
+>>> sorted(round(float(z.real), 12) for z in r)
+[1.0, 2.0]
+"""
+from __future__ import annotations
+
+import contextlib
+
+import flint
+import mpmath
+
+from ..context import workdps
+
+__all__ = ["flint_dps", "solve", "poly_roots", "pade_coeffs", "polyval", "polyder"]
+
+
+@contextlib.contextmanager
+def flint_dps(dps: int):
+    """Set python-flint's working precision to ``dps`` digits for a block."""
+    old = flint.ctx.prec
+    flint.ctx.dps = int(dps)
+    try:
+        yield
+    finally:
+        flint.ctx.prec = old
+
+
+def _is_complex(xs) -> bool:
+    return any(isinstance(x, mpmath.mpc) and x.imag != 0 for x in xs)
+
+
+def _to_arb(x):
+    if isinstance(x, mpmath.mpc):
+        return flint.acb(flint.arb(x.real), flint.arb(x.imag))
+    return flint.arb(mpmath.mpf(x))
+
+
+def _from_ball(b):
+    if isinstance(b, flint.acb):
+        re, im = mpmath.mpf(b.real.mid()), mpmath.mpf(b.imag.mid())
+        return mpmath.mpc(re, im)
+    return mpmath.mpf(b.mid())
+
+
+def _rel_rad(b) -> float:
+    """Relative radius of a ball (inf when the ball contains zero widely)."""
+    if isinstance(b, flint.acb):
+        r = float(b.real.rad()) + float(b.imag.rad())
+        m = abs(complex(float(b.real.mid()), float(b.imag.mid())))
+    else:
+        r = float(b.rad())
+        m = abs(float(b.mid()))
+    if m == 0:
+        return 0.0 if r == 0 else float("inf")
+    return r / m
+
+
+def solve(rows, rhs, dps: int):
+    """Solve the square system ``rows @ x = rhs`` at ``dps`` digits.
+
+    Returns ``(x, rel_err)`` with ``x`` a list of mpmath numbers and
+    ``rel_err`` the largest relative ball radius of the solution (a measure of
+    how many digits survived the elimination), or ``None`` when the matrix is
+    singular at this precision.
+    """
+    n = len(rows)
+    flat = [v for r in rows for v in r]
+    cplx = _is_complex(flat) or _is_complex(rhs)
+    with workdps(dps + 10), flint_dps(dps + 10):
+        if cplx:
+            conv = lambda v: flint.acb(mpmath.mpc(v).real, mpmath.mpc(v).imag)  # noqa: E731
+            A = flint.acb_mat(n, n, [conv(v) for v in flat])
+            b = flint.acb_mat(n, 1, [conv(v) for v in rhs])
+        else:
+            A = flint.arb_mat(n, n, [flint.arb(mpmath.mpf(v)) for v in flat])
+            b = flint.arb_mat(n, 1, [flint.arb(mpmath.mpf(v)) for v in rhs])
+        try:
+            x = A.solve(b)
+        except ZeroDivisionError:
+            return None
+        entries = [x[i, 0] for i in range(n)]
+        out = [_from_ball(e) for e in entries]
+        err = max((_rel_rad(e) for e in entries if _from_ball(e) != 0), default=0.0)
+    return out, err
+
+
+def polyval(p, x):
+    """Evaluate a polynomial given low to high at ``x`` (Horner)."""
+    s = 0
+    for c in reversed(p):
+        s = s * x + c
+    return s
+
+
+def polyder(p):
+    return [k * p[k] for k in range(1, len(p))]
+
+
+def poly_roots(p, dps: int):
+    """All complex roots of the polynomial ``p`` (coefficients low to high).
+
+    Trailing zero coefficients are dropped. Uses flint's root isolation on the
+    midpoints (an exact polynomial), falling back to mpmath's Durand-Kerner
+    iteration when isolation fails (for example for numerically multiple
+    roots). Returns a list of mpc (empty for a constant polynomial).
+    """
+    p = list(p)
+    while p and p[-1] == 0:
+        p.pop()
+    if len(p) <= 1:
+        return []
+    with workdps(dps + 10), flint_dps(dps + 10):
+        try:
+            poly = flint.acb_poly([_to_arb(mpmath.mpmathify(c)) for c in p])
+            # an exact polynomial: isolate and refine its roots
+            poly = flint.acb_poly([flint.acb(c.real.mid(), c.imag.mid()) for c in poly.coeffs()])
+            rts = poly.roots(maxprec=8 * (dps + 10) * 4)
+            return [_from_ball(r) for r in rts]
+        except (ValueError, ArithmeticError):
+            pass
+        try:
+            rts = mpmath.polyroots(list(reversed([mpmath.mpmathify(c) for c in p])),
+                                   maxsteps=400, extraprec=4 * dps, error=False)
+            return [mpmath.mpc(r) for r in rts]
+        except mpmath.libmp.NoConvergence:
+            return None
+
+
+def pade_coeffs(c, L: int, M: int, dps: int):
+    """Numerator and denominator of the [L/M] Padé approximant of ``c``.
+
+    ``c`` holds at least ``L + M + 1`` coefficients low to high. The
+    denominator is normalised by ``q[0] = 1``. Returns ``(p, q, rel_err)`` or
+    ``None`` if the Toeplitz system is singular at ``dps`` digits.
+    """
+    if len(c) < L + M + 1:
+        raise ValueError(f"[{L}/{M}] needs {L + M + 1} coefficients, got {len(c)}")
+    cc = lambda k: c[k] if k >= 0 else 0  # noqa: E731
+    if M == 0:
+        q = [mpmath.mpf(1)]
+        err = 0.0
+    else:
+        rows = [[cc(L + i - j) for j in range(1, M + 1)] for i in range(1, M + 1)]
+        rhs = [-cc(L + i) for i in range(1, M + 1)]
+        sol = solve(rows, rhs, dps)
+        if sol is None:
+            return None
+        qs, err = sol
+        q = [mpmath.mpf(1)] + qs
+    with workdps(dps + 10):
+        p = [sum(q[j] * cc(k - j) for j in range(0, min(k, M) + 1)) for k in range(L + 1)]
+    return p, q, err

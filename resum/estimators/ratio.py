@@ -1,0 +1,482 @@
+"""Ratio family: ratios, Domb-Sykes fits with Neville tables, root test,
+complex-conjugate pairs, growth classification and large-order fits.
+
+Each public ``estimate_*`` function takes a :class:`~resum.series.Series` and
+a :class:`~resum.context.Context` and returns a
+:class:`~resum.results.MethodResult`.
+
+>>> import mpmath
+>>> from resum.series import Series
+>>> from resum.context import Context
+>>> from fractions import Fraction
+>>> c = [1]
+>>> for n in range(1, 40):            # (1 - 4x)^(-1/2): c_n = binomial(2n, n)
+...     c.append(c[-1] * 2 * (2 * n - 1) // n)
+>>> r = estimate_ratio(Series(c), Context(dps=30))
+>>> r.radius.contains(Fraction(1, 4)), r.singularities[0].exponent.contains(-0.5)
+(True, True)
+
+Notes
+-----
+For ``f(x) ~ A (1 - x/x_c)^theta`` the coefficients behave as
+``c_n ~ C mu^n n^(-theta-1) (1 + a_1/n + ...)`` with ``mu = 1/x_c``, so the
+ratios ``z_n = c_n/c_(n-s)`` satisfy ``z_n = mu^s (1 - s (1+theta)/n + O(1/n^2))``
+(the Domb-Sykes plot of ``z_n`` against ``1/n`` is a line with intercept
+``mu^s`` and slope ``-s (1+theta) mu^s``). The intercept is extrapolated by a
+Neville table in ``1/n`` (:mod:`resum.estimators._extrap`), the exponent from
+``n (z_n/mu^s - 1)/s`` in the same way. The step ``s`` is 1 or 2, chosen by
+the data (``s = 2`` removes the even/odd oscillation caused by a competing
+singularity at ``-x_c``). Bands: safety factor (2) times the spread of the
+last entries of the chosen Neville column and its change to the next
+column, never below the amplified coefficient noise; the exponent band also
+carries the effect of the intercept's band.
+
+Applicability: one dominant real singularity (or, for ``s = 2``, a dominant
+pair ``+-x_c`` seen through ``mu^2``). Complex-conjugate pairs: use
+:func:`estimate_conjugate_pair`. Factorially divergent series: use
+:func:`estimate_large_order`.
+
+References
+----------
+C. Domb and M. F. Sykes, Proc. Roy. Soc. A 240 (1957) 214 (ratio method).
+A. J. Guttmann, in *Phase Transitions and Critical Phenomena* vol. 13,
+eds. C. Domb and J. L. Lebowitz, Academic Press (1989) (ratio method,
+Neville tables, differential approximants).
+D. L. Hunter and G. A. Baker, Phys. Rev. B 19 (1979) 3808 (complex
+singularities; from memory).
+G. N. Mercer and A. J. Roberts, SIAM J. Appl. Math. 50 (1990) 1547 (fit of
+coefficients to a three-term recurrence for a conjugate pair; from memory).
+C. M. Bender and T. T. Wu, Phys. Rev. D 7 (1973) 1620 (large-order
+behaviour of perturbation theory).
+"""
+from __future__ import annotations
+
+import mpmath
+
+from ..results import Estimate, Singularity, Status
+from ..uncertainty.ensemble import SAFETY
+from ._common import classify_kind, failed, finish, prepare
+from ._extrap import extrapolate
+
+__all__ = ["estimate_ratio", "estimate_root_test", "estimate_conjugate_pair",
+           "estimate_large_order", "classify_growth", "ratio_sequence"]
+
+
+def ratio_sequence(c, step=1, n_min=1):
+    """``(ns, z)`` with ``z_n = c_n / c_(n-step)`` for the n where both are non-zero."""
+    ns, z = [], []
+    for n in range(max(step, n_min), len(c)):
+        if c[n - step] != 0 and c[n] != 0:
+            ns.append(n)
+            z.append(c[n] / c[n - step])
+    return ns, z
+
+
+# ---------------------------------------------------------------------------
+# growth classification
+# ---------------------------------------------------------------------------
+
+def classify_growth(c):
+    """Classify coefficient growth: ``(kind, kappa)``.
+
+    ``kappa`` is the slope of ``log |c_n / c_(n-2)|^(1/2)`` against ``log n``
+    over the second half of the coefficients: about 1 for ``c_n ~ Gamma(n)``
+    growth (factorial, radius 0), about 0 for a finite radius, negative for
+    an entire-like function. ``kind`` is ``"factorial"`` (kappa > 0.6),
+    ``"entire-like"`` (kappa < -0.5) or ``"finite radius"``.
+    # common practice, no source (thresholds chosen here)
+    """
+    n0 = max(2, len(c) // 2)
+    xs, ys = [], []
+    for n in range(n0, len(c)):
+        if c[n] != 0 and c[n - 2] != 0:
+            xs.append(mpmath.log(n))
+            ys.append(mpmath.log(abs(c[n] / c[n - 2])) / 2)
+    if len(xs) < 3:
+        return "finite radius", mpmath.mpf(0)
+    mx, my = sum(xs) / len(xs), sum(ys) / len(ys)
+    sxx = sum((x - mx) ** 2 for x in xs)
+    kappa = sum((x - mx) * (y - my) for x, y in zip(xs, ys)) / sxx
+    if kappa > 0.6:
+        return "factorial", kappa
+    if kappa < -0.5:
+        return "entire-like", kappa
+    return "finite radius", kappa
+
+
+# ---------------------------------------------------------------------------
+# plain ratio / Domb-Sykes with Neville tables
+# ---------------------------------------------------------------------------
+
+def _window(ns, vals, frac=0.5, min_len=8, parity=None):
+    """Last part of a sequence (optionally one parity of n only)."""
+    pairs = list(zip(ns, vals))
+    if parity is not None:
+        pairs = [p for p in pairs if p[0] % 2 == parity]
+    k = max(min_len, int(len(pairs) * frac))
+    pairs = pairs[-k:]
+    return [p[0] for p in pairs], [p[1] for p in pairs]
+
+
+def _ratio_step(c, step, eps):
+    """Intercept mu^step and exponent from step-``step`` ratios."""
+    N = len(c)
+    ns, z = ratio_sequence(c, step)
+    if len(ns) < 10:
+        return None
+    parity = (N - 1) % 2 if step == 2 else None
+    wn, wz = _window(ns, z, parity=parity)
+    if len(wn) < 6:
+        return None
+    noise = eps * 4
+    mus, mu_half, k_mu, info_mu = extrapolate(wn, wz, noise)
+    if mus == 0:
+        return None
+    # exponent: g_n = n (z_n / mu^s - 1) / s  ->  -(1 + theta)
+    g_of = lambda m: [n * (zz / m - 1) / step for n, zz in zip(wn, wz)]  # noqa: E731
+    g_noise = [n * noise * 2 for n in wn]
+    g, g_half, k_g, info_g = extrapolate(wn, g_of(mus), noise, noise=[abs(x) for x in g_noise])
+    # sensitivity to the intercept band
+    if mu_half > 0:
+        for m in (mus - mu_half, mus + mu_half):
+            if m != 0:
+                gm, _, _, _ = extrapolate(wn, g_of(m), noise, noise=[abs(x) for x in g_noise])
+                g_half = max(g_half, abs(gm - g))
+    theta = -(1 + g)
+    return {"step": step, "mu_s": mus, "mu_s_half": mu_half, "theta": theta, "theta_half": g_half,
+            "k_mu": k_mu, "k_theta": k_g, "ns": wn, "z": wz, "table_mu": info_mu,
+            "table_theta": info_g}
+
+
+def _choose_mu(c, mus, step):
+    """mu from mu^step: the root consistent with the one-step ratios."""
+    if step == 1:
+        return mus
+    last = [c[n] / c[n - 1] for n in range(len(c) - 6, len(c)) if c[n - 1] != 0]
+    roots = [mpmath.root(mus, step, k) for k in range(step)]
+    if not last:
+        return roots[0]
+    if all(not isinstance(r, mpmath.mpc) or r.imag == 0 for r in roots) or not isinstance(mus, mpmath.mpc):
+        # real case: sign from the majority of signs of c_n c_(n-1)
+        pos = sum(1 for v in last if mpmath.re(v) > 0)
+        m = abs(mpmath.re(mpmath.root(mus, step))) if mpmath.re(mus) > 0 else None
+        if m is None:
+            return None
+        return m if pos * 2 >= len(last) else -m
+    ref = last[-1]
+    return min(roots, key=lambda r: abs(r - ref))
+
+
+def estimate_ratio(series, ctx=None, step=None):
+    """Dominant singularity from ratios of successive coefficients.
+
+    Parameters
+    ----------
+    series : Series
+    ctx : Context, optional
+    step : {1, 2, None}
+        Ratio step; None chooses the step whose extrapolation is sharper.
+
+    Returns
+    -------
+    MethodResult
+        One singularity (location, exponent, kind) and the radius; the
+        diagnostics hold the ratios and the Neville columns.
+    """
+    method = "ratio"
+    prep = prepare(series, ctx)
+    with prep.ctx.working():
+        c = prep.c
+        growth, kappa = classify_growth(c)
+        if growth != "finite radius":
+            return failed(method, Status.NOT_APPLICABLE,
+                          f"coefficients grow like a {growth} series (kappa = {mpmath.nstr(kappa, 3)}); "
+                          "ratio extrapolation needs a finite radius", prep, {"kappa": kappa})
+        steps = [step] if step else [1, 2]
+        cands = []
+        for s in steps:
+            r = _ratio_step(c, s, prep.eps)
+            if r is not None:
+                rel = r["mu_s_half"] / abs(r["mu_s"])
+                cands.append((rel, r))
+        if not cands:
+            return failed(method, Status.TOO_FEW_TERMS, "too few usable ratios (zero coefficients?)", prep)
+        cands.sort(key=lambda t: t[0])
+        rel, r = cands[0]
+        s = r["step"]
+        mu = _choose_mu(c, r["mu_s"], s)
+        if mu is None or rel > 0.1:
+            return failed(method, Status.NOT_CONVERGED,
+                          "ratios do not settle (complex or competing singularities?); try the "
+                          "conjugate-pair, Padé or differential-approximant methods", prep,
+                          {"relative_half_width": rel})
+        # band on mu from band on mu^s: d mu = d(mu^s) / (s mu^(s-1))
+        mu_half = r["mu_s_half"] / (s * abs(mu) ** (s - 1))
+        xc = 1 / mu
+        xc_half = mu_half / abs(mu) ** 2 * (1 + mu_half / abs(mu)) if mu_half < abs(mu) else abs(xc)
+        if isinstance(xc, mpmath.mpc) and xc.imag != 0:
+            re = Estimate(xc.real, xc.real - xc_half, xc.real + xc_half)
+            im = Estimate(xc.imag, xc.imag - xc_half, xc.imag + xc_half)
+        else:
+            xc = mpmath.re(xc)
+            re = Estimate(xc, 1 / (mu + mu_half) if mu > 0 else 1 / (mu + mu_half),
+                          1 / (mu - mu_half) if mu > 0 else 1 / (mu - mu_half))
+            im = Estimate.exact(0)
+        theta = Estimate(mpmath.re(r["theta"]), mpmath.re(r["theta"]) - r["theta_half"],
+                         mpmath.re(r["theta"]) + r["theta_half"])
+        kind = classify_kind(theta)
+        sing = Singularity(re, im, kind, theta, method,
+                           f"ratio step {s}, Neville orders {r['k_mu']} (intercept) and {r['k_theta']} (exponent)")
+        how = (f"Ratios z_n = c_n/c_(n-{s}) over n = {r['ns'][0]}..{r['ns'][-1]}; intercept mu^{s} and "
+               f"exponent extrapolated in 1/n by Neville tables, order chosen where the last 4 entries "
+               f"agree best; band = {SAFETY} x (spread of those entries, change to the next order, "
+               "noise floor); exponent band includes the intercept's band.")
+        diag = {"how": how, "step": s, "kappa": kappa, "ratios": [(n, z) for n, z in zip(r["ns"], r["z"])],
+                "neville_intercept": r["table_mu"], "neville_exponent": r["table_theta"],
+                "steps_tried": [{"step": t[1]["step"], "rel_half_width": t[0]} for t in cands]}
+        return finish(method, prep, [sing], diagnostics=diag, step=s)
+
+
+# ---------------------------------------------------------------------------
+# root test
+# ---------------------------------------------------------------------------
+
+def estimate_root_test(series, ctx=None):
+    """Radius from the growth of ``|c_n|``: fits of ``log|c_n|`` to
+    ``n log mu + (g) log n + b + d/n`` over the last coefficients.
+
+    Notes
+    -----
+    The plain root test ``|c_n|^(-1/n)`` converges like ``log n / n``; the fit
+    removes the power and the constant. Band: safety factor (2) times the
+    spread of fits over three windows and two model sizes. Only the modulus
+    is found (oscillating coefficients give wide bands); no exponent is
+    reported. Applicability: finite non-zero radius. # common practice, no source
+    """
+    method = "root-test"
+    prep = prepare(series, ctx)
+    with prep.ctx.working():
+        c = prep.c
+        growth, kappa = classify_growth(c)
+        if growth != "finite radius":
+            return failed(method, Status.NOT_APPLICABLE, f"{growth} growth: no finite radius", prep)
+        N = len(c)
+        pts = [(n, mpmath.log(abs(c[n]))) for n in range(N // 3, N) if c[n] != 0]
+        if len(pts) < 8:
+            return failed(method, Status.TOO_FEW_TERMS, "too few non-zero coefficients", prep)
+        ests = []
+        for nb in (3, 4):
+            for w in (len(pts), (2 * len(pts)) // 3, len(pts) // 2):
+                sub = pts[-w:]
+                if len(sub) < nb + 2:
+                    continue
+                basis = lambda n: [mpmath.mpf(n), mpmath.log(n), mpmath.mpf(1), mpmath.mpf(1) / n][:nb]  # noqa: E731
+                A = mpmath.matrix([basis(n) for n, _ in sub])
+                b = mpmath.matrix([y for _, y in sub])
+                sol = mpmath.lu_solve(A.T * A, A.T * b)
+                ests.append(mpmath.exp(-sol[0]))
+        if not ests:
+            return failed(method, Status.TOO_FEW_TERMS, "too few non-zero coefficients", prep)
+        v = ests[0]
+        half = SAFETY * max(abs(e - v) for e in ests)
+        half = max(half, v * mpmath.mpf(10) ** -(prep.digits // 2))
+        radius = Estimate(v, v - half, v + half)
+        how = ("Least-squares fits of log|c_n| to n log(mu) + g log n + b (+ d/n) over three windows of "
+               f"the last coefficients; band = {SAFETY} x spread of the six fits.")
+        return finish(method, prep, [], diagnostics={"how": how, "fits": ests}, radius_u=radius)
+
+
+# ---------------------------------------------------------------------------
+# complex-conjugate pair: coefficients fitted to a three-term recurrence
+# ---------------------------------------------------------------------------
+
+def _pair_fit(c, n, D):
+    """Fit c_m = alpha(m) c_(m-1) + beta(m) c_(m-2), alpha, beta polynomials of
+    degree D in 1/m, through the equations m = n, n-1, ..., n-2D-1."""
+    K = 2 * (D + 1)
+    rows, rhs = [], []
+    for m in range(n - K + 1, n + 1):
+        if m - 2 < 0:
+            return None
+        row = [c[m - 1] / mpmath.mpf(m) ** j for j in range(D + 1)] + \
+              [c[m - 2] / mpmath.mpf(m) ** j for j in range(D + 1)]
+        rows.append(row)
+        rhs.append(c[m])
+    try:
+        sol = mpmath.lu_solve(mpmath.matrix(rows), mpmath.matrix(rhs))
+    except ZeroDivisionError:
+        return None
+    a0, a1 = sol[0], (sol[1] if D >= 1 else 0)
+    b0, b1 = sol[D + 1], (sol[D + 2] if D >= 1 else 0)
+    if b0 >= 0:
+        return None       # mu^2 = -beta_0 must be positive for a conjugate pair
+    mu = mpmath.sqrt(-b0)
+    cosphi = a0 / (2 * mu)
+    g = b1 / (2 * b0) if D >= 1 else None
+    return mu, cosphi, g
+
+
+def estimate_conjugate_pair(series, ctx=None):
+    """A dominant complex-conjugate pair ``x_c = R exp(+-i phi)`` and its exponent.
+
+    For ``c_n ~ mu^n n^g cos(n phi + psi)`` (``mu = 1/R``), the coefficients
+    nearly obey ``c_n = alpha(n) c_(n-1) + beta(n) c_(n-2)`` with
+    ``alpha -> 2 mu cos(phi) (1 + g/n)``, ``beta -> -mu^2 (1 + 2 g/n)``.
+    Fitting ``alpha`` and ``beta`` as polynomials of degree ``D`` in ``1/n`` to
+    consecutive coefficients gives ``mu``, ``phi`` and ``theta = -1 - g``.
+
+    Notes
+    -----
+    Estimates from the last windows of n are compared for D = 1..4 and the
+    most stable D is used; band = safety (2) x spread over the last 6 n. The
+    exponent band is wider since ``g`` enters at order 1/n.
+    Applicability: real coefficients, one dominant conjugate pair.
+
+    References
+    ----------
+    G. N. Mercer and A. J. Roberts, SIAM J. Appl. Math. 50 (1990) 1547;
+    D. L. Hunter and G. A. Baker, Phys. Rev. B 19 (1979) 3808 (both from memory;
+    the recurrence fit here is written out in this docstring).
+    """
+    method = "conjugate-pair"
+    prep = prepare(series, ctx)
+    if prep.is_complex:
+        return failed(method, Status.NOT_APPLICABLE, "complex coefficients: no conjugate pair", prep)
+    with prep.ctx.working():
+        c = prep.c
+        N = len(c)
+        growth, _ = classify_growth(c)
+        if growth != "finite radius":
+            return failed(method, Status.NOT_APPLICABLE, f"{growth} growth: no finite radius", prep)
+        best = None
+        table = {}
+        W = 6
+        for D in (1, 2, 3, 4):
+            seq = []
+            for n in range(N - W, N):
+                if n - 2 * (D + 1) - 1 < N // 3:
+                    continue
+                f = _pair_fit(c, n, D)
+                if f is None:
+                    seq = []
+                    break
+                seq.append((n,) + f)
+            if len(seq) < 4:
+                continue
+            mus = [s[1] for s in seq]
+            cps = [s[2] for s in seq]
+            if any(abs(x) >= 1 for x in cps):
+                continue
+            spread = max(mus) - min(mus) + (max(cps) - min(cps))
+            table[D] = seq
+            score = spread / mus[-1]
+            if best is None or score < best[0]:
+                best = (score, D, seq)
+        if best is None:
+            return failed(method, Status.NOT_CONVERGED,
+                          "coefficients do not fit a three-term recurrence of a conjugate pair", prep)
+        score, D, seq = best
+        if score > 0.05:
+            return failed(method, Status.NOT_CONVERGED,
+                          f"conjugate-pair fits unstable (relative spread {mpmath.nstr(score, 2)})", prep)
+        n_last, mu, cphi, g = seq[-1]
+        floor = prep.eps * 10 ** (2 * D + 2) * 100
+        mu_half = max(SAFETY * max(abs(s[1] - mu) for s in seq), floor * mu)
+        c_half = max(SAFETY * max(abs(s[2] - cphi) for s in seq), floor)
+        gs = [s[3] for s in seq]
+        g_half = SAFETY * max(abs(x - g) for x in gs)
+        # add the D -> D+1 change where available
+        if D + 1 in table:
+            n2, mu2, c2, g2 = table[D + 1][-1]
+            mu_half = max(mu_half, SAFETY * abs(mu2 - mu))
+            c_half = max(c_half, SAFETY * abs(c2 - cphi))
+            g_half = max(g_half, SAFETY * abs(g2 - g))
+        R = 1 / mu
+        phi = mpmath.acos(cphi)
+        R_half = mu_half / mu ** 2
+        sinphi = mpmath.sin(phi)
+        phi_half = c_half / max(abs(sinphi), mpmath.mpf(10) ** -10)
+        theta = Estimate(-1 - g, -1 - g - g_half, -1 - g + g_half)
+        kind = classify_kind(theta)
+        sings = []
+        for sgn in (1, -1):
+            z = R * mpmath.expj(sgn * phi)
+            # rectangle from the (R, phi) band
+            pts = [r * mpmath.expj(sgn * p) for r in (R - R_half, R + R_half)
+                   for p in (phi - phi_half, phi + phi_half)]
+            re = Estimate(z.real, min(p.real for p in pts), max(p.real for p in pts))
+            im = Estimate(z.imag, min(p.imag for p in pts), max(p.imag for p in pts))
+            sings.append(Singularity(re, im, kind, theta, method, f"recurrence fit, degree {D} in 1/n"))
+        radius = Estimate(R, R - R_half, R + R_half)
+        how = (f"Coefficients fitted to c_n = alpha(n) c_(n-1) + beta(n) c_(n-2) with alpha, beta of degree "
+               f"{D} in 1/n (degree chosen by stability); band = {SAFETY} x spread over the last "
+               f"{len(seq)} n and the change to degree {D + 1}.")
+        diag = {"how": how, "degree": D, "angle": Estimate(phi, phi - phi_half, phi + phi_half),
+                "fits": [{"n": s[0], "mu": s[1], "cos_phi": s[2], "g": s[3]} for s in seq]}
+        return finish(method, prep, sings, diagnostics=diag, radius_u=radius)
+
+
+# ---------------------------------------------------------------------------
+# factorial divergence: c_n ~ S A^-n Gamma(n + b)
+# ---------------------------------------------------------------------------
+
+def estimate_large_order(series, ctx=None):
+    """Borel-plane singularity ``A`` and exponent ``b`` of a factorially divergent series.
+
+    For ``c_n ~ S A^(-n) Gamma(n + b) (1 + a_1/n + ...)``,
+    ``z_n = c_n/c_(n-1) = (n - 1 + b)/A (1 + O(1/n^2))``; so ``z_n/n -> 1/A``
+    and ``A z_n - n + 1 -> b``, both extrapolated by Neville tables in 1/n.
+    The Borel transform ``sum c_n t^n / n!`` is then singular at ``t = A``
+    like ``(1 - t/A)^(-b)``.
+
+    Notes
+    -----
+    Bands: safety (2) x the Neville spread (see :mod:`resum.estimators._extrap`);
+    the band of ``b`` includes the effect of the band of ``A``. A negative
+    ``A`` means alternating coefficients (Borel singularity on the negative
+    axis, the Borel-summable case). The radius of the series is 0.
+    Applicability: ``c_n`` of one sign pattern (fixed or alternating) with
+    Gamma(n) growth; a series in ``x^k`` is analysed in ``u = x^k``, and ``A``,
+    ``b`` refer to ``u``.
+
+    References
+    ----------
+    C. M. Bender and T. T. Wu, Phys. Rev. D 7 (1973) 1620; J. Zinn-Justin,
+    *Quantum Field Theory and Critical Phenomena*, Oxford (large-order
+    behaviour; from memory).
+    """
+    method = "large-order"
+    prep = prepare(series, ctx)
+    with prep.ctx.working():
+        c = prep.c
+        growth, kappa = classify_growth(c)
+        if growth != "factorial":
+            return failed(method, Status.NOT_APPLICABLE,
+                          f"coefficients do not grow factorially (kappa = {mpmath.nstr(kappa, 3)})",
+                          prep, {"kappa": kappa})
+        ns, z = ratio_sequence(c, 1)
+        wn, wz = _window(ns, z)
+        if len(wn) < 6:
+            return failed(method, Status.TOO_FEW_TERMS, "too few usable ratios", prep)
+        y = [zz / n for n, zz in zip(wn, wz)]
+        inv_a, ia_half, k1, info1 = extrapolate(wn, y, prep.eps * 4)
+        if inv_a == 0 or ia_half > abs(inv_a) / 10:
+            return failed(method, Status.NOT_CONVERGED, "z_n/n does not settle", prep, {"table": info1})
+        A = 1 / inv_a
+        A_half = ia_half / abs(inv_a) ** 2
+        bseq = lambda a: [a * zz - n + 1 for n, zz in zip(wn, wz)]  # noqa: E731
+        bnoise = [abs(A * zz) * prep.eps * 8 for zz in wz]
+        b, b_half, k2, info2 = extrapolate(wn, bseq(A), prep.eps, noise=bnoise)
+        for a in (A - A_half, A + A_half):
+            bb, _, _, _ = extrapolate(wn, bseq(a), prep.eps, noise=bnoise)
+            b_half = max(b_half, abs(bb - b))
+        A_est = Estimate(mpmath.re(A), mpmath.re(A) - A_half, mpmath.re(A) + A_half)
+        b_est = Estimate(mpmath.re(b), mpmath.re(b) - b_half, mpmath.re(b) + b_half)
+        how = (f"z_n = c_n/c_(n-1) for n = {wn[0]}..{wn[-1]}; 1/A = lim z_n/n and b = lim (A z_n - n + 1) "
+               f"by Neville tables in 1/n; band = {SAFETY} x spread of the chosen column (b includes "
+               "the band of A).")
+        diag = {"how": how, "kappa": kappa, "neville_inverse_A": info1, "neville_b": info2,
+                "ratios": list(zip(wn, wz))}
+        zero = Estimate.exact(0)
+        return finish(method, prep, [], growth="factorial", diagnostics=diag, borel=A_est,
+                      borel_b=b_est, radius_u=zero)
