@@ -82,6 +82,8 @@ def prepare(series, ctx: Optional[Context], min_terms: int = MIN_TERMS) -> Prepa
     dense = series.dense(ctx)
     nz = [i for i, c in enumerate(dense) if c != 0]
     k, r = _detect_stride(nz)
+    if k == 1:
+        r = 0         # keep leading zeros: derivatives and log-derivatives need the true f
     # the last non-zero index fixes how many terms of F we trust
     last_full = (len(dense) - 1 - r) // k
     with ctx.working():
@@ -93,7 +95,7 @@ def prepare(series, ctx: Optional[Context], min_terms: int = MIN_TERMS) -> Prepa
                  for v in c]
         else:
             cplx = False
-    n_nonzero = len(c)
+    n_nonzero = sum(1 for v in c if v != 0)
     if n_nonzero < min_terms:
         raise InputError(f"only {n_nonzero} usable terms (in {series.variable}"
                          f"{'^' + str(k) if k > 1 else ''}); singularity analysis needs at least "

@@ -127,7 +127,7 @@ def poly_roots(p, dps: int):
             poly = flint.acb_poly([_to_arb(mpmath.mpmathify(c)) for c in p])
             # an exact polynomial: isolate and refine its roots
             poly = flint.acb_poly([flint.acb(c.real.mid(), c.imag.mid()) for c in poly.coeffs()])
-            rts = poly.roots(maxprec=8 * (dps + 10) * 4)
+            rts = poly.roots(tol=flint.arb(10) ** (-dps), maxprec=8 * (dps + 10) * 4)
             return [_from_ball(r) for r in rts]
         except (ValueError, ArithmeticError):
             pass

@@ -220,7 +220,8 @@ def band_from_candidates(vals: Sequence, n_used: Sequence[int], *, floor=0, safe
     top = [v for _, v in core[:3]]
     vre = _med([mpmath.re(v) for v in top])
     vim = _med([mpmath.im(v) for v in top]) if cplx else None
-    fl = mpmath.mpf(floor)
+    # never claim more than the working precision supports
+    fl = max(mpmath.mpf(floor), abs(mpmath.mpc(vre, vim or 0)) * mpmath.mpf(10) ** (3 - mpmath.mp.dps))
     near = core[:max(spread, 3)]
     wre = max([abs(mpmath.re(v) - vre) for _, v in near] + [0]) * safety
     wre = max(wre, fl)

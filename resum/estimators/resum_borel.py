@@ -1,0 +1,270 @@
+"""Borel-Padé and Borel-conformal-Padé summation, with lateral sums.
+
+Steps, for a series ``sum c_n x^n`` with factorially growing coefficients:
+
+1. Borel-Le Roy transform ``B(t) = sum c_n t^n / Gamma(n + 1 + b)``.
+2. Continue ``B`` beyond its disk: near-diagonal Padé approximants in ``t``
+   (``borel-pade``) or, after a conformal map of the Borel plane cut from its
+   nearest singularity (``borel-conformal-pade``), Padé in the disk variable
+   ``w``.
+3. Laplace integral ``f(x) = int_0^inf exp(-u) u^b B(x u) du`` at working
+   precision (tanh-sinh quadrature, path split at the scale of the nearest
+   Borel singularity).
+
+An approximant is dropped at a point when one of its poles (with a residue
+that matters at this precision) lies within ``path_tol`` (relative) of the
+integration path before the exponential has killed the integrand.
+
+When the approximants have a stable pole on the integration ray itself (a
+singularity of ``B`` on the positive axis: the series is not Borel
+summable), the integral is done along two rays turned by ``+-theta`` (no
+approximant pole between them and the axis). These are the lateral sums
+``S+`` and ``S-``. The reported value is their average and the imaginary
+part ``(S+ - S-)/(2i)`` is reported as the ambiguity, to be compared with
+``exp(-A/x)`` for a singularity at ``t = A``.
+
+>>> import mpmath
+>>> from resum.context import workdps
+>>> with workdps(30):
+...     c = [(-1) ** n * mpmath.factorial(n) for n in range(24)]      # Euler series
+...     out, _ = borel_evaluate(c, [mpmath.mpf(1)], 30)
+...     truth = mpmath.e * mpmath.e1(1)          # e^{1/x} E_1(1/x)/x at x = 1
+...     ok = out[0].re.contains(truth)
+>>> ok, out[0].re.digits() > 20
+(True, True)
+
+Notes
+-----
+The band is the spread of the stable approximants (see
+:func:`resum.estimators.resum_band.band_from_candidates`), never smaller than
+the quadrature error estimate. It is an estimate, not a bound.
+
+References
+----------
+.. [1] J. Zinn-Justin, *Quantum Field Theory and Critical Phenomena* (Oxford),
+   chapter "Divergence of perturbation theory and summation methods".
+.. [2] O. Costin and G. V. Dunne, "Conformal and uniformizing maps in Borel
+   analysis", Eur. Phys. J. Spec. Top. 230 (2021) 2679, arXiv:2108.01145.
+.. [3] C. M. Bender and S. A. Orszag, *Advanced Mathematical Methods for
+   Scientists and Engineers*, McGraw-Hill (1978), section 8.2 (Borel summation,
+   Stieltjes series).
+"""
+from __future__ import annotations
+
+from typing import Optional, Sequence
+
+import mpmath
+
+from ..transforms.borel import borel_coefficients, laplace
+from ..transforms.conformal import ConformalMap
+from .resum_band import PointOutcome, band_from_candidates, candidate_orders, rational_fit
+from .resum_conformal import mapped_coefficients
+
+__all__ = ["borel_evaluate", "borel_plane_poles"]
+
+
+def _seg_dist(p, a, b):
+    ab = b - a
+    if ab == 0:
+        return abs(p - a)
+    tt = mpmath.re((p - a) * mpmath.conj(ab)) / abs(ab) ** 2
+    tt = min(max(tt, 0), 1)
+    return abs(p - (a + tt * ab))
+
+
+def borel_plane_poles(r, dps: int, cmap: Optional[ConformalMap] = None):
+    """Poles of a Borel-plane approximant with residues, as ``(pole_in_its_variable, residue)``."""
+    out = []
+    poles = r.poles(dps)
+    dq = [k * r.q[k] for k in range(1, len(r.q))]
+    for p in poles:
+        d = sum(dq[k] * p ** k for k in range(len(dq)))
+        num = sum(r.p[k] * p ** k for k in range(len(r.p)))
+        res = num / d if d != 0 else mpmath.inf
+        out.append((p, res))
+    return out
+
+
+def borel_evaluate(c: Sequence, xs: Sequence, dps: int, *, b=0, cmap: Optional[ConformalMap] = None,
+                   alpha=None, n_orders: int = 6, offsets: Sequence[int] = (0,), lateral="auto",
+                   path_tol=mpmath.mpf("0.002"), safety=2, quad_dps: Optional[int] = None):
+    """Borel(-Le Roy)-Padé sums with bands at the points ``xs``.
+
+    Parameters
+    ----------
+    c : coefficients from x^0
+    xs : points (non-zero)
+    dps : working digits for the approximants
+    b : Borel-Le Roy parameter (> -1)
+    cmap : conformal map of the Borel plane (``None``: plain Padé in ``t``)
+    alpha : optional rim-factor exponent for the mapped transform
+    lateral : ``"auto"`` (lateral sums when a stable pole sits on the ray),
+        ``"always"`` or ``"never"``
+    quad_dps : digits for the Laplace integrals (default ``dps``)
+
+    Returns
+    -------
+    (outcomes, diagnostics) as for :func:`resum.estimators.resum_pade.pade_evaluate`;
+    for lateral sums ``outcome.im`` is the ambiguity ``(S+ - S-)/(2i)`` and
+    ``outcome.info`` holds ``S_plus``/``S_minus``.
+    """
+    qd = dps if quad_dps is None else quad_dps
+    d = borel_coefficients(c, b)
+    var = "t"
+    if cmap is not None:
+        d = mapped_coefficients(d, cmap, dps, alpha)
+        var = "w"
+    N = len(d)
+    orders = candidate_orders(N, n_orders, offsets)
+    fits = []
+    for n, L, M in orders:
+        r = rational_fit(d[:n], L, M, dps)
+        fits.append(r)
+    good = [(o, r) for o, r in zip(orders, fits) if r is not None]
+    if not good:
+        fail = PointOutcome(None, None, False, "every Padé system of the Borel transform is singular", {})
+        return [fail for _ in xs], {"orders": [list(o) for o in orders]}
+    polelists = [borel_plane_poles(r, dps) if r is not None and r.M > 0 else [] for r in fits]
+    scale_ref = abs(mpmath.mpmathify(fits[0].p[0])) + 1 if fits[0] is not None else 1
+    tiny = mpmath.mpf(10) ** (-qd) * scale_ref
+
+    def to_t(p):
+        return cmap.x_of_w(p) if cmap is not None else p
+
+    # the Borel singularity scale: nearest branch point of the map or nearest pole
+    if cmap is not None:
+        A = min(abs(z) for z in cmap.branch_points())
+    else:
+        top = [p for p, res in polelists[0] if abs(res) > tiny] if polelists[0] else []
+        A = min((abs(p) for p in top), default=mpmath.mpf(1))
+
+    rim = cmap.rim_point() if cmap is not None else None
+
+    def make_F(r):
+        if cmap is None:
+            return r
+        if alpha is None or alpha == 0:
+            return lambda t: r(cmap.w_of_x(t))
+
+        def F(t):
+            w = cmap.w_of_x(t)
+            return r(w) / (1 - w / rim) ** alpha
+        return F
+
+    outs = []
+    diag = {"orders": [list(o) for o in orders], "borel_b": str(b), "variable": var,
+            "borel_scale": mpmath.nstr(A, 12), "map": None if cmap is None else cmap.to_dict()}
+    for x in xs:
+        x = mpmath.mpmathify(x)
+        if x == 0:
+            outs.append(PointOutcome(None, None, False, "the Borel sum needs x != 0", {}))
+            continue
+        direc = x / abs(x)
+        s_max = (qd + 5) * mpmath.log(10) + 10
+        # is there a stable pole on the ray (lateral case)?
+        on_ray = []
+        if cmap is None and polelists[0]:
+            for p, res in polelists[0]:
+                if abs(res) > tiny and abs(mpmath.arg(p / direc)) < mpmath.mpf("1e-3"):
+                    on_ray.append(p)
+        use_lateral = lateral == "always" or (lateral == "auto" and bool(on_ray))
+        if use_lateral and cmap is not None:
+            outs.append(PointOutcome(None, None, False, "lateral sums need method borel-pade "
+                                     "(the conformal map of the Borel plane cuts the ray)", {}))
+            continue
+        thetas = [mpmath.mpf(0)]
+        if use_lateral:
+            offaxis = []
+            for p, res in polelists[0]:
+                a = abs(mpmath.arg(p / direc))
+                if abs(res) > tiny and mpmath.mpf("1e-3") <= a < mpmath.pi / 4:
+                    offaxis.append(a)
+            th = min([mpmath.pi / 8] + [a / 2 for a in offaxis])
+            thetas = [th, -th]
+        vals = {th: [None] * len(orders) for th in thetas}
+        errs = {th: [mpmath.mpf(0)] * len(orders) for th in thetas}
+        dropped = []
+        for i, ((n, L, M), r) in enumerate(zip(orders, fits)):
+            if r is None:
+                continue
+            F = make_F(r)
+            for th in thetas:
+                e = mpmath.expj(th)
+                # the path in the approximant's variable, sampled
+                ss = [mpmath.mpf(0)] + [A / abs(x) * mpmath.mpf(2) ** k for k in range(-12, 200)
+                                        if A / abs(x) * mpmath.mpf(2) ** k < s_max] + [s_max]
+                path = [to_t_inv(x * s * e, cmap) for s in ss]
+                bad = None
+                for p, res in polelists[i]:
+                    if abs(res) <= tiny:
+                        continue
+                    for k in range(len(path) - 1):
+                        dist = _seg_dist(p, path[k], path[k + 1])
+                        if dist < path_tol * max(abs(p), mpmath.mpf(10) ** -8):
+                            weight = mpmath.exp(-ss[k] * mpmath.cos(th))
+                            if weight * abs(res) > tiny:
+                                bad = p
+                            break
+                    if bad is not None:
+                        break
+                if bad is not None:
+                    dropped.append(f"[{L}/{M}] theta={mpmath.nstr(th, 4)}: pole at {var} = "
+                                   f"{mpmath.nstr(bad, 8)} on the path")
+                    continue
+                try:
+                    v, err = laplace(F, x, b, qd, theta=th, scale=A / abs(x), s_max=s_max)
+                except (ZeroDivisionError, ValueError) as exc:
+                    dropped.append(f"[{L}/{M}]: integral failed ({exc})")
+                    continue
+                if not mpmath.isfinite(abs(v)):
+                    continue
+                vals[th][i] = v
+                errs[th][i] = err
+        ns = [o[0] for o in orders]
+        info = {"dropped": dropped, "orders": [f"[{L}/{M}]" for _, L, M in orders], "lateral": use_lateral}
+        if not use_lateral:
+            vv = vals[thetas[0]]
+            fl = max(errs[thetas[0]])
+            re, im, binfo = band_from_candidates(vv, ns, floor=fl, safety=safety)
+            info.update(binfo)
+            info["values"] = [None if v is None else mpmath.nstr(v, 25) for v in vv]
+            if re is None:
+                outs.append(PointOutcome(None, None, False, binfo.get("how", ""), info))
+            else:
+                outs.append(PointOutcome(re, im, True, "", info))
+            continue
+        tp, tm = thetas
+        avg, amb = [], []
+        for i in range(len(orders)):
+            sp, sm = vals[tp][i], vals[tm][i]
+            if sp is None or sm is None:
+                avg.append(None)
+                amb.append(None)
+            else:
+                avg.append((sp + sm) / 2)
+                amb.append((sp - sm) / (2j))
+        fl = max(max(errs[tp]), max(errs[tm]))
+        re, _, binfo = band_from_candidates([None if v is None else mpmath.re(v) for v in avg], ns,
+                                            floor=fl, safety=safety)
+        am, _, ainfo = band_from_candidates([None if v is None else mpmath.re(v) for v in amb], ns,
+                                            floor=fl, safety=safety)
+        info.update(binfo)
+        info["theta"] = mpmath.nstr(tp, 8)
+        info["ray_singularity"] = mpmath.nstr(min(on_ray, key=abs), 15) if on_ray else None
+        if on_ray:
+            Apos = min(on_ray, key=abs)
+            info["exp(-A/x)"] = mpmath.nstr(mpmath.exp(-Apos / x), 15)
+        k = next((i for i in range(len(orders)) if vals[tp][i] is not None and vals[tm][i] is not None), None)
+        if k is not None:
+            info["S_plus"] = mpmath.nstr(vals[tp][k], 25)
+            info["S_minus"] = mpmath.nstr(vals[tm][k], 25)
+        if re is None or am is None:
+            outs.append(PointOutcome(None, None, False, (binfo if re is None else ainfo).get("how", ""), info))
+        else:
+            outs.append(PointOutcome(re, am, True, "", info))
+    return outs, diag
+
+
+def to_t_inv(t, cmap):
+    """The point of the approximant's variable for Borel-plane point ``t``."""
+    return t if cmap is None else cmap.w_of_x(t)
