@@ -1,0 +1,132 @@
+"""The JSON contract of `resum analyze` / `resum evaluate`, on files in all three formats,
+and one-line errors with exit code 2 for bad input. The CLI runs in process via main(argv)."""
+import json
+import math
+from fractions import Fraction
+
+import mpmath
+import pytest
+
+from resum import Series
+from resum.cli import main
+from resum.series.io import write_series
+
+FORMATS = ["json", "csv", "txt"]
+
+
+def catalan_series(n=40):
+    # generating function of the Catalan numbers, (1 - sqrt(1-4x))/(2x): radius 1/4,
+    # square-root branch point, exponent 1/2 (common practice, no source)
+    return Series([Fraction(math.comb(2 * k, k), k + 1) for k in range(n)], name="catalan")
+
+
+def run_json(argv, capsys):
+    code = main(argv)
+    out = capsys.readouterr().out
+    return code, json.loads(out)
+
+
+def _is_decimal(s):
+    assert isinstance(s, str)
+    mpmath.mpf(s)
+    return True
+
+
+@pytest.mark.parametrize("ext", FORMATS)
+def test_analyze_contract(tmp_path, capsys, ext):
+    p = write_series(catalan_series(), tmp_path / f"cat.{ext}")
+    code, doc = run_json(["analyze", str(p), "--json", "--no-verify"], capsys)
+    assert code in (0, 1)
+    r = doc["radius"]
+    assert all(_is_decimal(r[k]) for k in ("value", "lo", "hi"))
+    assert mpmath.mpf(r["lo"]) <= mpmath.mpf("0.25") <= mpmath.mpf(r["hi"])
+    assert mpmath.mpf(r["hi"]) - mpmath.mpf(r["lo"]) < 1e-4
+    assert isinstance(doc["warnings"], list)
+    near = min(doc["singularities"], key=lambda s: abs(mpmath.mpc(mpmath.mpf(s["re"]), mpmath.mpf(s["im"]))))
+    assert _is_decimal(near["re"]) and _is_decimal(near["im"])
+    assert abs(mpmath.mpf(near["re"]) - mpmath.mpf("0.25")) < 1e-4
+    assert near["kind"] in ("pole", "branch", "log", "essential", "branch-log", "unknown")
+    if near["exponent"] is not None:
+        e = near["exponent"]
+        assert mpmath.mpf(e["lo"]) - 1e-9 <= mpmath.mpf("0.5") <= mpmath.mpf(e["hi"]) + 1e-9
+
+
+@pytest.mark.parametrize("ext", FORMATS)
+def test_evaluate_contract(tmp_path, capsys, ext):
+    p = write_series(catalan_series(), tmp_path / f"cat.{ext}")
+    code, doc = run_json(["evaluate", str(p), "--at", "0.1", "--at", "1/8", "--json", "--no-verify"],
+                         capsys)
+    assert code in (0, 1)
+    assert isinstance(doc["warnings"], list) and len(doc["values"]) == 2
+    for v, x in zip(doc["values"], (mpmath.mpf("0.1"), mpmath.mpf(1) / 8)):
+        for k in ("at", "value", "lo", "hi", "method"):
+            assert isinstance(v[k], str)
+        truth = (1 - mpmath.sqrt(1 - 4 * x)) / (2 * x)   # closed form of the Catalan g.f.
+        assert mpmath.mpf(v["lo"]) <= truth <= mpmath.mpf(v["hi"])
+        assert abs(mpmath.mpf(v["at"]) - x) < 1e-20
+
+
+def test_evaluate_at_in_coupling(tmp_path, capsys):
+    # declared coupling x = g^2: --at takes g
+    p = tmp_path / "c.txt"
+    p.write_text("coupling: x = g^2\n" + "\n".join(str((-1) ** k) for k in range(30)) + "\n")
+    code, doc = run_json(["evaluate", str(p), "--at", "0.5", "--json", "--no-verify"], capsys)
+    v = doc["values"][0]
+    truth = 1 / (1 + mpmath.mpf("0.25"))     # 1/(1+x) at x = g^2 = 1/4
+    assert mpmath.mpf(v["lo"]) <= truth <= mpmath.mpf(v["hi"])
+
+
+BAD_FILES = [
+    ("malformed.json", '{"coefficients": ["1",', "malformed JSON"),
+    ("unknown.json", '{"coefficients": ["1", "2"], "oops": 1}', "unknown key"),
+    ("wrongtype.json", '{"coefficients": {"a": 1}}', "coefficients"),
+    ("nan.txt", "1\nnan\n3\n", "not finite"),
+    ("zero.csv", "0,0\n1,0\n", "every coefficient is zero"),
+    ("refused.txt", "1\nexec(1)\n", "unknown name"),
+    ("short.txt", "1\n", "at least"),
+]
+
+
+@pytest.mark.parametrize("cmd", ["analyze", "evaluate"])
+@pytest.mark.parametrize("fname, text, needle", BAD_FILES)
+def test_bad_input_exit_2_one_line(tmp_path, capsys, cmd, fname, text, needle):
+    p = tmp_path / fname
+    p.write_text(text)
+    argv = [cmd, str(p), "--json"] + (["--at", "0.1"] if cmd == "evaluate" else [])
+    assert main(argv) == 2
+    cap = capsys.readouterr()
+    assert cap.out == ""
+    lines = cap.err.strip().splitlines()
+    assert len(lines) == 1 and needle in lines[0] and fname in lines[0]
+    assert "Traceback" not in cap.err
+
+
+def test_non_utf8_and_precision_too_low(tmp_path, capsys):
+    p = tmp_path / "latin1.txt"
+    p.write_bytes(b"1\n2\n\xe93\n")
+    assert main(["analyze", str(p)]) == 2
+    assert "UTF-8" in capsys.readouterr().err
+    q = tmp_path / "short_digits.txt"
+    q.write_text("\n".join(["0.3333333333"] * 20) + "\n")
+    assert main(["analyze", str(q), "--dps", "30"]) == 2
+    err = capsys.readouterr().err
+    assert "only 10 digits" in err and "line 1" in err
+
+
+def test_unknown_option_and_method(tmp_path, capsys):
+    p = write_series(catalan_series(), tmp_path / "c.json")
+    assert main(["analyze", str(p), "--frobnicate"]) == 2
+    assert main(["evaluate", str(p), "--at", "0.1", "--method", "no-such-method"]) == 2
+    err = capsys.readouterr().err
+    assert "no-such-method" in err and "Traceback" not in err
+
+
+def test_too_few_terms_for_methods(tmp_path, capsys):
+    p = tmp_path / "three.txt"
+    p.write_text("1\n1\n1\n")
+    code = main(["analyze", str(p), "--json"])
+    assert code in (1, 2)
+    cap = capsys.readouterr()
+    if code == 1:
+        doc = json.loads(cap.out)
+        assert any("term" in w for w in doc["warnings"])
