@@ -17,8 +17,8 @@ evaluates it at ``h = 0``. The order used is the column whose last few
 entries (the highest orders) agree best, counting the amplification of the
 coefficient noise (the Lebesgue constant of the extrapolation weights) as
 part of the spread. The returned half-width is the safety factor times the
-largest of: the spread of those entries, the change to the next column, and
-the noise floor. It is an estimate, not a bound.
+largest of: the spread of those entries, the change to the neighbouring
+columns (one order up and down), and the noise floor. It is an estimate, not a bound.
 
 References
 ----------
@@ -107,12 +107,14 @@ def extrapolate(ns, vals, eps, kmax=None, window=4, safety=SAFETY, noise=None):
     best = min(cols, key=lambda d: (d["score"], d["k"]))
     k = best["k"]
     nxt = cols[k + 1]["last"] if k + 1 < len(cols) else None
-    prv = cols[k - 1]["last"] if k >= 1 else None
     diffs = [best["spread"], best["floor"]]
-    if nxt is not None:
+    # the neighbouring orders must agree too: their change is part of the band
+    # (a neighbour far less converged than the chosen order is not part of the plateau)
+    for j in (k + 1, k - 1):
+        if 0 <= j < len(cols) and cols[j]["score"] <= 100 * best["score"]:
+            diffs.append(abs(cols[j]["last"] - best["last"]))
+    if nxt is not None and len(diffs) == 2:
         diffs.append(abs(nxt - best["last"]))
-    elif prv is not None:
-        diffs.append(abs(prv - best["last"]))
     half = safety * max(diffs)
     info = {"columns": [{"k": c["k"], "last": c["last"], "spread": c["spread"], "floor": c["floor"]}
                         for c in cols], "chosen_k": k}

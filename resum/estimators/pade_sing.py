@@ -154,7 +154,7 @@ def _cut_points(app, z0, rel_window=3.0, angle=0.15):
 
 
 def clusters_to_singularities(ens, method, eps, residue_is_exponent=False, exponent_shift=0, real_series=False,
-                              rel_tol=0.02, max_count=6, radius_factor=2.5):
+                              rel_tol=0.02, max_count=6, radius_factor=2.5, detect_cuts=True):
     """Stable pole clusters of a Padé ensemble as :class:`Singularity` objects.
 
     ``residue_is_exponent``: for Dlog-Padé, the residue of each pole is the
@@ -183,13 +183,14 @@ def clusters_to_singularities(ens, method, eps, residue_is_exponent=False, expon
             cut_counts.append(len(pts))
             if pts:
                 spacings.append(abs(pts[0] - z))
-        on_cut = robust_center([mpmath.mpf(x) for x in cut_counts]) >= 3
+        on_cut = detect_cuts and robust_center([mpmath.mpf(x) for x in cut_counts]) >= 3
         if on_cut:
             cuts.append(center)
         dev = max(abs(z - center) for z in zs)
         half = SAFETY * dev
         if on_cut and spacings:
-            half = max(half, SAFETY * robust_center(spacings))
+            # the end of a cut is resolved only to the spacing of the points on it
+            half = max(half, 3 * robust_center(spacings), abs(center) / 100)
         half = max(half, abs(center) * eps * 100)
         im_zero = abs(center.imag) <= half and all(abs(z.imag) <= half for z in zs)
         re = Estimate(center.real, center.real - half, center.real + half)

@@ -56,8 +56,8 @@ def optimal_truncation(c: Sequence, x, dps: int) -> dict:
     Notes
     -----
     The band is the modulus of the smallest term (common practice, no
-    source); terms that vanish (odd terms of an even function) are skipped
-    by taking the larger of two neighbouring terms.
+    source); a term that vanishes (odd terms of an even function) takes the
+    size of its neighbour.
     """
     x = mpmath.mpmathify(x)
     terms = []
@@ -67,8 +67,9 @@ def optimal_truncation(c: Sequence, x, dps: int) -> dict:
         xp *= x
     mods = [abs(t) for t in terms]
     n = len(terms)
-    # smoothed modulus: max of a term and its successor (zeros of parity skipped)
-    sm = [max(mods[k], mods[k + 1]) if k + 1 < n else mods[k] for k in range(n)]
+    # a vanishing term (odd terms of an even function) takes its neighbour's size
+    sm = [mods[k] if mods[k] != 0 else (mods[k + 1] if k + 1 < n else mods[k - 1] if k else 0)
+          for k in range(n)]
     kmin = min(range(n), key=lambda k: (sm[k], k))
     reached = kmin < n - 2
     if not reached:

@@ -1,0 +1,491 @@
+"""One verdict on a series: radius, leading singularities, growth, with bands.
+
+:func:`analyze` runs the applicable singularity estimators, reconciles them
+and checks the outcome by rerunning with fewer terms and at higher
+precision.
+
+>>> from resum.series import Series
+>>> c = [1]
+>>> for n in range(1, 40):            # (1 - 4x)^(-1/2): c_n = binomial(2n, n)
+...     c.append(c[-1] * 2 * (2 * n - 1) // n)
+>>> res = analyze(Series(c))
+>>> res.radius.contains(0.25), res.singularities[0].exponent.contains(-0.5)
+(True, True)
+>>> sorted(res.contract_dict())
+['radius', 'singularities', 'warnings']
+
+Notes
+-----
+How to read the bands. Each estimator builds its band from the spread of
+its stable estimates across orders (Neville columns, neighbouring Padé or
+differential approximants) times a safety factor of 2. Across methods the
+narrowest band is kept, and it is widened until it touches the band of
+every other method that found the same point (a warning says so when they
+did not overlap). Verification then reruns the contributing methods with
+about 10 % fewer terms and at higher working precision (for inexact input:
+with the coefficients perturbed at the level of their last digit); the
+band is widened to cover 3 times the fewer-terms change and 2 times the
+precision change, and the digits that agree are
+recorded in ``diagnostics["verification"]``. A band is an estimate of the
+error, not a proof; it can miss when every method shares one systematic
+bias, which the fewer-terms rerun is there to expose.
+
+Applicability: finite radius (algebraic, logarithmic, pole singularities,
+conjugate pairs, several singularities), factorial divergence (Borel-plane
+singularity ``A`` and exponent ``b`` of ``c_n ~ S A^-n Gamma(n+b)``), and
+entire-like growth (reported, without singularities).
+"""
+from __future__ import annotations
+
+import time
+from dataclasses import dataclass, field, replace
+from typing import Optional
+
+import mpmath
+
+from ._version import __version__
+from .context import DEFAULT, Context
+from .errors import InputError
+from .estimators import METHODS, get_method, validate_methods
+from .estimators._common import MIN_TERMS, classify_kind, prepare
+from .estimators.ratio import classify_growth
+from .results import (Estimate, MethodResult, Provenance, Singularity, Status, _jsonable,
+                      num_to_str)
+from .uncertainty.ensemble import SAFETY, digits_agree, modulus_band
+
+__all__ = ["AnalysisResult", "analyze", "default_context"]
+
+#: the change seen when ~10 % of the terms are dropped, times this factor, is
+#: taken as a lower bound on the truncation error (an error falling like 1/n^3
+#: changes by about a third of itself over the last 10 % of the terms)
+FEWER_TERMS_FACTOR = 3
+
+
+# ---------------------------------------------------------------------------
+# result type
+# ---------------------------------------------------------------------------
+
+@dataclass(frozen=True)
+class AnalysisResult:
+    """The reconciled outcome of :func:`analyze`.
+
+    Attributes
+    ----------
+    success : bool
+        True when a radius (or a factorial-growth verdict) was found.
+    status : Status
+    message : str
+    radius : Estimate or None
+        Radius of convergence in the series' variable (0 for factorial growth,
+        inf for entire-like series).
+    singularities : tuple of Singularity
+        Leading singularities, nearest first.
+    growth : str
+        ``"finite radius"``, ``"factorial"`` or ``"entire-like"``.
+    borel_singularity, borel_exponent : Estimate or None
+        ``A`` and ``b`` of ``c_n ~ S A^-n Gamma(n+b)`` for factorial growth.
+    methods : dict
+        Method name -> :class:`MethodResult`.
+    warnings : tuple of str
+    diagnostics : dict
+        ``how`` (how the bands were made), ``verification`` (digits agreeing
+        with the reruns), ``combined`` (which method supplied what).
+    provenance : Provenance
+    """
+
+    success: bool
+    status: Status
+    message: str = ""
+    radius: Optional[Estimate] = None
+    singularities: tuple = ()
+    growth: str = ""
+    borel_singularity: Optional[Estimate] = None
+    borel_exponent: Optional[Estimate] = None
+    methods: dict = field(default_factory=dict)
+    warnings: tuple = ()
+    diagnostics: dict = field(default_factory=dict)
+    provenance: Optional[Provenance] = None
+
+    def to_dict(self) -> dict:
+        est = lambda e: None if e is None else e.to_dict()  # noqa: E731
+        return {"success": self.success, "status": self.status.value, "message": self.message,
+                "radius": est(self.radius), "singularities": [s.to_dict() for s in self.singularities],
+                "growth": self.growth, "borel_singularity": est(self.borel_singularity),
+                "borel_exponent": est(self.borel_exponent),
+                "methods": {k: v.to_dict() for k, v in self.methods.items()},
+                "warnings": list(self.warnings), "diagnostics": _jsonable(self.diagnostics),
+                "provenance": None if self.provenance is None else self.provenance.to_dict()}
+
+    @classmethod
+    def from_dict(cls, d: dict) -> "AnalysisResult":
+        est = lambda k: None if d.get(k) is None else Estimate.from_dict(d[k])  # noqa: E731
+        return cls(bool(d["success"]), Status(d["status"]), d.get("message", ""), est("radius"),
+                   tuple(Singularity.from_dict(s) for s in d.get("singularities", [])),
+                   d.get("growth", ""), est("borel_singularity"), est("borel_exponent"),
+                   {k: MethodResult.from_dict(v) for k, v in d.get("methods", {}).items()},
+                   tuple(d.get("warnings", [])), dict(d.get("diagnostics", {})),
+                   None if d.get("provenance") is None else Provenance.from_dict(d["provenance"]))
+
+    def contract_dict(self) -> dict:
+        """The stable JSON contract: radius, singularities, warnings (plus extra keys).
+
+        ``{"radius": {"value", "lo", "hi"}, "singularities": [{"re", "im",
+        "exponent": {"value", "lo", "hi"} or None, "kind"}], "warnings": [...]}``;
+        numbers are decimal strings in the series' variable. Extra keys:
+        ``growth``, ``status``, ``borel`` (A and b for factorial growth).
+        """
+        if self.radius is None:
+            rad = {"value": "nan", "lo": "nan", "hi": "nan"}
+        else:
+            rad = self.radius.to_dict()
+        sings = []
+        for s in self.singularities:
+            d = s.to_dict()
+            sings.append({"re": d["re"], "im": d["im"], "exponent": d["exponent"], "kind": s.kind,
+                          "re_band": d["re_band"], "im_band": d["im_band"], "method": s.method})
+        out = {"radius": rad, "singularities": sings, "warnings": list(self.warnings),
+               "growth": self.growth, "status": self.status.value}
+        if self.borel_singularity is not None:
+            out["borel"] = {"A": self.borel_singularity.to_dict(),
+                            "b": None if self.borel_exponent is None else self.borel_exponent.to_dict()}
+        return out
+
+
+# ---------------------------------------------------------------------------
+# precision
+# ---------------------------------------------------------------------------
+
+def default_context(series) -> Context:
+    """Working precision used when none is given.
+
+    Exact series: ``max(30, n_terms // 2 + 10)`` digits (Padé and
+    differential approximants of order ~n/2 lose digits roughly in proportion
+    to the order). Inexact series: the digits they carry (at least 10).
+    """
+    if series.digits is None:
+        return Context(dps=max(DEFAULT.dps, series.n_terms // 2 + 10))
+    return Context(dps=max(10, min(series.digits, 2 * series.n_terms + 30)))
+
+
+# ---------------------------------------------------------------------------
+# running and reconciling
+# ---------------------------------------------------------------------------
+
+def _run(series, ctx, names):
+    out = {}
+    for name in names:
+        f = get_method(name)
+        t0 = time.perf_counter()
+        try:
+            r = f(series, ctx)
+        except InputError as exc:
+            r = MethodResult(name, False, Status.TOO_FEW_TERMS, str(exc))
+        except (ZeroDivisionError, ValueError, ArithmeticError, mpmath.libmp.NoConvergence) as exc:
+            r = MethodResult(name, False, Status.FAILED, f"numerical failure: {exc}")
+        d = dict(r.diagnostics)
+        d["seconds"] = round(time.perf_counter() - t0, 3)
+        out[name] = replace(r, diagnostics=d)
+    return out
+
+
+def _err(s: Singularity):
+    return max(s.re.error, s.im.error)
+
+
+def _overlap(a: Estimate, b: Estimate) -> bool:
+    return not (a.upper < b.lower or b.upper < a.lower)
+
+
+def _touch(a: Estimate, b: Estimate) -> Estimate:
+    """Widen ``a`` (keeping its centre) until it overlaps ``b``."""
+    if _overlap(a, b):
+        return a
+    if b.upper < a.lower:
+        w = a.value - b.upper
+    else:
+        w = b.lower - a.value
+    w = max(w, a.error)
+    return Estimate(a.value, a.value - w, a.value + w)
+
+
+def _group(sings, rel=0.01):
+    """Group singularities from different methods by location."""
+    groups = []
+    for s in sorted(sings, key=lambda s: abs(s.location)):
+        z = s.location
+        for g in groups:
+            z0 = g[0].location
+            tol = max(rel * abs(z0), 3 * (_err(s) + _err(g[0])))
+            tol = min(tol, 0.1 * abs(z0)) if z0 != 0 else tol
+            if abs(z - z0) <= tol and all(x.method != s.method for x in g):
+                g.append(s)
+                break
+        else:
+            groups.append([s])
+    return groups
+
+
+def _location_reliable(s):
+    """Plain Padé resolves a branch point only to the spacing of its poles on the cut."""
+    return not (s.method == "pade" and s.kind != "pole")
+
+
+def _exponent_reliable(s):
+    """Dlog residues at a point where the approximants line up poles on a cut are biased
+    (additive background or confluent terms)."""
+    return "line up" not in (s.note or "")
+
+
+def _combine_group(g, warnings):
+    rel = [s for s in g if _location_reliable(s)] or g
+    best = min(rel, key=_err)
+    re, im = best.re, best.im
+    disagree = []
+    for s in g:
+        if s is best or not _location_reliable(s):
+            continue
+        if not (_overlap(re, s.re) and _overlap(im, s.im)):
+            disagree.append(s.method)
+            re, im = _touch(re, s.re), _touch(im, s.im)
+    exps = [s for s in g if s.exponent is not None and s.kind != "unknown"]
+    theta, theta_from = None, None
+    if exps:
+        eb = min([s for s in exps if _exponent_reliable(s)] or exps, key=lambda s: s.exponent.error)
+        theta, theta_from = eb.exponent, eb.method
+        for s in exps:
+            if s is not eb and _exponent_reliable(s) and not _overlap(theta, s.exponent):
+                disagree.append(f"{s.method} (exponent)")
+                theta = _touch(theta, s.exponent)
+    kind = classify_kind(theta) if theta is not None else best.kind
+    if theta is None and best.kind == "branch":
+        kind = "branch"
+    loc = mpmath.mpc(re.value, im.value)
+    if disagree:
+        warnings.append(f"methods disagree near {mpmath.nstr(loc, 8)}: {', '.join(disagree)} outside the band "
+                        f"of {best.method}; band widened to reach them")
+    note = f"location from {best.method}" + (f", exponent from {theta_from}" if theta_from else "") + \
+        f"; found by {', '.join(s.method for s in g)}"
+    return Singularity(re, im, kind, theta, best.method, note), [s.method for s in g]
+
+
+def _reconcile(series, results, warnings):
+    ok = {k: r for k, r in results.items() if r.success}
+    growth = "finite radius"
+    if "large-order" in ok:
+        growth = "factorial"
+    elif any(r.growth == "entire-like" for r in ok.values()):
+        growth = "entire-like"
+    out = {"growth": growth, "radius": None, "singularities": (), "borel": None, "borel_b": None,
+           "combined": {}}
+    if growth == "factorial":
+        r = ok["large-order"]
+        out.update(radius=r.radius, borel=r.borel_singularity, borel_b=r.borel_exponent)
+        out["combined"] = {"borel": "large-order"}
+        return out
+    if growth == "entire-like":
+        out["radius"] = Estimate(mpmath.inf, mpmath.inf, mpmath.inf)
+        return out
+    sings = [s for k, r in ok.items() for s in r.singularities]
+    if not sings:
+        if "root-test" in ok:
+            out["radius"] = ok["root-test"].radius
+            out["combined"] = {"radius": "root-test"}
+            warnings.append("only the root test gave an estimate: radius without singularities")
+        return out
+    groups = _group(sings)
+    combined = []
+    for g in groups:
+        s, found_by = _combine_group(g, warnings)
+        combined.append((s, found_by))
+    # leading singularities: those within 10 % of the nearest (both members of a pair,
+    # a competing point on the other side), then anything found by two methods or more
+    rmin = min(abs(s.location) for s, _ in combined)
+    lead = [(s, f) for s, f in combined if abs(s.location) <= rmin * 1.1 + _err(s)]
+    nearest_methods = max((len(f) for s, f in lead), default=0)
+    rest = [(s, f) for s, f in combined if (s, f) not in lead and len(f) >= 2]
+    chosen = lead + rest
+    if nearest_methods == 1 and len(ok) > 1:
+        warnings.append("the nearest singularity was found by one method only; treat it with care")
+    out["singularities"] = tuple(s for s, _ in chosen)
+    near = min((s for s, _ in lead), key=lambda s: abs(s.location))
+    rad = modulus_band(near.re, near.im)
+    out["radius"] = rad
+    out["combined"] = {"singularities": [{"location": s.location, "found_by": f} for s, f in chosen]}
+    rt = ok.get("root-test")
+    if rt is not None and rt.radius is not None and not _overlap(rt.radius, rad):
+        warnings.append(f"root test radius {rt.radius} does not overlap {rad}")
+    return out
+
+
+def _perturbed(series, seed=12345):
+    """The series with each inexact coefficient moved by ~ one unit in its last digit."""
+    import random
+    rnd = random.Random(seed)
+    eps = mpmath.mpf(10) ** (-series.digits)
+    cs = [c if isinstance(c, int) else c * (1 + eps * (2 * rnd.random() - 1)) for c in series.coefficients]
+    return replace(series, coefficients=tuple(cs))
+
+
+def _widen(e: Estimate, other: Optional[Estimate], factor=1):
+    if e is None or other is None:
+        return e
+    d = abs(other.value - e.value) * factor
+    if d <= e.error:
+        return e
+    return Estimate(e.value, min(e.lower, e.value - d), max(e.upper, e.value + d))
+
+
+def _match(s, others):
+    if not others:
+        return None
+    m = min(others, key=lambda o: abs(o.location - s.location))
+    if abs(m.location - s.location) > 0.05 * abs(s.location) + 3 * _err(s):
+        return None
+    return m
+
+
+def _verify(series, ctx, names, base, warnings):
+    """Reruns with fewer terms and at higher precision; widen bands to cover them."""
+    info = {}
+    reruns = {}
+    n = series.n_terms
+    drop = max(2, n // 10)
+    if n - drop >= MIN_TERMS + 4:
+        short = series.truncate(n - drop)
+        reruns["fewer_terms"] = (short, ctx, FEWER_TERMS_FACTOR)
+    if series.digits is None:
+        reruns["higher_precision"] = (series, ctx.higher(), SAFETY)
+    else:
+        reruns["perturbed_input"] = (_perturbed(series), ctx, SAFETY)
+    rad, sings = base["radius"], list(base["singularities"])
+    borel, borel_b = base["borel"], base["borel_b"]
+    for key, (s2, c2, factor) in reruns.items():
+        res2 = _run(s2, c2, names)
+        w2 = []
+        r2 = _reconcile(s2, res2, w2)
+        entry = {"n_terms": s2.n_terms, "dps": c2.dps}
+        if rad is not None and r2["radius"] is not None and mpmath.isfinite(rad.value):
+            entry["radius_digits_agree"] = digits_agree(rad.value, r2["radius"].value)
+            rad_w = _widen(rad, r2["radius"], factor)
+            if rad_w is not rad:
+                entry["radius_widened"] = True
+            rad = rad_w
+        if borel is not None and r2["borel"] is not None:
+            entry["borel_digits_agree"] = digits_agree(borel.value, r2["borel"].value)
+            borel = _widen(borel, r2["borel"], factor)
+            if borel_b is not None and r2["borel_b"] is not None:
+                entry["borel_exponent_digits_agree"] = digits_agree(borel_b.value, r2["borel_b"].value)
+                borel_b = _widen(borel_b, r2["borel_b"], factor)
+        new = []
+        per = []
+        for s in sings:
+            m = _match(s, list(r2["singularities"]))
+            if m is None:
+                per.append({"location": s.location, "matched": False})
+                new.append(s)
+                continue
+            re, im = _widen(s.re, m.re, factor), _widen(s.im, m.im, factor)
+            ex = s.exponent
+            d = {"location": s.location, "matched": True,
+                 "location_digits_agree": digits_agree(s.location, m.location)}
+            if ex is not None and m.exponent is not None:
+                d["exponent_digits_agree"] = digits_agree(ex.value, m.exponent.value)
+                ex = _widen(ex, m.exponent, factor)
+            per.append(d)
+            new.append(replace(s, re=re, im=im, exponent=ex,
+                               kind=classify_kind(ex) if ex is not None else s.kind))
+        sings = new
+        entry["singularities"] = per
+        if r2["growth"] != base["growth"]:
+            warnings.append(f"growth verdict changes with {key.replace('_', ' ')}: "
+                            f"{base['growth']} -> {r2['growth']}")
+        info[key] = entry
+    # the radius follows the nearest (widened) singularity
+    if sings and base["growth"] == "finite radius":
+        near = min(sings, key=lambda s: abs(s.location))
+        rb = modulus_band(near.re, near.im)
+        rad = Estimate(rad.value, min(rad.lower, rb.lower), max(rad.upper, rb.upper)) if rad else rb
+    hp = info.get("higher_precision") or info.get("perturbed_input")
+    if hp is not None and "radius_digits_agree" in hp and rad is not None and rad.error > 0:
+        need = rad.digits()
+        if hp["radius_digits_agree"] + 0.5 < min(need, ctx.dps):
+            warnings.append(f"precision limits the result: the radius agrees to "
+                            f"{hp['radius_digits_agree']:.1f} digits between reruns; raise the precision "
+                            "or give more digits")
+    return {"radius": rad, "singularities": tuple(sings), "borel": borel, "borel_b": borel_b}, info
+
+
+def analyze(series, ctx: Optional[Context] = None, methods=None, verify: bool = True) -> AnalysisResult:
+    """Radius, leading singularities and growth type of a power series, with bands.
+
+    Parameters
+    ----------
+    series : Series
+        Power series in its expansion variable (``start >= 0``).
+    ctx : Context, optional
+        Working precision (default :func:`default_context`).
+    methods : list of str, optional
+        Registry names (see :data:`resum.estimators.METHODS`); default all.
+    verify : bool
+        Rerun with fewer terms and at higher precision (or perturbed input)
+        and widen the bands to cover what changes.
+
+    Returns
+    -------
+    AnalysisResult
+        See the module Notes on how to read its bands; ``diagnostics["how"]``
+        repeats it for the result at hand.
+    """
+    names = validate_methods(methods)
+    ctx = ctx or default_context(series)
+    prep = prepare(series, ctx)          # input errors surface here
+    with ctx.working():
+        return _analyze(series, ctx, names, verify, prep)
+
+
+def _analyze(series, ctx, names, verify, prep):
+    t0 = time.perf_counter()
+    results = _run(series, ctx, names)
+    warnings = []
+    base = _reconcile(series, results, warnings)
+    verification = {}
+    final = dict(base)
+    if verify and base["radius"] is not None:
+        contributing = [k for k, r in results.items() if r.success]
+        final_v, verification = _verify(series, ctx, contributing, base, warnings)
+        final.update(final_v)
+    growth = base["growth"]
+    n_ok = sum(1 for r in results.values() if r.success)
+    if final["radius"] is None:
+        status, success = Status.NOT_CONVERGED, False
+        msg = "no estimator converged; " + "; ".join(f"{k}: {r.message}" for k, r in results.items()
+                                                    if r.message)
+    else:
+        success = True
+        status = Status.CONVERGED
+        msg = f"{n_ok} of {len(results)} methods converged"
+        if any(w.startswith("methods disagree") for w in warnings):
+            status = Status.DISAGREE
+        if any(w.startswith("precision limits") for w in warnings):
+            status = Status.UNSTABLE_PRECISION
+    if prep.n_terms < 20:
+        warnings.append(f"only {prep.n_terms} terms: estimates are rough")
+    how = ("Each method's band: safety factor " f"{SAFETY}" " x spread of its stable estimates across orders "
+           "(see each method's 'how'). Combined: the narrowest band among methods finding the same point, "
+           "widened to touch every other method's band. ")
+    if verification:
+        how += ("Verification: reran with fewer terms"
+                + (" and at higher precision" if series.digits is None else " and with input perturbed in the last digit")
+                + "; bands widened to cover the changes (x" f"{FEWER_TERMS_FACTOR}" " the fewer-terms change, x"
+                f"{SAFETY}" " the precision change).")
+    diag = {"how": how, "verification": verification, "combined": base["combined"],
+            "seconds": round(time.perf_counter() - t0, 3), "dps": ctx.dps, "n_terms": series.n_terms,
+            "variable": series.variable}
+    if series.coupling is not None:
+        diag["coupling"] = series.coupling.describe(series.variable)
+    prov = Provenance("analyze", {"methods": names, "verify": verify}, series.n_terms, ctx.dps,
+                      series.input_hash(), __version__)
+    return AnalysisResult(success=success, status=status, message=msg, radius=final["radius"],
+                          singularities=tuple(final["singularities"]), growth=growth,
+                          borel_singularity=final["borel"], borel_exponent=final["borel_b"],
+                          methods=results, warnings=tuple(warnings), diagnostics=diag, provenance=prov)

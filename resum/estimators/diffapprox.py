@@ -1,0 +1,210 @@
+"""Inhomogeneous differential approximants of first and second order.
+
+>>> import mpmath
+>>> from resum.series import Series
+>>> from resum.context import Context
+>>> c = [1]
+>>> for n in range(1, 40):            # (1 - 4x)^(-1/2): c_n = binomial(2n, n)
+...     c.append(c[-1] * 2 * (2 * n - 1) // n)
+>>> s = estimate_diffapprox(Series(c), Context(dps=40)).singularities[0]
+>>> s.re.contains(0.25), s.exponent.contains(-0.5)
+(True, True)
+
+Notes
+-----
+An approximant of order ``K`` with degrees ``(L; M_0, ..., M_K)`` is the
+linear ODE ``sum_j Q_j(x) f^(j)(x) + P(x) = O(x^T)`` whose polynomial
+coefficients are fixed by the first ``T`` series terms (``Q_K(0) = 1``).
+Its solutions are singular only at zeros of ``Q_K``. At a simple zero
+``x_c``:
+
+* ``K = 1``: ``f ~ (1 - x/x_c)^theta`` with ``theta = -Q_0(x_c)/Q_1'(x_c)``;
+* ``K = 2``: the exponents are 0 (the analytic background) and
+  ``theta = 1 - Q_1(x_c)/Q_2'(x_c)``.
+
+``theta = 0`` is a logarithm (``f' ~ 1/(x_c - x)``). The inhomogeneous term
+and, for ``K = 2``, the second solution absorb analytic backgrounds and
+additive singular terms, so several singularities and confluent
+corrections are handled better than by Dlog-Padé.
+
+An ensemble of approximants with total order near the maximum and nearly
+equal degrees is computed; zeros of ``Q_K`` that recur in at least half of
+them form clusters. Bands: safety factor (2) times the spread (after
+dropping outliers more than 6 median absolute deviations away) of the
+locations and exponents across the ensemble. Approximants whose linear
+system loses the working precision are skipped.
+
+Applicability: D-finite functions are reproduced exactly; algebraic, log
+and confluent singularities, also several at once, to high accuracy;
+natural boundaries and essential singularities poorly.
+
+References
+----------
+A. J. Guttmann and G. S. Joyce, J. Phys. A 5 (1972) L81 (differential
+approximants); A. J. Guttmann, in *Phase Transitions and Critical
+Phenomena* vol. 13, eds. C. Domb and J. L. Lebowitz, Academic Press (1989);
+D. L. Hunter and G. A. Baker, Phys. Rev. B 7 (1973) 3346 (inhomogeneous
+first-order approximants; from memory).
+"""
+from __future__ import annotations
+
+import math
+
+import mpmath
+
+from ..results import Status
+from ..uncertainty.ensemble import SAFETY
+from ._common import failed, finish, prepare
+from ._num import poly_roots, polyder, polyval, solve
+from .pade_sing import clusters_to_singularities
+from .ratio import classify_growth
+
+__all__ = ["estimate_diffapprox", "diffapprox_orders", "fit_diffapprox"]
+
+
+def _deriv_coeffs(c, K):
+    """D[j][n]: coefficient of x^n in f^(j)."""
+    out = []
+    for j in range(K + 1):
+        out.append([c[n + j] * mpmath.mpf(math.factorial(n + j) // math.factorial(n))
+                    for n in range(len(c) - j)])
+    return out
+
+
+def fit_diffapprox(D, K, L, Ms, dps):
+    """Polynomials ``Q_0..Q_K`` of the approximant ``(L; Ms)`` (P eliminated).
+
+    Uses the equations for the coefficients of ``x^n``, ``n = L+1 .. L+S``
+    with ``S = sum(M_j + 1) - 1`` unknowns. Returns ``(Q, rel_err)`` or None.
+    """
+    S = sum(M + 1 for M in Ms) - 1
+    unknowns = [(j, i) for j in range(K + 1) for i in range(Ms[j] + 1) if not (j == K and i == 0)]
+    rows, rhs = [], []
+    for n in range(L + 1, L + S + 1):
+        if n > len(D[K]) - 1:
+            return None
+        rows.append([D[j][n - i] if n - i >= 0 else 0 for j, i in unknowns])
+        rhs.append(-D[K][n])
+    sol = solve(rows, rhs, dps)
+    if sol is None:
+        return None
+    x, err = sol
+    Q = [[mpmath.mpf(0)] * (M + 1) for M in Ms]
+    Q[K][0] = mpmath.mpf(1)
+    for (j, i), v in zip(unknowns, x):
+        Q[j][i] = v
+    return Q, err
+
+
+def diffapprox_orders(N, K, count=16, Ls=(0, 1, 2, 4, 6)):
+    """Degrees ``(L, Ms)`` using (almost) all ``N`` coefficients."""
+    out = []
+    if K == 1:
+        shifts = [(0,), (1,), (-1,)]
+    else:
+        shifts = [(0, 0), (1, 0), (0, 1), (-1, 0), (0, -1)]
+    for t in range(0, 3):
+        for L in Ls:
+            for sh in shifts:
+                # S + L = N - 1 - K - t, S = (K+1) M + sum(sh) + K
+                rest = N - 1 - K - t - L - K - sum(sh)
+                if rest % (K + 1):
+                    continue
+                M = rest // (K + 1)
+                Ms = [M + d for d in sh] + [M]
+                if min(Ms) < 1:
+                    continue
+                out.append((L, Ms))
+                if len(out) >= count:
+                    return out
+    return out
+
+
+def exponent_at(Q, K, z):
+    """Critical exponent of the approximant at a simple zero ``z`` of ``Q_K``."""
+    dQK = polyval(polyder(Q[K]), z)
+    if dQK == 0:
+        return None
+    if K == 1:
+        return -polyval(Q[0], z) / dQK
+    return 1 - polyval(Q[K - 1], z) / dQK
+
+
+def estimate_diffapprox(series, ctx=None, order=1, count=16, max_radius_factor=2.5):
+    """Singularities from an ensemble of inhomogeneous differential approximants.
+
+    Parameters
+    ----------
+    series : Series
+    ctx : Context, optional
+    order : {1, 2}
+        Order ``K`` of the differential equation.
+    count : int
+        Number of approximants in the ensemble.
+    """
+    method = "diff-approx" if order == 1 else f"diff-approx{order}"
+    if order not in (1, 2):
+        from ..errors import InputError
+        raise InputError(f"differential approximant order must be 1 or 2, got {order}", where="order")
+    prep = prepare(series, ctx, min_terms=10 + 3 * order)
+    with prep.ctx.working():
+        c = prep.c
+        growth, kappa = classify_growth(c)
+        if growth == "factorial":
+            return failed(method, Status.NOT_APPLICABLE, "factorially divergent series: radius 0", prep)
+        K = order
+        D = _deriv_coeffs(c, K)
+        N = len(c)
+        max_err = 10.0 ** -max(4, prep.digits / 3)
+        ens, skipped, table = [], [], []
+        # highest orders first; a degenerate (exactly D-finite) or ill-conditioned top of the
+        # table is followed by lower total orders until enough approximants are regular
+        plan = [(L, Ms) for L, Ms in diffapprox_orders(N, K, count)]
+        step = max(2, N // 15)
+        lowers = sorted(set(range(N - step, 4 * (K + 1) + 1, -step)) |
+                        set(range(min(24, N - 1), 4 * (K + 1) + 1, -1)), reverse=True)
+        for lower in lowers:
+            plan.extend(diffapprox_orders(lower, K, max(4, count // 3)))
+        tried = 0
+        for L, Ms in plan:
+            tried += 1
+            if tried > count and len(ens) >= max(3, count // 2):
+                break
+            fit = fit_diffapprox(D, K, L, Ms, prep.dps)
+            if fit is None or fit[1] > max_err:
+                skipped.append((L, tuple(Ms)))
+                continue
+            Q, err = fit
+            roots = poly_roots(Q[K], prep.dps)
+            if not roots:
+                skipped.append((L, tuple(Ms)))
+                continue
+            pts = []
+            for z in roots:
+                th = exponent_at(Q, K, z)
+                if th is not None and mpmath.isfinite(th):
+                    pts.append((z, th))
+            ens.append({"L": L, "M": tuple(Ms), "poles": pts, "zeros": [], "spurious": [], "rel_err": err})
+            table.append({"L": L, "M": list(Ms), "roots": [z for z, _ in pts],
+                          "exponents": [t for _, t in pts]})
+        if len(ens) < 3:
+            return failed(method, Status.UNSTABLE_PRECISION,
+                          f"only {len(ens)} approximants solvable at {prep.dps} digits; raise the precision",
+                          prep, {"skipped": skipped})
+        sings, info = clusters_to_singularities(ens, method, prep.eps, residue_is_exponent=True,
+                                                real_series=not prep.is_complex,
+                                                radius_factor=max_radius_factor, detect_cuts=False)
+        how = (f"{len(ens)} inhomogeneous differential approximants of order {K} (L in 0..6, degrees of the "
+               "Q_j within 1 of each other, total order within 2 of the maximum); zeros of Q_K found in at "
+               f"least half of them clustered; band = {SAFETY} x spread of locations and exponents.")
+        diag = {"how": how, "order": K, "approximants": table, "skipped": skipped, **info}
+        if K == 2:
+            # a zero of Q_2 with exponents 0 and a positive integer is usually an apparent
+            # singularity of the approximating equation, not of f
+            sings = [s for s in sings if not (s.exponent is not None and s.exponent.width < 0.2
+                                              and s.exponent.value > 0.5
+                                              and abs(s.exponent.value - mpmath.nint(s.exponent.value))
+                                              <= max(s.exponent.error, mpmath.mpf(10) ** -6))]
+        if not sings:
+            return failed(method, Status.NOT_CONVERGED, "no zero of Q_K recurs across the ensemble", prep, diag)
+        return finish(method, prep, sings, diagnostics=diag, order=K, count=count)
