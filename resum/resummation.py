@@ -1,0 +1,644 @@
+"""Evaluate a series beyond its radius and at strong coupling: :func:`evaluate`.
+
+``evaluate(series, points)`` returns an :class:`EvaluationResult` with, per
+point, a resummed value with a band, the method used, a status, and the
+optimal-truncation baseline beside it.
+
+Methods (exact registry keys, see :data:`METHODS`):
+
+``partial-sum``
+    plain partial sums (inside the disk of convergence only);
+``pade``
+    near-diagonal Padé approximants in the expansion variable;
+``conformal-pade``
+    conformal map of the cut plane onto the disk, re-expansion, Padé in the
+    disk variable (map from the given singularities, the analysis, or the
+    approximants' poles);
+``borel-pade``
+    Borel(-Le Roy) transform, Padé in the Borel plane, Laplace integral;
+    lateral sums when a singularity sits on the integration ray;
+``borel-conformal-pade``
+    Borel transform, conformal map of the Borel plane cut from its nearest
+    singularity, Padé in the disk variable, Laplace integral;
+``auto``
+    factorial growth -> Borel methods (conformal when the nearest Borel
+    singularity is off the positive axis), finite radius -> conformal-Padé
+    when a map can be chosen, else Padé; points well inside the disk ->
+    partial sums.
+
+What a band means: the spread of the stable approximants of the last few
+orders (widened by a factor 2), never narrower than the quadrature error
+and the working precision; with ``verify=True`` (default) the whole
+computation is rerun at higher precision (with inexact coefficients moved
+by one unit in their last digit) and with fewer terms, and the band is
+widened to cover the reruns. It is an estimate of the error, not a proof.
+
+>>> from resum.series import Series
+>>> s = Series([(-1) ** n * __import__("math").factorial(n) for n in range(30)])   # Euler series
+>>> r = evaluate(s, ["0.5"], method="borel-pade", verify=False)
+>>> import mpmath
+>>> from resum.context import workdps
+>>> with workdps(50):
+...     truth = 2 * mpmath.e ** 2 * mpmath.e1(2)          # e^{1/x} E_1(1/x)/x, x = 1/2
+...     ok = r.points[0].value.contains(truth)
+>>> ok, r.points[0].value.digits() > 25
+(True, True)
+"""
+from __future__ import annotations
+
+import time
+from dataclasses import dataclass, field, replace
+from typing import Any, Optional, Sequence
+
+import mpmath
+
+from .context import DEFAULT, Context
+from .errors import InputError
+from .results import Estimate, Provenance, Status, num_to_str, jsonable
+from .series.core import Series
+from .estimators.resum_band import PointOutcome, rational_fit
+from .estimators.resum_truncation import optimal_truncation
+from .transforms.conformal import ArcMap, ConformalMap, RayMap, choose_map
+
+__all__ = ["METHODS", "evaluate", "EvaluationResult", "PointResult", "Baseline",
+           "probe_strong_coupling", "parse_points"]
+
+METHODS = ("auto", "partial-sum", "pade", "conformal-pade", "borel-pade", "borel-conformal-pade")
+
+
+# ---------------------------------------------------------------------------- results
+@dataclass(frozen=True)
+class Baseline:
+    """Optimal truncation at one point: sum up to the smallest term, band +- that term."""
+
+    value: Estimate
+    imag: Optional[Estimate]
+    n_terms: int
+    smallest_term: Any
+    reached: bool
+    how: str
+
+    def to_dict(self) -> dict:
+        return {"value": self.value.to_dict(), "imag": None if self.imag is None else self.imag.to_dict(),
+                "n_terms": self.n_terms, "smallest_term": num_to_str(mpmath.mpf(self.smallest_term), 20),
+                "reached": self.reached, "how": self.how}
+
+    @classmethod
+    def from_dict(cls, d: dict) -> "Baseline":
+        return cls(Estimate.from_dict(d["value"]), None if d.get("imag") is None else Estimate.from_dict(d["imag"]),
+                   int(d["n_terms"]), mpmath.mpf(d["smallest_term"]), bool(d["reached"]), d.get("how", ""))
+
+
+@dataclass(frozen=True)
+class PointResult:
+    """The resummed value at one point.
+
+    ``at`` is the point as the user gave it (the coupling ``g`` when the
+    series declares one, else the expansion variable); ``x`` is the
+    expansion variable. ``value`` is the real part, ``imag`` the imaginary
+    part (for lateral sums: the ambiguity ``(S+ - S-)/(2i)``, so the two
+    lateral sums are ``value +- i imag``). ``None`` values mean failure; see
+    ``status`` and ``message``.
+    """
+
+    at: Any
+    x: Any
+    value: Optional[Estimate]
+    imag: Optional[Estimate]
+    method: str
+    success: bool
+    status: Status
+    message: str
+    baseline: Optional[Baseline]
+    diagnostics: dict = field(default_factory=dict)
+
+    @property
+    def digits(self) -> float:
+        return 0.0 if self.value is None else self.value.digits()
+
+    def to_dict(self) -> dict:
+        return {"at": num_to_str(self.at, 30), "x": num_to_str(self.x, 30),
+                "value": None if self.value is None else self.value.to_dict(),
+                "imag": None if self.imag is None else self.imag.to_dict(),
+                "method": self.method, "success": self.success, "status": self.status.value,
+                "message": self.message,
+                "baseline": None if self.baseline is None else self.baseline.to_dict(),
+                "diagnostics": jsonable(self.diagnostics)}
+
+    @classmethod
+    def from_dict(cls, d: dict) -> "PointResult":
+        est = lambda k: None if d.get(k) is None else Estimate.from_dict(d[k])  # noqa: E731
+        return cls(_num(d["at"]), _num(d["x"]), est("value"), est("imag"), d["method"], bool(d["success"]), Status(d["status"]),
+                   d.get("message", ""), None if d.get("baseline") is None else Baseline.from_dict(d["baseline"]),
+                   dict(d.get("diagnostics", {})))
+
+
+@dataclass(frozen=True)
+class EvaluationResult:
+    """What :func:`evaluate` returns: one :class:`PointResult` per point."""
+
+    points: tuple
+    method: str
+    success: bool
+    status: Status
+    message: str = ""
+    warnings: tuple = ()
+    variable: str = "x"
+    coupling: Optional[str] = None
+    diagnostics: dict = field(default_factory=dict)
+    provenance: Optional[Provenance] = None
+
+    def to_dict(self) -> dict:
+        return {"points": [p.to_dict() for p in self.points], "method": self.method,
+                "success": self.success, "status": self.status.value, "message": self.message,
+                "warnings": list(self.warnings), "variable": self.variable, "coupling": self.coupling,
+                "diagnostics": jsonable(self.diagnostics),
+                "provenance": None if self.provenance is None else self.provenance.to_dict()}
+
+    @classmethod
+    def from_dict(cls, d: dict) -> "EvaluationResult":
+        return cls(tuple(PointResult.from_dict(p) for p in d["points"]), d["method"], bool(d["success"]),
+                   Status(d["status"]), d.get("message", ""), tuple(d.get("warnings", [])),
+                   d.get("variable", "x"), d.get("coupling"), dict(d.get("diagnostics", {})),
+                   None if d.get("provenance") is None else Provenance.from_dict(d["provenance"]))
+
+    def contract_dict(self) -> dict:
+        """The small, stable JSON document: values with bands as decimal strings.
+
+        ``{"values": [{"at", "value", "lo", "hi", "method"} (+ "im", "im_lo", "im_hi")],
+        "warnings": [...]}``; a failed point has ``value``/``lo``/``hi`` = ``"nan"``.
+        """
+        vals = []
+        for p in self.points:
+            if p.value is None:
+                row = {"at": num_to_str(p.at, 30), "value": "nan", "lo": "nan", "hi": "nan",
+                       "method": p.method}
+            else:
+                e = p.value.to_dict()
+                row = {"at": num_to_str(p.at, 30), "value": e["value"], "lo": e["lo"], "hi": e["hi"],
+                       "method": p.method}
+                if p.imag is not None:
+                    i = p.imag.to_dict()
+                    row.update({"im": i["value"], "im_lo": i["lo"], "im_hi": i["hi"]})
+            vals.append(row)
+        return {"values": vals, "warnings": list(self.warnings)}
+
+
+def _num(s: str):
+    from .results import str_to_num
+    v = str_to_num(s)
+    return v if isinstance(v, (mpmath.mpf, mpmath.mpc)) else mpmath.mpmathify(v)
+
+
+# ---------------------------------------------------------------------------- inputs
+def parse_points(points, dps: int) -> list:
+    """Numbers or strings (decimals or expressions such as ``"sqrt(2)/4"``) to mpmath numbers."""
+    if isinstance(points, (str, int, float)) or not hasattr(points, "__iter__"):
+        points = [points]
+    out = []
+    for k, p in enumerate(points):
+        if isinstance(p, str):
+            txt = p.strip()
+            try:
+                from .series.expr import evaluate_expression
+                v = evaluate_expression(txt, dps).value     # decimals are taken as exact points
+                v = _to_mp(v)
+            except InputError as exc:
+                raise exc.at(f"point {k + 1}") from None
+            except ImportError:  # pragma: no cover - parser always present in a full checkout
+                try:
+                    v = mpmath.mpmathify(txt)
+                except (ValueError, TypeError):
+                    raise InputError(f"cannot read point {txt!r}; give a decimal number",
+                                     where=f"point {k + 1}") from None
+        elif isinstance(p, bool):
+            raise InputError("a point must be a number, not a boolean", where=f"point {k + 1}")
+        else:
+            try:
+                v = _to_mp(p)
+            except (TypeError, ValueError):
+                raise InputError(f"point {p!r} is not a number", where=f"point {k + 1}") from None
+        if not mpmath.isfinite(abs(v)):
+            raise InputError(f"point {p!r} is not finite", where=f"point {k + 1}")
+        out.append(v)
+    if not out:
+        raise InputError("no evaluation point given; pass at least one point")
+    return out
+
+
+def _to_mp(v):
+    from fractions import Fraction
+    if isinstance(v, Fraction):
+        return mpmath.mpf(v.numerator) / v.denominator
+    return mpmath.mpmathify(v)
+
+
+def _check_method(method: str) -> str:
+    if method not in METHODS:
+        raise InputError(f"unknown method {method!r}; choose one of: {', '.join(METHODS)}",
+                         where="method")
+    return method
+
+
+# ---------------------------------------------------------------------------- growth probes
+def _growth(c) -> dict:
+    """Quick growth probe (own, cheap): factorial vs geometric from the ratios.
+
+    Fits ``|c_n / c_{n-1}| = a n + r`` over the last half of the non-zero
+    coefficients; factorial growth when the term ``a n`` dominates ``r``
+    (common practice, no source). Returns ``{"factorial": bool, "a", "r"}``.
+    """
+    idx = [k for k, v in enumerate(c) if v != 0]
+    pairs = []
+    for i in range(1, len(idx)):
+        k0, k1 = idx[i - 1], idx[i]
+        step = k1 - k0
+        rr = abs(c[k1] / c[k0]) ** (mpmath.mpf(1) / step)
+        pairs.append((mpmath.mpf(k1), rr))
+    if len(pairs) < 6:
+        return {"factorial": False, "a": 0, "r": 0}
+    half = pairs[len(pairs) // 2:]
+    n = [p[0] for p in half]
+    y = [p[1] for p in half]
+    m = len(n)
+    sn, sy = sum(n), sum(y)
+    snn = sum(v * v for v in n)
+    sny = sum(a * b for a, b in zip(n, y))
+    den = m * snn - sn * sn
+    a = (m * sny - sn * sy) / den if den != 0 else mpmath.mpf(0)
+    r = (sy - a * sn) / m
+    nmax = n[-1]
+    fact = a > 0 and a * nmax > 2 * abs(r) and a * nmax > mpmath.mpf("0.5") * max(y)
+    return {"factorial": bool(fact), "a": a, "r": r}
+
+
+def _nearest_singularity(d):
+    """Nearest singularity of the function with Taylor coefficients ``d`` (own quick probe).
+
+    Real singularity: when the ratios ``d_{n-1}/d_n`` of the last coefficients
+    keep one sign, fit ``A (1 + beta/n + gamma/n^2)`` to them (ratio method,
+    common practice, no source). Otherwise the nearest pole (with a residue
+    that matters) of the top near-diagonal Padé approximant. ``None`` if
+    neither works.
+    """
+    nz = [(k, v) for k, v in enumerate(d) if v != 0]
+    if len(nz) < 8:
+        return None
+    consecutive = all(nz[i][0] == i + nz[0][0] for i in range(len(nz)))
+    if consecutive:
+        tail = [(nz[i][0], nz[i - 1][1] / nz[i][1]) for i in range(max(1, len(nz) - 24), len(nz))]
+        sg = [mpmath.sign(mpmath.re(r)) for _, r in tail]
+        if all(isinstance(r, mpmath.mpf) or mpmath.im(r) == 0 for _, r in tail) and len(set(sg)) == 1:
+            # least squares for r_n = A + B/n + C/n^2
+            rows = [[mpmath.mpf(1), mpmath.mpf(1) / n, mpmath.mpf(1) / n ** 2] for n, _ in tail]
+            rhs = [mpmath.re(r) for _, r in tail]
+            try:
+                sol = mpmath.lu_solve(mpmath.matrix(rows), mpmath.matrix(rhs))
+                return sol[0]
+            except ZeroDivisionError:
+                pass
+    n = len(d)
+    M = (n - 1) // 2
+    r = rational_fit(d, n - 1 - M, M, mpmath.mp.dps)
+    if r is None or M == 0:
+        return None
+    from .estimators.resum_borel import borel_plane_poles
+    scale = max(abs(v) for v in r.p) if r.p else 1
+    poles = [p for p, res in borel_plane_poles(r, mpmath.mp.dps)
+             if abs(res) > mpmath.mpf(10) ** (-mpmath.mp.dps // 2) * scale]
+    if not poles:
+        return None
+    z = min(poles, key=abs)
+    if abs(mpmath.im(z)) < mpmath.mpf("1e-8") * abs(z):
+        z = mpmath.re(z)
+    return z
+
+
+def _borel_singularity(c, b=0):
+    """Nearest singularity of the Borel transform (see :func:`_nearest_singularity`)."""
+    from .transforms.borel import borel_coefficients
+    return _nearest_singularity(borel_coefficients(c, b))
+
+
+def _series_singularities(c):
+    """The nearest singularity of the series (and its conjugate if complex), for choosing a map."""
+    z = _nearest_singularity(c)
+    if z is None:
+        return []
+    if isinstance(z, mpmath.mpc):
+        return [z, mpmath.conj(z)]
+    return [z]
+
+
+def _analysis(series, ctx):
+    """The analysis engineer's verdict, if that module is available (else None)."""
+    try:
+        from .analysis import analyze  # noqa: WPS433
+    except ImportError:
+        return None
+    try:
+        return analyze(series, ctx)
+    except InputError:
+        raise
+    except Exception:  # noqa: BLE001 - the analysis is an aid; evaluation goes on without it
+        return None
+
+
+# ---------------------------------------------------------------------------- core
+@dataclass(frozen=True)
+class _Plan:
+    method: str
+    cmap: Optional[ConformalMap] = None
+    borel_b: Any = 0
+    alpha: Any = None
+    lateral: str = "auto"
+    why: str = ""
+
+
+def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map, alpha,
+          lateral, large_x_power, use_analysis, warnings) -> _Plan:
+    """Choose the method and its parameters (map, Borel parameter)."""
+    an = None
+    g = _growth(c)
+    if method == "auto" and use_analysis:
+        an = _analysis(series, ctx)
+    factorial = g["factorial"]
+    if an is not None and getattr(an, "growth", ""):
+        factorial = an.growth == "factorial"
+    b = borel_b
+    if method in ("borel-pade", "borel-conformal-pade") or (method == "auto" and factorial):
+        if b is None:
+            b = 0
+            if an is not None and getattr(an, "borel_exponent", None) is not None:
+                b0 = an.borel_exponent.value
+                if mpmath.isfinite(b0) and b0 - 1 > -1 and abs(b0) < 10:
+                    b = 0       # the transform with b = 0 is kept; b0 recorded for the report
+        tm = borel_map
+        A = None
+        if tm is None or tm == "auto":
+            if an is not None and getattr(an, "borel_singularity", None) is not None:
+                A = an.borel_singularity.value
+            else:
+                A = _borel_singularity(c, b)
+            tm = None
+            if A is not None and not (mpmath.re(A) > 0 and abs(mpmath.im(A)) < 1e-6 * abs(A)):
+                tm = RayMap(A)
+        if method == "auto":
+            m = "borel-conformal-pade" if tm is not None else "borel-pade"
+        else:
+            m = method
+        if m == "borel-conformal-pade" and tm is None:
+            raise InputError("borel-conformal-pade needs a map of the Borel plane: no singularity off the "
+                             "positive axis was found; give borel_map or use borel-pade", where="method")
+        if m == "borel-pade":
+            tm = None
+        why = ("factorial growth" if factorial else "requested") + (
+            f"; nearest Borel singularity t = {mpmath.nstr(A, 10)}" if A is not None else "")
+        return _Plan(m, tm, b, alpha, lateral, why)
+    # convergent family
+    if method == "partial-sum":
+        return _Plan("partial-sum", why="requested")
+    if method == "pade":
+        return _Plan("pade", why="requested")
+    radius = None
+    sings = list(singularities) if singularities else None
+    if cmap is None and sings is None and an is not None and getattr(an, "singularities", ()):
+        sings = list(an.singularities)
+    if an is not None and getattr(an, "radius", None) is not None:
+        radius = an.radius.value
+    if cmap is None and sings is None and method in ("auto", "conformal-pade"):
+        sings = _series_singularities(c)
+    if radius is None and sings:
+        z = sings[0]
+        radius = abs(z.location if hasattr(z, "location") else z)
+    chosen = cmap if cmap is not None else (choose_map(sings) if sings else None)
+    if method == "auto":
+        if radius is not None and all(abs(x) < radius / 4 for x in xs):
+            return _Plan("partial-sum", why=f"all points inside a quarter of the radius {mpmath.nstr(radius, 8)}")
+        if chosen is not None:
+            return _Plan("conformal-pade", chosen, alpha=_alpha_for(chosen, alpha, large_x_power),
+                         why=f"finite radius; map: {chosen.describe()}")
+        return _Plan("pade", why="finite radius; no map could be chosen")
+    if chosen is None:
+        raise InputError("conformal-pade needs singularities to build a map and none were found; "
+                         "give singularities=[...] or a map", where="method")
+    return _Plan("conformal-pade", chosen, alpha=_alpha_for(chosen, alpha, large_x_power),
+                 why=f"map: {chosen.describe()}")
+
+
+def _alpha_for(cmap, alpha, large_x_power):
+    if alpha is not None:
+        return alpha
+    if large_x_power is None:
+        return None
+    p = mpmath.mpmathify(large_x_power)
+    return 2 * p if isinstance(cmap, RayMap) else p
+
+
+def _run(plan: _Plan, c, xs, dps, n_orders):
+    from .estimators.resum_borel import borel_evaluate
+    from .estimators.resum_conformal import conformal_evaluate
+    from .estimators.resum_pade import pade_evaluate, partial_sum_evaluate
+    if plan.method == "partial-sum":
+        return partial_sum_evaluate(c, xs, dps, n_orders=n_orders or 8)
+    if plan.method == "pade":
+        return pade_evaluate(c, xs, dps, n_orders=n_orders or 8)
+    if plan.method == "conformal-pade":
+        return conformal_evaluate(c, xs, plan.cmap, dps, alpha=plan.alpha, n_orders=n_orders or 8)
+    return borel_evaluate(c, xs, dps, b=plan.borel_b, cmap=plan.cmap, alpha=plan.alpha,
+                          n_orders=n_orders or 6, lateral=plan.lateral)
+
+
+def _perturb(c, digits):
+    """Move inexact coefficients by one unit in their last carried digit (alternating sign)."""
+    if digits is None:
+        return c
+    eps = mpmath.mpf(10) ** (-digits)
+    return [v * (1 + (eps if k % 2 else -eps)) for k, v in enumerate(c)]
+
+
+def _widen(est: Optional[Estimate], others) -> Optional[Estimate]:
+    if est is None:
+        return None
+    lo, hi = est.lower, est.upper
+    for o in others:
+        if o is None:
+            continue
+        d = abs(o.value - est.value) * 2
+        lo, hi = min(lo, est.value - d), max(hi, est.value + d)
+    return Estimate(est.value, lo, hi)
+
+
+def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str = "auto",
+             verify: bool = True, *, cmap: Optional[ConformalMap] = None, singularities=None,
+             borel_b=None, borel_map=None, alpha=None, large_x_power=None, lateral: str = "auto",
+             n_orders: Optional[int] = None, use_analysis: bool = True,
+             work_dps: Optional[int] = None) -> EvaluationResult:
+    """Resummed values of ``series`` at ``points``, with bands.
+
+    Parameters
+    ----------
+    series : Series
+        Coefficients from the expansion variable's power ``start >= 0``.
+    points : sequence of numbers or strings
+        Where to evaluate: the coupling ``g`` if the series declares one
+        (``x = coupling.to_variable(g)``), else the expansion variable.
+        Strings may be expressions (``"1/4"``, ``"sqrt(2)"``).
+    ctx : Context
+        Digits wanted (``ctx.dps``); the work runs at ``work_dps`` (default
+        ``ctx.work_dps + n_terms // 2``: Padé systems of long series lose digits).
+    method : str
+        One of :data:`METHODS`; unknown -> :class:`~resum.errors.InputError`.
+    verify : bool
+        Rerun at higher precision (inexact coefficients moved by one unit in
+        their last digit) and with fewer terms; widen bands to cover the
+        reruns; flag points whose reruns disagree.
+    cmap : ConformalMap, optional
+        The map for ``conformal-pade`` (default: chosen from ``singularities``,
+        the analysis, or the approximants' poles).
+    singularities : sequence, optional
+        Singular points in the expansion variable (numbers or
+        :class:`~resum.results.Singularity`) to choose the map from.
+    borel_b : number, optional
+        Borel-Le Roy parameter (default 0).
+    borel_map : ConformalMap or "auto", optional
+        Map of the Borel plane for ``borel-conformal-pade``.
+    alpha, large_x_power : number, optional
+        Rim factor ``(1 - w/w_inf)^alpha`` in the mapped variable, or the
+        expected power ``p`` of ``f ~ x^p`` at large ``x`` from which alpha is set.
+    lateral : {"auto", "always", "never"}
+        Lateral Borel sums when a singularity lies on the integration ray.
+    n_orders : int, optional
+        How many term counts enter the spread (default 8; 6 for Borel).
+
+    Returns
+    -------
+    EvaluationResult
+
+    Notes
+    -----
+    Each band is the spread of stable approximants (``diagnostics["how"]``),
+    widened by the verification reruns. Optimal truncation is computed at
+    every point as a baseline (``PointResult.baseline``).
+    """
+    t0 = time.time()
+    if not isinstance(series, Series):
+        raise InputError("series must be a resum Series", where="series")
+    _check_method(method)
+    if lateral not in ("auto", "always", "never"):
+        raise InputError(f"lateral must be 'auto', 'always' or 'never', got {lateral!r}", where="lateral")
+    ctx = ctx or DEFAULT
+    if series.start < 0:
+        raise InputError(f"series starts at {series.variable}^{series.start}; multiply by "
+                         f"{series.variable}^{-series.start} first", where="series")
+    if series.n_terms < 6:
+        raise InputError(f"only {series.n_terms} terms; resummation needs at least 6", where="series")
+    if series.digits is not None and series.digits < ctx.dps:
+        ctx = ctx.with_dps(max(5, series.digits))
+    wd = work_dps or ctx.work_dps + series.n_terms // 2
+    at = parse_points(points, wd)
+    cpl = series.coupling
+    warnings = []
+    with _wd(wd):
+        xs = [cpl.to_variable(a) if cpl is not None else a for a in at]
+        xs = [mpmath.re(x) if isinstance(x, mpmath.mpc) and x.imag == 0 else x for x in xs]
+        c = series.dense(Context(dps=wd, guard=0))
+        plan = _plan(method, c, xs, series, ctx, cmap=cmap, singularities=singularities,
+                     borel_b=borel_b, borel_map=borel_map, alpha=alpha, lateral=lateral,
+                     large_x_power=large_x_power, use_analysis=use_analysis, warnings=warnings)
+        outs, diag = _run(plan, c, xs, wd, n_orders)
+        checks = [[] for _ in xs]
+        if verify:
+            hi = ctx.higher()
+            wd2 = hi.work_dps + series.n_terms // 2 if work_dps is None else work_dps + 15
+            with _wd(wd2):
+                c2 = series.dense(Context(dps=wd2, guard=0))
+                c2 = _perturb(c2, series.digits)
+                o2, _ = _run(plan, c2, xs, wd2, n_orders)
+            nf = max(6, series.n_terms - max(4, series.n_terms // 10))
+            o3, _ = _run(plan, c[:nf], xs, wd, n_orders)
+            for j in range(len(xs)):
+                checks[j] = [("higher precision", o2[j]), (f"{nf} terms", o3[j])]
+        baselines = []
+        for x in xs:
+            t = optimal_truncation(c, x, wd)
+            baselines.append(Baseline(t["value"], t["imag"], t["n_terms"], t["smallest_term"],
+                                      t["reached"], t["how"]))
+        pts = []
+        n_fail = 0
+        for j, (a, x, o) in enumerate(zip(at, xs, outs)):
+            pdiag = dict(o.info)
+            status, success, msg = Status.CONVERGED, True, ""
+            re, im = o.re, o.im
+            if not o.ok or re is None:
+                status, success, msg = Status.NOT_CONVERGED, False, o.reason or "no stable approximants"
+                n_fail += 1
+            else:
+                agree = {}
+                for name, oc in checks[j]:
+                    if oc is None or not oc.ok or oc.re is None:
+                        agree[name] = "failed"
+                        if name == "higher precision":
+                            status, success = Status.UNSTABLE_PRECISION, False
+                            msg = "the rerun at higher precision failed"
+                        continue
+                    dev = abs(oc.re.value - re.value)
+                    agree[name] = mpmath.nstr(dev, 5)
+                    tol = 100 * max(re.error + oc.re.error, abs(re.value) * mpmath.mpf(10) ** (3 - wd))
+                    if dev > tol:
+                        if name == "higher precision":
+                            status, success = Status.UNSTABLE_PRECISION, False
+                        else:
+                            status, success = Status.UNSTABLE_ORDER, False
+                        msg = f"the {name} rerun moved the value by {mpmath.nstr(dev, 3)}, far outside the band"
+                if checks[j]:
+                    # the precision rerun widens the band; the fewer-terms rerun only checks it
+                    # (its own band must reach the full-order value), and widens when it fails to
+                    prec = [oc for name, oc in checks[j] if name == "higher precision" and oc is not None and oc.ok]
+                    few = [oc for name, oc in checks[j] if name != "higher precision" and oc is not None and oc.ok]
+                    re = _widen(re, [oc.re for oc in prec])
+                    if im is not None:
+                        im = _widen(im, [oc.im for oc in prec])
+                    for oc in few:
+                        if oc.re is not None and not oc.re.contains(re.value) and success:
+                            dev = abs(oc.re.value - re.value)
+                            re = Estimate(re.value, min(re.lower, re.value - dev), max(re.upper, re.value + dev))
+                            warnings.append(f"at {mpmath.nstr(a, 10)}: the band with fewer terms does not reach "
+                                            "the full-order value; band widened to their distance")
+                    pdiag["verification"] = agree
+                if not success:
+                    n_fail += 1
+                    warnings.append(f"at {mpmath.nstr(a, 10)}: {msg}")
+            # never report more digits than the input carries
+            if re is not None and series.digits is not None:
+                fl = abs(re.value) * mpmath.mpf(10) ** (-series.digits)
+                if re.error < fl:
+                    re = Estimate(re.value, re.value - fl, re.value + fl)
+            pts.append(PointResult(a, x, re, im, plan.method, success, status, msg, baselines[j], pdiag))
+    if n_fail == 0:
+        status, success, message = Status.CONVERGED, True, f"{len(pts)} point(s) evaluated"
+    else:
+        status = Status.NOT_CONVERGED if n_fail == len(pts) else Status.FAILED
+        success = False
+        message = f"{n_fail} of {len(pts)} point(s) failed"
+    prov = Provenance(method=plan.method, options={
+        "requested": method, "why": plan.why, "borel_b": str(plan.borel_b),
+        "map": None if plan.cmap is None else plan.cmap.to_dict(),
+        "alpha": None if plan.alpha is None else str(plan.alpha), "lateral": plan.lateral,
+        "n_orders": n_orders, "verify": verify}, n_terms=series.n_terms, dps=wd,
+        input_hash=series.input_hash())
+    diag = dict(diag, why=plan.why, seconds=round(time.time() - t0, 3), reported_dps=ctx.dps)
+    return EvaluationResult(tuple(pts), method, success, status, message, tuple(warnings),
+                            series.variable, None if cpl is None else cpl.describe(series.variable),
+                            diag, prov)
+
+
+def _wd(d):
+    from .context import workdps
+    return workdps(d)
+
+
+def probe_strong_coupling(*args, **kwargs):
+    """See :func:`resum.estimators.strong_coupling.probe_strong_coupling`."""
+    from .estimators.strong_coupling import probe_strong_coupling as _p
+    return _p(*args, **kwargs)
