@@ -51,6 +51,7 @@ import flint
 import mpmath
 
 from . import flint_bridge as fb
+from ..context import workdps
 
 __all__ = ["LinearSolution", "solve", "lstsq", "to_ball_matrix"]
 
@@ -272,7 +273,9 @@ def lstsq(A, b, dps: int, *, input_digits: Optional[float] = None,
                                   "matrix is exactly rank deficient", dps)
         x = [fb.fmpq_to_fraction(xq[i, 0]) for i in range(n)]
         r = bq - Aq * xq
-        res = mpmath.sqrt(sum(mpmath.mpf(fb.fmpq_to_fraction(r[i, 0])) ** 2 for i in range(m)))
+        with workdps(dps + 10):
+            res = +mpmath.sqrt(sum((mpmath.mpf(int(r[i, 0].p)) / int(r[i, 0].q)) ** 2
+                                   for i in range(m)))
         return LinearSolution(x, mpmath.mpf(0), None, res, True, True, "exact normal equations", dps)
     prec = 2 * fb.prec_for_dps(dps) + 64
     with fb.flint_prec(prec):
@@ -296,7 +299,8 @@ def lstsq(A, b, dps: int, *, input_digits: Optional[float] = None,
         r = bb - Ab * xb
         x = [_to_mp(xb[i, 0], cplx) for i in range(n)]
         err = max(_rad(xb[i, 0], cplx) for i in range(n))
-        res = mpmath.sqrt(sum(abs(_to_mp(r[i, 0], cplx)) ** 2 for i in range(m)))
+        with workdps(dps + 10):
+            res = +mpmath.sqrt(sum(abs(_to_mp(r[i, 0], cplx)) ** 2 for i in range(m)))
         cond = mpmath.sqrt(_inf_norm_rows(G, cplx) * _inf_norm_rows(Gi, cplx))
     xmax = max(abs(v) for v in x) or mpmath.mpf(1)
     total = err

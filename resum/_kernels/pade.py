@@ -522,9 +522,13 @@ def _balls(c, cplx):
 def _series_recip(c, n, cplx):
     """1/c to n terms as ball list."""
     S = flint.acb_series if cplx else flint.arb_series
-    s = S(c, prec=n)
-    r = 1 / s
-    co = r.coeffs()
+    old_cap = flint.ctx.cap
+    flint.ctx.cap = max(n, 1)          # series length cap is global in python-flint
+    try:
+        r = 1 / S(list(c)[:n], prec=n)
+        co = r.coeffs()
+    finally:
+        flint.ctx.cap = old_cap
     Z = flint.acb(0) if cplx else flint.arb(0)
     return (list(co) + [Z] * n)[:n]
 
@@ -623,6 +627,18 @@ class _Staircase:
             self.ok_upto = M
 
 
+def _trim_balls(pol, L, tol):
+    """Drop trailing coefficients that are zero to the accuracy (ball contains
+    zero) or to the tolerance (relative to the largest coefficient)."""
+    co = list(pol.coeffs())[:L + 1]
+    if not co:
+        return pol
+    big = max(abs(x.mid()) for x in co)
+    while len(co) > 1 and (co[-1].contains(0) or abs(co[-1].mid()) <= tol * big):
+        co.pop()
+    return type(pol)(co)
+
+
 def _ball_poly_to_list(pol, L):
     co = pol.coeffs()
     conv = fb.acb_to_mpc if isinstance(pol, flint.acb_poly) else fb.arb_to_mpf
@@ -646,8 +662,8 @@ def _tolerance(dps, input_digits, tol):
 
 def _finish_inexact(pb, qb, L, M, requested, v, s, sc, digits, dps, method, diag):
     """Ball polynomials of the deflated, scaled problem -> PadeApprox."""
-    p = _ball_poly_to_list(pb, L)
-    q = _ball_poly_to_list(qb, M)
+    p = _ball_poly_to_list(_trim_balls(pb, L, diag.get("tol", 0)), L)
+    q = _ball_poly_to_list(_trim_balls(qb, M, diag.get("tol", 0)), M)
     return _assemble(p, q, requested, v, s, sc, digits, dps, method, diag)
 
 

@@ -1,0 +1,234 @@
+"""Padé kernels against outside references.
+
+References used below
+- closed form of the [L/M] Padé approximant of exp(x): G. A. Baker, Jr. and
+  P. Graves-Morris, "Padé Approximants", 2nd ed., CUP (1996), sec. 1.2
+  (from memory; checked here against mpmath.pade as well);
+- mpmath.pade (general-purpose reference library, dense LU solve);
+- scipy.interpolate.pade (double precision reference);
+- degree reduction for rational functions: P. Gonnet, S. Güttel and
+  L. N. Trefethen, SIAM Review 55 (2013) 101-117, sec. 2-3 (the [L/M] of a
+  rational function of exact type [l/m], l <= L, m <= M, M - m <= L - l, is
+  that function itself).
+"""
+import math
+import random
+from fractions import Fraction
+
+import mpmath
+import pytest
+
+from resum._kernels.pade import (PadeApprox, guard_digits_for_pade, pade, pade_fp,
+                                 pade_table)
+from resum.context import workdps
+
+
+def exp_pade_closed_form(L, M):
+    # Baker & Graves-Morris (1996) sec. 1.2, from memory
+    n = L + M
+    p = [Fraction(math.factorial(n - j) * math.factorial(L),
+                  math.factorial(n) * math.factorial(j) * math.factorial(L - j))
+         for j in range(L + 1)]
+    q = [Fraction((-1) ** j * math.factorial(n - j) * math.factorial(M),
+                  math.factorial(n) * math.factorial(j) * math.factorial(M - j))
+         for j in range(M + 1)]
+    return p, q
+
+
+def mpf_to_fraction(x):
+    sign, man, exp, _ = x._mpf_
+    m = -int(man) if sign else int(man)
+    return Fraction(m * 2 ** exp) if exp >= 0 else Fraction(m, 2 ** -exp)
+
+
+def frac_to_mp(x):
+    return mpmath.mpf(x.numerator) / x.denominator
+
+
+def digits_agree(a, b):
+    """Normwise agreeing digits of two coefficient lists (b is the reference)."""
+    n = max(len(a), len(b))
+    a = list(a) + [0] * (n - len(a))
+    b = list(b) + [0] * (n - len(b))
+    a = [frac_to_mp(x) if isinstance(x, Fraction) else mpmath.mpmathify(x) for x in a]
+    b = [frac_to_mp(x) if isinstance(x, Fraction) else mpmath.mpmathify(x) for x in b]
+    ref = max(abs(x) for x in b)
+    err = max(abs(x - y) for x, y in zip(a, b))
+    return mpmath.inf if err == 0 else mpmath.log10(ref / err)
+
+
+@pytest.mark.parametrize("L,M", [(0, 3), (2, 2), (3, 5), (7, 4), (10, 10)])
+def test_exp_exact_matches_closed_form(L, M):
+    c = [Fraction(1, math.factorial(k)) for k in range(L + M + 1)]
+    r = pade(c, L, M, dps=30)
+    p, q = exp_pade_closed_form(L, M)
+    assert r.exact and r.method == "exact"
+    assert list(r.p) == p and list(r.q) == q
+    assert (r.L, r.M, r.defect) == (L, M, 0)
+
+
+@pytest.mark.parametrize("L,M,dps", [(4, 4, 30), (12, 10, 50), (20, 20, 60), (6, 9, 40)])
+def test_exp_inexact_matches_closed_form(L, M, dps):
+    # input carries dps+60 digits; the request is dps digits in p and q
+    with workdps(dps + 60):
+        c = [1 / mpmath.factorial(k) for k in range(L + M + 1)]
+    r = pade(c, L, M, dps=dps)
+    assert r.method == "fraction" and r.digits >= dps
+    p, q = exp_pade_closed_form(L, M)
+    with workdps(dps + 80):
+        assert digits_agree(r.p, p) >= dps - 1
+        assert digits_agree(r.q, q) >= dps - 1
+
+
+def test_claimed_digits_are_earned_on_log_series():
+    # -log(1-x)/x = sum x^k/(k+1); the reference is the exact Padé of the
+    # rounded (dyadic) input, computed in rational arithmetic
+    N, dps = 30, 40
+    with workdps(80):
+        cm = [mpmath.mpf(1) / (k + 1) for k in range(2 * N + 1)]
+    exact_in = [mpf_to_fraction(x) for x in cm]
+    ref = pade(exact_in, N, N, dps)
+    r = pade(cm, N, N, dps)
+    with workdps(400):
+        got = min(digits_agree(r.p, ref.p), digits_agree(r.q, ref.q))
+    assert r.digits >= dps
+    assert got >= r.digits - 2      # ball bound is rigorous up to rounding of the report
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_random_series_agrees_with_mpmath_pade(seed):
+    rng = random.Random(seed)
+    L, M, dps = 8, 7, 40
+    with workdps(dps + 60):
+        c = [mpmath.mpf(rng.uniform(-1, 1)) for _ in range(L + M + 1)]
+        p_ref, q_ref = mpmath.pade(c, L, M)    # at dps+60 digits: far more accurate than needed
+    r = pade(c, L, M, dps=dps)
+    with workdps(dps + 60):
+        assert digits_agree(r.q, q_ref) >= dps - 2
+        assert digits_agree(r.p, p_ref) >= dps - 2
+
+
+def test_complex_series_agrees_with_mpmath_pade():
+    rng = random.Random(7)
+    L, M, dps = 6, 6, 30
+    with workdps(dps + 60):
+        c = [mpmath.mpc(rng.uniform(-1, 1), rng.uniform(-1, 1)) for _ in range(L + M + 1)]
+        p_ref, q_ref = mpmath.pade(c, L, M)
+    r = pade(c, L, M, dps=dps)
+    with workdps(dps + 60):
+        assert digits_agree(r.q, q_ref) >= dps - 2
+        assert digits_agree(r.p, p_ref) >= dps - 2
+
+
+def rational_series(num, den, n):
+    """Taylor coefficients of num/den (exact), den[0] != 0."""
+    out = []
+    for k in range(n):
+        s = Fraction(num[k]) if k < len(num) else Fraction(0)
+        for j in range(1, min(k, len(den) - 1) + 1):
+            s -= den[j] * out[k - j]
+        out.append(s / den[0])
+    return out
+
+
+def test_robust_reduction_exact_rational():
+    # (1 + 2x) / (1 - x/3 + x^2/5): type [1/2]; ask for [5/5] (GGT 2013)
+    num, den = [1, 2], [1, Fraction(-1, 3), Fraction(1, 5)]
+    c = rational_series(num, den, 11)
+    r = pade(c, 5, 5, dps=30)
+    assert (r.L, r.M) == (1, 2) and r.defect == 3
+    assert list(r.p) == [1, 2] and list(r.q) == den
+
+
+def test_robust_reduction_inexact_rational():
+    num, den = [1, 2], [1, Fraction(-1, 3), Fraction(1, 5)]
+    c = rational_series(num, den, 13)
+    with workdps(60):
+        cm = [frac_to_mp(x) for x in c]
+    r = pade(cm, 6, 6, dps=40, input_digits=55)
+    assert (r.L, r.M) == (1, 2)
+    with workdps(60):
+        assert digits_agree(r.q, den) >= 40
+        assert digits_agree(r.p, num) >= 40
+
+
+def test_svd_construction_reduces_degree():
+    num, den = [1, 2], [1, Fraction(-1, 3), Fraction(1, 5)]
+    c = rational_series(num, den, 9)
+    with workdps(50):
+        cm = [frac_to_mp(x) for x in c]
+    r = pade(cm, 4, 4, dps=30, input_digits=45, method="svd")
+    assert r.method == "svd" and (r.L, r.M) == (1, 2)
+    with workdps(50):
+        assert digits_agree(r.q, den) >= 30
+
+
+def test_even_series_block_structure():
+    # cos x = sum (-1)^k x^(2k)/(2k)!: every other coefficient vanishes, so the
+    # table has 2x2 blocks; [5/4] equals [4/4] (Baker & Graves-Morris ch. 2)
+    with workdps(80):
+        c = [mpmath.mpf(0) if k % 2 else (-1) ** (k // 2) / mpmath.factorial(k)
+             for k in range(12)]
+        p_ref, q_ref = mpmath.pade(c[:9], 4, 4)
+    r = pade(c, 5, 4, dps=40)
+    with workdps(80):
+        assert digits_agree(r.q, q_ref) >= 40
+        assert digits_agree(r.p, p_ref) >= 40
+    assert r.L == 4 and r.M == 4
+
+
+def test_evaluation_poles_residues_geometric():
+    # 1/((1-x)(1-x/2)) has simple poles at 1 and 2 with residues 2 and -2
+    # (partial fractions: 2/(1-x) - 1/(1-x/2); residue of 1/(1-x/2) at 2 is -2)
+    c = [2 - Fraction(1, 2 ** k) for k in range(6)]
+    with workdps(50):
+        cm = [frac_to_mp(x) for x in c]
+    r = pade(cm, 2, 2, dps=30)
+    assert r.M == 2 and r.L == 0
+    poles = sorted(r.poles(), key=lambda t: abs(t[0]))
+    assert abs(poles[0][0] - 1) < mpmath.mpf(10) ** -28
+    assert abs(poles[1][0] - 2) < mpmath.mpf(10) ** -28
+    res = sorted(r.residues(), key=lambda t: abs(t[0]))
+    assert abs(res[0][1] - (-2)) < mpmath.mpf(10) ** -28      # d/dx of 2/(1-x): res -2
+    assert abs(res[1][1] - 2) < mpmath.mpf(10) ** -28
+    with workdps(40):
+        v = r(mpmath.mpf("0.5"))
+        assert abs(v - 1 / (mpmath.mpf("0.5") * mpmath.mpf("0.75"))) < mpmath.mpf(10) ** -28
+
+
+def test_table_matches_single_approximants():
+    with workdps(80):
+        c = [mpmath.mpf((-1) ** k) / (k + 1) ** 2 * (k + 3) for k in range(25)]
+    t = pade_table(c, dps=30, offsets=(-2, -1, 0, 1, 2), min_order=10)
+    keys = list(t)
+    assert keys[0][0] + keys[0][1] == 24
+    assert all(sum(a) >= sum(b) for a, b in zip(keys, keys[1:]))     # highest first
+    assert all(k[0] + k[1] >= 10 and abs(k[0] - k[1]) <= 2 for k in keys)
+    exact = [Fraction((-1) ** k * (k + 3), (k + 1) ** 2) for k in range(25)]
+    for (L, M), r in t.items():
+        ref = pade(exact, L, M, dps=30)
+        with workdps(120):
+            assert digits_agree(r.q, ref.q) >= 28, (L, M)
+            assert digits_agree(r.p, ref.p) >= 28, (L, M)
+
+
+def test_fp_agrees_with_scipy():
+    scipy_interpolate = pytest.importorskip("scipy.interpolate")
+    c = [1.0 / math.factorial(k) for k in range(9)]
+    p_s, q_s = scipy_interpolate.pade(c, 4, 4)      # scipy returns poly1d high->low, q(0)=1
+    r = pade_fp(c, 4, 4)
+    assert max(abs(a - b) for a, b in zip(r.q, list(q_s.coeffs[::-1]))) < 1e-12
+    assert max(abs(a - b) for a, b in zip(r.p, list(p_s.coeffs[::-1]))) < 1e-12
+
+
+def test_guard_plan_and_errors():
+    assert guard_digits_for_pade(201, 300) > guard_digits_for_pade(101, 300)
+    with pytest.raises(ValueError, match="needs 7 coefficients"):
+        pade([1, 2, 3], 3, 3, dps=20)
+    with pytest.raises(ValueError, match="unknown method"):
+        pade([1, 2, 3], 1, 1, dps=20, method="magic")
+
+
+def test_zero_approximant_when_leading_terms_vanish():
+    r = pade([0, 0, 0, 1, 1, 1], 2, 3, dps=20)
+    assert r.p == (0,) and r.q == (1,)
