@@ -100,7 +100,8 @@ def prepare(series, ctx: Optional[Context], min_terms: int = MIN_TERMS) -> Prepa
         raise InputError(f"only {n_nonzero} usable terms (in {series.variable}"
                          f"{'^' + str(k) if k > 1 else ''}); singularity analysis needs at least "
                          f"{min_terms}; give more coefficients", where="series.coefficients")
-    digits = ctx.work_dps if series.digits is None else min(series.digits, ctx.work_dps)
+    # noise floors are set at the digits the caller asked for (the guard digits only protect them)
+    digits = ctx.dps if series.digits is None else min(series.digits, ctx.dps)
     return Prepared(c=c, stride=k, offset=r, dps=ctx.work_dps, digits=int(digits), is_complex=cplx,
                     n_terms=series.n_terms, input_hash=series.input_hash(), ctx=ctx)
 

@@ -155,47 +155,62 @@ def estimate_diffapprox(series, ctx=None, order=1, count=16, max_radius_factor=2
         K = order
         D = _deriv_coeffs(c, K)
         N = len(c)
-        max_err = 10.0 ** -max(4, prep.digits / 3)
+        max_err = 10.0 ** -max(10, prep.digits / 3)   # approximants must keep a third of the digits
         ens, skipped, table = [], [], []
         # highest orders first; a degenerate (exactly D-finite) or ill-conditioned top of the
-        # table is followed by lower total orders until enough approximants are regular
-        plan = [(L, Ms) for L, Ms in diffapprox_orders(N, K, count)]
+        # table is followed by lower total orders until enough approximants are regular. A
+        # level whose first approximant fails is skipped (the others there fail the same way).
         step = max(2, N // 15)
-        lowers = sorted(set(range(N - step, 4 * (K + 1) + 1, -step)) |
-                        set(range(min(24, N - 1), 4 * (K + 1) + 1, -1)), reverse=True)
-        for lower in lowers:
-            plan.extend(diffapprox_orders(lower, K, max(4, count // 3)))
+        # approximants using fewer than half the terms are not used: a table that is singular
+        # down to there belongs to a series satisfying a low-order equation exactly, where
+        # near-degenerate approximants give biased exponents
+        levels = list(range(N, max(N // 2, 4 * (K + 1) + 1), -step))
         tried = 0
-        for L, Ms in plan:
-            tried += 1
-            if tried > count and len(ens) >= max(3, count // 2):
+        n_singular = 0
+        for level in levels:
+            if len(ens) >= count:
                 break
-            fit = fit_diffapprox(D, K, L, Ms, prep.dps)
-            if fit is None or fit[1] > max_err:
-                skipped.append((L, tuple(Ms)))
-                continue
-            Q, err = fit
-            roots = poly_roots(Q[K], prep.dps)
-            if not roots:
-                skipped.append((L, tuple(Ms)))
-                continue
-            pts = []
-            for z in roots:
-                th = exponent_at(Q, K, z)
-                if th is not None and mpmath.isfinite(th):
-                    pts.append((z, th))
-            ens.append({"L": L, "M": tuple(Ms), "poles": pts, "zeros": [], "spurious": [], "rel_err": err})
-            table.append({"L": L, "M": list(Ms), "roots": [z for z, _ in pts],
-                          "exponents": [t for _, t in pts]})
+            for idx, (L, Ms) in enumerate(diffapprox_orders(level, K, count)):
+                if len(ens) >= count:
+                    break
+                tried += 1
+                fit = fit_diffapprox(D, K, L, Ms, prep.dps)
+                if fit is None:
+                    n_singular += 1
+                if fit is None or fit[1] > max_err:
+                    skipped.append((L, tuple(Ms)))
+                    if idx == 0:
+                        break
+                    continue
+                Q, err = fit
+                roots = poly_roots(Q[K], prep.dps)
+                if not roots:
+                    skipped.append((L, tuple(Ms)))
+                    continue
+                pts = []
+                for z in roots:
+                    th = exponent_at(Q, K, z)
+                    if th is not None and mpmath.isfinite(th):
+                        pts.append((z, th))
+                ens.append({"L": L, "M": tuple(Ms), "poles": pts, "zeros": [], "spurious": [], "rel_err": err})
+                table.append({"L": L, "M": list(Ms), "roots": [z for z, _ in pts],
+                              "exponents": [t for _, t in pts]})
+        if len(ens) < 3 and n_singular >= tried - len(ens) - 1:
+            return failed(method, Status.NOT_APPLICABLE,
+                          "every approximant is degenerate: the series seems to satisfy an equation of "
+                          "lower order exactly (use the Dlog-Padé or ratio results)", prep, {"skipped": skipped})
         if len(ens) < 3:
             return failed(method, Status.UNSTABLE_PRECISION,
-                          f"only {len(ens)} approximants solvable at {prep.dps} digits; raise the precision",
+                          f"only {len(ens)} approximants usable: the systems are singular or ill-conditioned at "
+                          f"{prep.dps} digits (the series may satisfy a lower-order equation exactly -- "
+                          "degenerate table -- or the precision is too low)",
                           prep, {"skipped": skipped})
         sings, info = clusters_to_singularities(ens, method, prep.eps, residue_is_exponent=True,
                                                 real_series=not prep.is_complex,
                                                 radius_factor=max_radius_factor, detect_cuts=False)
         how = (f"{len(ens)} inhomogeneous differential approximants of order {K} (L in 0..6, degrees of the "
-               "Q_j within 1 of each other, total order within 2 of the maximum); zeros of Q_K found in at "
+               "Q_j within 1 of each other, from the highest total order down, skipping orders whose system is "
+               "singular or keeps fewer than 10 digits); zeros of Q_K found in at "
                f"least half of them clustered; band = {SAFETY} x spread of locations and exponents.")
         diag = {"how": how, "order": K, "approximants": table, "skipped": skipped, **info}
         if K == 2:

@@ -68,12 +68,6 @@ def dlog_series(c, d=0):
     return ops.div(ops.derivative(h), h, len(h) - 1)
 
 
-def _is_zero_of_h(s):
-    """Cluster whose residue is a positive integer (a zero of f^(d)) or ~0."""
-    e = s.exponent
-    return e is not None
-
-
 def estimate_dlog(series, ctx=None, derivatives=(0, 1, 2), count=8):
     """Singularities and exponents from Padé approximants to ``f^(d)'/f^(d)``.
 
@@ -107,6 +101,9 @@ def estimate_dlog(series, ctx=None, derivatives=(0, 1, 2), count=8):
                                                     real_series=not prep.is_complex)
             kept = []
             for s in sings:
+                if s.exponent is None:
+                    kept.append(s)
+                    continue
                 res = s.exponent.value - d
                 nres = int(mpmath.nint(res))
                 if nres >= 0 and abs(res - nres) < max(s.exponent.error, mpmath.mpf(10) ** -3) * 2:
@@ -116,7 +113,8 @@ def estimate_dlog(series, ctx=None, derivatives=(0, 1, 2), count=8):
             if kept:
                 s0 = kept[0]
                 rel = max(s0.re.error, s0.im.error) / abs(s0.location)
-                score = rel + s0.exponent.error * rel
+                # an exponent-less (cut) leading point is worth little; prefer lower d slightly
+                score = (rel + (s0.exponent.error * rel if s0.exponent is not None else 1)) * (1 + d / 100)
             runs.append({"d": d, "sings": kept, "score": score, "ens": ens, "skipped": skipped, **info})
         good = [r for r in runs if r.get("score") is not None]
         if not good:
@@ -124,10 +122,7 @@ def estimate_dlog(series, ctx=None, derivatives=(0, 1, 2), count=8):
                           "no stable pole with a non-trivial residue in the Dlog-Padé tables", prep,
                           {"derivatives_tried": [r["d"] for r in runs]})
         # prefer the lowest derivative unless a higher one is clearly sharper
-        best = good[0]
-        for r in good[1:]:
-            if r["score"] < best["score"] / 10:
-                best = r
+        best = min(good, key=lambda r: r["score"])
         how = (f"Padé approximants to f^(d)'/f^(d) for d in {list(derivatives)}; d = {best['d']} chosen as "
                "the most stable; exponent = residue + d; band = "
                f"{SAFETY} x spread of locations and residues across the {len(best['ens'])} approximants.")

@@ -68,6 +68,13 @@ def table_orders(n_coeffs: int, count: int = 10, min_total: int = 4):
     return out
 
 
+def _level_orders(t):
+    """[L/M] with L + M = t and |L - M| <= 1 (and the next pair): most diagonal first."""
+    M = t // 2
+    cand = [M, M + 1, M - 1] if t % 2 == 0 else [M, M + 1, M - 1, M + 2]
+    return [(t - m, m) for m in cand if m >= 1 and t - m >= 0]
+
+
 def doublet_tolerance(digits: int):
     """Relative pole-zero distance below which a pair is a Froissart doublet."""
     return mpmath.mpf(10) ** (-min(8, max(3, digits / 4)))
@@ -83,16 +90,35 @@ def pade_ensemble(c, dps: int, digits: int, count: int = 10, max_rel_err=None, o
     """
     tol = doublet_tolerance(digits)
     if max_rel_err is None:
-        max_rel_err = 10.0 ** -max(4, digits / 3)
+        max_rel_err = 10.0 ** -max(10, digits / 3)   # denominators must keep a third of the digits
     out = []
     skipped = []
     solved = []
-    for L, M in (orders or table_orders(len(c), count)):
-        pq = pade_coeffs(c, L, M, dps)
-        if pq is None or pq[2] > max_rel_err:
-            skipped.append((L, M))
-        else:
-            solved.append((L, M, pq))
+    if orders is not None:
+        for L, M in orders:
+            pq = pade_coeffs(c, L, M, dps)
+            if pq is None or pq[2] > max_rel_err:
+                skipped.append((L, M))
+            else:
+                solved.append((L, M, pq))
+    else:
+        # near-diagonal orders from the top down; a level whose first approximant fails
+        # (singular or ill-conditioned) is skipped, the next level is lower by ~7 %
+        top = len(c) - 1
+        step = max(1, top // 15)
+        t = top
+        while t >= 4 and len(solved) < count:
+            for idx, (L, M) in enumerate(_level_orders(t)):
+                if len(solved) >= count:
+                    break
+                pq = pade_coeffs(c, L, M, dps)
+                if pq is None or pq[2] > max_rel_err:
+                    skipped.append((L, M))
+                    if idx == 0:
+                        break
+                    continue
+                solved.append((L, M, pq))
+            t -= step
     if orders is None and len(solved) < 3:
         # degenerate table (for example a rational function of low degree): take
         # the largest denominators that still give a regular system, with the
@@ -101,7 +127,7 @@ def pade_ensemble(c, dps: int, digits: int, count: int = 10, max_rel_err=None, o
         for t in (top, top - 1, top - 2):
             good = None
             first_err = None
-            for M in range(1, t):
+            for M in range(1, min(t, 40)):
                 pq = pade_coeffs(c, t - M, M, dps)
                 if pq is None or pq[2] > max_rel_err or (
                         first_err is not None and pq[2] > max(first_err, 10.0 ** -(digits / 2)) * 1e6):
@@ -190,7 +216,8 @@ def clusters_to_singularities(ens, method, eps, residue_is_exponent=False, expon
         half = SAFETY * dev
         if on_cut and spacings:
             # the end of a cut is resolved only to the spacing of the points on it
-            half = max(half, 3 * robust_center(spacings), abs(center) / 100)
+            # and the nearest pole approaches the branch point slowly: allow 10 %
+            half = max(half, 3 * robust_center(spacings), abs(center) / 10)
         half = max(half, abs(center) * eps * 100)
         im_zero = abs(center.imag) <= half and all(abs(z.imag) <= half for z in zs)
         re = Estimate(center.real, center.real - half, center.real + half)
@@ -204,7 +231,11 @@ def clusters_to_singularities(ens, method, eps, residue_is_exponent=False, expon
         rc = robust_center(rvals)
         rdev = max(abs(x - rc) for x in rvals)
         rel_rdev = rdev / max(abs(rc), mpmath.mpf(10) ** -30)
-        if residue_is_exponent:
+        if residue_is_exponent and on_cut:
+            # the log-derivative itself has a cut here (analytic background, confluent or
+            # logarithmic terms): its residues are biased, so no exponent is claimed
+            theta, kind, stable = None, "branch", False
+        elif residue_is_exponent:
             th = rc + exponent_shift
             theta = Estimate(th, th - SAFETY * rdev, th + SAFETY * rdev)
             theta = Estimate(th, min(theta.lower, th - eps * 1000), max(theta.upper, th + eps * 1000))

@@ -384,7 +384,7 @@ def estimate_conjugate_pair(series, ctx=None):
         mu_half = max(SAFETY * max(abs(s[1] - mu) for s in seq), floor * mu)
         c_half = max(SAFETY * max(abs(s[2] - cphi) for s in seq), floor)
         gs = [s[3] for s in seq]
-        g_half = SAFETY * max(abs(x - g) for x in gs)
+        g_half = max(SAFETY * max(abs(x - g) for x in gs), floor * N)
         # add the D -> D+1 change where available
         if D + 1 in table:
             n2, mu2, c2, g2 = table[D + 1][-1]

@@ -7,19 +7,15 @@ the integration path, a singular linear system, a failed integral).
 :func:`band_from_candidates` turns the candidates at one point into an
 :class:`~resum.results.Estimate`:
 
-* the *stable core* is the set of surviving candidates whose distance from
-  the median is at most ``outlier`` times the median distance (this drops
-  Froissart doublets and other isolated failures);
-* the value is the median of the three core candidates that use the most
-  terms;
-* the band is the largest distance from that value of the ``spread`` core
-  candidates using the most terms, times ``safety``, and never less than the numerical floor (integration
-  error, input digits, working precision) passed in.
+* the value is the median of the three candidates using the most terms;
+* the band is ``safety`` times the larger of the spread of the top
+  candidates and the error at the full term count extrapolated from how fast
+  the lower-order candidates approach the value (see
+  :func:`band_from_candidates`); never less than the numerical floor
+  (integration error, input digits, working precision).
 
-The band is therefore the spread of the last few orders of a converging
-sequence of approximants: an estimate of the error of the lower orders used,
-so for a converging sequence it is larger than the error of the value. It is
-not a bound: a sequence that converges to a wrong value (a cut the
+The band is therefore a model of the convergence of the sequence of
+approximants (geometric in the number of terms), not a bound: a sequence that converges to a wrong value (a cut the
 approximants cannot see) would give a narrow wrong band; the verification
 rerun at higher precision and the comparison between methods guard against
 that.
@@ -154,16 +150,28 @@ def _rational_fit(c, L, M, dps):
     return Rational(tuple(p), tuple(q), L, M)
 
 
-def candidate_orders(n_terms: int, n_orders: int = 8, offsets: Sequence[int] = (0,),
-                     min_terms: int = 3) -> list:
-    """(n_used, L, M) for the top ``n_orders`` term counts, near-diagonal.
+FAR_FRACTIONS = (0.05, 0.08, 0.12, 0.17, 0.24, 0.33, 0.45)
 
-    For each number of terms ``n`` from ``n_terms`` down, ``L + M = n - 1``
-    with ``M = (n - 1 - d) // 2`` for each offset ``d = L - M`` (approximately)
-    in ``offsets``; the default alternates [k/k] and [k+1/k] as ``n`` steps.
+
+def candidate_orders(n_terms: int, n_orders: int = 7, offsets: Sequence[int] = (0,),
+                     min_terms: int = 3, n_top: int = 4) -> list:
+    """(n_used, L, M) for the approximants that enter a value and its band.
+
+    The ``n_top`` largest term counts (``n_terms``, ``n_terms - 1``, ...) give
+    the value; ``n_orders`` further ones, spread down to about
+    ``0.55 n_terms`` (``n_terms - round(f n_terms)`` for the fractions in
+    :data:`FAR_FRACTIONS`), show how fast the approximants converge, from
+    which the band is extrapolated. For each term count ``n``,
+    ``L + M = n - 1`` with ``M = (n - 1 - d) // 2`` for each offset ``d`` in
+    ``offsets`` (near-diagonal).
     """
+    ns = list(range(n_terms, max(min_terms, n_terms - n_top + 1) - 1, -1))
+    for f in FAR_FRACTIONS[:max(0, n_orders)]:
+        n = n_terms - max(n_top, int(round(f * n_terms)))
+        if n >= min_terms and n not in ns:
+            ns.append(n)
     out = []
-    for n in range(n_terms, max(min_terms, n_terms - n_orders + 1) - 1, -1):
+    for n in ns:
         for d in offsets:
             M = (n - 1 - d) // 2
             L = n - 1 - M
@@ -190,50 +198,101 @@ def _med(xs):
     return xs[k // 2] if k % 2 else (xs[k // 2 - 1] + xs[k // 2]) / 2
 
 
-def band_from_candidates(vals: Sequence, n_used: Sequence[int], *, floor=0, safety=2,
-                         outlier=20, min_core=3, spread=4):
+def _line_fit(xs, ys):
+    m = len(xs)
+    sx, sy = sum(xs), sum(ys)
+    sxx = sum(v * v for v in xs)
+    sxy = sum(a * b for a, b in zip(xs, ys))
+    den = m * sxx - sx * sx
+    if den == 0:
+        return None
+    beta = (m * sxy - sx * sy) / den
+    return (sy - beta * sx) / m, beta
+
+
+def band_from_candidates(vals: Sequence, n_used: Sequence[int], *, floor=0, safety=3,
+                         n_top: int = 4, min_core: int = 3):
     """Estimate (real numbers) or pair of Estimates (complex) from candidate values.
 
-    Returns ``(estimate_re, estimate_im_or_None, info)``; ``info`` holds the
-    core size, the dropped candidates and the text ``how``. ``estimate_re`` is
+    Parameters
+    ----------
+    vals : candidate values (``None`` for rejected ones)
+    n_used : terms used by each candidate
+    floor : smallest half-width allowed (quadrature error, input digits)
+    safety : factor applied to the extrapolated error
+    n_top : how many of the highest term counts form the value
+
+    Returns ``(estimate_re, estimate_im_or_None, info)``; ``estimate_re`` is
     ``None`` when fewer than ``min_core`` candidates survive.
+
+    Notes
+    -----
+    The value is the median of the three surviving candidates with the most
+    terms. The band is ``safety`` times the larger of (a) the spread of those
+    three around the value (one isolated spike, a
+    Froissart doublet, is set aside) and (b) the error at the full term
+    count extrapolated from the lower-order candidates: their distances from
+    the value, made monotone (largest distance at or above each term count),
+    are fitted by ``log10 d = a + b n`` and the line is continued to the
+    full term count. When the lower orders do not approach the value
+    (``b >= 0``) the band is their largest distance instead and
+    ``info["converging"]`` is False. The band is at least ``floor`` and the
+    working-precision floor.
     """
     pairs = [(n, v) for n, v in zip(n_used, vals) if v is not None and mpmath.isfinite(abs(v))]
     info = {"n_candidates": len(vals), "n_finite": len(pairs)}
     if len(pairs) < min_core:
         info["how"] = f"only {len(pairs)} usable approximants (need {min_core})"
         return None, None, info
+    pairs.sort(key=lambda t: -t[0])
     cplx = any(isinstance(v, mpmath.mpc) and v.imag != 0 for _, v in pairs)
-    re_med = _med([mpmath.re(v) for _, v in pairs])
-    im_med = _med([mpmath.im(v) for _, v in pairs]) if cplx else 0
-    center = mpmath.mpc(re_med, im_med)
-    dist = [abs(v - center) for _, v in pairs]
-    md = _med(dist)
-    scale = max(md, abs(center) * mpmath.mpf(10) ** (-mpmath.mp.dps + 3))
-    core = [(n, v) for (n, v), d in zip(pairs, dist) if d <= outlier * scale]
-    info["n_core"] = len(core)
-    info["n_dropped_outliers"] = len(pairs) - len(core)
-    if len(core) < min_core:
-        info["how"] = f"approximants scatter: only {len(core)} agree (need {min_core})"
-        return None, None, info
-    core.sort(key=lambda t: -t[0])
-    top = [v for _, v in core[:3]]
-    vre = _med([mpmath.re(v) for v in top])
-    vim = _med([mpmath.im(v) for v in top]) if cplx else None
-    # never claim more than the working precision supports
-    fl = max(mpmath.mpf(floor), abs(mpmath.mpc(vre, vim or 0)) * mpmath.mpf(10) ** (3 - mpmath.mp.dps))
-    near = core[:max(spread, 3)]
-    wre = max([abs(mpmath.re(v) - vre) for _, v in near] + [0]) * safety
-    wre = max(wre, fl)
-    est_re = Estimate(vre, vre - wre, vre + wre)
-    est_im = None
-    if cplx:
-        wim = max([abs(mpmath.im(v) - vim) for _, v in near] + [0]) * safety
-        wim = max(wim, fl)
-        est_im = Estimate(vim, vim - wim, vim + wim)
-    info["how"] = (f"value: median of the 3 highest-order of {len(core)} mutually agreeing approximants; "
-                   f"band: {safety} x the largest deviation of the {len(near)} highest-order ones "
-                   "from it, at least the numerical floor")
+    nmax = pairs[0][0]
+    tops = [(n, v) for n, v in pairs if n > nmax - n_top]
+    far = [(n, v) for n, v in pairs if n <= nmax - n_top]
+    if len(tops) < 3:
+        tops, far = pairs[:3], pairs[3:]
+    head = tops[:3]
+    vre = _med([mpmath.re(v) for _, v in head])
+    vim = _med([mpmath.im(v) for _, v in head]) if cplx else mpmath.mpf(0)
+    center = mpmath.mpc(vre, vim)
+    dtop = sorted(abs(v - center) for _, v in head)
+    spike = len(dtop) >= 3 and dtop[-1] > 30 * max(dtop[-2], mpmath.mpf(10) ** (-mpmath.mp.dps))
+    top_spread = dtop[-2] if spike else dtop[-1]
+    info["top_spike_set_aside"] = bool(spike)
+    extrap = None
+    converging = True
+    if len(far) >= 3:
+        dist = [(n, abs(v - center)) for n, v in far]
+        dist.sort(key=lambda t: t[0])                      # increasing n
+        env, run = [], mpmath.mpf(0)
+        for n, d in reversed(dist):                        # from high n down: running max
+            run = max(run, d)
+            env.append((n, run))
+        env.reverse()
+        pts = [(mpmath.mpf(n), mpmath.log10(d)) for n, d in env if d > 0]
+        fit = _line_fit([p[0] for p in pts], [p[1] for p in pts]) if len(pts) >= 3 else None
+        if fit is not None and fit[1] < 0:
+            a, b = fit
+            extrap = mpmath.mpf(10) ** (a + b * nmax)
+            info["decay_digits_per_term"] = mpmath.nstr(-b, 4)
+        else:
+            converging = False
+            extrap = max(d for _, d in dist)
+    elif far:
+        extrap = max(abs(v - center) for _, v in far)
+    info["converging"] = converging
+    w = max(top_spread, extrap or 0) * safety
+    fl = max(mpmath.mpf(floor), abs(center) * mpmath.mpf(10) ** (3 - mpmath.mp.dps))
+    w = max(w, fl)
+    est_re = Estimate(vre, vre - w, vre + w)
+    est_im = Estimate(vim, vim - w, vim + w) if cplx else None
+    info["n_top"] = len(tops)
+    info["n_far"] = len(far)
+    info["top_spread"] = mpmath.nstr(top_spread, 5)
+    info["extrapolated_error"] = None if extrap is None else mpmath.nstr(extrap, 5)
+    info["how"] = (f"value: median of the 3 highest-order approximants; band: {safety} x the larger of "
+                   f"the spread of the {len(tops)} highest and the error extrapolated from {len(far)} "
+                   "lower orders (log-linear fit of their distances), at least the numerical floor")
     return est_re, est_im, info
 
 
@@ -248,7 +307,7 @@ class PointOutcome:
     info: dict = field(default_factory=dict)
 
 
-def outcomes_from_table(table, n_used, *, floors=None, safety=2, min_core=3):
+def outcomes_from_table(table, n_used, *, floors=None, safety=3, min_core=3):
     """Band every point of a candidate table ``table[point][candidate]``."""
     out = []
     for j, vals in enumerate(table):

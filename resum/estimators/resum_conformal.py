@@ -14,7 +14,8 @@ ray map), and the near-diagonal Padé approximants in ``w`` are evaluated at
 >>> with workdps(40):
 ...     c = [mpmath.mpf(-1) ** n / (n + 1) for n in range(40)]     # log(1+x)/x, cut (-inf, -1]
 ...     out, _ = conformal_evaluate(c, [mpmath.mpf(50)], RayMap(-1), 40)
->>> out[0].re.contains(mpmath.log(51) / 50), out[0].re.digits() > 10
+...     ok = out[0].re.contains(mpmath.log(51) / 50)
+>>> ok, out[0].re.digits() > 10
 (True, True)
 
 Notes
@@ -56,7 +57,7 @@ def mapped_coefficients(c: Sequence, cmap: ConformalMap, dps: int, alpha=None) -
 
 
 def conformal_evaluate(c: Sequence, xs: Sequence, cmap: ConformalMap, dps: int, *, alpha=None,
-                       n_orders: int = 8, offsets: Sequence[int] = (0,), safety=2):
+                       n_orders: int = 7, offsets: Sequence[int] = (0,), safety=3):
     """Conformal-map Padé values with bands at the points ``xs`` (expansion variable)."""
     cw = mapped_coefficients(c, cmap, dps, alpha)
     ws, bad = [], []

@@ -1,0 +1,51 @@
+"""``resum analyze FILE``: radius of convergence and leading singularities with bands."""
+from __future__ import annotations
+
+import os
+
+from ..analysis import analyze, default_context
+from ..errors import InputError
+from ..estimators import METHODS, validate_methods
+from ._common import add_common_options, emit_json, load_series, log
+
+HELP = "radius of convergence, singularities and growth of a series, with error bands"
+DESCRIPTION = (HELP + ". Runs the ratio, Padé, Dlog-Padé and differential-approximant estimators, "
+               "reconciles them and (by default) verifies the bands by rerunning with fewer terms and "
+               "more digits. The bands are estimates from the spread of stable approximations, not proofs.")
+
+
+def add_arguments(parser) -> None:
+    parser.add_argument("file", metavar="FILE", help="series file (JSON, CSV or text)")
+    add_common_options(parser)
+    parser.add_argument("--methods", default=None, metavar="M1,M2",
+                        help=f"comma-separated estimators (default all): {', '.join(METHODS)}")
+    parser.add_argument("--plot", default=None, metavar="DIR",
+                        help="write the Domb-Sykes, extrapolation and complex-plane plots to DIR")
+    parser.add_argument("--no-verify", action="store_true",
+                        help="skip the reruns with fewer terms and higher precision (faster, less safe)")
+
+
+def run(args) -> int:
+    methods = validate_methods(args.methods) if args.methods else None
+    series, ctx = load_series(args.file, args.dps)
+    if args.dps is None:
+        ctx = default_context(series)
+    log(f"analyzing {series.n_terms} terms of {args.file} at {ctx.dps} digits")
+    result = analyze(series, ctx, methods=methods, verify=not args.no_verify)
+    if args.plot:
+        try:
+            from ..plots.analysis import write_analysis_plots
+        except ImportError as exc:  # matplotlib missing
+            raise InputError(f"--plot needs matplotlib ({exc}); install resum[plot]", where="--plot") from None
+        os.makedirs(args.plot, exist_ok=True)
+        for p in write_analysis_plots(result, series, args.plot):
+            log(f"wrote {p}")
+    if args.json:
+        emit_json(result.contract_dict())
+    else:
+        from ..report.analysis_text import render_analysis
+        import sys
+        sys.stdout.write(render_analysis(result, title=series.name or os.path.basename(args.file)))
+    for w in result.warnings:
+        log(f"warning: {w}")
+    return 0 if result.success else 1

@@ -1,0 +1,125 @@
+"""Plain-text rendering of an :class:`~resum.analysis.AnalysisResult`.
+
+>>> from resum.series import Series
+>>> from resum.analysis import analyze
+>>> c = [1]
+>>> for n in range(1, 30):
+...     c.append(c[-1] * 2 * (2 * n - 1) // n)      # (1 - 4x)^(-1/2)
+>>> text = render_analysis(analyze(Series(c), verify=False))
+>>> "radius of convergence" in text
+True
+
+Numbers are printed as ``value(error)`` with only the digits their band
+supports (see :func:`resum.results.format_value_error`).
+"""
+from __future__ import annotations
+
+import mpmath
+
+from ..context import workdps
+
+__all__ = ["render_analysis"]
+
+_KIND_TEXT = {
+    "pole": "pole",
+    "branch": "algebraic branch point",
+    "log": "logarithmic singularity",
+    "essential": "essential singularity",
+    "branch-log": "branch point with logarithm",
+    "unknown": "singularity of undetermined type",
+}
+
+
+def _fmt(e):
+    if e is None:
+        return "-"
+    if not mpmath.isfinite(e.value):
+        return "infinite" if e.value > 0 else str(e.value)
+    return str(e)
+
+
+def _loc(s):
+    if s.im.value == 0 and s.im.error == 0:
+        return _fmt(s.re)
+    sign = "-" if s.im.value < 0 else "+"
+    im = _fmt(type(s.im)(abs(s.im.value), abs(s.im.value) - s.im.error, abs(s.im.value) + s.im.error))
+    return f"{_fmt(s.re)} {sign} {im} i"
+
+
+def render_analysis(result, title: str = "") -> str:
+    """A readable report: verdict, radius, singularities, method table, warnings, how."""
+    dps = int(result.provenance.dps if result.provenance else 30) + 10
+    with workdps(dps):
+        return _render(result, title)
+
+
+def _render(r, title):
+    d = r.diagnostics
+    var = d.get("variable", "x")
+    lines = []
+    head = f"Singularity analysis{': ' + title if title else ''}"
+    lines += [head, "=" * len(head)]
+    lines.append(f"terms: {d.get('n_terms', '?')}   working digits: {d.get('dps', '?')}   "
+                 f"status: {r.status.value}   ({r.message})")
+    if d.get("coupling"):
+        lines.append(f"variable: {var} ({d['coupling']}); all locations below are in {var}")
+    lines.append("")
+    lines.append(f"growth of the coefficients: {r.growth or 'undetermined'}")
+    if r.growth == "factorial":
+        lines.append(f"  radius of convergence: 0 (divergent series)")
+        lines.append(f"  c_n ~ S A^-n Gamma(n + b) with  A = {_fmt(r.borel_singularity)},  "
+                     f"b = {_fmt(r.borel_exponent)}")
+        lines.append("  (A: nearest singularity of the Borel transform; A < 0 means alternating signs)")
+    else:
+        lines.append(f"radius of convergence in {var}: {_fmt(r.radius)}")
+    if r.singularities:
+        lines.append("")
+        lines.append(f"leading singularities, f ~ A (1 - {var}/{var}_c)^theta near each:")
+        for i, s in enumerate(r.singularities, 1):
+            lines.append(f"  {i}. {var}_c = {_loc(s)}   |{var}_c| = {_fmt(_modulus(s))}")
+            lines.append(f"     {_KIND_TEXT.get(s.kind, s.kind)}, theta = {_fmt(s.exponent)}")
+            if s.note:
+                lines.append(f"     ({s.note})")
+    lines.append("")
+    lines.append("methods:")
+    for name, m in r.methods.items():
+        if m.success:
+            what = f"radius {_fmt(m.radius)}" if m.radius is not None else ""
+            if m.borel_singularity is not None:
+                what = f"A = {_fmt(m.borel_singularity)}, b = {_fmt(m.borel_exponent)}"
+            elif m.singularities:
+                s = m.singularities[0]
+                what += f"; nearest {_loc(s)}, theta = {_fmt(s.exponent)}"
+            lines.append(f"  {name:15s} ok      {what}")
+        else:
+            lines.append(f"  {name:15s} {m.status.value}: {m.message}")
+    ver = d.get("verification") or {}
+    if ver:
+        lines.append("")
+        lines.append("verification (digits agreeing with the reruns):")
+        for key, v in ver.items():
+            rd = v.get("radius_digits_agree")
+            rd_s = "-" if rd is None else (f"{float(rd):.1f}" if float(rd) != float("inf") else "all")
+            lines.append(f"  {key.replace('_', ' ')} (n = {v.get('n_terms')}, dps = {v.get('dps')}): "
+                         f"radius {rd_s}")
+    if r.warnings:
+        lines.append("")
+        lines.append("warnings:")
+        lines += [f"  - {w}" for w in r.warnings]
+    lines.append("")
+    lines.append("how to read the bands: value(error) means value +- error in the last digits shown. "
+                 "Each band is an estimate, not a proof: " + d.get("how", ""))
+    return "\n".join(_wrap(l) for l in lines) + "\n"
+
+
+def _modulus(s):
+    from ..uncertainty.ensemble import modulus_band
+    return modulus_band(s.re, s.im)
+
+
+def _wrap(line, width=100):
+    if len(line) <= width:
+        return line
+    import textwrap
+    indent = " " * (len(line) - len(line.lstrip()) + 2)
+    return "\n".join(textwrap.wrap(line, width, subsequent_indent=indent))

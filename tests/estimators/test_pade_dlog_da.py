@@ -1,0 +1,150 @@
+"""Padé-table, Dlog-Padé and differential-approximant estimators against closed forms,
+published series and the published BES kernel family."""
+from fractions import Fraction
+
+import mpmath
+import pytest
+
+from resum.context import Context, workdps
+from resum.estimators.diffapprox import estimate_diffapprox
+from resum.estimators.dlog import estimate_dlog
+from resum.estimators.pade_sing import estimate_pade
+from resum.series import Series
+
+from .refs import binomial_power, complex_pair, confluent, lattice, log1p_series, two_singularities
+
+CTX = Context(dps=50)
+
+
+def _mp(x):
+    return mpmath.mpf(x.numerator) / x.denominator if isinstance(x, Fraction) else mpmath.mpmathify(x)
+
+
+def _check(est, truth, width):
+    with workdps(120):
+        truth = _mp(truth)
+        assert est.contains(truth), (str(est), truth)
+        assert est.width < width, (str(est), width)
+
+
+def _near(sings, z):
+    return min(sings, key=lambda s: abs(s.location - z))
+
+
+def test_pade_poles_of_meromorphic_function():
+    # 1/(1 - x/2) + 3/(1 + x) : simple poles at 2 and -1 (common practice, no source)
+    cs = [Fraction(1, 2 ** n) + 3 * (-1) ** n for n in range(30)]
+    r = estimate_pade(Series(cs), CTX)
+    assert r.success
+    _check(r.radius, 1, 1e-20)
+    s2 = _near(r.singularities, 2)
+    _check(s2.re, 2, 1e-20)
+    assert s2.kind == "pole"
+
+
+def test_pade_branch_point_is_marked_branch_with_wide_band():
+    # (1 - x)^(-1/3): plain Padé only resolves the branch point roughly (common practice)
+    r = estimate_pade(Series(binomial_power(Fraction(-1, 3), 40)), CTX)
+    s = r.singularities[0]
+    assert s.kind == "branch"
+    _check(s.re, 1, 0.5)
+
+
+def test_pade_removes_froissart_doublets_from_noisy_data():
+    # geometric series 1/(1-x) with coefficients perturbed at 1e-12: Froissart doublets
+    # appear near the unit circle (Gilewicz and Pindor, J. Comput. Appl. Math. 87 (1997) 199)
+    import random
+    rnd = random.Random(1)
+    with workdps(30):
+        cs = [mpmath.mpf(1) + mpmath.mpf(10) ** -12 * (2 * rnd.random() - 1) for _ in range(30)]
+    r = estimate_pade(Series(cs, digits=12), Context(dps=12))
+    assert r.success
+    _check(r.radius, 1, 1e-6)
+    assert r.singularities[0].kind == "pole"
+    assert r.diagnostics["spurious_removed"] > 0
+
+
+@pytest.mark.parametrize("theta", [Fraction(-1, 3), Fraction(-7, 4), Fraction(2, 5)])
+def test_dlog_algebraic(theta):
+    # (1 - 2x)^theta: x_c = 1/2, exponent theta (binomial series, common practice, no source)
+    r = estimate_dlog(Series(binomial_power(theta, 40, scale=2)), CTX)
+    s = r.singularities[0]
+    _check(s.re, Fraction(1, 2), 1e-25)
+    _check(s.exponent, theta, 1e-20)
+    assert s.kind == "branch"
+
+
+def test_dlog_log_singularity():
+    # log(1+x): kind log, exponent 0 (common practice, no source)
+    r = estimate_dlog(Series(log1p_series(40)), CTX)
+    s = r.singularities[0]
+    assert s.kind == "log"
+    _check(s.re, -1, 1e-20)
+    _check(s.exponent, 0, 1e-10)
+
+
+def test_dlog_complex_pair():
+    # 1/(1 - x + x^2)^(2/5): x_c = exp(+-i pi/3), theta = -2/5 (common practice, no source)
+    r = estimate_dlog(Series(complex_pair(50, 70), digits=60), CTX)
+    with workdps(60):
+        z = mpmath.expjpi(mpmath.mpf(1) / 3)
+        s = _near(r.singularities, z)
+        _check(s.re, z.real, 1e-20)
+        _check(s.im, z.imag, 1e-20)
+        _check(s.exponent, Fraction(-2, 5), 1e-15)
+
+
+def test_diffapprox_two_singularities():
+    # (1-x)^(-1/2) + (1+x/2)^(-3/2): points 1 and -2, exponents -1/2 and -3/2
+    r = estimate_diffapprox(Series(two_singularities(60)), Context(dps=80), order=1)
+    assert r.success, r.message
+    s1, s2 = _near(r.singularities, 1), _near(r.singularities, -2)
+    _check(s1.re, 1, 1e-8)
+    _check(s1.exponent, Fraction(-1, 2), 1e-6)
+    _check(s2.re, -2, 1e-2)
+    _check(s2.exponent, Fraction(-3, 2), 1e-1)
+
+
+def test_diffapprox_confluent_correction():
+    # (1-x)^(-1/3) (1 + (1-x)^(1/2)): leading exponent -1/3 with a confluent correction
+    r = estimate_diffapprox(Series(confluent(60)), Context(dps=80), order=1)
+    assert r.success, r.message
+    s = _near(r.singularities, 1)
+    _check(s.re, 1, 1e-4)
+    _check(s.exponent, Fraction(-1, 3), 0.05)
+
+
+def test_diffapprox_degenerate_table_is_refused():
+    # the same function satisfies a second-order equation exactly: every large second-order
+    # approximant is singular, and the method says so instead of using tiny ones
+    r = estimate_diffapprox(Series(confluent(60)), Context(dps=80), order=2)
+    assert not r.success and "degenerate" in r.message
+
+
+def test_diffapprox_saw_square_lattice():
+    # I. Jensen, J. Phys. A 49 (2016) 424003 (arXiv:1607.01109): 80-term SAW series;
+    # mu = 2.63815853032790(3) (Jacobsen, Scullard, Guttmann, J. Phys. A 49 (2016) 494004);
+    # gamma = 43/32 (Nienhuis 1982); antiferromagnetic point -x_c with exponent 1/2
+    # (Conway and Guttmann, PRL 77 (1996) 5284)
+    cs, _ = lattice("saw_square_lattice")
+    r = estimate_diffapprox(Series(cs), Context(dps=60), order=2)
+    xc = 1 / mpmath.mpf("2.63815853032790")
+    s = _near(r.singularities, xc)
+    _check(s.re, xc, 1e-7)
+    _check(s.exponent, Fraction(-43, 32), 2e-3)
+    a = _near(r.singularities, -xc)
+    _check(a.re, -xc, 1e-6)
+    _check(a.exponent, Fraction(1, 2), 2e-3)
+
+
+def test_diffapprox_ising_susceptibility():
+    # square-lattice Ising susceptibility, 27 terms (Sykes et al., J. Phys. A 5 (1972) 624;
+    # OEIS A002906): v_c = sqrt(2) - 1 (Kramers-Wannier 1941), gamma = 7/4 (Wu, McCoy,
+    # Tracy, Barouch, PRB 13 (1976) 316)
+    cs, _ = lattice("ising_sq_susceptibility_hightemp")
+    r = estimate_diffapprox(Series(cs), Context(dps=40), order=1)
+    with workdps(40):
+        vc = mpmath.sqrt(2) - 1
+    s = _near(r.singularities, vc)
+    _check(s.re, vc, 1e-3)
+    _check(s.exponent, Fraction(-7, 4), 0.05)

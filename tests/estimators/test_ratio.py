@@ -1,0 +1,140 @@
+"""Ratio family against closed forms and published recursions.
+
+Each test checks the truth lies in the band, the band is narrower than a
+stated width, and (through the width) how many digits were reached.
+"""
+from fractions import Fraction
+
+import mpmath
+import pytest
+
+from resum.context import Context, workdps
+from resum.estimators.ratio import (classify_growth, estimate_conjugate_pair, estimate_large_order,
+                                    estimate_ratio, estimate_root_test)
+from resum.series import Series
+
+from .refs import binomial_power, catalan, complex_pair, euler_series, lattice, log1p_series, \
+    quartic_oscillator
+
+CTX = Context(dps=50)
+
+
+def _mp(x):
+    return mpmath.mpf(x.numerator) / x.denominator if isinstance(x, Fraction) else mpmath.mpmathify(x)
+
+
+def _check(est, truth, width):
+    with workdps(120):
+        truth = _mp(truth)
+        assert est.contains(truth), (str(est), truth)
+        assert est.width < width, (str(est), width)
+
+
+def test_algebraic_non_integer_exponent():
+    # (1 - 3x)^(-1/3): x_c = 1/3, theta = -1/3 (binomial series, common practice, no source)
+    r = estimate_ratio(Series(binomial_power(Fraction(-1, 3), 50, scale=3)), CTX)
+    assert r.success
+    s = r.singularities[0]
+    _check(s.re, Fraction(1, 3), 1e-30)
+    _check(s.exponent, Fraction(-1, 3), 1e-30)
+    assert s.kind == "branch"
+    _check(r.radius, Fraction(1, 3), 1e-30)
+
+
+def test_catalan_radius_and_exponent():
+    # Catalan g.f.: radius 1/4, exponent +1/2 (common practice, no source)
+    r = estimate_ratio(Series(catalan(50)), CTX)
+    s = r.singularities[0]
+    _check(r.radius, Fraction(1, 4), 1e-18)     # 18+ digits
+    _check(s.exponent, Fraction(1, 2), 1e-14)
+
+
+def test_log_singularity_recognised():
+    # log(1+x): log singularity at x = -1 (common practice, no source)
+    r = estimate_ratio(Series(log1p_series(40)), CTX)
+    s = r.singularities[0]
+    _check(s.re, -1, 1e-20)
+    assert s.kind == "log"
+
+
+def test_series_in_x_squared():
+    # 1/(1 - 4x^2)^(1/2): only even terms; singularities at x = +-1/2 (common practice)
+    cs = binomial_power(Fraction(-1, 2), 40, scale=4)
+    even = []
+    for c in cs:
+        even += [c, 0]
+    r = estimate_ratio(Series(even[:79]), CTX)
+    assert r.diagnostics["stride"] == 2
+    _check(r.radius, Fraction(1, 2), 1e-20)
+    res = sorted(float(s.re.value) for s in r.singularities)
+    assert res == pytest.approx([-0.5, 0.5], abs=1e-12)
+
+
+def test_saw_growth_constant_step2():
+    # square-lattice SAW, 80 terms (I. Jensen, J. Phys. A 49 (2016) 424003, arXiv:1607.01109);
+    # mu = 2.63815853032790(3) (Jacobsen, Scullard, Guttmann, J. Phys. A 49 (2016) 494004,
+    # arXiv:1607.02984); gamma = 43/32 (Nienhuis, PRL 49 (1982) 1062). The even/odd
+    # oscillation forces step-2 ratios.
+    cs, _ = lattice("saw_square_lattice")
+    r = estimate_ratio(Series(cs), CTX)
+    assert r.diagnostics["step"] == 2
+    s = r.singularities[0]
+    xc = 1 / mpmath.mpf("2.63815853032790")
+    with workdps(30):
+        assert abs(s.re.value - xc) / xc < 5e-8           # 7+ digits reached
+        assert s.exponent.width < 1e-3
+        assert abs(s.exponent.value + Fraction(43, 32)) < 5e-4
+
+
+def test_conjugate_pair():
+    # 1/(1 - x + x^2)^(2/5): pair at exp(+-i pi/3), theta = -2/5 (common practice, no source)
+    with workdps(70):
+        cs = complex_pair(80, 70)
+    r = estimate_conjugate_pair(Series(cs, digits=60), Context(dps=55))
+    assert r.success, r.message
+    _check(r.radius, 1, 1e-10)
+    ang = r.diagnostics["angle"]
+    with workdps(60):
+        _check(ang, mpmath.pi / 3, 1e-8)
+        ims = sorted(float(s.im.value) for s in r.singularities)
+    assert ims == pytest.approx([-3 ** 0.5 / 2, 3 ** 0.5 / 2], abs=1e-9)
+    _check(r.singularities[0].exponent, Fraction(-2, 5), 1e-3)
+
+
+def test_large_order_euler():
+    # sum (-1)^n n! x^n: A = -1, b = 1 exactly (common practice, no source)
+    r = estimate_large_order(Series(euler_series(40)), CTX)
+    _check(r.borel_singularity, -1, 1e-20)
+    _check(r.borel_exponent, 1, 1e-15)
+    assert r.growth == "factorial"
+
+
+def test_large_order_quartic_oscillator():
+    # H = p^2 + x^2 + g x^4, Bender-Wu recursion (Bender and Wu, Phys. Rev. 184 (1969) 1231).
+    # Large order (Bender and Wu, Phys. Rev. D 7 (1973) 1620) for H' = p^2 + x^2/4 + l x^4/4:
+    # E'_n ~ (-1)^(n+1) sqrt(6)/pi^(3/2) 3^n Gamma(n+1/2). Rescaling x = sqrt(2) y gives
+    # H' = (p_y^2 + y^2 + 2 l y^4)/2, so E'(l) = E(g = 2l)/2 and E_n = 2 E'_n / 2^n
+    # ~ (-1)^(n+1) 2 sqrt(6)/pi^(3/2) (3/2)^n Gamma(n+1/2): A = -2/3, b = 1/2.
+    E = quartic_oscillator(60)
+    assert E[:4] == [1, Fraction(3, 4), Fraction(-21, 16), Fraction(333, 64)]  # Bender-Wu 1969
+    r = estimate_large_order(Series(E), CTX)
+    _check(r.borel_singularity, Fraction(-2, 3), 1e-5)
+    _check(r.borel_exponent, Fraction(1, 2), 1e-2)
+
+
+def test_root_test_radius():
+    # (1 - 2x)^(-3/2): radius 1/2 (common practice); the root test is crude
+    r = estimate_root_test(Series(binomial_power(Fraction(-3, 2), 60, scale=2)), CTX)
+    _check(r.radius, Fraction(1, 2), 0.05)
+
+
+def test_growth_classes():
+    with workdps(30):
+        assert classify_growth([mpmath.mpf(math_fact) for math_fact in euler_series(40)])[0] == "factorial"
+        assert classify_growth([1 / mpmath.factorial(n) for n in range(40)])[0] == "entire-like"
+        assert classify_growth([_mp(c) for c in catalan(40)])[0] == "finite radius"
+
+
+def test_not_applicable_is_reported_not_raised():
+    r = estimate_ratio(Series(euler_series(30)), CTX)
+    assert not r.success and r.status.value == "not applicable"
