@@ -440,12 +440,21 @@ def _norm_inf(pol):
     return m
 
 
-def _cf_coefficients(g, nsteps, tol, cplx):
+def _cf_coefficients(g, nsteps, tol, cplx, final_bits=None):
     """d_1..d_nsteps of the corresponding fraction of g (list of balls, g[0] != 0).
 
     Returns (d, terminated_at): if the remainder u_k vanishes (to ``tol``
     relative to the terms that cancelled to form it) the fraction terminates
-    and d has k - 1 entries. Raises _Block(k) at a singular block."""
+    and d has k - 1 entries. Raises _Block(k) at a singular block.
+
+    Precision schedule: errors made at step k are amplified only by the
+    steps after it, and the loss per step is roughly constant, so the
+    working precision is lowered linearly from the current flint precision at
+    step 1 to ``final_bits`` at the last step (about halving the cost). The
+    ball arithmetic still bounds the resulting error."""
+    start_bits = flint.ctx.prec
+    if final_bits is None or final_bits >= start_bits:
+        final_bits = start_bits
     P = flint.acb_poly if cplx else flint.arb_poly
     n = len(g)
     gp = P(g)
@@ -457,7 +466,10 @@ def _cf_coefficients(g, nsteps, tol, cplx):
     vv_prev = gp
     d = []
     cheap = ref
+    span = start_bits - final_bits
     for k in range(1, nsteps + 1):
+        if span:
+            flint.ctx.prec = final_bits + (span * (nsteps - k)) // max(nsteps, 1)
         if u.length() == 0:
             return d, k
         u0 = u[0]
@@ -499,20 +511,22 @@ def _poly_small(pol, thr):
     return True
 
 
-def _convergents(g0, d, cplx, want):
-    """Yield (k, A_k, B_k) for k in 0..len(d) (A, B ball polynomials); only
-    the k in ``want`` (a set) are yielded, but all are computed (O(N) each)."""
+def _denominators(d, cplx, want):
+    """Denominators B_k of the convergents, for k in ``want``:
+    ``B_k = B_{k-1} + d_k x B_{k-2}``, ``B_{-1} = B_0 = 1``; the convergent
+    A_k/B_k is the staircase entry and its numerator is the truncation of
+    ``g B_k`` (computed by the caller with one product). O(k) per step."""
     P = flint.acb_poly if cplx else flint.arb_poly
-    Am, Bm = P([0]), P([1])        # k = -1
-    A, B = P([g0]), P([1])         # k = 0
+    Bm, B = P([1]), P([1])
+    out = {}
     if 0 in want:
-        yield 0, A, B
-    for k, dk in enumerate(d, start=1):
-        An = A + (Am * dk).left_shift(1)
-        Bn = B + (Bm * dk).left_shift(1)
-        Am, Bm, A, B = A, B, An, Bn
+        out[0] = B
+    top = max(want) if want else 0
+    for k, dk in enumerate(d[:top], start=1):
+        Bm, B = B, B + (Bm * dk).left_shift(1)
         if k in want:
-            yield k, A, B
+            out[k] = B
+    return out
 
 
 def _balls(c, cplx):
@@ -533,24 +547,29 @@ def _series_recip(c, n, cplx):
     return (list(co) + [Z] * n)[:n]
 
 
+def _log2_abs(x):
+    """log2 of |x| for an arf (to within one unit), -inf for zero."""
+    m, e = x.man_exp()
+    m = int(m)
+    if m == 0:
+        return -math.inf
+    return (abs(m).bit_length() + int(e))
+
+
 def _rel_digits(poly_coeffs):
-    """Normwise correct digits of a list of balls."""
-    mx = mpmath.mpf(0)
-    rad = mpmath.mpf(0)
+    """Normwise correct digits of a list of balls (rounded down by one bit)."""
+    big = -math.inf
+    rad = -math.inf
     for z in poly_coeffs:
-        if isinstance(z, flint.acb):
-            mag = abs(fb.acb_to_mpc(z))
-            r = fb.acb_rad(z)
-        else:
-            mag = abs(fb.arb_to_mpf(z))
-            r = fb.arb_rad(z)
-        mx = max(mx, mag)
-        rad = max(rad, r)
-    if rad == 0:
+        parts = (z.real, z.imag) if isinstance(z, flint.acb) else (z,)
+        for x in parts:
+            big = max(big, _log2_abs(x.mid()))
+            rad = max(rad, _log2_abs(x.rad()))
+    if rad == -math.inf:
         return math.inf
-    if mx == 0:
+    if big == -math.inf:
         return 0.0
-    return max(0.0, float(mpmath.log10(mx / rad)))
+    return max(0.0, (big - rad - 2) * 0.30102999566398120)
 
 
 def _scale_exponent(c):
@@ -571,7 +590,7 @@ class _Staircase:
     of the recursion, at one precision. ``entries[m]`` = (p_balls, q_balls)
     for m = min(L, M); entries past a singular block are missing."""
 
-    def __init__(self, f, d, cplx, tol, Mmax, only=None):
+    def __init__(self, f, d, cplx, tol, Mmax, only=None, final_bits=None):
         self.d = d
         self.cplx = cplx
         n = len(f)
@@ -592,36 +611,40 @@ class _Staircase:
         Mmax = min(Mmax, (len(g) - 1) // 2)
         if Mmax < 0:
             return
+        bits = flint.ctx.prec
         try:
-            dcoef, term = _cf_coefficients(g, 2 * Mmax, tol, cplx)
+            dcoef, term = _cf_coefficients(g, 2 * Mmax, tol, cplx, final_bits)
         except _Block as b:
+            flint.ctx.prec = bits
             self.broken_at = b.k
             self.precision_block = b.precision
             term = None
             dcoef = []
             if b.k > 1:
-                dcoef, term = _cf_coefficients(g, b.k - 1, tol, cplx)
+                dcoef, term = _cf_coefficients(g, b.k - 1, tol, cplx, final_bits)
+        flint.ctx.prec = bits if final_bits is None else max(final_bits, 64)
         self.terminated = term
         lastk = len(dcoef)
         P = flint.acb_poly if cplx else flint.arb_poly
-        Tp = P(T) if T else P([0])
         Ms = range(Mmax + 1) if only is None else [m for m in only if 0 <= m <= Mmax]
         want = set(min(2 * m, lastk) for m in Ms)
-        convs = {k: (A, B) for k, A, B in _convergents(g[0], dcoef, cplx, want)}
+        dens = _denominators(dcoef, cplx, want)
+        basepoly = P(base)
         for M in Ms:
             k = 2 * M
             if k <= lastk:
-                A, B = convs[k]
+                B = dens[k]
             elif term is not None:
-                A, B = convs[lastk]   # the fraction terminated: g is rational
+                B = dens[lastk]   # the fraction terminated: g is rational
             else:
                 continue
-            num = Tp * B + A.left_shift(e)
-            den = B
+            # the other polynomial is the truncated product with the series
             if d >= 0:
-                pb, qb = num, den
+                qb = B
+                pb = (basepoly.truncate(M + e + 1) * B).truncate(M + e + 1)
             else:
-                pb, qb = den, num
+                pb = B
+                qb = (basepoly.truncate(M + e + 1) * B).truncate(M + e + 1)
             inv0 = 1 / qb[0]
             self.entries[M] = (pb * inv0, qb * inv0)
             self.ok_upto = M
@@ -725,9 +748,10 @@ def _coeff_diff_digits(p1, p2):
     return max(0.0, float(mpmath.log10(mx / df)))
 
 
-def _fraction_run(g, d, Mmax, tol, cplx, prec):
+def _fraction_run(g, d, Mmax, tol, cplx, prec, final_bits=None):
     with fb.flint_prec(prec):
-        st = _Staircase(_balls(g, cplx), d, cplx, tol, Mmax, only=[Mmax])
+        st = _Staircase(_balls(g, cplx), d, cplx, tol, Mmax, only=[Mmax],
+                        final_bits=final_bits)
         ent = st.entries.get(Mmax)
         if ent is None:
             return None, st.precision_block
@@ -749,8 +773,9 @@ def _fraction_one(g, Lg, Mg, dps, tol, cplx, max_prec_bits, growth=None):
     prec = fb.prec_for_dps(dps + guard)
     d = Lg - Mg
     Mmax = Mg if d >= 0 else Lg
+    final = fb.prec_for_dps(dps + 60)
     while True:
-        r, pblock = _fraction_run(g, d, Mmax, tol, cplx, prec)
+        r, pblock = _fraction_run(g, d, Mmax, tol, cplx, prec, final)
         if r is None:
             if pblock and prec < max_prec_bits:
                 prec = min(max_prec_bits, 2 * prec)
@@ -759,9 +784,10 @@ def _fraction_one(g, Lg, Mg, dps, tol, cplx, max_prec_bits, growth=None):
         pb, qb, digs = r
         if digs >= dps or prec >= max_prec_bits:
             return pb, qb, digs, prec
-        have = prec / 3.3219
-        lost = have - digs
-        prec = min(max_prec_bits, fb.prec_for_dps(dps + 1.1 * lost + 10))
+        # short by (dps - digs) digits: raise both ends of the schedule
+        delta = int(3.3219 * (1.1 * (dps - digs) + 10))
+        prec = min(max_prec_bits, prec + delta)
+        final = min(prec, final + delta)
 
 
 def pade(c: Sequence, L: int, M: int, dps: int, *, input_digits: Optional[float] = None,
@@ -1023,6 +1049,7 @@ def pade_table(c: Sequence, dps: int, offsets=(-2, -1, 0, 1, 2), min_order: int 
         guard = guard_digits_for_pade(len(g), dps, growth)
         for d in offsets:
             prec = fb.prec_for_dps(dps + guard)
+            final = fb.prec_for_dps(dps + 60)
             entries = [(L, M) for (L, M) in wanted if L - M == d]
             if not entries:
                 continue
@@ -1030,7 +1057,7 @@ def pade_table(c: Sequence, dps: int, offsets=(-2, -1, 0, 1, 2), min_order: int 
             while True:
                 with fb.flint_prec(prec):
                     st = _Staircase(_balls(g, cplx), d, cplx, tl, Mtop,
-                                    only=[min(L, M) for L, M in entries])
+                                    only=[min(L, M) for L, M in entries], final_bits=final)
                     res = {}
                     worst = math.inf
                     for L, M in entries:
@@ -1047,7 +1074,9 @@ def pade_table(c: Sequence, dps: int, offsets=(-2, -1, 0, 1, 2), min_order: int 
                     continue
                 if worst >= dps or not res:
                     break
-                prec = min(maxp, fb.prec_for_dps(dps + 1.1 * (prec / 3.3219 - worst) + 10))
+                delta = int(3.3219 * (1.1 * (dps - worst) + 10))
+                prec = min(maxp, prec + delta)
+                final = min(prec, final + delta)
             with fb.flint_prec(prec):
                 for (L, M), (pb, qb, digs) in res.items():
                     done[(L, M)] = _finish_inexact(pb, qb, L, M, (L, M), 0, 1, sc, digs, dps,
