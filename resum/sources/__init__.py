@@ -1,0 +1,172 @@
+"""Series sources: generators of long perturbative series with known answers.
+
+``SOURCES`` maps a name to a :class:`SourceSpec` (``name``, ``help``,
+``params``, ``build(ctx, **params) -> Series`` and, where the source knows its
+finite-coupling values, ``truth(ctx, points, **params) -> [Estimate]``).
+``resum generate NAME`` and family studies use this registry.
+
+>>> sorted(SOURCES)
+['bes', 'euler', 'oscillator', 'phi4']
+>>> s = SOURCES["phi4"].build(Context(dps=20), orders=3)
+>>> [str(c) for c in s.coefficients]
+['1', '-3/4', '105/32']
+
+Sources
+-------
+bes
+    Angle-deformed BES kernel quantity ``F_a(g)`` in ``x = g^2``
+    (:mod:`resum.sources.bes`); ``truth`` at couplings ``g``.
+oscillator
+    Rayleigh-Schrodinger series of the quartic anharmonic oscillator
+    ``p^2 + x^2 + g x^4`` (:mod:`resum.sources.oscillator`); ``truth`` by
+    diagonalisation at couplings ``g``.
+phi4
+    Zero-dimensional ``phi^4`` integral (:mod:`resum.sources.phi4`);
+    ``truth`` from its Bessel-function closed form.
+euler
+    Euler's series ``sum (sign)^n n! x^n`` (:mod:`resum.sources.euler`);
+    ``truth`` (the Borel sum) for the alternating one.
+
+Any analytic callable: :func:`resum.sources.cauchy.taylor_coefficients`.
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from typing import Any, Callable, Optional, Sequence
+
+from ..context import DEFAULT, Context
+from ..errors import InputError
+
+__all__ = ["SOURCES", "SourceSpec", "Param", "get_source"]
+
+
+@dataclass(frozen=True)
+class Param:
+    """One source parameter: ``type`` is ``"int"``, ``"float"`` (a number or
+    an expression such as ``"pi/3"``), ``"str"`` or ``"bool"``."""
+
+    name: str
+    type: str
+    default: Any
+    help: str
+    choices: Optional[tuple] = None
+
+
+@dataclass(frozen=True)
+class SourceSpec:
+    name: str
+    help: str
+    params: tuple
+    build: Callable
+    truth: Optional[Callable] = None
+    truth_help: str = ""
+
+    def param(self, name: str) -> Param:
+        for p in self.params:
+            if p.name == name:
+                return p
+        raise InputError(f"source {self.name!r} has no parameter {name!r}; known: "
+                         f"{', '.join(p.name for p in self.params)}")
+
+
+def _ctx_with(ctx: Optional[Context], dps: Optional[int]) -> Context:
+    ctx = ctx or DEFAULT
+    if dps is None:
+        return ctx
+    if isinstance(dps, bool) or not isinstance(dps, int) or dps < 5:
+        raise InputError(f"dps: expected a whole number >= 5, got {dps!r}")
+    return ctx.with_dps(dps)
+
+
+# ----------------------------------------------------------------------------- bes
+
+def _bes_build(ctx: Optional[Context] = None, angle="pi/4", loops: int = 60,
+               dps: Optional[int] = None, exact: bool = False):
+    from .bes import weak_coupling_series
+    return weak_coupling_series(angle, loops, _ctx_with(ctx, dps), exact=bool(exact))
+
+
+def _bes_truth(ctx: Context, points: Sequence, angle="pi/4", dps: Optional[int] = None, **_):
+    from .bes import finite_coupling
+    out = []
+    for g in points:
+        r = finite_coupling(g, angle, _ctx_with(ctx, dps))
+        out.append(r.value if r.success else None)
+    return out
+
+
+# ---------------------------------------------------------------------- oscillator
+
+def _osc_build(ctx: Optional[Context] = None, state: int = 0, orders: int = 100):
+    from .oscillator import series
+    return series(state, orders)
+
+
+def _osc_truth(ctx: Context, points: Sequence, state: int = 0, **_):
+    from .oscillator import energy
+    out = []
+    for g in points:
+        r = energy(g, state, ctx)
+        out.append(r.value if r.success else None)
+    return out
+
+
+# ----------------------------------------------------------------------------- phi4
+
+def _phi4_build(ctx: Optional[Context] = None, orders: int = 60):
+    from .phi4 import series
+    return series(orders)
+
+
+def _phi4_truth(ctx: Context, points: Sequence, **_):
+    from .phi4 import value
+    return [value(g, ctx) for g in points]
+
+
+# ---------------------------------------------------------------------------- euler
+
+def _euler_build(ctx: Optional[Context] = None, orders: int = 50, sign: int = -1):
+    from .euler import series
+    return series(orders, sign)
+
+
+def _euler_truth(ctx: Context, points: Sequence, sign: int = -1, **_):
+    from .euler import truth
+    return truth(ctx, points, sign=sign)
+
+
+SOURCES = {
+    "bes": SourceSpec(
+        "bes", "angle-deformed BES kernel quantity F_a(g) = 4 g^2 [(1+K(a))^-1]_11, "
+               "series in x = g^2 (a = pi/4: cusp anomalous dimension)",
+        (Param("angle", "float", "pi/4", "deformation angle a in radians (a number or an "
+                                         "expression such as pi/3)"),
+         Param("loops", "int", 60, "number of loops: highest power g^(2 loops)"),
+         Param("dps", "int", None, "correct significant digits of every coefficient "
+                                   "(default: the working precision)"),
+         Param("exact", "bool", False, "also store the exact coefficients (pi, zeta values) in "
+                                       "the provenance")),
+        _bes_build, _bes_truth, "F_a(g) at couplings g by a truncated matrix and quadrature"),
+    "oscillator": SourceSpec(
+        "oscillator", "energy levels of p^2 + x^2 + g x^4 as exact Rayleigh-Schrodinger series in g",
+        (Param("state", "int", 0, "level: 0 ground state, 1 first excited, ..."),
+         Param("orders", "int", 100, "number of coefficients (g^0 .. g^(orders-1))")),
+        _osc_build, _osc_truth, "energy at couplings g by diagonalisation in an oscillator basis"),
+    "phi4": SourceSpec(
+        "phi4", "zero-dimensional phi^4 integral Z(g) = (2 pi)^(-1/2) Int exp(-x^2/2 - g x^4/4) dx",
+        (Param("orders", "int", 60, "number of coefficients (g^0 .. g^(orders-1))"),),
+        _phi4_build, _phi4_truth, "Z(g) from its modified-Bessel closed form"),
+    "euler": SourceSpec(
+        "euler", "Euler's series sum (sign)^n n! x^n",
+        (Param("orders", "int", 50, "number of coefficients"),
+         Param("sign", "int", -1, "-1: alternating (Borel summable), 1: same sign", (-1, 1))),
+        _euler_build, _euler_truth, "Borel sum e^(1/x) E_1(1/x)/x (alternating series only)"),
+}
+
+
+def get_source(name: str) -> SourceSpec:
+    """The registered source ``name``; an unknown name is an input error listing the known ones."""
+    try:
+        return SOURCES[name]
+    except KeyError:
+        raise InputError(f"unknown source {name!r}; known: {', '.join(sorted(SOURCES))}") from None

@@ -1,0 +1,72 @@
+r"""Euler's series ``sum_n s^n n! x^n`` (``s = -1``: alternating, Borel summable).
+
+The alternating series is the asymptotic expansion of the Stieltjes function
+
+.. math::
+
+   E(x) = \int_0^\infty \frac{e^{-t}}{1 + x t}\, dt
+        = \frac{1}{x} e^{1/x} E_1(1/x), \qquad x > 0,
+
+its Borel sum; the tests compare with mpmath's ``e1``. With ``s = +1`` the
+Borel transform ``1/(1 - t)`` has a pole on the positive axis and the sum is
+ambiguous (a lateral Borel sum has imaginary part ``pi e^{-1/x} / x``).
+"""
+from __future__ import annotations
+
+import math
+from typing import Optional, Sequence
+
+import mpmath
+
+from ..context import DEFAULT, Context
+from ..errors import InputError
+from ..results import Estimate
+from ..series.core import Series
+
+__all__ = ["coefficients", "series", "borel_sum"]
+
+
+def coefficients(orders: int, sign: int = -1) -> list:
+    """``[s^n n!]`` for ``n < orders`` (exact integers).
+
+    >>> coefficients(5)
+    [1, -1, 2, -6, 24]
+    """
+    if isinstance(orders, bool) or not isinstance(orders, int) or orders < 1:
+        raise InputError(f"orders: expected a whole number >= 1, got {orders!r}")
+    if sign not in (1, -1):
+        raise InputError(f"sign: must be 1 or -1, got {sign!r}")
+    return [sign ** n * math.factorial(n) for n in range(orders)]
+
+
+def series(orders: int = 50, sign: int = -1) -> Series:
+    kind = "alternating" if sign == -1 else "same-sign"
+    return Series(coefficients(orders, sign), variable="x", name=f"euler({kind})",
+                  description=f"Euler's series sum ({sign})^n n! x^n",
+                  provenance={"source": "euler", "orders": orders, "sign": sign})
+
+
+def borel_sum(x, ctx: Optional[Context] = None) -> Estimate:
+    """``int_0^oo e^-t/(1 + x t) dt = e^{1/x} E_1(1/x)/x`` for ``x > 0``, with a
+    band from recomputing at higher precision.
+
+    >>> mpmath.nstr(borel_sum(1, Context(dps=20)).value, 15)
+    '0.596347362323194'
+    """
+    ctx = ctx or DEFAULT
+    vals = []
+    for c in (ctx, ctx.higher()):
+        with c.working():
+            xx = mpmath.mpmathify(x)
+            if not (xx > 0):
+                raise InputError(f"x: the Borel sum is evaluated for real x > 0, got {x}")
+            vals.append(mpmath.exp(1 / xx) * mpmath.e1(1 / xx) / xx)
+    with ctx.higher().working():
+        err = abs(vals[1] - vals[0]) + abs(vals[1]) * mpmath.mpf(10) ** (-ctx.dps - 2)
+        return Estimate(vals[1], vals[1] - err, vals[1] + err)
+
+
+def truth(ctx: Context, points: Sequence, sign: int = -1, **params) -> list:
+    if sign != -1:
+        raise InputError("sign: a finite-coupling value exists only for the alternating series (sign -1)")
+    return [borel_sum(x, ctx) for x in points]

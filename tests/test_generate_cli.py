@@ -1,0 +1,63 @@
+"""The ``resum generate`` subcommand, run in process through ``resum.cli.main``."""
+import json
+
+import mpmath
+import pytest
+
+from resum.cli import main
+from resum.context import workdps
+
+
+def test_bes_fixed_invocation(tmp_path):
+    out = tmp_path / "cusp.json"
+    rc = main(["generate", "bes", "--angle", "pi/4", "--loops", "5", "--dps", "40", "-o", str(out)])
+    assert rc == 0
+    doc = json.loads(out.read_text())
+    cs = doc["coefficients"]
+    assert len(cs) == 6 and cs[0] == "0"
+    assert doc["variable"] == "x"
+    assert "g" in doc["coupling"] and "2" in doc["coupling"]
+    # cusp anomalous dimension, Beisert-Eden-Staudacher hep-th/0610251 (f = 2F):
+    # F = 4 g^2 - 4/3 pi^2 g^4 + 44/45 pi^4 g^6 - 8 (73/630 pi^6 + 4 zeta(3)^2) g^8 + ...
+    with workdps(60):
+        pi, z3 = mpmath.pi, mpmath.zeta(3)
+        ref = [4, -mpmath.mpf(4) / 3 * pi ** 2, mpmath.mpf(44) / 45 * pi ** 4,
+               -8 * (mpmath.mpf(73) / 630 * pi ** 6 + 4 * z3 ** 2)]
+        for k, r in enumerate(ref, start=1):
+            v = mpmath.mpf(cs[k])
+            assert abs(v - r) <= abs(r) * mpmath.mpf(10) ** -39
+            # written with the digits asked, not more
+            digits = len(cs[k].lstrip("-").replace(".", "").lstrip("0").split("e")[0])
+            assert digits <= 40
+    assert doc["provenance"]["loops"] == 5
+
+
+def test_angle_as_decimal_and_zero_angle(tmp_path):
+    out = tmp_path / "a0.json"
+    assert main(["generate", "bes", "--angle", "0", "--loops", "3", "--dps", "20", "-o", str(out)]) == 0
+    cs = json.loads(out.read_text())["coefficients"]
+    # (2/pi^2) log cosh(2 pi g) = 4 g^2 - 8/3 pi^2 g^4 + ... (Belitsky-Korchemsky arXiv:1907.13131)
+    with workdps(30):
+        assert abs(mpmath.mpf(cs[2]) + mpmath.mpf(8) / 3 * mpmath.pi ** 2) < mpmath.mpf(10) ** -18
+
+
+def test_oscillator_and_phi4_exact(tmp_path):
+    out = tmp_path / "osc.json"
+    assert main(["generate", "oscillator", "--state", "0", "--orders", "4", "-o", str(out)]) == 0
+    # Bender-Wu, Phys. Rev. 184 (1969) 1231, converted to H = p^2 + x^2 + g x^4 (see tests/sources)
+    assert json.loads(out.read_text())["coefficients"] == ["1", "3/4", "-21/16", "333/64"]
+    out = tmp_path / "phi4.txt"
+    assert main(["generate", "phi4", "--orders", "3", "-o", str(out)]) == 0
+    # <x^4> = 3 under the unit Gaussian: Z = 1 - (3/4) g + (105/32) g^2 (common practice, no source)
+    text = out.read_text()
+    assert "-3/4" in text and "105/32" in text
+
+
+def test_bad_input_is_one_line_exit_2(tmp_path, capsys):
+    out = tmp_path / "x.json"
+    assert main(["generate", "bes", "--angle", "pie/3", "--loops", "5", "-o", str(out)]) == 2
+    err = capsys.readouterr().err.strip().splitlines()
+    assert len(err) == 1 and "--angle" in err[0]
+    assert not out.exists()
+    assert main(["generate", "bes", "--loops", "0", "-o", str(out)]) == 2
+    assert main(["generate", "euler", "--sign", "2", "-o", str(out)]) == 2
