@@ -440,21 +440,23 @@ def _run(plan: _Plan, c, xs, dps, n_orders):
     from .estimators.resum_conformal import conformal_evaluate
     from .estimators.resum_pade import pade_evaluate, partial_sum_evaluate
     if plan.method == "partial-sum":
-        return partial_sum_evaluate(c, xs, dps, n_orders=n_orders or 8)
+        return partial_sum_evaluate(c, xs, dps, n_orders=7 if n_orders is None else n_orders)
     if plan.method == "pade":
-        return pade_evaluate(c, xs, dps, n_orders=n_orders or 8)
+        return pade_evaluate(c, xs, dps, n_orders=7 if n_orders is None else n_orders)
     if plan.method == "conformal-pade":
-        return conformal_evaluate(c, xs, plan.cmap, dps, alpha=plan.alpha, n_orders=n_orders or 8)
+        return conformal_evaluate(c, xs, plan.cmap, dps, alpha=plan.alpha, n_orders=7 if n_orders is None else n_orders)
     return borel_evaluate(c, xs, dps, b=plan.borel_b, cmap=plan.cmap, alpha=plan.alpha,
-                          n_orders=n_orders or 6, lateral=plan.lateral)
+                          n_orders=7 if n_orders is None else n_orders, lateral=plan.lateral)
 
 
 def _perturb(c, digits):
-    """Move inexact coefficients by one unit in their last carried digit (alternating sign)."""
+    """Move inexact coefficients by one unit in their last carried digit (fixed pseudo-random signs)."""
     if digits is None:
         return c
+    import random
+    rng = random.Random(20240611)
     eps = mpmath.mpf(10) ** (-digits)
-    return [v * (1 + (eps if k % 2 else -eps)) for k, v in enumerate(c)]
+    return [v * (1 + eps * rng.choice((-1, 1))) for v in c]
 
 
 def _widen(est: Optional[Estimate], others) -> Optional[Estimate]:
@@ -509,7 +511,8 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
     lateral : {"auto", "always", "never"}
         Lateral Borel sums when a singularity lies on the integration ray.
     n_orders : int, optional
-        How many term counts enter the spread (default 8; 6 for Borel).
+        How many lower term counts (down to about 55% of the terms) are used to
+        extrapolate the band (default 7); 0 keeps only the top four.
 
     Returns
     -------

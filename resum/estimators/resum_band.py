@@ -233,8 +233,9 @@ def band_from_candidates(vals: Sequence, n_used: Sequence[int], *, floor=0, safe
     Froissart doublet, is set aside) and (b) the error at the full term
     count extrapolated from the lower-order candidates: their distances from
     the value, made monotone (largest distance at or above each term count),
-    are fitted by ``log10 d = a + b n`` and the line is continued to the
-    full term count. When the lower orders do not approach the value
+    are fitted by ``log10 d = a + b n`` and by ``log10 d = a' + b' sqrt(n)``
+    and the larger of the two lines continued to the full term count is kept
+    (geometric and sub-geometric convergence). When the lower orders do not approach the value
     (``b >= 0``) the band is their largest distance instead and
     ``info["converging"]`` is False. The band is at least ``floor`` and the
     working-precision floor.
@@ -271,9 +272,15 @@ def band_from_candidates(vals: Sequence, n_used: Sequence[int], *, floor=0, safe
         env.reverse()
         pts = [(mpmath.mpf(n), mpmath.log10(d)) for n, d in env if d > 0]
         fit = _line_fit([p[0] for p in pts], [p[1] for p in pts]) if len(pts) >= 3 else None
+        # the same in sqrt(n): slower (sub-geometric) convergence, common for
+        # approximants of functions with cuts; the larger extrapolation is kept
+        fit2 = (_line_fit([mpmath.sqrt(p[0]) for p in pts], [p[1] for p in pts])
+                if len(pts) >= 3 else None)
         if fit is not None and fit[1] < 0:
             a, b = fit
             extrap = mpmath.mpf(10) ** (a + b * nmax)
+            if fit2 is not None:
+                extrap = max(extrap, mpmath.mpf(10) ** (fit2[0] + fit2[1] * mpmath.sqrt(nmax)))
             info["decay_digits_per_term"] = mpmath.nstr(-b, 4)
         else:
             converging = False
