@@ -304,13 +304,20 @@ def _reconcile(series, results, warnings):
     nearest_methods = max((len(f) for s, f in lead), default=0)
     rest = [(s, f) for s, f in combined if (s, f) not in lead and len(f) >= 2]
     chosen = lead + rest
+    if len(chosen) > 1:
+        # a point seen only by a method that cannot locate it well (plain Padé at a branch
+        # point) is dropped when better-supported points exist
+        chosen = [(s, f) for s, f in chosen if not (len(f) == 1 and not _location_reliable(s))] or chosen
+        lead = [t for t in lead if t in chosen] or chosen[:1]
     if nearest_methods == 1 and len(ok) > 1:
         warnings.append("the nearest singularity was found by one method only; treat it with care")
     out["singularities"] = tuple(s for s, _ in chosen)
     near = min((s for s, _ in lead), key=lambda s: abs(s.location))
     rad = modulus_band(near.re, near.im)
     out["radius"] = rad
-    out["combined"] = {"singularities": [{"location": s.location, "found_by": f} for s, f in chosen]}
+    out["combined"] = {"singularities": [{"location": s.location, "found_by": f,
+                                          "used": [m for m in f if m in (s.note or "").split("; found by")[0]]}
+                                         for s, f in chosen]}
     rt = ok.get("root-test")
     if rt is not None and rt.radius is not None and not _overlap(rt.radius, rad):
         warnings.append(f"root test radius {rt.radius} does not overlap {rad}")
@@ -451,7 +458,12 @@ def _analyze(series, ctx, names, verify, prep):
     verification = {}
     final = dict(base)
     if verify and base["radius"] is not None:
-        contributing = [k for k, r in results.items() if r.success]
+        # rerun only the methods whose estimates made it into the verdict
+        used = {s.method for s in base["singularities"]}
+        used |= {m for c in base["combined"].get("singularities", []) for m in c.get("used", [])}
+        used |= {v for v in base["combined"].values() if isinstance(v, str)}
+        contributing = [k for k, r in results.items() if r.success and k in used] or \
+            [k for k, r in results.items() if r.success]
         final_v, verification = _verify(series, ctx, contributing, base, warnings)
         final.update(final_v)
     growth = base["growth"]

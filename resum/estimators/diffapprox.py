@@ -155,6 +155,8 @@ def estimate_diffapprox(series, ctx=None, order=1, count=16, max_radius_factor=2
         K = order
         D = _deriv_coeffs(c, K)
         N = len(c)
+        if N > 100:
+            count = min(count, 10)     # each approximant costs O(N^3): fewer for long series
         max_err = 10.0 ** -max(10, prep.digits / 3)   # approximants must keep a third of the digits
         ens, skipped, table = [], [], []
         # highest orders first; a degenerate (exactly D-finite) or ill-conditioned top of the
@@ -164,12 +166,22 @@ def estimate_diffapprox(series, ctx=None, order=1, count=16, max_radius_factor=2
         # approximants using fewer than half the terms are not used: a table that is singular
         # down to there belongs to a series satisfying a low-order equation exactly, where
         # near-degenerate approximants give biased exponents
-        levels = list(range(N, max(N // 2, 4 * (K + 1) + 1), -step))
+        levels = list(range(N, 4 * (K + 1) + 1, -step))
+        floor_level = max(N // 2, 4 * (K + 1) + 1)
+        probed = False
         tried = 0
         n_singular = 0
         for level in levels:
             if len(ens) >= count:
                 break
+            if level < floor_level and not ens:
+                # is the top of the table singular because of the precision or because the
+                # series satisfies a lower-order equation exactly? One probe at twice the digits.
+                if not probed:
+                    probed = True
+                    L0, Ms0 = diffapprox_orders(N, K, 1)[0]
+                    if fit_diffapprox(D, K, L0, Ms0, 2 * prep.dps) is None:
+                        break          # degenerate: do not descend to tiny approximants
             for idx, (L, Ms) in enumerate(diffapprox_orders(level, K, count)):
                 if len(ens) >= count:
                     break
@@ -213,6 +225,9 @@ def estimate_diffapprox(series, ctx=None, order=1, count=16, max_radius_factor=2
                "singular or keeps fewer than 10 digits); zeros of Q_K found in at "
                f"least half of them clustered; band = {SAFETY} x spread of locations and exponents.")
         diag = {"how": how, "order": K, "approximants": table, "skipped": skipped, **info}
+        if probed and ens:
+            diag["note"] = ("the highest orders are ill-conditioned at this precision; lower orders were used "
+                            "(more digits would use more terms)")
         if K == 2:
             # a zero of Q_2 with exponents 0 and a positive integer is usually an apparent
             # singularity of the approximating equation, not of f

@@ -249,7 +249,22 @@ def clusters_to_singularities(ens, method, eps, residue_is_exponent=False, expon
         sings.append(Singularity(re, im, kind, theta, method, note))
         info.append({"center": center, "members": len(zs), "fraction": cl["fraction"], "on_cut": on_cut,
                      "residues": rvals, "residue_spread": rdev, "stable_residue": stable})
-    return sings, {"clusters": info}
+    # two clusters at (almost) the same point: keep the one most approximants agree on
+    keep = []
+    for i, s in enumerate(sings):
+        dup = False
+        for j in list(keep):
+            t = sings[j]
+            if abs(s.location - t.location) <= 2 * rel_tol * max(abs(t.location), mpmath.mpf(10) ** -30):
+                dup = True
+                if (info[i]["fraction"], -max(s.re.error, s.im.error)) > \
+                        (info[j]["fraction"], -max(t.re.error, t.im.error)):
+                    keep[keep.index(j)] = i
+                break
+        if not dup:
+            keep.append(i)
+    keep.sort()
+    return [sings[i] for i in keep], {"clusters": [info[i] for i in keep]}
 
 
 def approximant_table(ens):
