@@ -1,0 +1,364 @@
+"""Strong-coupling probe: resum at growing coupling and fit an asymptotic form.
+
+:func:`probe_strong_coupling` evaluates the resummed function on a grid of
+growing couplings (``resum.resummation.evaluate``), keeps the points whose
+band is narrow enough to trust, estimates the leading power ``p`` of
+``f ~ a_0 g^p`` from the log-derivative ``d log f / d log g`` (secants between
+neighbouring points, extrapolated in ``1/g``) unless the user gives it, and
+fits
+
+    f(g) = sum_k a_k g^(p - k)   [+ sum_k b_k g^(p - k) log g  with log_terms]
+
+by weighted least squares (weights 1/band). The fit is repeated over an
+ensemble (number of terms in the form, lowest coupling kept); each
+coefficient's value is the median over the ensemble, and its band is 3
+times the larger of the ensemble's central spread (16th to 84th percentile
+around the median) and the median least-squares standard error. Weights are 1/band, floored at a 1e-10 relative band.
+
+What the bands mean: the coefficient bands measure how much the fitted
+numbers move when the truncation of the asymptotic form and the fitting
+window change, given the resummed values and their bands. They do not
+account for terms the form leaves out entirely (exponentially small
+corrections, unexpected logs); comparing ``log_terms`` on/off and the
+reported ``trusted_up_to`` coupling tells how far to rely on them.
+
+>>> from resum.series import Series, Coupling
+>>> from resum.context import Context, workdps
+>>> import mpmath
+>>> with workdps(60):                       # log(1 + x) as a series in x = g: ~ log g + 1/g
+...     cs = [0] + [mpmath.mpf(-1) ** (k + 1) / k for k in range(1, 60)]
+>>> s = Series(cs, digits=50)          # log(1 + x) = log x + 1/x - 1/(2 x^2) + ...
+>>> r = probe_strong_coupling(s, couplings=[8, 10, 12, 16, 20, 24, 32, 40, 48, 64],
+...                           leading_power=0, log_terms=True, n_terms_fit=(3, 4), ctx=Context(dps=20))
+>>> r.coefficient("x^0 log x").contains(1), r.coefficient("x^-1").contains(1)
+(True, True)
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from typing import Optional, Sequence
+
+import mpmath
+
+from ..context import DEFAULT, Context
+from ..errors import InputError
+from ..results import Estimate, Provenance, Status, jsonable, num_to_str
+
+__all__ = ["probe_strong_coupling", "StrongCouplingResult", "simple_rational"]
+
+
+@dataclass(frozen=True)
+class StrongCouplingResult:
+    """Outcome of :func:`probe_strong_coupling`.
+
+    ``couplings``/``values``: the resummed values used (Estimate each, ``None``
+    where the resummation failed); ``trusted_up_to``: the largest coupling
+    whose band met ``max_rel_band``; ``leading_power``: Estimate of ``p``
+    (exact when given by the user or rounded to a simple rational, see
+    ``power_source``); ``coefficients``: tuple of ``(label, Estimate)`` such as
+    ``("g^1", ...)``, ``("g^0", ...)``, ``("g^-1 log g", ...)``;
+    ``comparison``: per expected label, ``{"expected", "inside", "sigma"}``.
+    """
+
+    success: bool
+    status: Status
+    message: str
+    variable: str
+    couplings: tuple
+    values: tuple
+    trusted_up_to: object
+    leading_power: Optional[Estimate]
+    power_source: str
+    coefficients: tuple
+    comparison: dict = field(default_factory=dict)
+    warnings: tuple = ()
+    diagnostics: dict = field(default_factory=dict)
+    provenance: Optional[Provenance] = None
+
+    def coefficient(self, label: str) -> Optional[Estimate]:
+        for k, e in self.coefficients:
+            if k == label:
+                return e
+        return None
+
+    def to_dict(self) -> dict:
+        return {"success": self.success, "status": self.status.value, "message": self.message,
+                "variable": self.variable,
+                "couplings": [num_to_str(g, 20) for g in self.couplings],
+                "values": [None if v is None else v.to_dict() for v in self.values],
+                "trusted_up_to": None if self.trusted_up_to is None else num_to_str(self.trusted_up_to, 20),
+                "leading_power": None if self.leading_power is None else self.leading_power.to_dict(),
+                "power_source": self.power_source,
+                "coefficients": [[k, e.to_dict()] for k, e in self.coefficients],
+                "comparison": jsonable(self.comparison), "warnings": list(self.warnings),
+                "diagnostics": jsonable(self.diagnostics),
+                "provenance": None if self.provenance is None else self.provenance.to_dict()}
+
+    @classmethod
+    def from_dict(cls, d: dict) -> "StrongCouplingResult":
+        return cls(bool(d["success"]), Status(d["status"]), d.get("message", ""), d.get("variable", "g"),
+                   tuple(mpmath.mpf(g) for g in d["couplings"]),
+                   tuple(None if v is None else Estimate.from_dict(v) for v in d["values"]),
+                   None if d.get("trusted_up_to") is None else mpmath.mpf(d["trusted_up_to"]),
+                   None if d.get("leading_power") is None else Estimate.from_dict(d["leading_power"]),
+                   d.get("power_source", ""),
+                   tuple((k, Estimate.from_dict(e)) for k, e in d.get("coefficients", [])),
+                   dict(d.get("comparison", {})), tuple(d.get("warnings", [])),
+                   dict(d.get("diagnostics", {})),
+                   None if d.get("provenance") is None else Provenance.from_dict(d["provenance"]))
+
+
+def simple_rational(x, band, max_den: int = 6):
+    """The simplest fraction ``k/q`` (``q <= max_den``) inside ``[x - band, x + band]``, or None."""
+    from fractions import Fraction
+    best = None
+    for q in range(1, max_den + 1):
+        k = int(mpmath.nint(x * q))
+        if abs(mpmath.mpf(k) / q - x) <= band:
+            f = Fraction(k, q)
+            if best is None or f.denominator < best.denominator:
+                best = f
+    return best
+
+
+def _label(power, log, var="g"):
+    from fractions import Fraction
+    p = Fraction(power).limit_denominator(1000) if not isinstance(power, mpmath.mpf) else power
+    txt = str(p) if not isinstance(p, mpmath.mpf) else mpmath.nstr(p, 8)
+    return f"{var}^{txt}" + (f" log {var}" if log else "")
+
+
+def _lstsq(rows, rhs, weights):
+    A = mpmath.matrix([[r * w for r in row] for row, w in zip(rows, weights)])
+    b = mpmath.matrix([v * w for v, w in zip(rhs, weights)])
+    Q, R = mpmath.qr(A)
+    n = A.cols
+    Rn = R[:n, :n]
+    qb = (Q.T * b)[:n, 0] if hasattr(Q, "T") else None
+    sol = mpmath.lu_solve(Rn, qb)
+    resid = A * sol - b
+    chi2 = sum(resid[i] ** 2 for i in range(A.rows))
+    # standard errors from (R^T R)^-1
+    Rinv = mpmath.inverse(Rn)
+    cov = Rinv * Rinv.T
+    se = [mpmath.sqrt(abs(cov[i, i])) for i in range(n)]
+    return [sol[i] for i in range(n)], se, chi2
+
+
+def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Optional[Context] = None,
+                          method: str = "auto", leading_power=None, log_terms: bool = False,
+                          n_terms_fit: Sequence[int] = (3, 4, 5, 6), expected: Optional[dict] = None,
+                          max_rel_band=mpmath.mpf("1e-4"), evaluate_options: Optional[dict] = None,
+                          values: Optional[Sequence] = None) -> StrongCouplingResult:
+    """Fit the strong-coupling form of a resummed series.
+
+    Parameters
+    ----------
+    series : Series
+        The weak-coupling series (its declared coupling, if any, is the ``g``).
+    couplings : sequence, optional
+        Couplings to evaluate at (default: 4, 6, 8, 12, 16, 24, 32, 48, 64, 80
+        times the distance to the nearest singularity in ``g``).
+    method, evaluate_options :
+        Passed to :func:`resum.resummation.evaluate`.
+    leading_power : number, optional
+        ``p`` in ``f ~ a g^p``; estimated from the log-derivative if omitted.
+    log_terms : bool
+        Also fit ``g^(p-k) log g`` terms.
+    n_terms_fit : sequence of int
+        Numbers of power terms tried in the ensemble.
+    expected : dict, optional
+        ``{label: value}`` to compare with, labels as in the result
+        (``"g^1"``, ``"g^0"``, ...).
+    max_rel_band : number
+        A point is trusted when its band is below this fraction of its value.
+    values : sequence of Estimate, optional
+        Use these values at ``couplings`` instead of resumming (for example
+        from a finite-coupling evaluator); the series is then only used for
+        its name.
+
+    Returns
+    -------
+    StrongCouplingResult
+    """
+    from ..resummation import evaluate, _nearest_singularity  # noqa: F401
+    ctx = ctx or DEFAULT
+    n_terms_fit = tuple(int(k) for k in n_terms_fit)
+    if not n_terms_fit or min(n_terms_fit) < 1:
+        raise InputError("n_terms_fit must list positive integers", where="n_terms_fit")
+    var = series.coupling.symbol if getattr(series, "coupling", None) is not None else series.variable
+    warnings = []
+    with ctx.working(10):
+        if couplings is None:
+            gs = _default_grid(series, ctx)
+        else:
+            from ..resummation import parse_points
+            gs = parse_points(couplings, ctx.work_dps)
+        if any(isinstance(g, mpmath.mpc) or g <= 0 for g in gs):
+            raise InputError("strong-coupling couplings must be real and positive", where="couplings")
+        gs = sorted(gs)
+        if values is None:
+            res = evaluate(series, gs, ctx, method=method, **(evaluate_options or {}))
+            vals = [p.value if p.success else None for p in res.points]
+            meth = res.provenance.method if res.provenance else method
+        else:
+            if len(values) != len(gs):
+                raise InputError("values must match couplings one to one", where="values")
+            vals = list(values)
+            meth = "given values"
+        trusted = [(g, v) for g, v in zip(gs, vals)
+                   if v is not None and v.value != 0 and v.error <= max_rel_band * abs(v.value)]
+        trusted_up_to = trusted[-1][0] if trusted else None
+        if len(trusted) < 4:
+            return StrongCouplingResult(False, Status.TOO_FEW_TERMS,
+                                        f"only {len(trusted)} couplings with a band below "
+                                        f"{mpmath.nstr(max_rel_band, 3)} of the value; need 4",
+                                        var, tuple(gs), tuple(vals), trusted_up_to, None, "", ())
+        # leading power from log-derivative secants, extrapolated in 1/g
+        secants = []
+        for (g1, v1), (g2, v2) in zip(trusted, trusted[1:]):
+            if v1.value * v2.value <= 0:
+                continue
+            ps = mpmath.log(v2.value / v1.value) / mpmath.log(g2 / g1)
+            gm = mpmath.sqrt(g1 * g2)
+            dp = (v1.error / abs(v1.value) + v2.error / abs(v2.value)) / abs(mpmath.log(g2 / g1))
+            secants.append((gm, ps, dp))
+        p_est = None
+        if len(secants) >= 3:
+            pts = secants[-min(6, len(secants)):]
+            ests = []
+            for m in (2, 3):
+                if len(pts) < m + 1:
+                    continue
+                rows = [[mpmath.mpf(1)] + [1 / g ** j for j in range(1, m)] for g, _, _ in pts]
+                try:
+                    sol, se, _ = _lstsq(rows, [p for _, p, _ in pts], [1 for _ in pts])
+                    ests.append((sol[0], se[0]))
+                except (ZeroDivisionError, ValueError):
+                    continue
+            if ests:
+                v0 = ests[-1][0]
+                spread = max(abs(e[0] - v0) for e in ests)
+                band = max(2 * spread, abs(pts[-1][1] - v0) / 4, mpmath.mpf(10) ** -6)
+                p_est = Estimate(v0, v0 - band, v0 + band)
+        if leading_power is not None:
+            from ..resummation import _to_mp
+            p = leading_power
+            p_mp = _to_mp(p) if not isinstance(p, str) else parse_points([p], ctx.work_dps)[0]
+            lp = Estimate.exact(p_mp)
+            source = "given"
+        else:
+            if p_est is None:
+                return StrongCouplingResult(False, Status.FAILED, "could not estimate the leading power",
+                                            var, tuple(gs), tuple(vals), trusted_up_to, None, "", ())
+            fr = simple_rational(p_est.value, p_est.error)
+            if fr is None:
+                p_mp = p_est.value
+                lp = p_est
+                source = "log-derivative (not a simple rational)"
+                warnings.append("the leading power is not close to a simple fraction; fitted with the estimate")
+            else:
+                p_mp = mpmath.mpf(fr.numerator) / fr.denominator
+                lp = Estimate.exact(p_mp)
+                source = f"log-derivative {mpmath.nstr(p_est.value, 6)} rounded to {fr}"
+        # ensemble of fits
+        members = []
+        for K in n_terms_fit:
+            nb = K * (2 if log_terms else 1)
+            for drop in range(0, max(1, len(trusted) - nb)):
+                win = trusted[drop:]
+                if len(win) < nb + 1:
+                    break
+                basis = []
+                for k in range(K):
+                    basis.append((p_mp - k, False))
+                    if log_terms:
+                        basis.append((p_mp - k, True))
+                rows = [[g ** pw * (mpmath.log(g) if lg else 1) for pw, lg in basis] for g, _ in win]
+                rhs = [v.value for _, v in win]
+                # weights 1/band, but no point counts more than a 1e-10 relative band would:
+                # the truncated asymptotic form is itself only that good
+                wts = [1 / max(v.error, abs(v.value) * mpmath.mpf(10) ** -10) for _, v in win]
+                try:
+                    sol, se, chi2 = _lstsq(rows, rhs, wts)
+                except (ZeroDivisionError, ValueError):
+                    continue
+                dof = len(win) - nb
+                members.append({"K": K, "drop": drop, "basis": basis, "sol": sol, "se": se,
+                                "chi2": chi2, "dof": dof, "g_min": win[0][0]})
+        if not members:
+            return StrongCouplingResult(False, Status.FAILED, "no fit could be made", var, tuple(gs),
+                                        tuple(vals), trusted_up_to, lp, source, ())
+        ok = members
+        if not any(m["dof"] > 0 and m["chi2"] / m["dof"] <= 4 for m in members):
+            warnings.append("no fit matches the values within their bands: the truncated form leaves out "
+                            "terms bigger than the bands (the ensemble spread reflects this)")
+        labels = []
+        for m in ok:
+            for pw, lg in m["basis"]:
+                lab = _label(_frac_or(pw), lg, var)
+                if lab not in labels:
+                    labels.append(lab)
+        coeffs = []
+        for lab in labels:
+            samples, ses = [], []
+            for m in ok:
+                for (pw, lg), v, s_ in zip(m["basis"], m["sol"], m["se"]):
+                    if _label(_frac_or(pw), lg, var) == lab:
+                        samples.append(v)
+                        ses.append(s_)
+            if len(samples) < 2:
+                continue           # a term only the largest fits carry is not reported
+            srt = sorted(samples)
+            med = srt[len(srt) // 2]
+            lo_q = srt[int(0.16 * (len(srt) - 1))]
+            hi_q = srt[int(mpmath.ceil(0.84 * (len(srt) - 1)))]
+            spread = max(hi_q - med, med - lo_q)
+            w = 3 * max(spread, sorted(ses)[len(ses) // 2])
+            coeffs.append((lab, Estimate(med, med - w, med + w)))
+        comparison = {}
+        for lab, ev in (expected or {}).items():
+            e = dict(coeffs).get(lab)
+            ev = mpmath.mpmathify(ev)
+            if e is None:
+                comparison[lab] = {"expected": ev, "inside": None, "note": "not fitted"}
+            else:
+                comparison[lab] = {"expected": ev, "inside": e.contains(ev),
+                                   "sigma": (e.value - ev) / e.error if e.error else mpmath.inf}
+                if not e.contains(ev):
+                    warnings.append(f"{lab}: fitted {e} does not contain the expected {mpmath.nstr(ev, 12)}")
+        diag = {"n_fits": len(members), "n_fits_kept": len(ok), "secants": [
+            (mpmath.nstr(g, 6), mpmath.nstr(p, 10)) for g, p, _ in secants],
+            "power_estimate": None if p_est is None else p_est.to_dict(),
+            "resummation_method": meth,
+            "how": "coefficients: median over fits (terms in the form, lowest coupling kept); "
+                   "band = 3 x max(16-84 percentile spread over fits, median least-squares standard error)",
+            "chi2_per_dof": [mpmath.nstr(m["chi2"] / m["dof"], 3) if m["dof"] else None for m in members]}
+        prov = Provenance("strong-coupling", {"method": meth, "leading_power": None if leading_power is None
+                                              else str(leading_power), "log_terms": log_terms,
+                                              "n_terms_fit": list(n_terms_fit)},
+                          n_terms=getattr(series, "n_terms", 0), dps=ctx.work_dps,
+                          input_hash=series.input_hash() if hasattr(series, "input_hash") else "")
+        return StrongCouplingResult(True, Status.CONVERGED,
+                                    f"fitted {len(coeffs)} coefficients from {len(trusted)} couplings up to "
+                                    f"{var} = {mpmath.nstr(trusted_up_to, 6)}", var, tuple(gs), tuple(vals),
+                                    trusted_up_to, lp, source, tuple(coeffs), comparison, tuple(warnings),
+                                    diag, prov)
+
+
+def _frac_or(pw):
+    from fractions import Fraction
+    f = Fraction(str(mpmath.nstr(pw, 15))).limit_denominator(1000)
+    if abs(mpmath.mpf(f.numerator) / f.denominator - pw) < mpmath.mpf(10) ** -12:
+        return f
+    return pw
+
+
+def _default_grid(series, ctx):
+    from ..resummation import _series_singularities
+    c = series.dense(Context(dps=ctx.work_dps, guard=0))
+    sing = _series_singularities(c)
+    r = abs(sing[0]) if sing else mpmath.mpf(1)
+    if series.coupling is not None:
+        r = abs(series.coupling.from_variable(r))
+    return [r * k for k in (4, 6, 8, 12, 16, 24, 32, 48, 64, 80)]
