@@ -147,11 +147,18 @@ class EvaluationResult:
     coupling: Optional[str] = None
     diagnostics: dict = field(default_factory=dict)
     provenance: Optional[Provenance] = None
+    at_symbol: str = "x"
 
     def to_dict(self) -> dict:
+        """Everything, numbers as decimal strings (written at the result's working precision)."""
+        with _wd((self.provenance.dps if self.provenance else 50) + 10):
+            return self._to_dict()
+
+    def _to_dict(self) -> dict:
         return {"points": [p.to_dict() for p in self.points], "method": self.method,
                 "success": self.success, "status": self.status.value, "message": self.message,
                 "warnings": list(self.warnings), "variable": self.variable, "coupling": self.coupling,
+                "at_symbol": self.at_symbol,
                 "diagnostics": jsonable(self.diagnostics),
                 "provenance": None if self.provenance is None else self.provenance.to_dict()}
 
@@ -160,7 +167,8 @@ class EvaluationResult:
         return cls(tuple(PointResult.from_dict(p) for p in d["points"]), d["method"], bool(d["success"]),
                    Status(d["status"]), d.get("message", ""), tuple(d.get("warnings", [])),
                    d.get("variable", "x"), d.get("coupling"), dict(d.get("diagnostics", {})),
-                   None if d.get("provenance") is None else Provenance.from_dict(d["provenance"]))
+                   None if d.get("provenance") is None else Provenance.from_dict(d["provenance"]),
+                   d.get("at_symbol", d.get("variable", "x")))
 
     def contract_dict(self) -> dict:
         """The small, stable JSON document: values with bands as decimal strings.
@@ -168,6 +176,10 @@ class EvaluationResult:
         ``{"values": [{"at", "value", "lo", "hi", "method"} (+ "im", "im_lo", "im_hi")],
         "warnings": [...]}``; a failed point has ``value``/``lo``/``hi`` = ``"nan"``.
         """
+        with _wd((self.provenance.dps if self.provenance else 50) + 10):
+            return self._contract()
+
+    def _contract(self) -> dict:
         vals = []
         for p in self.points:
             if p.value is None:
@@ -612,11 +624,16 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                 if not success:
                     n_fail += 1
                     warnings.append(f"at {mpmath.nstr(a, 10)}: {msg}")
-            # never report more digits than the input carries
-            if re is not None and series.digits is not None:
-                fl = abs(re.value) * mpmath.mpf(10) ** (-series.digits)
+            # never report more digits than the input carries or than were asked for
+            if re is not None:
+                d_rep = ctx.dps if series.digits is None else min(ctx.dps, series.digits)
+                fl = abs(re.value) * mpmath.mpf(10) ** (-d_rep)
                 if re.error < fl:
-                    re = Estimate(re.value, re.value - fl, re.value + fl)
+                    re = Estimate(re.value, min(re.lower, re.value - fl), max(re.upper, re.value + fl))
+                if im is not None:
+                    fli = max(abs(im.value), abs(re.value)) * mpmath.mpf(10) ** (-d_rep)
+                    if im.error < fli:
+                        im = Estimate(im.value, min(im.lower, im.value - fli), max(im.upper, im.value + fli))
             pts.append(PointResult(a, x, re, im, plan.method, success, status, msg, baselines[j], pdiag))
     if n_fail == 0:
         status, success, message = Status.CONVERGED, True, f"{len(pts)} point(s) evaluated"
@@ -633,7 +650,7 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
     diag = dict(diag, why=plan.why, seconds=round(time.time() - t0, 3), reported_dps=ctx.dps)
     return EvaluationResult(tuple(pts), method, success, status, message, tuple(warnings),
                             series.variable, None if cpl is None else cpl.describe(series.variable),
-                            diag, prov)
+                            diag, prov, series.variable if cpl is None else cpl.symbol)
 
 
 def _wd(d):

@@ -70,7 +70,7 @@ def optimal_truncation(c: Sequence, x, dps: int) -> dict:
     # a vanishing term (odd terms of an even function) takes its neighbour's size
     sm = [mods[k] if mods[k] != 0 else (mods[k + 1] if k + 1 < n else mods[k - 1] if k else 0)
           for k in range(n)]
-    kmin = min(range(n), key=lambda k: (sm[k], k))
+    kmin = min(range(n), key=lambda k: (sm[k], -k))      # ties: the later term
     reached = kmin < n - 2
     if not reached:
         kmin = n

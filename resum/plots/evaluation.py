@@ -1,0 +1,138 @@
+"""Figures for resummed evaluations: the curve with its band, digits, the Borel plane.
+
+Each function draws on a matplotlib axis (created when ``ax`` is None) and
+returns it; :func:`write_evaluation_plots` writes the set to a folder.
+Matplotlib is imported lazily, so resum works without it.
+"""
+from __future__ import annotations
+
+import os
+from typing import Optional, Sequence
+
+import mpmath
+
+from ..context import workdps
+
+__all__ = ["plot_evaluation", "plot_digits", "plot_borel_plane", "write_evaluation_plots"]
+
+
+def _ax(ax):
+    if ax is None:
+        import matplotlib
+        matplotlib.use("Agg", force=False)
+        import matplotlib.pyplot as plt
+        _, ax = plt.subplots(figsize=(6.4, 4.2))
+    return ax
+
+
+def plot_evaluation(result, ax=None, reference: Optional[Sequence] = None):
+    """Resummed value against the point, with its band, the optimal-truncation
+    baseline (band +- smallest term) and any reference values."""
+    ax = _ax(ax)
+    with workdps((result.provenance.dps if result.provenance else 50) + 10):
+        pts = [p for p in result.points if p.value is not None and not isinstance(p.at, mpmath.mpc)]
+        xs = [float(p.at) for p in pts]
+        ys = [float(p.value.value) for p in pts]
+        lo = [float(p.value.value - p.value.lower) for p in pts]
+        hi = [float(p.value.upper - p.value.value) for p in pts]
+        ax.errorbar(xs, ys, yerr=[lo, hi], fmt="o-", ms=4, capsize=3, label=f"resummed ({result.points[0].method})"
+                    if result.points else "resummed")
+        bs = [p for p in result.points if p.baseline is not None and not isinstance(p.at, mpmath.mpc)]
+        if bs:
+            bx = [float(p.at) for p in bs]
+            by = [float(p.baseline.value.value) for p in bs]
+            be = [float(p.baseline.value.error) for p in bs]
+            ax.errorbar(bx, by, yerr=be, fmt="s", ms=3, alpha=0.6, capsize=2, label="optimal truncation")
+            span = max(ys) - min(ys) if len(ys) > 1 else (abs(ys[0]) if ys else 1)
+            lo_y, hi_y = (min(ys) - span, max(ys) + span) if ys else (None, None)
+            if lo_y is not None and lo_y != hi_y:
+                ax.set_ylim(lo_y, hi_y)
+        if reference:
+            ax.plot([float(a) for a, _, _ in reference], [float(v) for _, v, _ in reference], "x", ms=7,
+                    label="reference")
+    ax.set_xlabel(result.at_symbol)
+    ax.set_ylabel("f")
+    ax.set_title("Resummed function with band")
+    ax.legend(fontsize=8)
+    return ax
+
+
+def plot_digits(result, ax=None, reference: Optional[Sequence] = None):
+    """Digits supported by each band (and, with references, digits actually agreeing)."""
+    ax = _ax(ax)
+    with workdps((result.provenance.dps if result.provenance else 50) + 10):
+        pts = [p for p in result.points if p.value is not None and not isinstance(p.at, mpmath.mpc)]
+        ax.plot([float(p.at) for p in pts], [min(p.value.digits(), 200) for p in pts], "o-", label="band")
+        if reference:
+            xs, ds = [], []
+            for a, v, _ in reference:
+                near = [p for p in pts if abs(p.at - a) <= mpmath.mpf(10) ** -10 * max(1, abs(a))]
+                if near and v != 0:
+                    err = abs(near[0].value.value - v)
+                    xs.append(float(a))
+                    ds.append(float(-mpmath.log10(err / abs(v))) if err else 200.0)
+            if xs:
+                ax.plot(xs, ds, "x", ms=7, label="agreeing with reference")
+    ax.set_xlabel(result.at_symbol)
+    ax.set_ylabel("significant digits")
+    ax.set_title("Digits supported by the band")
+    ax.legend(fontsize=8)
+    return ax
+
+
+def plot_borel_plane(series, ctx, ax=None, b=0):
+    """Poles of the top near-diagonal Padé approximant of the Borel transform (and its zeros).
+
+    A cut shows as a line of poles; isolated pole-zero pairs are Froissart doublets.
+    """
+    from ..estimators.resum_band import rational_fit
+    from ..transforms.borel import borel_coefficients
+    ax = _ax(ax)
+    with ctx.working():
+        c = series.dense(ctx)
+        d = borel_coefficients(c, b)
+        n = len(d)
+        M = (n - 1) // 2
+        r = rational_fit(d, n - 1 - M, M, ctx.work_dps)
+        if r is not None:
+            ps = r.poles(ctx.work_dps)
+            zs = r.zeros(ctx.work_dps)
+            ax.plot([float(mpmath.re(z)) for z in ps], [float(mpmath.im(z)) for z in ps], "x", label="poles")
+            ax.plot([float(mpmath.re(z)) for z in zs], [float(mpmath.im(z)) for z in zs], "o", mfc="none",
+                    ms=4, label="zeros")
+    ax.axhline(0, color="0.7", lw=0.6)
+    ax.axvline(0, color="0.7", lw=0.6)
+    ax.set_xlabel("Re t")
+    ax.set_ylabel("Im t")
+    ax.set_title(f"Borel plane (b = {b}): [{n - 1 - M}/{M}] Padé")
+    ax.legend(fontsize=8)
+    return ax
+
+
+def write_evaluation_plots(result, series, ctx, folder, reference=None) -> list:
+    """Write evaluation.png, digits.png and (for Borel methods) borel_plane.png; returns the paths."""
+    import matplotlib
+    matplotlib.use("Agg", force=False)
+    import matplotlib.pyplot as plt
+    os.makedirs(folder, exist_ok=True)
+    out = []
+    for name, fn in (("evaluation.png", lambda ax: plot_evaluation(result, ax, reference)),
+                     ("digits.png", lambda ax: plot_digits(result, ax, reference))):
+        fig, ax = plt.subplots(figsize=(6.4, 4.2))
+        fn(ax)
+        fig.tight_layout()
+        path = os.path.join(folder, name)
+        fig.savefig(path, dpi=110)
+        plt.close(fig)
+        out.append(path)
+    method = result.provenance.method if result.provenance else ""
+    if method.startswith("borel"):
+        fig, ax = plt.subplots(figsize=(5.6, 5.0))
+        b = result.provenance.options.get("borel_b", "0")
+        plot_borel_plane(series, ctx, ax, b=mpmath.mpf(b))
+        fig.tight_layout()
+        path = os.path.join(folder, "borel_plane.png")
+        fig.savefig(path, dpi=110)
+        plt.close(fig)
+        out.append(path)
+    return out

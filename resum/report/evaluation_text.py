@@ -1,0 +1,111 @@
+"""Plain-text report of an :class:`~resum.resummation.EvaluationResult`.
+
+One row per point: where, the resummed value with its band in value(error)
+notation (only supported digits), the digits the band supports, the method,
+the optimal-truncation baseline beside it, and the status; then the
+lateral-sum ambiguities, comparisons with reference values, warnings, and a
+paragraph saying what the band means.
+"""
+from __future__ import annotations
+
+from typing import Optional, Sequence
+
+import mpmath
+
+from ..context import workdps
+from ..results import format_value_error
+
+__all__ = ["render_evaluation", "BAND_MEANING"]
+
+BAND_MEANING = (
+    "What the band means: the value is the median of the three highest-order approximants; the band is "
+    "3 x the larger of their spread and the error extrapolated from how fast lower orders approach the "
+    "value, never below the quadrature error and the working precision, widened to cover a rerun at "
+    "higher precision (inexact coefficients moved by one unit in their last digit). A rerun with fewer "
+    "terms must reach the value within its own band. It is an estimate, not a proof. Optimal truncation "
+    "sums up to the smallest term; its band is +- that term.")
+
+
+def _fmt(e) -> str:
+    if e is None:
+        return "-"
+    return format_value_error(e.value, e.lower, e.upper)
+
+
+def render_evaluation(result, title: str = "", reference: Optional[Sequence] = None) -> str:
+    """The report as text.
+
+    ``reference``: optional list of ``(at, value, error_or_None)`` to compare
+    with (for example read by :func:`resum.commands.evaluate.read_reference`).
+    """
+    dps = (result.provenance.dps if result.provenance else 50) + 10
+    with workdps(dps):
+        return _render(result, title, reference)
+
+
+def _render(result, title, reference):
+    at_name = result.at_symbol
+    lines = []
+    head = f"Resummed values{': ' + title if title else ''}"
+    lines.append(head)
+    lines.append("=" * len(head))
+    prov = result.provenance
+    if prov is not None:
+        lines.append(f"method: {prov.method} ({prov.options.get('why', '')}); {prov.n_terms} terms; "
+                     f"working digits {prov.dps}")
+        if prov.options.get("map"):
+            m = prov.options["map"]
+            lines.append(f"conformal map: {m}")
+    if result.coupling:
+        lines.append(f"points are values of the coupling ({result.coupling})")
+    lines.append("")
+    rows = [(at_name, "resummed value(band)", "digits", "optimal truncation (terms)", "status")]
+    for p in result.points:
+        base = "-"
+        if p.baseline is not None:
+            base = f"{_fmt(p.baseline.value)} ({p.baseline.n_terms}{'' if p.baseline.reached else ', not reached'})"
+        dig = "-" if p.value is None else (f"{p.value.digits():.1f}" if p.value.error != 0 else "all")
+        rows.append((mpmath.nstr(p.at, 12), _fmt(p.value), dig, base, p.status.value))
+    widths = [max(len(r[i]) for r in rows) for i in range(len(rows[0]))]
+    for k, r in enumerate(rows):
+        lines.append("  ".join(c.ljust(w) for c, w in zip(r, widths)).rstrip())
+        if k == 0:
+            lines.append("  ".join("-" * w for w in widths))
+    lat = [p for p in result.points if p.imag is not None]
+    if lat:
+        lines.append("")
+        lines.append("Imaginary parts (lateral Borel sums S+- = value +- i*imag; imag is the ambiguity):")
+        for p in lat:
+            extra = ""
+            if p.diagnostics.get("exp(-A/x)"):
+                extra = f"; exp(-A/x) = {p.diagnostics['exp(-A/x)']} for A = {p.diagnostics.get('ray_singularity')}"
+            lines.append(f"  {mpmath.nstr(p.at, 12)}: imag = {_fmt(p.imag)}{extra}")
+    if reference:
+        lines.append("")
+        lines.append("Reference values:")
+        for at, val, err in reference:
+            best = min(result.points, key=lambda p: abs(p.at - at))
+            if abs(best.at - at) > mpmath.mpf(10) ** -10 * max(1, abs(at)) or best.value is None:
+                lines.append(f"  {mpmath.nstr(at, 12)}: reference {mpmath.nstr(val, 20)} (no resummed value here)")
+                continue
+            diff = best.value.value - val
+            slack = 0 if err is None else err
+            inside = best.value.lower - slack <= val <= best.value.upper + slack
+            rel = abs(diff / val) if val != 0 else abs(diff)
+            dig = f"{float(-mpmath.log10(rel)):.1f}" if rel != 0 else "all"
+            lines.append(f"  {mpmath.nstr(at, 12)}: reference {mpmath.nstr(val, 20)}"
+                         f"{'' if err is None else ' +- ' + mpmath.nstr(err, 3)}; difference "
+                         f"{mpmath.nstr(diff, 3)} ({dig} digits agree); "
+                         f"{'inside' if inside else 'OUTSIDE'} the band{'' if err is None else ' (with the reference error)'}")
+    fails = [p for p in result.points if not p.success and p.message]
+    if fails or result.warnings:
+        lines.append("")
+        lines.append("Warnings:")
+        for p in fails:
+            lines.append(f"  {mpmath.nstr(p.at, 12)}: {p.message}")
+        for w in result.warnings:
+            if not any(w.endswith(p.message) for p in fails if p.message):
+                lines.append(f"  {w}")
+    lines.append("")
+    lines.append(BAND_MEANING)
+    return "\n".join(lines) + "\n"
