@@ -19,9 +19,11 @@ Notes
 How to read the bands. Each estimator builds its band from the spread of
 its stable estimates across orders (Neville columns, neighbouring Padé or
 differential approximants) times a safety factor of 2. Across methods the
-narrowest band is kept, and it is widened until it touches the band of
-every other method that found the same point (a warning says so when they
-did not overlap). Verification then reruns the contributing methods with
+narrowest band is kept, widened to at least a tenth of the next narrowest
+band (one method's approximants can share one bias, so most of the claimed
+sharpness must be confirmed by a second method) and until it touches the band
+of every other method that found the same point (a warning says so when
+they did not overlap). Verification then reruns the contributing methods with
 about 10 % fewer terms and at higher working precision (for inexact input:
 with the coefficients perturbed at the level of their last digit); the
 band is widened to cover 3 times the fewer-terms change and 2 times the
@@ -236,10 +238,29 @@ def _exponent_reliable(s):
     return "line up" not in (s.note or "")
 
 
+#: a band is trusted to be at most this many times sharper than the next method's band
+#: for the same point (one method's approximants can share one bias; a second method
+#: must confirm most of the sharpness)
+CONFIRM_RATIO = 10
+
+
+def _confirm(e: Estimate, width_next) -> Estimate:
+    """Widen ``e`` to at least ``width_next / CONFIRM_RATIO`` (half-widths)."""
+    w = width_next / CONFIRM_RATIO
+    if w <= e.error:
+        return e
+    return Estimate(e.value, min(e.lower, e.value - w), max(e.upper, e.value + w))
+
+
 def _combine_group(g, warnings):
     rel = [s for s in g if _location_reliable(s)] or g
     best = min(rel, key=_err)
     re, im = best.re, best.im
+    # a resolution band (Dlog-Padé poles lining up on a cut) cannot confirm or refute sharpness
+    others = sorted(_err(s) for s in rel if s is not best and _exponent_reliable(s))
+    if others:
+        re, im = _confirm(re, others[0]), _confirm(im, others[0]) if im.error > 0 or best.im.value != 0 \
+            else im
     disagree = []
     for s in g:
         if s is best or not _location_reliable(s):
@@ -252,6 +273,9 @@ def _combine_group(g, warnings):
     if exps:
         eb = min([s for s in exps if _exponent_reliable(s)] or exps, key=lambda s: s.exponent.error)
         theta, theta_from = eb.exponent, eb.method
+        ex_others = sorted(s.exponent.error for s in exps if s is not eb and _exponent_reliable(s))
+        if ex_others:
+            theta = _confirm(theta, ex_others[0])
         for s in exps:
             if s is not eb and _exponent_reliable(s) and not _overlap(theta, s.exponent):
                 disagree.append(f"{s.method} (exponent)")
@@ -484,7 +508,7 @@ def _analyze(series, ctx, names, verify, prep):
         warnings.append(f"only {prep.n_terms} terms: estimates are rough")
     how = ("Each method's band: safety factor " f"{SAFETY}" " x spread of its stable estimates across orders "
            "(see each method's 'how'). Combined: the narrowest band among methods finding the same point, "
-           "widened to touch every other method's band. ")
+           f"widened to at least 1/{CONFIRM_RATIO} of the next narrowest and to touch every other method's band. ")
     if verification:
         how += ("Verification: reran with fewer terms"
                 + (" and at higher precision" if series.digits is None else " and with input perturbed in the last digit")

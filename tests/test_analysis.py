@@ -1,0 +1,180 @@
+"""analyze(): one verdict with honest bands, on closed forms, published recursions, the
+published BES kernel family and published lattice series."""
+import json
+from fractions import Fraction
+
+import mpmath
+import pytest
+
+from resum.analysis import AnalysisResult, analyze
+from resum.context import Context, workdps
+from resum.errors import InputError
+from resum.series import Series
+
+from tests.estimators.refs import (binomial_power, catalan, complex_pair, euler_series, lattice,
+                                   log1p_series, quartic_oscillator, two_singularities)
+
+
+def _mp(x):
+    return mpmath.mpf(x.numerator) / x.denominator if isinstance(x, Fraction) else mpmath.mpmathify(x)
+
+
+def _check(est, truth, width):
+    with workdps(150):
+        truth = _mp(truth)
+        assert est.contains(truth), (str(est), truth)
+        assert est.width < width, (str(est), width)
+
+
+def _near(sings, z):
+    return min(sings, key=lambda s: abs(s.location - z))
+
+
+def test_algebraic_branch_point_60_terms_100_digits():
+    # (1 - x)^(-1/3) with 60 exact terms at 100 digits (binomial series, common practice):
+    # target radius 12+ digits and exponent 8+ digits
+    r = analyze(Series(binomial_power(Fraction(-1, 3), 60)), Context(dps=100))
+    assert r.success
+    _check(r.radius, 1, 1e-12)
+    s = r.singularities[0]
+    _check(s.exponent, Fraction(-1, 3), 1e-8)
+    assert s.kind == "branch"
+    ver = r.diagnostics["verification"]
+    assert float(ver["higher_precision"]["radius_digits_agree"]) > 12
+
+
+def test_complex_pair_radius_and_angle():
+    # 1/(1 - x + x^2)^(2/5): x_c = exp(+-i pi/3), theta = -2/5 (common practice, no source);
+    # target radius and angle 8+ digits
+    r = analyze(Series(complex_pair(60, 110), digits=100), Context(dps=100))
+    _check(r.radius, 1, 1e-8)
+    with workdps(100):
+        z = mpmath.expjpi(mpmath.mpf(1) / 3)
+        s = _near(r.singularities, z)
+        _check(s.re, z.real, 1e-8)
+        _check(s.im, z.imag, 1e-8)
+        _check(s.exponent, Fraction(-2, 5), 1e-6)
+        c = _near(r.singularities, z.conjugate())
+        assert abs(c.location - z.conjugate()) < 1e-8
+
+
+def test_log_singularity_recognised():
+    # log(1+x) (common practice, no source)
+    r = analyze(Series(log1p_series(50)), Context(dps=50))
+    s = r.singularities[0]
+    assert s.kind == "log"
+    _check(s.re, -1, 1e-10)
+    _check(r.radius, 1, 1e-10)
+
+
+def test_catalan():
+    # Catalan g.f.: radius 1/4, theta = 1/2 (common practice, no source)
+    r = analyze(Series(catalan(50)), Context(dps=50))
+    _check(r.radius, Fraction(1, 4), 1e-12)
+    _check(r.singularities[0].exponent, Fraction(1, 2), 0.2)
+
+
+def test_two_singularities():
+    # (1-x)^(-1/2) + (1+x/2)^(-3/2): points 1 and -2, exponents -1/2, -3/2
+    r = analyze(Series(two_singularities(60)), Context(dps=80))
+    _check(r.radius, 1, 1e-6)
+    s1 = _near(r.singularities, 1)
+    _check(s1.exponent, Fraction(-1, 2), 1e-3)
+    s2 = _near(r.singularities, -2)
+    _check(s2.re, -2, 0.05)
+    _check(s2.exponent, Fraction(-3, 2), 0.2)
+
+
+def test_factorial_growth_quartic_oscillator():
+    # Bender-Wu recursion for H = p^2 + x^2 + g x^4 (Bender and Wu, Phys. Rev. 184 (1969) 1231);
+    # large order A = -2/3, b = 1/2 after rescaling the Bender-Wu (1973) formula (see
+    # tests/estimators/test_ratio.py for the conversion)
+    r = analyze(Series(quartic_oscillator(50)), Context(dps=40))
+    assert r.growth == "factorial"
+    assert r.radius.value == 0
+    _check(r.borel_singularity, Fraction(-2, 3), 1e-4)
+    _check(r.borel_exponent, Fraction(1, 2), 0.05)
+
+
+def test_entire_like():
+    # exp(x): entire (common practice, no source)
+    with workdps(40):
+        cs = [1 / mpmath.factorial(n) for n in range(40)]
+    r = analyze(Series(cs, digits=40), Context(dps=40))
+    assert r.growth == "entire-like"
+    assert not mpmath.isfinite(r.radius.value)
+
+
+def test_saw_growth_constant_80_terms():
+    # I. Jensen, J. Phys. A 49 (2016) 424003 (arXiv:1607.01109), 80 terms; mu = 2.63815853032790(3)
+    # (Jacobsen, Scullard, Guttmann, J. Phys. A 49 (2016) 494004, arXiv:1607.02984);
+    # gamma = 43/32 (Nienhuis, PRL 49 (1982) 1062). Target: growth constant 8+ digits, band holds.
+    cs, _ = lattice("saw_square_lattice")
+    r = analyze(Series(cs), Context(dps=60))
+    xc = 1 / mpmath.mpf("2.63815853032790")
+    s = _near(r.singularities, xc)
+    _check(s.re, xc, 1.2e-7)                     # band: ~7.5 digits of x_c = 1/mu
+    assert abs(s.re.value - xc) / xc < 1e-8      # value: 8+ digits
+    _check(s.exponent, Fraction(-43, 32), 2e-3)
+    _check(r.radius, xc, 1e-5)                   # nearest is -x_c (same modulus)
+
+
+def test_ising_susceptibility_27_terms():
+    # Sykes, Gaunt, Roberts, Wyles, J. Phys. A 5 (1972) 624 / OEIS A002906; v_c = sqrt(2) - 1
+    # (Kramers and Wannier 1941), gamma = 7/4 (Wu, McCoy, Tracy, Barouch, PRB 13 (1976) 316)
+    cs, _ = lattice("ising_sq_susceptibility_hightemp")
+    r = analyze(Series(cs), Context(dps=40))
+    with workdps(40):
+        vc = mpmath.sqrt(2) - 1
+    s = _near(r.singularities, vc)
+    _check(s.re, vc, 1e-3)
+    _check(s.exponent, Fraction(-7, 4), 0.05)
+
+
+def test_bes_family_radius():
+    # angle-deformed BES kernel (Beisert, Eden, Staudacher, hep-th/0610251): radius |g| = 1/4,
+    # i.e. x = g^2 = -1/16; at a = 0 the function is (2/pi^2) log cosh(2 pi g) (closed form),
+    # a logarithmic singularity
+    bes = pytest.importorskip("resum.sources.bes")
+    for angle, kind in ((0, "log"), (mpmath.pi / 4, None)):
+        s = bes.weak_coupling_series(angle, 40, Context(dps=50))
+        r = analyze(s, Context(dps=50))
+        _check(r.radius, Fraction(1, 16), 1e-10)
+        near = r.singularities[0]
+        _check(near.re, Fraction(-1, 16), 1e-10)
+        if kind:
+            assert near.kind == kind
+        else:
+            assert near.kind in ("branch", "log", "branch-log")
+
+
+def test_contract_and_round_trip():
+    r = analyze(Series(catalan(30)), Context(dps=30), verify=False)
+    doc = json.loads(json.dumps(r.contract_dict()))
+    assert set(doc) >= {"radius", "singularities", "warnings"}
+    assert set(doc["radius"]) == {"value", "lo", "hi"}
+    for s in doc["singularities"]:
+        assert {"re", "im", "exponent", "kind"} <= set(s)
+        assert s["kind"] in ("pole", "branch", "log", "essential", "branch-log", "unknown")
+        for k in ("re", "im"):
+            mpmath.mpf(s[k])
+    back = AnalysisResult.from_dict(json.loads(json.dumps(r.to_dict())))
+    assert back.contract_dict() == r.contract_dict()
+    assert back.status == r.status and back.methods.keys() == r.methods.keys()
+
+
+def test_unknown_method_lists_valid_ones():
+    with pytest.raises(InputError) as e:
+        analyze(Series(catalan(30)), methods=["ratio", "nope"])
+    assert "nope" in str(e.value) and "diff-approx" in str(e.value)
+
+
+def test_too_few_terms_is_input_error():
+    with pytest.raises(InputError):
+        analyze(Series([1, 1, 1]))
+
+
+def test_methods_subset_and_how_text():
+    r = analyze(Series(catalan(40)), Context(dps=40), methods=["ratio"], verify=False)
+    assert list(r.methods) == ["ratio"]
+    assert "safety factor" in r.diagnostics["how"]
