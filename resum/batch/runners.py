@@ -81,18 +81,42 @@ class ProcessRunner:
             broken = False
             try:
                 while (todo or suspects or inflight) and not broken:
-                    if suspects:
-                        # isolate: only once nothing else runs, one suspect at a time
-                        if not inflight:
-                            i = suspects.pop(0)
-                            inflight[pool.submit(compute_point, spec, i, self.name)] = (i, True)
-                            on_start(i)
-                    else:
-                        while todo and len(inflight) < self.jobs:
-                            i = todo.pop()
-                            inflight[pool.submit(compute_point, spec, i, self.name)] = (i, False)
-                            on_start(i)
-                    done, _ = cf.wait(list(inflight), return_when=cf.FIRST_COMPLETED)
+                    try:
+                        if suspects:
+                            # isolate: only once nothing else runs, one suspect at a time
+                            if not inflight:
+                                i = suspects[0]
+                                fut = pool.submit(compute_point, spec, i, self.name)
+                                suspects.pop(0)
+                                inflight[fut] = (i, True)
+                                on_start(i)
+                        else:
+                            while todo and len(inflight) < self.jobs:
+                                fut = pool.submit(compute_point, spec, todo[-1], self.name)
+                                i = todo.pop()
+                                inflight[fut] = (i, False)
+                                on_start(i)
+                    except (cf.process.BrokenProcessPool, OSError, RuntimeError):
+                        # the pool broke (or is being torn down after a worker died)
+                        broken = True      # the point stays queued; in-flight ones fail below
+                    if not inflight:
+                        continue
+                    done, _ = cf.wait(list(inflight), timeout=0.5, return_when=cf.FIRST_COMPLETED)
+                    if not done and _dead_worker(pool):
+                        # a worker died but the pool has not noticed (seen as a rare
+                        # hang on Python 3.11): treat the pool as broken ourselves
+                        broken = True
+                        for fut, (i, alone) in list(inflight.items()):
+                            del inflight[fut]
+                            if alone:
+                                on_record(failure_record(
+                                    spec, i, "the worker process died while computing this "
+                                    "point alone (killed, crashed or out of memory)",
+                                    runner=self.name))
+                            else:
+                                suspects.append(i)
+                        _terminate(pool)
+                        continue
                     for fut in done:
                         i, alone = inflight.pop(fut)
                         try:
@@ -117,6 +141,13 @@ class ProcessRunner:
                 raise
             else:
                 pool.shutdown(wait=not broken, cancel_futures=True)
+
+
+def _dead_worker(pool) -> bool:
+    """True if a worker process of ``pool`` has ended (the pool's workers only
+    end on shutdown, so an exit code while we wait means it died)."""
+    procs = getattr(pool, "_processes", None) or {}
+    return any(p.exitcode is not None for p in list(procs.values()))
 
 
 def _terminate(pool) -> None:

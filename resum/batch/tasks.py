@@ -46,7 +46,7 @@ __all__ = ["TASKS", "TaskDef", "validate_task", "ratio_estimate", "estimate_json
 class TaskDef:
     name: str
     help: str
-    options: Mapping          # option -> kind: "numbers", "int", "bool", "str", "strs", "table"
+    options: Mapping          # option -> kind: "numbers", "number", "int", "ints", "bool", "str", "strs"
     run: Callable
     required: tuple = ()
 
@@ -70,6 +70,13 @@ def _num(x, dps):
     return num_to_str(x, dps)
 
 
+def _at(x) -> str:
+    """A coupling as text, written as :mod:`resum.resummation` writes it (30 digits)."""
+    if isinstance(x, Fraction):
+        x = mpmath.mpf(x.numerator) / x.denominator
+    return num_to_str(mpmath.mpf(x), 30)
+
+
 def _numbers(vals, dps, key):
     from .spec import _number
     if not isinstance(vals, list) or not vals:
@@ -83,6 +90,13 @@ def _numbers(vals, dps, key):
 def _check_kind(key, val, kind, dps):
     if kind == "numbers":
         return _numbers(val, dps, key)
+    if kind == "number":
+        return _numbers([val], dps, key)[0]
+    if kind == "ints":
+        if not isinstance(val, list) or not val or not all(
+                isinstance(v, int) and not isinstance(v, bool) and v > 0 for v in val):
+            raise InputError(f"{key}: expected a non-empty list of positive integers")
+        return list(val)
     if kind == "int":
         if not isinstance(val, int) or isinstance(val, bool):
             raise InputError(f"{key}: expected an integer, got {val!r}")
@@ -236,7 +250,7 @@ def _run_coefficients(series, params, ctx, opts, source):
                 s += term
                 if cn != 0:
                     last = abs(term)
-            sums.append({"at": _num(x, ctx.dps), "partial_sum": num_to_str(s, ctx.dps),
+            sums.append({"at": _at(x), "partial_sum": num_to_str(s, ctx.dps),
                          "last_term": num_to_str(last, 6)})
     out["partial_sums"] = sums
     out["note"] = ("partial sums of all terms; last_term is the size of the last non-zero term, "
@@ -277,11 +291,39 @@ def _run_evaluate(series, params, ctx, opts, source):
     return _result_json(res)
 
 
+def _strong_json(res) -> dict:
+    """Compact record of a StrongCouplingResult: coefficients as a label -> band table."""
+    est = lambda e: None if e is None else e.to_dict()  # noqa: E731
+    return {"success": res.success, "status": res.status.value, "message": res.message,
+            "variable": res.variable,
+            "leading_power": est(res.leading_power), "power_source": res.power_source,
+            "coefficients": {k: e.to_dict() for k, e in res.coefficients},
+            "trusted_up_to": None if res.trusted_up_to is None else num_to_str(res.trusted_up_to, 20),
+            "couplings": [num_to_str(g, 20) for g in res.couplings],
+            "values": [est(v) for v in res.values],
+            "warnings": list(res.warnings)}
+
+
 def _run_strong(series, params, ctx, opts, source):
     from ..resummation import probe_strong_coupling
-    kw = dict(opts.get("options", {}))
-    res = probe_strong_coupling(series, ctx=ctx, **kw)
-    return _result_json(res)
+    kw = {k: opts[k] for k in ("couplings", "method", "leading_power", "log_terms",
+                               "max_rel_band") if k in opts}
+    if "n_terms_fit" in opts:
+        kw["n_terms_fit"] = tuple(opts["n_terms_fit"])
+    out = {}
+    if opts.get("resummed", True):
+        out["resummed"] = _strong_json(probe_strong_coupling(series, ctx=ctx, **kw))
+    if opts.get("from_truth", False):
+        f = truth_function(source)
+        if "couplings" not in kw:
+            raise InputError("strong: from_truth needs explicit couplings")
+        vals = f(_truth_ctx(ctx, opts), list(kw["couplings"]), **params)
+        if any(v is None for v in vals):
+            out["truth"] = {"success": False, "status": Status.FAILED.value,
+                            "message": "the finite-coupling evaluator failed at some coupling"}
+        else:
+            out["truth"] = _strong_json(probe_strong_coupling(series, ctx=ctx, values=vals, **kw))
+    return out
 
 
 def truth_function(source):
@@ -293,16 +335,26 @@ def truth_function(source):
     return None
 
 
+def _truth_ctx(ctx, opts):
+    d = opts.get("truth_dps", opts.get("dps"))
+    return ctx if d is None else Context(dps=int(d))
+
+
 def _run_truth(series, params, ctx, opts, source):
     f = truth_function(source)
-    res = f(ctx, _points_arg(opts["at"]), **params)
-    if hasattr(res, "to_dict") or hasattr(res, "contract_dict"):
-        return _result_json(res)
+    tctx = _truth_ctx(ctx, opts)
+    res = f(tctx, _points_arg(opts["at"]), **params)
     out = []
     for x, v in zip(opts["at"], res):
-        out.append({"at": _num(x, ctx.dps),
-                    **(estimate_json(v) if isinstance(v, Estimate) else {"value": _num(v, ctx.dps)})})
-    return {"values": out}
+        row = {"at": _at(x)}
+        if v is None:
+            row.update(value="nan", lo="nan", hi="nan", success=False)
+        elif isinstance(v, Estimate):
+            row.update(v.to_dict(), success=True)
+        else:
+            row.update(value=_num(v, tctx.dps), success=True)
+        out.append(row)
+    return {"values": out, "dps": tctx.dps}
 
 
 def _check_truth(opts, source_name, source):
@@ -330,6 +382,25 @@ def _check_module(mod, name):
     return check
 
 
+def _check_strong(opts, source_name, source):
+    _check_module("resummation", "probe_strong_coupling")(opts, source_name, source)
+    if opts.get("from_truth"):
+        _check_truth(opts, source_name, source)
+        if "couplings" not in opts:
+            raise InputError("from_truth = true needs explicit couplings")
+    if not opts.get("resummed", True) and not opts.get("from_truth"):
+        raise InputError("nothing to do: resummed = false and from_truth is not set")
+    for k in ("truth_dps",):
+        if k in opts and not 5 <= opts[k] <= 1000:
+            raise InputError(f"{k} out of range; use 5..1000")
+
+
+def _check_truth_task(opts, source_name, source):
+    _check_truth(opts, source_name, source)
+    if "dps" in opts and not 5 <= opts["dps"] <= 1000:
+        raise InputError("dps out of range; use 5..1000")
+
+
 def _check_coefficients(opts, source_name, source):
     if opts.get("tail", 8) < 3:
         raise InputError("tail must be at least 3")
@@ -343,15 +414,19 @@ TASKS = {
     "evaluate": TaskDef("evaluate", "resummed values at given couplings",
                         {"at": "numbers", "method": "str", "verify": "bool"}, _run_evaluate,
                         required=("at",)),
-    "strong": TaskDef("strong", "strong-coupling probe", {"options": "table"}, _run_strong),
+    "strong": TaskDef("strong", "strong-coupling probe",
+                      {"couplings": "numbers", "method": "str", "leading_power": "number",
+                       "log_terms": "bool", "n_terms_fit": "ints", "max_rel_band": "number",
+                       "resummed": "bool", "from_truth": "bool", "truth_dps": "int"},
+                      _run_strong),
     "truth": TaskDef("truth", "finite-coupling ground truth from the source",
-                     {"at": "numbers"}, _run_truth, required=("at",)),
+                     {"at": "numbers", "dps": "int"}, _run_truth, required=("at",)),
 }
 
 _CHECKS = {
     "coefficients": _check_coefficients,
     "analyze": _check_module("analysis", "analyze"),
     "evaluate": _check_module("resummation", "evaluate"),
-    "strong": _check_module("resummation", "probe_strong_coupling"),
-    "truth": _check_truth,
+    "strong": _check_strong,
+    "truth": _check_truth_task,
 }

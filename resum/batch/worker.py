@@ -43,6 +43,7 @@ def _base(spec: FamilySpec, index: int) -> dict:
         "labels": {k: value_text(v) for k, v in point.params.items()},
         "axis_index": dict(point.axis_index),
         "fixed": {k: value_json(v, spec.dps) for k, v in spec.fixed.items()},
+        "task_names": list(spec.tasks),
         "version": __version__,
     }
 

@@ -1,0 +1,487 @@
+"""Figures of a family study: estimates with their bands against a parameter.
+
+Every function takes the point records of a run (the dicts in
+``DIR/points/*.json``, e.g. ``RunFolder(DIR).records()``) and an axis name
+``x``, draws on ``ax`` (a new figure if None) and returns ``ax``. Points
+that differ in other axes are drawn as separate lines, labelled by those
+values. Error bars are the recorded bands (estimates from the spread of
+stable approximations, not rigorous bounds); a band too narrow to see is
+still drawn. Failed points and estimates that did not converge are left
+out of the line and marked with a cross at the bottom of the panel.
+
+* :func:`plot_radius` -- radius of convergence (analysis and/or ratio estimate);
+* :func:`plot_band_digits` -- digits supported by the radius band;
+* :func:`plot_singularity_locations` -- real and imaginary parts of the nearest singularities;
+* :func:`plot_exponents` -- their exponents;
+* :func:`plot_borel` -- distance of the nearest Borel-plane singularity;
+* :func:`plot_values` -- resummed values at fixed couplings, with the source's truth;
+* :func:`plot_value_errors` -- resummed minus true values, with bands;
+* :func:`plot_strong` -- one strong-coupling coefficient;
+* :func:`write_family_plots` -- all figures that have data, as PNG and PDF.
+"""
+from __future__ import annotations
+
+import math
+from pathlib import Path
+from typing import Callable, Optional
+
+__all__ = ["plot_radius", "plot_band_digits", "plot_singularity_locations", "plot_exponents",
+           "plot_borel", "plot_values", "plot_value_errors", "plot_strong", "write_family_plots",
+           "family_x"]
+
+
+# ----------------------------------------------------------------------------
+# reading records
+# ----------------------------------------------------------------------------
+
+def _f(v) -> float:
+    if v is None:
+        return math.nan
+    if isinstance(v, (int, float)):
+        return float(v)
+    s = str(v).strip()
+    if "/" in s:
+        a, b = s.split("/", 1)
+        return float(a) / float(b)
+    try:
+        return float(s)
+    except ValueError:
+        return math.nan
+
+
+def _band(e):
+    """(value, lo, hi) floats from an estimate dict, or None."""
+    if not isinstance(e, dict) or "value" not in e:
+        return None
+    v = _f(e["value"])
+    lo = _f(e.get("lo", e["value"]))
+    hi = _f(e.get("hi", e["value"]))
+    if math.isnan(v):
+        return None
+    return v, lo, hi
+
+
+def family_x(records, x: Optional[str] = None) -> str:
+    """The axis to plot against: ``x`` or the first axis of the records."""
+    if x:
+        return x
+    for r in records:
+        if r.get("axes"):
+            return r["axes"][0]
+    raise ValueError("records name no axis; pass x=")
+
+
+def _group_label(rec, x):
+    labels = rec.get("labels", {})
+    return ", ".join(f"{k}={labels[k]}" for k in rec.get("axes", sorted(labels))
+                     if k != x and k in labels)
+
+
+MISS = "miss"   # a getter's answer for "asked for, but failed or not converged"
+
+
+def _series(records, x, get: Callable, task: Optional[str] = None):
+    """{group label: ([x], [v], [lo], [hi], [x of missing])} for one quantity.
+
+    ``get(record)`` returns (value, lo, hi), None (not asked for: nothing
+    drawn) or MISS (asked for but failed or not converged: a cross)."""
+    out = {}
+    for r in sorted(records, key=lambda r: r["index"]):
+        g = _group_label(r, x)
+        xv = _f(r.get("params", {}).get(x))
+        if r.get("status") == "ok":
+            b = get(r)
+        else:   # a failed point: a cross where the task was asked for
+            b = MISS if task is None or task in r.get("task_names", [task]) else None
+        if b is None:
+            continue
+        xs, vs, los, his, miss = out.setdefault(g, ([], [], [], [], []))
+        if b is MISS:
+            miss.append(xv)
+            continue
+        xs.append(xv)
+        vs.append(b[0])
+        los.append(b[1])
+        his.append(b[2])
+    return out
+
+
+def _task(r, name):
+    t = (r.get("tasks") or {}).get(name)
+    return t if isinstance(t, dict) else None
+
+
+def _converged(d) -> bool:
+    st = d.get("status") if isinstance(d, dict) else None
+    return st in (None, "converged", "ok", True) or d.get("success") is True
+
+
+def _or_miss(b):
+    return MISS if b is None else b
+
+
+def _get_radius_analysis(r):
+    a = _task(r, "analyze")
+    if a is None:
+        return None
+    if a.get("success") is False or a.get("growth") == "factorial":
+        return MISS
+    return _or_miss(_band(a.get("radius")))
+
+
+def _get_radius_ratio(r):
+    c = _task(r, "coefficients")
+    if c is None:
+        return None
+    ratio = c.get("ratio") or {}
+    if ratio.get("growth") == "factorial":
+        return None
+    if ratio.get("growth") != "finite radius" or not _converged(ratio):
+        return MISS
+    return _or_miss(_band(ratio.get("radius")))
+
+
+def _get_borel_analysis(r):
+    a = _task(r, "analyze")
+    if a is None or a.get("growth") not in ("factorial", None):
+        return None
+    return _band(a.get("borel_singularity")) if a.get("borel_singularity") else None
+
+
+def _get_borel_ratio(r):
+    c = _task(r, "coefficients")
+    ratio = (c or {}).get("ratio") or {}
+    if ratio.get("growth") != "factorial":
+        return None
+    if not _converged(ratio):
+        return MISS
+    return _or_miss(_band(ratio.get("borel_distance")))
+
+
+def _sings(r):
+    a = _task(r, "analyze")
+    if not a:
+        return []
+    return [s for s in (a.get("singularities") or []) if isinstance(s, dict)]
+
+
+def _sing_part(s, part):
+    band = s.get(f"{part}_band")
+    if isinstance(band, dict):
+        return _band(band)
+    v = s.get(part)
+    if isinstance(v, dict):
+        return _band(v)
+    if v is not None:
+        f = _f(v)
+        return (f, f, f) if not math.isnan(f) else None
+    return None
+
+
+def _at_key(a) -> str:
+    """Couplings compared by value, whatever their spelling ("1", "1.0")."""
+    f = _f(a)
+    return str(a) if math.isnan(f) else f"{f:.12g}"
+
+
+def _values(r, task):
+    t = _task(r, task)
+    return {_at_key(v.get("at")): v for v in (t or {}).get("values", []) if isinstance(v, dict)}
+
+
+# ----------------------------------------------------------------------------
+# drawing
+# ----------------------------------------------------------------------------
+
+def _ax(ax):
+    if ax is None:
+        import matplotlib
+        matplotlib.use("Agg", force=False)
+        import matplotlib.pyplot as plt
+        _, ax = plt.subplots(figsize=(6.4, 4.2))
+    return ax
+
+
+def _draw(ax, series, label_prefix="", marker="o", color=None, offset=0.0, lines=True):
+    """Draw grouped (x, value, band) series; return the number of points drawn."""
+    n = 0
+    for g, (xs, vs, los, his, miss) in series.items():
+        lab = ", ".join(t for t in (label_prefix, g) if t)
+        if xs:
+            yerr = [[max(0.0, v - lo) for v, lo in zip(vs, los)],
+                    [max(0.0, hi - v) for v, hi in zip(vs, his)]]
+            xo = [xv + offset for xv in xs]
+            ax.errorbar(xo, vs, yerr=yerr, fmt=marker + ("-" if lines else ""), ms=4, lw=1,
+                        capsize=2.5, label=lab or None, color=color)
+            n += len(xs)
+        if miss:
+            seen = "failed or not converged" in ax.get_legend_handles_labels()[1]
+            ax.plot(miss, [0] * len(miss), "x", color="0.5", transform=ax.get_xaxis_transform(),
+                    clip_on=False, ms=6, label=None if seen else "failed or not converged")
+    return n
+
+
+def _finish(ax, x, ylabel, title=""):
+    ax.set_xlabel(x)
+    ax.set_ylabel(ylabel)
+    if title:
+        ax.set_title(title, fontsize=10)
+    h, labels = ax.get_legend_handles_labels()
+    if labels:
+        ax.legend(fontsize=7, loc="best")
+    ax.grid(alpha=0.3)
+    try:
+        ax.ticklabel_format(axis="y", useOffset=False)
+    except AttributeError:  # not a scalar formatter
+        pass
+    return ax
+
+
+def plot_radius(records, x=None, ax=None):
+    """Radius of convergence against ``x``: the analysis estimate and the plain
+    ratio estimate, each with its band."""
+    x = family_x(records, x)
+    ax = _ax(ax)
+    _draw(ax, _series(records, x, _get_radius_analysis, "analyze"), "analysis", "o")
+    _draw(ax, _series(records, x, _get_radius_ratio, "coefficients"), "ratio estimate", "s",
+          lines=False)
+    return _finish(ax, x, "radius of convergence")
+
+
+def plot_band_digits(records, x=None, ax=None):
+    """Relative digits supported by the radius band, -log10(half-width/|value|)."""
+    x = family_x(records, x)
+    ax = _ax(ax)
+
+    import mpmath
+
+    def digits(get, raw):
+        def g(r):
+            b = get(r)
+            if b is None or b is MISS:
+                return b
+            e = raw(r)
+            with mpmath.workdps(max(30, len(str(e.get("value", ""))) + 5)):
+                v, lo, hi = (mpmath.mpf(str(e[k])) for k in ("value", "lo", "hi"))
+                err = max(hi - v, v - lo)
+                d = float(-mpmath.log10(err / abs(v))) if err > 0 and v != 0 else math.nan
+            return (d, d, d) if not math.isnan(d) else MISS
+        return g
+
+    def raw_a(r):
+        return _task(r, "analyze")["radius"]
+
+    def raw_r(r):
+        return _task(r, "coefficients")["ratio"]["radius"]
+
+    _draw(ax, _series(records, x, digits(_get_radius_analysis, raw_a), "analyze"), "analysis", "o")
+    _draw(ax, _series(records, x, digits(_get_radius_ratio, raw_r), "coefficients"),
+          "ratio estimate", "s", lines=False)
+    return _finish(ax, x, "digits of the radius band")
+
+
+def plot_singularity_locations(records, x=None, ax=None, n=2):
+    """Real and imaginary parts of the ``n`` nearest singularities against ``x``."""
+    x = family_x(records, x)
+    ax = _ax(ax)
+    for k in range(n):
+        for part, mk in (("re", "o"), ("im", "^")):
+            def get(r, k=k, part=part):
+                s = _sings(r)
+                return _sing_part(s[k], part) if len(s) > k else None
+            _draw(ax, _series(records, x, get, "analyze"), f"sing. {k + 1} {part}", mk)
+    return _finish(ax, x, "singularity location (expansion variable)")
+
+
+def plot_exponents(records, x=None, ax=None, n=2):
+    """Exponents of the ``n`` nearest singularities against ``x``."""
+    x = family_x(records, x)
+    ax = _ax(ax)
+    for k in range(n):
+        def get(r, k=k):
+            s = _sings(r)
+            return _band(s[k].get("exponent")) if len(s) > k else None
+        _draw(ax, _series(records, x, get, "analyze"), f"singularity {k + 1}", "o")
+    return _finish(ax, x, "exponent")
+
+
+def plot_borel(records, x=None, ax=None):
+    """Distance of the nearest Borel-plane singularity against ``x``."""
+    x = family_x(records, x)
+    ax = _ax(ax)
+    _draw(ax, _series(records, x, _get_borel_analysis, "analyze"), "analysis", "o")
+    _draw(ax, _series(records, x, _get_borel_ratio, "coefficients"), "ratio estimate", "s",
+          lines=False)
+    return _finish(ax, x, "nearest Borel-plane singularity |A|")
+
+
+def _points_at(records, task):
+    ats = []
+    for r in records:
+        for a in _values(r, task):
+            if a not in ats:
+                ats.append(a)
+    return sorted(ats, key=_f)
+
+
+def plot_values(records, x=None, ax=None, at=None):
+    """Resummed values at the couplings ``at`` (default: all) against ``x``,
+    with the source's finite-coupling truth where recorded (open markers)."""
+    x = family_x(records, x)
+    ax = _ax(ax)
+    ats = at if at is not None else _points_at(records, "evaluate")
+    import matplotlib.pyplot as plt
+    colors = plt.rcParams["axes.prop_cycle"].by_key().get("color", [None])
+    for j, a in enumerate(ats):
+        col = colors[j % len(colors)]
+        def get(r, a=a):
+            v = _values(r, "evaluate").get(_at_key(a))
+            return _or_miss(_band(v)) if v else None
+
+        def truth(r, a=a):
+            v = _values(r, "truth").get(_at_key(a))
+            return _band(v) if v else None
+        _draw(ax, _series(records, x, get, "evaluate"), f"resummed at {a}", "o", color=col)
+        tr = _series(records, x, truth, "truth")
+        for g, (xs, vs, *_rest) in tr.items():
+            if xs:
+                ax.plot(xs, vs, "D", mfc="none", color=col, ms=7,
+                        label=f"truth at {a}" + (f", {g}" if g else ""))
+    return _finish(ax, x, "value")
+
+
+def plot_value_errors(records, x=None, ax=None, at=None):
+    """Resummed minus true value (points) with the resummation band (bars)."""
+    x = family_x(records, x)
+    ax = _ax(ax)
+    ats = at if at is not None else _points_at(records, "evaluate")
+    for a in ats:
+        def diff(r, a=a):
+            v = _values(r, "evaluate").get(_at_key(a))
+            t = _values(r, "truth").get(_at_key(a))
+            bv, bt = (_band(v) if v else None), (_band(t) if t else None)
+            if bv is None or bt is None:
+                return None
+            return bv[0] - bt[0], bv[1] - bt[0], bv[2] - bt[0]
+        _draw(ax, _series(records, x, diff, "truth"), f"at {a}", "o")
+    ax.axhline(0, color="k", lw=0.6)
+    return _finish(ax, x, "resummed - truth")
+
+
+_STRONG_KINDS = (("resummed", "from the resummed series", "o"),
+                 ("truth", "from the finite-coupling values", "D"))
+
+
+def strong_keys(records) -> list:
+    """Fitted strong-coupling coefficients found in the records (labels such
+    as ``"g^1"``, ``"g^0"``), leading power last if it was estimated."""
+    keys, power = [], False
+    for r in records:
+        t = _task(r, "strong") or {}
+        for kind, _, _ in _STRONG_KINDS:
+            d = t.get(kind) or {}
+            for k, v in (d.get("coefficients") or {}).items():
+                if _band(v) is not None and k not in keys:
+                    keys.append(k)
+            lp = d.get("leading_power")
+            if _band(lp) is not None and not str(d.get("power_source", "")).startswith("given"):
+                power = True
+
+    def order(k):
+        try:
+            return -_f(k.split("^", 1)[1].split()[0]), "log" in k
+        except (IndexError, ValueError):
+            return 0, True
+    keys.sort(key=order)
+    return keys + (["leading_power"] if power else [])
+
+
+def plot_strong(records, key, x=None, ax=None):
+    """One strong-coupling coefficient (a label from :func:`strong_keys`) against
+    ``x``: fitted to the resummed values (filled) and, where recorded, to the
+    source's finite-coupling values (open)."""
+    x = family_x(records, x)
+    ax = _ax(ax)
+    for kind, label, mk in _STRONG_KINDS:
+        def get(r, kind=kind):
+            d = (_task(r, "strong") or {}).get(kind)
+            if d is None:
+                return None
+            if d.get("success") is False:
+                return MISS
+            if key == "leading_power":
+                return _or_miss(_band(d.get("leading_power")))
+            return _or_miss(_band((d.get("coefficients") or {}).get(key)))
+        _draw(ax, _series(records, x, get, "strong"), label, mk)
+    return _finish(ax, x, "leading power" if key == "leading_power" else f"coefficient of {key}")
+
+
+# ----------------------------------------------------------------------------
+# all figures
+# ----------------------------------------------------------------------------
+
+def _has(records, get):
+    return any(r.get("status") == "ok" and get(r) not in (None, MISS) for r in records)
+
+
+def write_family_plots(records, outdir, x=None, title="") -> list:
+    """Draw every family figure that has data into ``outdir`` (PNG and PDF).
+
+    Returns the paths written.
+    """
+    import matplotlib
+    matplotlib.use("Agg", force=False)
+    import matplotlib.pyplot as plt
+    records = list(records)
+    if not records:
+        return []
+    x = family_x(records, x)
+    outdir = Path(outdir)
+    outdir.mkdir(parents=True, exist_ok=True)
+    paths = []
+
+    def save(fig, name):
+        if title:
+            fig.suptitle(title, fontsize=11)
+        fig.tight_layout()
+        for ext in ("png", "pdf"):
+            p = outdir / f"{name}.{ext}"
+            fig.savefig(p, dpi=130)
+            paths.append(p)
+        plt.close(fig)
+
+    if _has(records, _get_radius_analysis) or _has(records, _get_radius_ratio):
+        fig, (a1, a2) = plt.subplots(2, 1, figsize=(6.4, 6.4), sharex=True)
+        plot_radius(records, x, a1)
+        plot_band_digits(records, x, a2)
+        a1.set_xlabel("")
+        save(fig, "radius")
+    if any(_sings(r) for r in records):
+        fig, (a1, a2) = plt.subplots(2, 1, figsize=(6.4, 6.4), sharex=True)
+        plot_singularity_locations(records, x, a1)
+        plot_exponents(records, x, a2)
+        a1.set_xlabel("")
+        save(fig, "singularities")
+    if _has(records, _get_borel_analysis) or _has(records, _get_borel_ratio):
+        fig, ax = plt.subplots(figsize=(6.4, 4.2))
+        plot_borel(records, x, ax)
+        save(fig, "borel")
+    if _points_at(records, "evaluate"):
+        has_truth = bool(_points_at(records, "truth"))
+        fig, axs = plt.subplots(2 if has_truth else 1, 1, figsize=(6.4, 6.4 if has_truth else 4.2),
+                                sharex=True, squeeze=False)
+        plot_values(records, x, axs[0][0])
+        if has_truth:
+            plot_value_errors(records, x, axs[1][0])
+            axs[0][0].set_xlabel("")
+        save(fig, "values")
+    keys = strong_keys(records)
+    if keys:
+        fig, axs = plt.subplots(len(keys), 1, figsize=(6.4, 2.6 * len(keys) + 0.8), sharex=True,
+                                squeeze=False)
+        for k, a in zip(keys, axs[:, 0]):
+            plot_strong(records, k, x, a)
+        for a in axs[:-1, 0]:
+            a.set_xlabel("")
+        save(fig, "strong")
+    return paths
