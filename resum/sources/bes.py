@@ -631,7 +631,7 @@ def _panel_nodes(omega: float, digits: float, T: float, shrink: float, extra: in
     ``(omega r e / (4 n))^(2n)`` below ``10^-(digits - a / ln 10)`` (the
     integrand is bounded by ``e^-t / t``, since ``|J_n| <= 1`` on the real axis).
     """
-    r = min(1.0, 8.0 / max(omega, 1e-30)) * shrink
+    r = min(1.0, 16.0 / max(omega, 1e-30)) * shrink
     w = 2 * r
     panels = []
     k = 0
@@ -734,13 +734,28 @@ def _kernel_matrix(g, N: int, panels, bits: int, dps: int):
         zs = [g2 * t for t in tw]
         wts = np.array([arb_from_mpf(w_) for w_ in weights], dtype=object)
     J = _bessel_table(N, zs, bits, cplx)
+    Q = len(nodes)
     with flint_prec(bits):
-        JW = J * wts[None, :]
-        Q = len(nodes)
-        Mat = flint.acb_mat if cplx else flint.arb_mat
-        A = Mat(N, Q, list(JW.ravel()))
-        B = Mat(Q, N, list(J.T.ravel()))
-        I = (A * B).entries()
+        if cplx:
+            JW = J * wts[None, :]
+            A = flint.acb_mat(N, Q, list(JW.ravel()))
+            B = flint.acb_mat(Q, N, list(J.T.ravel()))
+            I = (A * B).entries()
+        else:
+            # I = Jh Jh^T with Jh = J sqrt(w) (the weights are positive), in fixed point:
+            # entries rounded to integers at scale 2^P, so the product is an exact integer
+            # matrix product (much faster than floating entries spread over many
+            # binades); rounding error of each entry of I <= Q 2^-P (|Jh| <= 2).
+            P = bits
+            scale = flint.arb(2) ** P
+            sw = np.array([(w_.sqrt() * scale).mid() for w_ in wts], dtype=object)
+            to_int = np.frompyfunc(lambda x: (x.mid() + 0.5).floor(), 1, 1)
+            Jh = to_int(J * sw[None, :])
+            A = flint.arb_mat(N, Q, list(Jh.ravel()))
+            with flint_prec(P + 24):
+                prod = A * A.transpose()
+            inv = flint.arb(2) ** (-2 * P)
+            I = [(x * inv) for x in prod.entries()]
     return np.array(I, dtype=object).reshape(N, N), Q
 
 
@@ -772,8 +787,8 @@ def _initial_size(g_abs: float, digits: float) -> int:
     Measured (double and 40-digit runs at a = 0 and pi/4): the relative change
     between sizes falls by about ``0.67 / sqrt(g)`` decades per added index
     for g >= 1, faster below."""
-    rate = 0.67 / math.sqrt(max(g_abs, 0.5))
-    return int(math.ceil((digits + 2) / rate)) + 4
+    rate = 0.8 / math.sqrt(max(g_abs, 0.5))
+    return int(math.ceil((digits + 1) / rate)) + 4
 
 
 def finite_coupling(g, angle="pi/4", ctx: Optional[Context] = None, digits: Optional[int] = None,
@@ -842,10 +857,10 @@ def finite_coupling(g, angle="pi/4", ctx: Optional[Context] = None, digits: Opti
     decay = 1.0 - (4 * float(abs(gv.imag)) if cplx else 0.0)
     # F changes by about 4 g^2 dK for a change dK of the kernel entries, and
     # F / (4 g^2) >= 1/(2g + 2): absolute accuracy 10^-quad_digits on the entries
-    quad_digits = digits + 3 + math.log10(2 * g_abs + 2)
+    quad_digits = digits + 1.5 + math.log10(2 * g_abs + 2)
     alpha, beta2 = _angle_factors(a, bits + 64, ctx.work_dps + 10)
     check = min(_initial_size(g_abs, digits), max_size - 8)
-    size = check + max(8, check // 3)
+    size = check + max(8, check // 4)
     history = []
     status, msg = Status.NOT_CONVERGED, ""
     while True:
@@ -853,7 +868,7 @@ def finite_coupling(g, angle="pi/4", ctx: Optional[Context] = None, digits: Opti
         T1 = (qd + 1) * math.log(10) / decay
         T2 = (qd + 4) * math.log(10) / decay + 3
         p1 = _panel_nodes(omega, qd, T1, 1.0, 0, decay)
-        p2 = _panel_nodes(omega, qd + 3, T2, 0.77, 2, decay)
+        p2 = _panel_nodes(omega, qd + 2, T2, 0.83, 0, decay)
         I1, Q1 = _kernel_matrix(gv, size, p1, bits, work_digits + 5)
         I2, Q2 = _kernel_matrix(gv, size, p2, bits, work_digits + 5)
         F_big = _solve_F(I1, size, gv, alpha, beta2, bits, cplx)
@@ -886,10 +901,10 @@ def finite_coupling(g, angle="pi/4", ctx: Optional[Context] = None, digits: Opti
             msg = "the quadrature does not converge at this coupling; ask for fewer digits"
             break
         # the size change falls exponentially: aim the check size past the digits still missing
-        rate = max(0.05, 0.67 / math.sqrt(max(g_abs, 0.5)))
+        rate = max(0.05, 0.8 / math.sqrt(max(g_abs, 0.5)))
         missing = float(mpmath.log10(band / (mpmath.mpf(10) ** (-digits) * scale))) if scale > 0 else 5
         check = min(max_size - 8, size, check + int(missing / rate) + 8)
-        size = min(max_size, check + max(8, check // 3))
+        size = min(max_size, check + max(8, check // 4))
     with ctx.working(10):
         v = vals[0]
         re = Estimate(mpmath.re(v), mpmath.re(v) - band, mpmath.re(v) + band)
