@@ -54,11 +54,20 @@ with ``f = T_d + x^d g_d`` (T_d the first d terms) and
 Notes
 -----
 How to read the error. ``PadeApprox.digits`` is the number of correct
-significant digits of the coefficients of p and q (normwise, relative to the
-largest coefficient of each), for the input as given: the rounding part is
-bounded rigorously by the ball arithmetic (or is exact), and, when
-``input_digits`` is given, the effect of input errors is estimated by one
-rerun with the input perturbed at its last digit (an estimate, not a bound).
+significant digits of the coefficients of p and q (normwise: relative to the
+largest coefficient of each), for the input *as given*:
+
+* ``exact``: infinite (exact rational arithmetic);
+* ``fraction``: a rigorous bound from the ball arithmetic, treating the
+  given coefficients as exact numbers (against exact rational references the
+  bound is within a few digits of the true error, see tests/kernels);
+* ``svd``: the agreement between two runs at different precisions (an
+  estimate).
+
+When ``input_digits`` is given, the effect of the input's own uncertainty is
+estimated by one rerun with the input perturbed at its last digit, and
+``digits`` is the smaller of the two (the perturbation part is an estimate,
+not a bound; ``diagnostics['input_sensitivity_digits']`` keeps it apart).
 Values of the approximant are not bounded by this: near poles and far from
 the origin they can be much less accurate.
 
@@ -725,14 +734,16 @@ def _inexact_problem(c, L, M):
 
 def _perturbed(g, input_digits, seed=12345):
     """The input perturbed by random relative amounts 10^-input_digits."""
+    from ..context import workdps
     rng = random.Random(seed)
-    eps = mpmath.mpf(10) ** (-input_digits)
     out = []
-    for x in g:
-        if x == 0:
-            out.append(x)
-        else:
-            out.append(x * (1 + eps * (2 * rng.random() - 1)))
+    with workdps(int(input_digits) + 40):     # the perturbation, not rounding, must dominate
+        eps = mpmath.mpf(10) ** (-input_digits)
+        for x in g:
+            if x == 0:
+                out.append(x)
+            else:
+                out.append(x * (1 + eps * (2 * rng.random() - 1)))
     return out
 
 
@@ -936,7 +947,9 @@ def _ggt_mp(g, L, M, tol):
 def _pade_svd(g, Lg, Mg, requested, v, s, sc, dps, tl, input_digits, diag):
     from ..context import workdps
     n = Lg + Mg + 1
-    guard = guard_digits_for_pade(n, dps, growth=0.5)
+    # the SVD construction is backward stable: it loses about what the
+    # Toeplitz system's conditioning costs (~1.6 digits per unit of M)
+    guard = guard_digits_for_pade(n, dps, growth=1.6)
     w1 = dps + guard
     with workdps(w1):
         gg = [mpmath.mpmathify(x) for x in g]

@@ -1,0 +1,334 @@
+"""Speed and accuracy of resum's kernels against general-purpose baselines.
+
+One command:  python studies/performance/run.py [--quick] [--out DIR]
+
+Prints tables (and writes them to DIR/performance.txt, default
+studies/performance/out/): for each case the time of resum's kernel, the
+time of the baseline, their ratio, the digits each gets right, and the peak
+Python memory (tracemalloc) of each.
+
+"Digits correct" is normwise: -log10(max|x - x_ref| / max|x_ref|) over the
+coefficients (or roots), against a reference computed independently:
+
+* Padé: the Toeplitz system for q solved by FLINT's ball LU (arb_mat.solve)
+  at much higher precision, for the *same* input (the coefficients rounded
+  to the working digits), with its certified radius checked to be far below
+  the errors measured. So the digits measure the method, not the rounding of
+  the input.
+* roots: resum's certified roots of the same polynomial at 3x the digits.
+* double precision Padé: the exact Padé coefficients of exp(x) (closed form,
+  Baker and Graves-Morris, "Padé Approximants", 2nd ed., CUP 1996, sec. 1.2).
+
+Baselines are run with a time cap: a case whose predicted baseline time
+(extrapolated as N^3 dps^1.6 from the smallest case measured) exceeds
+--cap seconds is not run and is marked "skipped (cap)".
+
+The test series is -log(1-x)/x = sum x^k/(k+1) with alternating sign
+(log(1+x)/x), a Stieltjes series whose Toeplitz systems grow ill-conditioned
+like the Hilbert matrix (the hard, common case).
+"""
+from __future__ import annotations
+
+import argparse
+import math
+import os
+import sys
+import time
+import tracemalloc
+from pathlib import Path
+
+import mpmath
+
+HERE = Path(__file__).resolve().parent
+sys.path.insert(0, str(HERE.parent.parent))
+
+import flint  # noqa: E402
+
+from resum._kernels import flint_bridge as fb  # noqa: E402
+from resum._kernels.pade import pade, pade_fp, pade_table  # noqa: E402
+from resum._kernels.roots import poly_roots  # noqa: E402
+from resum.context import workdps  # noqa: E402
+
+
+def series_log(n, dps):
+    with workdps(dps):
+        return [mpmath.mpf((-1) ** k) / (k + 1) for k in range(n)]
+
+
+def timed(fn, repeat=1):
+    best = math.inf
+    out = None
+    for _ in range(repeat):
+        t = time.perf_counter()
+        out = fn()
+        best = min(best, time.perf_counter() - t)
+    return best, out
+
+
+def peak_mem(fn):
+    tracemalloc.start()
+    try:
+        fn()
+        _, peak = tracemalloc.get_traced_memory()
+    finally:
+        tracemalloc.stop()
+    return peak
+
+
+def digits(x, ref):
+    with workdps(2000):
+        x = [mpmath.mpmathify(v) for v in x]
+        ref = [mpmath.mpmathify(v) for v in ref]
+        n = max(len(x), len(ref))
+        x = x + [mpmath.mpf(0)] * (n - len(x))
+        ref = ref + [mpmath.mpf(0)] * (n - len(ref))
+        big = max(abs(v) for v in ref)
+        err = max(abs(a - b) for a, b in zip(x, ref))
+        if err == 0:
+            return math.inf
+        return float(mpmath.log10(big / err))
+
+
+def reference_q(c, N, dps_ref, need):
+    """Denominator of [N/N] by ball LU on the Toeplitz system at high
+    precision, raised until the certified digits reach ``need``; returns
+    (q, certified digits)."""
+    prec = fb.prec_for_dps(dps_ref)
+    while True:
+        with fb.flint_prec(prec):
+            T = flint.arb_mat(N, N, [fb.to_arb(c[N + i - j]) if N + i - j >= 0 else flint.arb(0)
+                                     for i in range(1, N + 1) for j in range(1, N + 1)])
+            rhs = flint.arb_mat(N, 1, [-fb.to_arb(c[N + i]) for i in range(1, N + 1)])
+            try:
+                x = T.solve(rhs)
+            except ZeroDivisionError:
+                x = None
+            if x is not None:
+                q = [flint.arb(1)] + [x[i, 0] for i in range(N)]
+                from resum._kernels.pade import _rel_digits
+                cert = _rel_digits(q)
+                if cert >= need:
+                    return [fb.arb_to_mpf(v) for v in q], cert
+        prec *= 2
+
+
+def fmt_t(t):
+    if t is None:
+        return "-"
+    return f"{t * 1e3:.1f} ms" if t < 1 else f"{t:.2f} s"
+
+
+def fmt_d(d):
+    if d is None:
+        return "-"
+    return "exact" if d == math.inf else f"{d:.0f}"
+
+
+def fmt_m(m):
+    return "-" if m is None else f"{m / 2 ** 20:.1f} MB"
+
+
+class Table:
+    def __init__(self, title, cols):
+        self.title, self.cols, self.rows = title, cols, []
+
+    def add(self, *row):
+        self.rows.append([str(x) for x in row])
+        print("  " + " | ".join(str(x) for x in row), flush=True)
+
+    def render(self):
+        w = [max(len(c), *(len(r[i]) for r in self.rows)) if self.rows else len(c)
+             for i, c in enumerate(self.cols)]
+        lines = [self.title, ""]
+        lines.append("| " + " | ".join(c.ljust(w[i]) for i, c in enumerate(self.cols)) + " |")
+        lines.append("|" + "|".join("-" * (x + 2) for x in w) + "|")
+        for r in self.rows:
+            lines.append("| " + " | ".join(v.ljust(w[i]) for i, v in enumerate(r)) + " |")
+        return "\n".join(lines)
+
+
+def study_pade(sizes, digit_levels, cap):
+    tab = Table("[N/N] Padé of log(1+x)/x: resum.pade (dps = working digits asked as correct digits) "
+                "vs mpmath.pade at mp.dps = dps; digits correct in q",
+                ["N", "dps", "resum", "claimed", "digits", "mem", "mpmath.pade", "digits", "mem",
+                 "speed-up"])
+    base_rate = None     # seconds per N^3 dps^1.6
+    for N in sizes:
+        for dps in digit_levels:
+            c = series_log(2 * N + 1, dps)
+            qref, cert = reference_q(c, N, dps + int(3 * N) + 100, need=dps + 120)
+            t_r, r = timed(lambda: pade(c, N, N, dps), repeat=2)
+            m_r = peak_mem(lambda: pade(c, N, N, dps))
+            d_r = digits(r.q, qref)
+            pred = None if base_rate is None else base_rate * N ** 3 * dps ** 1.6
+            if pred is not None and pred > cap:
+                t_m = d_m = m_m = None
+                ratio = f"skipped (cap: predicted {pred:.0f} s)"
+            else:
+                def run_m():
+                    with workdps(dps):
+                        return mpmath.pade(c, N, N)
+                try:
+                    t_m, (pm, qm) = timed(run_m)
+                    d_m = digits(qm, qref)
+                    m_m = peak_mem(run_m) if t_m < cap / 4 else None
+                except ZeroDivisionError:
+                    t_m, d_m, m_m = None, None, None
+                    ratio = "baseline failed (singular matrix at mp.dps)"
+                else:
+                    ratio = f"{t_m / t_r:.0f}x"
+                    rate = t_m / (N ** 3 * dps ** 1.6)
+                    base_rate = rate if base_rate is None else max(base_rate, rate)
+            tab.add(N, dps, fmt_t(t_r), fmt_d(r.digits), fmt_d(d_r), fmt_m(m_r), fmt_t(t_m), fmt_d(d_m),
+                    fmt_m(m_m), ratio)
+    return tab
+
+
+def study_table(N, dps):
+    tab = Table(f"Near-diagonal table (offsets -2..2, all orders up to [{N}/{N}]) at {dps} digits "
+                f"vs one mpmath.pade [{N}/{N}]",
+                ["entries", "resum.pade_table", "min claimed digits", "mem", f"mpmath.pade [{N}/{N}]",
+                 "ratio"])
+    c = series_log(2 * N + 1, dps)
+    t_t, T = timed(lambda: pade_table(c, dps))
+    m_t = peak_mem(lambda: pade_table(c, dps))
+
+    def run_m():
+        with workdps(dps):
+            return mpmath.pade(c, N, N)
+    t_m, _ = timed(run_m)
+    tab.add(len(T), fmt_t(t_t), fmt_d(min(r.digits for r in T.values())), fmt_m(m_t), fmt_t(t_m),
+            f"table {t_m / t_t:.1f}x faster")
+    return tab
+
+
+def study_roots(sizes, dps, cap):
+    tab = Table(f"Roots of the [N/N] denominator of log(1+x)/x at {dps} digits: digits correct "
+                "(worst root, relative)",
+                ["N", "resum.poly_roots", "digits", "mpmath.polyroots", "digits", "numpy.roots",
+                 "digits", "speed-up vs mpmath"])
+    import numpy as np
+    for N in sizes:
+        c = series_log(2 * N + 1, dps + 2 * N + 40)
+        q = list(pade(c, N, N, dps + 10).q)
+        t_r, roots = timed(lambda: poly_roots(q, dps))
+        ref = poly_roots(q, 3 * dps)
+
+        def worst(got):
+            worst_d = math.inf
+            with workdps(3 * dps):
+                for z, _ in ref:
+                    e = min(abs(mpmath.mpmathify(g) - z) for g in got)
+                    worst_d = min(worst_d, float(mpmath.log10(abs(z) / e)) if e else math.inf)
+            return worst_d
+        d_r = worst([z for z, _ in roots])
+        t_n, nr = timed(lambda: np.roots([complex(x) for x in reversed(q)]))
+        d_n = worst(list(nr))
+        if N > 60 and cap < 600:
+            t_m = d_m = None
+            sp = "skipped (cap)"
+        else:
+            def run_m():
+                with workdps(dps):
+                    return mpmath.polyroots(list(reversed(q)), maxsteps=500, extraprec=4 * dps)
+            try:
+                t_m, mr = timed(run_m)
+                d_m = worst(mr)
+                sp = f"{t_m / t_r:.0f}x"
+            except mpmath.libmp.NoConvergence:
+                t_m, d_m, sp = None, None, "baseline did not converge"
+        tab.add(N, fmt_t(t_r), fmt_d(d_r), fmt_t(t_m), fmt_d(d_m), fmt_t(t_n), fmt_d(max(d_n, 0)), sp)
+    return tab
+
+
+def study_fp():
+    import warnings
+    from scipy.interpolate import pade as scipy_pade
+    tab = Table("Double-precision [N/N] Padé of exp(x): resum.pade_fp (SVD, degree reduction) vs "
+                "scipy.interpolate.pade; max relative error of the approximant on [-1, 1] "
+                "(201 points) against mpmath.exp, as digits",
+                ["[N/N]", "pade_fp", "degrees returned", "digits", "scipy", "digits"])
+    xs = [mpmath.mpf(k) / 100 - 1 for k in range(201)]
+
+    def val_digits(f):
+        err = max(abs(f(float(x)) - float(mpmath.exp(x))) / float(mpmath.exp(x)) for x in xs)
+        return math.inf if err == 0 else -math.log10(err)
+    for N in (4, 8, 12, 16):
+        cf = [1.0 / math.factorial(k) for k in range(2 * N + 1)]
+        t_r, r = timed(lambda: pade_fp(cf, N, N), repeat=3)
+
+        def fr(x, r=r):
+            return sum(a * x ** k for k, a in enumerate(r.p)) / sum(b * x ** k for k, b in enumerate(r.q))
+        with warnings.catch_warnings():
+            warnings.simplefilter("ignore")          # scipy warns on ill-conditioning
+            t_s, (ps, qs) = timed(lambda: scipy_pade(cf, N), repeat=3)
+        tab.add(f"[{N}/{N}]", fmt_t(t_r), f"[{r.L}/{r.M}]", fmt_d(val_digits(fr)), fmt_t(t_s),
+                fmt_d(val_digits(lambda x: ps(x) / qs(x))))
+    return tab
+
+
+def study_pipeline(dps):
+    """analyze / evaluate on a 200-term series, if those modules exist."""
+    tab = Table(f"Pipeline on a 200-term series at {dps} digits (with verification)",
+                ["call", "time", "result"])
+    try:
+        from resum.analysis import analyze
+        from resum.context import Context
+        from resum.series import Series
+    except ImportError as err:
+        tab.add("analyze", "-", f"not available ({err})")
+        return tab
+    from fractions import Fraction
+    # log(1+x)/x: radius 1, logarithmic branch point at x = -1 (common practice)
+    s = Series([Fraction((-1) ** k, k + 1) for k in range(200)], name="log1p_over_x")
+    ctx = Context(dps=dps)
+    try:
+        t, res = timed(lambda: analyze(s, ctx))
+        tab.add("analyze", fmt_t(t), f"radius {res.radius}" if hasattr(res, "radius") else str(res)[:60])
+    except Exception as err:     # a study records a failure and goes on
+        tab.add("analyze", "-", f"failed: {type(err).__name__}: {str(err)[:80]}")
+    try:
+        from resum.resummation import evaluate
+        t, res = timed(lambda: evaluate(s, ["2"], ctx))
+        vals = getattr(res, "values", None)
+        ref = mpmath.log(3) / 2
+        tab.add("evaluate at x=2", fmt_t(t),
+                f"{vals[0] if vals else res}; log(3)/2 = {mpmath.nstr(ref, 20)}")
+    except Exception as err:
+        tab.add("evaluate at x=2", "-", f"failed: {type(err).__name__}: {str(err)[:80]}")
+    return tab
+
+
+def main(argv=None):
+    ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    ap.add_argument("--quick", action="store_true", help="small sizes only (a smoke run)")
+    ap.add_argument("--cap", type=float, default=120.0, help="baseline time cap in seconds")
+    ap.add_argument("--out", default=str(HERE / "out"), help="folder for performance.txt")
+    ap.add_argument("--pipeline", action="store_true", help="also time analyze/evaluate")
+    args = ap.parse_args(argv)
+    sizes = (25, 50) if args.quick else (25, 50, 100, 200)
+    levels = (50, 100) if args.quick else (50, 100, 300)
+    tables = []
+    print("Padé [N/N]", flush=True)
+    tables.append(study_pade(sizes, levels, args.cap))
+    print("table", flush=True)
+    tables.append(study_table(50 if args.quick else 100, 100 if args.quick else 300))
+    print("roots", flush=True)
+    tables.append(study_roots((10, 25) if args.quick else (10, 25, 50, 100), 50 if args.quick else 100,
+                              args.cap))
+    print("double precision", flush=True)
+    tables.append(study_fp())
+    if args.pipeline:
+        print("pipeline", flush=True)
+        tables.append(study_pipeline(30))
+    text = "\n\n".join(t.render() for t in tables) + "\n"
+    out = Path(args.out)
+    out.mkdir(parents=True, exist_ok=True)
+    (out / "performance.txt").write_text(text)
+    print()
+    print(text)
+    return 0
+
+
+if __name__ == "__main__":
+    raise SystemExit(main())
