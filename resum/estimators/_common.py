@@ -7,9 +7,9 @@ analyse ``F`` and :func:`lift` maps singularities in ``u`` back to the ``k``
 points in ``x``.
 
 >>> from resum.series import Series
->>> p = prepare(Series([1, 0, 1, 0, 1, 0, 1, 0, 1]), None)   # 1/(1 - x^2)
+>>> p = prepare(Series([1, 0] * 10), None)   # 1/(1 - x^2)
 >>> p.stride, p.offset, len(p.c)
-(2, 0, 5)
+(2, 0, 10)
 """
 from __future__ import annotations
 

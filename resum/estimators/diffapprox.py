@@ -3,11 +3,12 @@
 >>> import mpmath
 >>> from resum.series import Series
 >>> from resum.context import Context
->>> c = [1]
->>> for n in range(1, 40):            # (1 - 4x)^(-1/2): c_n = binomial(2n, n)
-...     c.append(c[-1] * 2 * (2 * n - 1) // n)
->>> s = estimate_diffapprox(Series(c), Context(dps=40)).singularities[0]
->>> s.re.contains(0.25), s.exponent.contains(-0.5)
+>>> from fractions import Fraction
+>>> from math import comb
+>>> c = [Fraction(comb(2 * n, n), 4 ** n) + (n + 1) * (-1) ** n for n in range(40)]
+>>> r = estimate_diffapprox(Series(c), Context(dps=60))   # (1-x)^(-1/2) + (1+x)^(-2)
+>>> s = min(r.singularities, key=lambda s: abs(s.location - 1))
+>>> s.re.contains(1), s.exponent.contains(-0.5)
 (True, True)
 
 Notes

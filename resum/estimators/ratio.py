@@ -8,12 +8,11 @@ a :class:`~resum.context.Context` and returns a
 >>> import mpmath
 >>> from resum.series import Series
 >>> from resum.context import Context
->>> from fractions import Fraction
 >>> c = [1]
 >>> for n in range(1, 40):            # (1 - 4x)^(-1/2): c_n = binomial(2n, n)
 ...     c.append(c[-1] * 2 * (2 * n - 1) // n)
 >>> r = estimate_ratio(Series(c), Context(dps=30))
->>> r.radius.contains(Fraction(1, 4)), r.singularities[0].exponent.contains(-0.5)
+>>> r.radius.contains(0.25), r.singularities[0].exponent.contains(-0.5)
 (True, True)
 
 Notes

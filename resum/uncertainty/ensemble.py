@@ -9,8 +9,8 @@ never narrower than the noise floor the input digits allow.
 >>> import mpmath
 >>> e = band_from_samples([mpmath.mpf("0.2500"), mpmath.mpf("0.2501"), mpmath.mpf("0.2499")],
 ...                        safety=2)
->>> (float(e.value), float(e.lower), float(e.upper))
-(0.25, 0.2498, 0.2502)
+>>> [round(float(v), 6) for v in (e.value, e.lower, e.upper)]
+[0.25, 0.2498, 0.2502]
 
 Notes
 -----
