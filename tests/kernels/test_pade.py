@@ -232,3 +232,17 @@ def test_guard_plan_and_errors():
 def test_zero_approximant_when_leading_terms_vanish():
     r = pade([0, 0, 0, 1, 1, 1], 2, 3, dps=20)
     assert r.p == (0,) and r.q == (1,)
+
+
+@pytest.mark.parametrize("N,din", [(10, 40), (20, 40)])
+def test_input_digits_estimate_is_honest_and_sharp(N, din):
+    # input rounded to din digits; the truth is the exact Padé of the exact series,
+    # so the true error is the input's own error propagated through the problem
+    exact = pade([Fraction((-1) ** k, k + 1) for k in range(2 * N + 1)], N, N, 30)
+    with workdps(din):
+        c = [mpmath.mpf((-1) ** k) / (k + 1) for k in range(2 * N + 1)]
+    r = pade(c, N, N, 30, input_digits=din)
+    with workdps(300):
+        true = digits_agree(r.q, exact.q)
+    assert r.digits <= true + 0.5          # honest
+    assert r.digits >= true - 4            # sharp
