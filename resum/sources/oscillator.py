@@ -310,11 +310,10 @@ def energy(g, state: int = 0, ctx: Optional[Context] = None, max_basis: int = 20
     precision eigenvalues of this Hamiltonian).
     """
     ctx = ctx or DEFAULT
-    from .bes import _parse_coupling
     if isinstance(state, bool) or not isinstance(state, int) or state < 0:
         raise InputError(f"state: expected a whole number >= 0, got {state!r}")
     with ctx.working(10):
-        gv = mpmath.mpmathify(g) if not isinstance(g, str) else _parse_coupling(g, ctx.work_dps + 10)
+        gv = _parse_real(g, ctx.work_dps + 10)
         if isinstance(gv, mpmath.mpc) or gv < 0:
             raise InputError(f"g: the spectrum is computed for real g >= 0, got {g}")
         parity = state % 2
@@ -350,6 +349,23 @@ def energy(g, state: int = 0, ctx: Optional[Context] = None, max_basis: int = 20
                             history[-2]["basis"] if len(history) > 1 else 0, w, round(agree, 2),
                             {"history": history, "how": "band = 3 |E(basis) - E(basis_check)| below, "
                                                         "Ritz upper bound above"}, prov)
+
+
+def _parse_real(g, dps):
+    from ..series.expr import evaluate_expression
+    if isinstance(g, bool):
+        raise InputError("g: expected a number, got a boolean")
+    if isinstance(g, str):
+        try:
+            g = evaluate_expression(g, dps=dps).value
+        except InputError as exc:
+            raise exc.at("g") from None
+    if isinstance(g, Fraction):
+        return mpmath.mpf(g.numerator) / g.denominator
+    try:
+        return mpmath.mpmathify(g)
+    except (TypeError, ValueError):
+        raise InputError(f"g: expected a number, got {g!r}") from None
 
 
 def _frequency(g):
