@@ -56,8 +56,8 @@ class Progress:
         self.running += n
         self._show()
 
-    def finished(self, ok: bool) -> None:
-        self.running = max(0, self.running - 1)
+    def finished(self, ok: bool, running: int = None) -> None:
+        self.running = max(0, self.running - 1) if running is None else running
         self.done += 1
         self._finished_here += 1
         if not ok:

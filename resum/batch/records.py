@@ -196,7 +196,9 @@ def flatten_record(rec: dict, n_sing: int = 2) -> dict:
             if k in an:
                 row[f"analyze_{k}"] = an[k]
         _est("radius", an.get("radius"), row)
-        _est("borel_singularity", an.get("borel_singularity"), row)
+        borel = an.get("borel") if isinstance(an.get("borel"), dict) else {}
+        _est("borel_A", borel.get("A", an.get("borel_singularity")), row)
+        _est("borel_b", borel.get("b", an.get("borel_exponent")), row)
         for i, s in enumerate((an.get("singularities") or [])[:n_sing]):
             _sing_fields(f"sing{i + 1}", s, row)
     ev = tasks.get("evaluate")
@@ -207,11 +209,14 @@ def flatten_record(rec: dict, n_sing: int = 2) -> dict:
         _values_fields("truth", tr.get("values"), row)
     st = tasks.get("strong")
     if isinstance(st, dict):
-        for k, v in st.items():
-            if isinstance(v, dict) and "value" in v:
-                _est(f"strong_{k}", v, row)
-            elif isinstance(v, (str, int, float)) and k in ("status", "exponent", "power"):
-                row[f"strong_{k}"] = v
+        for kind in ("resummed", "truth"):
+            d = st.get(kind)
+            if not isinstance(d, dict):
+                continue
+            row[f"strong_{kind}_status"] = d.get("status", "")
+            _est(f"strong_{kind}_power", d.get("leading_power"), row)
+            for label, e in (d.get("coefficients") or {}).items():
+                _est(f"strong_{kind}_{label.replace(' ', '_')}", e, row)
     err = rec.get("error")
     if err:
         row["error"] = f"{err.get('step')}: {err.get('type')}: {err.get('message')}"

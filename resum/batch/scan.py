@@ -101,8 +101,7 @@ def run_family(spec: FamilySpec, outdir, runner=None, resume: bool = False,
         folder.write_record(rec)
         running.discard(rec["index"])
         computed.append(rec["index"])
-        prog.running = len(running)
-        prog.finished(rec["status"] == "ok")
+        prog.finished(rec["status"] == "ok", running=len(running))
         if on_record is not None:
             on_record(rec)
 

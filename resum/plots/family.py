@@ -14,6 +14,7 @@ out of the line and marked with a cross at the bottom of the panel.
 * :func:`plot_singularity_locations` -- real and imaginary parts of the nearest singularities;
 * :func:`plot_exponents` -- their exponents;
 * :func:`plot_borel` -- distance of the nearest Borel-plane singularity;
+* :func:`plot_borel_exponent` -- the Gamma-function shift b of the large-order growth;
 * :func:`plot_values` -- resummed values at fixed couplings, with the source's truth;
 * :func:`plot_value_errors` -- resummed minus true values, with bands;
 * :func:`plot_strong` -- one strong-coupling coefficient;
@@ -26,7 +27,7 @@ from pathlib import Path
 from typing import Callable, Optional
 
 __all__ = ["plot_radius", "plot_band_digits", "plot_singularity_locations", "plot_exponents",
-           "plot_borel", "plot_values", "plot_value_errors", "plot_strong", "write_family_plots",
+           "plot_borel", "plot_borel_exponent", "plot_values", "plot_value_errors", "plot_strong", "write_family_plots",
            "family_x"]
 
 
@@ -141,11 +142,32 @@ def _get_radius_ratio(r):
     return _or_miss(_band(ratio.get("radius")))
 
 
-def _get_borel_analysis(r):
+def _borel_part(a, part):
+    """A ("A") or b ("b") of the analysis record (contract layout ``borel: {A, b}``,
+    or the full layout ``borel_singularity`` / ``borel_exponent``)."""
+    b = a.get("borel")
+    if isinstance(b, dict) and b.get(part) is not None:
+        return b[part]
+    return a.get("borel_singularity" if part == "A" else "borel_exponent")
+
+
+def _get_borel_analysis(r, part="A"):
     a = _task(r, "analyze")
-    if a is None or a.get("growth") not in ("factorial", None):
+    if a is None or a.get("growth") != "factorial":
         return None
-    return _band(a.get("borel_singularity")) if a.get("borel_singularity") else None
+    e = _borel_part(a, part)
+    if e is None:
+        return MISS
+    b = _band(e)
+    if b is None or part != "A":
+        return _or_miss(b)
+    # the distance |A| (A is negative for alternating series)
+    v, lo, hi = b
+    return (abs(v), min(abs(lo), abs(hi)), max(abs(lo), abs(hi))) if lo * hi > 0 else (abs(v), 0.0, max(abs(lo), abs(hi)))
+
+
+def _get_borel_exponent(r):
+    return _get_borel_analysis(r, "b")
 
 
 def _get_borel_ratio(r):
@@ -305,8 +327,16 @@ def plot_exponents(records, x=None, ax=None, n=2):
     return _finish(ax, x, "exponent")
 
 
+def plot_borel_exponent(records, x=None, ax=None):
+    """``b`` of ``c_n ~ S A^-n Gamma(n + b)`` against ``x`` (analysis)."""
+    x = family_x(records, x)
+    ax = _ax(ax)
+    _draw(ax, _series(records, x, _get_borel_exponent, "analyze"), "analysis", "o")
+    return _finish(ax, x, "b in c_n ~ S A^-n Gamma(n+b)")
+
+
 def plot_borel(records, x=None, ax=None):
-    """Distance of the nearest Borel-plane singularity against ``x``."""
+    """Distance |A| of the nearest Borel-plane singularity against ``x``."""
     x = family_x(records, x)
     ax = _ax(ax)
     _draw(ax, _series(records, x, _get_borel_analysis, "analyze"), "analysis", "o")
@@ -463,8 +493,14 @@ def write_family_plots(records, outdir, x=None, title="") -> list:
         a1.set_xlabel("")
         save(fig, "singularities")
     if _has(records, _get_borel_analysis) or _has(records, _get_borel_ratio):
-        fig, ax = plt.subplots(figsize=(6.4, 4.2))
-        plot_borel(records, x, ax)
+        if _has(records, _get_borel_exponent):
+            fig, (ax, a2) = plt.subplots(2, 1, figsize=(6.4, 6.4), sharex=True)
+            plot_borel(records, x, ax)
+            plot_borel_exponent(records, x, a2)
+            ax.set_xlabel("")
+        else:
+            fig, ax = plt.subplots(figsize=(6.4, 4.2))
+            plot_borel(records, x, ax)
         save(fig, "borel")
     if _points_at(records, "evaluate"):
         has_truth = bool(_points_at(records, "truth"))
