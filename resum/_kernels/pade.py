@@ -826,7 +826,9 @@ def pade(c: Sequence, L: int, M: int, dps: int, *, input_digits: Optional[float]
         Force one construction (module docstring); 'auto' picks 'exact' for
         int/Fraction input, otherwise 'fraction' with 'svd' as fallback.
     max_prec_bits : int, optional
-        Cap on the working precision (default 8 x the bits of ``dps`` + 1024).
+        Cap on the working precision (default: the larger of 8 x the bits of
+        ``dps`` + 1024 and twice the precision plan). If the cap is reached
+        before ``dps`` digits are earned, the result says so in ``digits``.
     growth : float, optional
         Digits lost per unit of M assumed by the precision plan
         (:func:`guard_digits_for_pade`); the precision is raised anyway if
@@ -853,7 +855,7 @@ def pade(c: Sequence, L: int, M: int, dps: int, *, input_digits: Optional[float]
         return _pade_exact(c, L, M, dps)
     if exact:
         c = [_exact_to_mp(x, dps) for x in c]
-    maxp = max_prec_bits or 8 * fb.prec_for_dps(dps) + 1024
+    maxp = max_prec_bits or _default_max_prec(L + M + 1, dps, growth)
     tl = _tolerance(dps, input_digits, tol)
     prob = _inexact_problem(c, L, M)
     if prob is None:
@@ -885,6 +887,12 @@ def pade(c: Sequence, L: int, M: int, dps: int, *, input_digits: Optional[float]
                                   "use method='auto' or 'svd'")
         diag["note"] = "recursion met a singular block; SVD construction used"
     return _pade_svd(g, Lg, Mg, (L, M), v, s, sc, dps, tl, input_digits, diag)
+
+
+def _default_max_prec(n_terms, dps, growth):
+    """Precision cap: 8x the request or 2x the plan, whichever is larger."""
+    plan = fb.prec_for_dps(dps + guard_digits_for_pade(n_terms, dps, growth))
+    return max(8 * fb.prec_for_dps(dps) + 1024, 2 * plan)
 
 
 def _exact_to_mp(x, dps):
@@ -1053,7 +1061,7 @@ def pade_table(c: Sequence, dps: int, offsets=(-2, -1, 0, 1, 2), min_order: int 
         return out
     tl = _tolerance(dps, input_digits, tol)
     v, s = _deflation(c)
-    maxp = 8 * fb.prec_for_dps(dps) + 1024
+    maxp = _default_max_prec(len(c), dps, growth)
     done = {}
     if s == 1 and v == 0 and c[0] != 0:
         cplx = fb.is_complex_list(c)
