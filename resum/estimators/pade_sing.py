@@ -242,8 +242,19 @@ def clusters_to_singularities(ens, method, eps, residue_is_exponent=False, expon
             kind = classify_kind(theta)
             stable = rel_rdev < 0.05 or rdev < 0.01
         else:
-            stable = rel_rdev < 1e-3 and not on_cut
-            theta = Estimate(-1, -1, -1) if stable else None
+            # multiplicity: poles of the same approximant that coincide with the member
+            mults = []
+            dig = -mpmath.log10(eps) if eps > 0 else mpmath.mpf(60)
+            for i, z, _ in cl["members"]:
+                mtol = max(abs(z), mpmath.mpf(1)) * mpmath.mpf(10) ** -min(6, max(2, dig / 4))
+                mults.append(sum(1 for w, _ in ens[i]["poles"] if abs(w - z) <= mtol))
+            mult = int(robust_center([mpmath.mpf(m) for m in mults]))
+            same_mult = all(m == mult for m in mults)
+            if mult == 1:
+                stable = rel_rdev < 1e-3 and not on_cut
+            else:
+                stable = same_mult and not on_cut      # residues of a multiple pole are meaningless
+            theta = Estimate(-mult, -mult, -mult) if stable else None
             kind = "pole" if stable else ("branch" if on_cut else "unknown")
         note = f"{len(zs)} of {len(ens)} approximants" + ("; poles and zeros line up beyond it" if on_cut else "")
         sings.append(Singularity(re, im, kind, theta, method, note))
