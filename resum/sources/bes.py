@@ -631,7 +631,7 @@ def _panel_nodes(omega: float, digits: float, T: float, shrink: float, extra: in
     ``(omega r e / (4 n))^(2n)`` below ``10^-(digits - a / ln 10)`` (the
     integrand is bounded by ``e^-t / t``, since ``|J_n| <= 1`` on the real axis).
     """
-    r = min(1.0, 16.0 / max(omega, 1e-30)) * shrink
+    r = min(1.0, 40.0 / max(omega, 1e-30)) * shrink
     w = 2 * r
     panels = []
     k = 0
@@ -654,13 +654,29 @@ def _panel_nodes(omega: float, digits: float, T: float, shrink: float, extra: in
     return panels
 
 
+def _miller_start(N: int, bits: int) -> int:
+    """Order M with J_M(z) / J_N(z) below 2^-bits for every z <= N.
+
+    Debye: J_nu(nu sech a) ~ exp(nu (tanh a - a)) / sqrt(2 pi nu tanh a); the
+    worst node is z = N.
+    """
+    target = -(bits + 10) * math.log(2)
+    M = N + 4
+    while True:
+        a = math.acosh(M / N)
+        if M * (math.tanh(a) - a) < target:
+            return M
+        M += max(1, M // 50)
+
+
 def _bessel_table(N: int, zs, bits: int, cplx: bool):
     """J_1..J_N at the nodes ``zs`` (arb/acb list) -> numpy object array N x Q.
 
     Nodes with ``|z| >= N`` (oscillatory for every order used): ``J_0`` and
     ``J_1`` from python-flint, then the forward recurrence, which is neutrally
     stable for ``n < |z|``. Nodes with ``|z| < N``: Miller's backward
-    recurrence from order ``M = N + 20 + bits/4`` normalised by
+    recurrence from an order ``M`` past which ``J_n`` has decayed below
+    ``2^-bits`` (Debye estimate at ``z = N``, :func:`_miller_start`), normalised by
     ``J_0 + 2 sum_k J_2k = 1``. Both run on midpoints at ``bits``
     (ball radii of three-term recurrences grow without meaning).
     """
@@ -681,13 +697,13 @@ def _bessel_table(N: int, zs, bits: int, cplx: bool):
             J[0, big] = cur
             for n in range(1, N):
                 nxt = (inv2z * cur) * n - prev
-                if n % 8 == 0:
+                if n % 2 == 0:
                     nxt = mid(nxt)
                 prev, cur = cur, nxt
                 J[n, big] = cur
         if small:
             zsm = [zs[m] for m in small]
-            M = N + 20 + bits // 4
+            M = _miller_start(N, bits)
             M += M % 2
             inv2z = np.array([(2 / z).mid() for z in zsm], dtype=object)
             tiny = flint.acb(flint.arb((1, -64))) if cplx else flint.arb((1, -64))
@@ -696,9 +712,9 @@ def _bessel_table(N: int, zs, bits: int, cplx: bool):
             norm = cur * 2 if M % 2 == 0 else cur * 0
             rows = {}
             for n in range(M, 0, -1):
-                prv = (inv2z * cur) * n - nxt               # order n - 1
-                if n % 8 == 0:
-                    prv = mid(prv)
+                # midpoints every step: python-flint trims the midpoint precision of a
+                # ball whose radius has grown, and these radii grow without meaning
+                prv = mid((inv2z * cur) * n - nxt)          # order n - 1
                 nxt, cur = cur, prv
                 k = n - 1
                 if k <= N and k >= 1:

@@ -199,3 +199,21 @@ def test_failure_is_reported_not_silent():
     r = bes.finite_coupling(5, "pi/4", Context(dps=20), max_size=30)
     assert not r.success
     assert "could not reach" in r.message
+
+
+def test_bessel_table_against_mpmath():
+    # the recurrences behind the quadrature (forward for z >= N, Miller below) against
+    # mpmath.besselj at nodes on both sides of the turning point z = N
+    import flint
+    from resum.sources._arb import arb_from_mpf, arb_to_mpf, flint_prec
+    N, bits = 60, 120
+    with workdps(45):
+        zs_m = [mpmath.mpf(x) for x in ("0.002", "7.5", "59.9", "60", "61.3", "800.25")]
+    with flint_prec(bits):
+        zs = [arb_from_mpf(z) for z in zs_m]
+    J = bes._bessel_table(N, zs, bits, False)
+    with workdps(45):
+        for m, z in enumerate(zs_m):
+            for n in (1, 2, 30, 59, 60):
+                ref = mpmath.besselj(n, z)
+                assert abs(arb_to_mpf(J[n - 1, m]) - ref) <= abs(ref) * mpmath.mpf(10) ** -30, (z, n)
