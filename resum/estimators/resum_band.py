@@ -235,7 +235,9 @@ def band_from_candidates(vals: Sequence, n_used: Sequence[int], *, floor=0, safe
     the value, made monotone (largest distance at or above each term count),
     are fitted by ``log10 d = a + b n`` and by ``log10 d = a' + b' sqrt(n)``
     and the larger of the two lines continued to the full term count is kept
-    (geometric and sub-geometric convergence). When the lower orders do not approach the value
+    (geometric and sub-geometric convergence), multiplied by ``10^(1.5 rms)``
+    where ``rms`` is the scatter (in decades) of the distances about the
+    geometric line: approximants converge irregularly. When the lower orders do not approach the value
     (``b >= 0``) the band is their largest distance instead and
     ``info["converging"]`` is False. The band is at least ``floor`` and the
     working-precision floor.
@@ -281,7 +283,12 @@ def band_from_candidates(vals: Sequence, n_used: Sequence[int], *, floor=0, safe
             extrap = mpmath.mpf(10) ** (a + b * nmax)
             if fit2 is not None:
                 extrap = max(extrap, mpmath.mpf(10) ** (fit2[0] + fit2[1] * mpmath.sqrt(nmax)))
+            # approximants converge irregularly (plateaus, jumps): inflate by the scatter of the
+            # distances about the fitted line (rms, in decades)
+            rms = mpmath.sqrt(sum((y - (a + b * x)) ** 2 for x, y in pts) / len(pts))
+            extrap *= mpmath.mpf(10) ** (mpmath.mpf(3) / 2 * rms)
             info["decay_digits_per_term"] = mpmath.nstr(-b, 4)
+            info["fit_scatter_decades"] = mpmath.nstr(rms, 3)
         else:
             converging = False
             extrap = max(d for _, d in dist)

@@ -250,9 +250,13 @@ def borel_evaluate(c: Sequence, xs: Sequence, dps: int, *, b=0, cmap: Optional[C
                                             floor=fl, safety=safety)
         info.update(binfo)
         info["theta"] = mpmath.nstr(tp, 8)
-        info["ray_singularity"] = mpmath.nstr(min(on_ray, key=abs), 15) if on_ray else None
+        Apos = None
         if on_ray:
             Apos = min(on_ray, key=abs)
+            if abs(mpmath.im(Apos)) <= mpmath.mpf("1e-10") * abs(Apos):
+                Apos = mpmath.re(Apos)
+        info["ray_singularity"] = None if Apos is None else mpmath.nstr(Apos, 15)
+        if on_ray:
             info["exp(-A/x)"] = mpmath.nstr(mpmath.exp(-Apos / x), 15)
         k = next((i for i in range(len(orders)) if vals[tp][i] is not None and vals[tm][i] is not None), None)
         if k is not None:
