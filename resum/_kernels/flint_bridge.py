@@ -73,9 +73,11 @@ def fraction_to_fmpq(x) -> flint.fmpq:
 
 
 def fmpq_to_fraction(x) -> Fraction:
-    """fmpq (or fmpz) -> Fraction (exact)."""
-    if isinstance(x, flint.fmpz):
+    """fmpq (or fmpz, int, Fraction) -> Fraction (exact)."""
+    if isinstance(x, (int, flint.fmpz)):
         return Fraction(int(x))
+    if isinstance(x, Fraction):
+        return x
     return Fraction(int(x.p), int(x.q))
 
 

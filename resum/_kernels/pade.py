@@ -581,6 +581,16 @@ def _rel_digits(poly_coeffs):
     return max(0.0, (big - rad - 2) * 0.30102999566398120)
 
 
+def _ldexp(x, n):
+    """x * 2^n exactly, for mpf and mpc (and 0)."""
+    if isinstance(x, mpmath.mpc):
+        re, im = x._mpc_
+        return mpmath.mp.make_mpc((mpmath.libmp.mpf_shift(re, n), mpmath.libmp.mpf_shift(im, n)))
+    if isinstance(x, mpmath.mpf):
+        return mpmath.mp.make_mpf(mpmath.libmp.mpf_shift(x._mpf_, n))
+    return mpmath.ldexp(mpmath.mpmathify(x), n)
+
+
 def _scale_exponent(c):
     """Power-of-two rescaling x -> 2^s x that balances |c_k| (exactly
     representable, so rescaling loses no bit)."""
@@ -703,8 +713,8 @@ def _assemble(p, q, requested, v, s, sc, digits, dps, method, diag):
     L0, M0 = requested
     # unscale: coefficient k of the scaled problem multiplies (2^sc x^s)^k
     if sc:
-        p = [mpmath.ldexp(a, -sc * k) for k, a in enumerate(p)]
-        q = [mpmath.ldexp(b, -sc * k) for k, b in enumerate(q)]
+        p = [_ldexp(a, -sc * k) for k, a in enumerate(p)]
+        q = [_ldexp(b, -sc * k) for k, b in enumerate(q)]
     p = [mpmath.mpf(0)] * v + _inflate(p, s)
     q = _inflate(q, s)
     p = [a if a != 0 else mpmath.mpf(0) for a in p]
@@ -728,7 +738,7 @@ def _inexact_problem(c, L, M):
     g = g[:Lg + Mg + 1]
     sc = _scale_exponent(g)
     if sc:
-        g = [mpmath.ldexp(x, sc * k) if x != 0 else x for k, x in enumerate(g)]
+        g = [_ldexp(x, sc * k) if x != 0 else x for k, x in enumerate(g)]
     return g, Lg, Mg, v, s, sc
 
 
@@ -1066,7 +1076,7 @@ def pade_table(c: Sequence, dps: int, offsets=(-2, -1, 0, 1, 2), min_order: int 
     if s == 1 and v == 0 and c[0] != 0:
         cplx = fb.is_complex_list(c)
         sc = _scale_exponent(c)
-        g = [mpmath.ldexp(x, sc * k) if x != 0 else x for k, x in enumerate(c)]
+        g = [_ldexp(x, sc * k) if x != 0 else x for k, x in enumerate(c)]
         guard = guard_digits_for_pade(len(g), dps, growth)
         for d in offsets:
             prec = fb.prec_for_dps(dps + guard)

@@ -246,3 +246,30 @@ def test_input_digits_estimate_is_honest_and_sharp(N, din):
         true = digits_agree(r.q, exact.q)
     assert r.digits <= true + 0.5          # honest
     assert r.digits >= true - 4            # sharp
+
+
+def test_odd_series_table_matches_exact_blocks():
+    # sin x: c_0 = 0 and every other coefficient vanishes (2x2 blocks, Baker and
+    # Graves-Morris ch. 2); mpmath.pade fails on these singular blocks, so the
+    # reference is the exact rational construction on the exact coefficients
+    se = [Fraction(0) if k % 2 == 0 else Fraction((-1) ** (k // 2), math.factorial(k))
+          for k in range(17)]
+    with workdps(60):
+        s = [frac_to_mp(x) for x in se]
+    t = pade_table(s, 30, min_order=8)
+    for (L, M), r in t.items():
+        e = pade(se, L, M, 30)
+        assert (r.L, r.M) == (e.L, e.M), (L, M)
+        with workdps(80):
+            assert digits_agree(r.q, e.q) >= 30 and digits_agree(r.p, e.p) >= 30
+
+
+def test_complex_table_against_mpmath():
+    with workdps(60):
+        z = [mpmath.mpc(1, 1) ** k / (k + 1) for k in range(17)]
+    t = pade_table(z, 30, min_order=14)
+    for (L, M), r in t.items():
+        with workdps(60):
+            p_ref, q_ref = mpmath.pade(z[:L + M + 1], L, M)
+            assert digits_agree(r.q, q_ref) >= 30, (L, M)
+            assert digits_agree(r.p, p_ref) >= 30, (L, M)
