@@ -81,29 +81,40 @@ def rs_coefficients(state: int = 0, orders: int = 100) -> list:
     a0 = {n: flint.fmpq(1)}
     for j in range(n - 2, -1, -2):
         a0[j] = a0[j + 2] * (j + 2) * (j + 1) / (2 * (j - n))
-    phis = [flint.fmpq_poly([a0.get(j, 0) for j in range(n + 1)])]
+    # phi_k = P_k / d_k with P_k an integer polynomial: the convolution sum
+    # R = -x^4 phi_{k-1} + sum_l E_l phi_{k-l} is then formed over one common
+    # denominator D with integer scalars only (no gcd per term)
+    p0 = flint.fmpq_poly([a0.get(j, 0) for j in range(n + 1)])
+    P, d = [p0.numer()], [int(p0.denom())]
     E = [flint.fmpq(2 * n + 1)]
-    x4 = flint.fmpq_poly([0, 0, 0, 0, 1])
+    Eint = [(2 * n + 1, 1)]
+    x4 = flint.fmpz_poly([0, 0, 0, 0, 1])
     for k in range(1, orders):
-        R = -(x4 * phis[k - 1])
+        D = d[k - 1]
         for l in range(1, k):
-            R += phis[k - l] * E[l]
+            D = math.lcm(D, Eint[l][1] * d[k - l])
+        R = -(x4 * P[k - 1]) * (D // d[k - 1])
+        for l in range(1, k):
+            en, ed = Eint[l]
+            if en:
+                R += P[k - l] * (en * (D // (ed * d[k - l])))
         top = n + 4 * k
+        Rc = R.coeffs() + [0] * 8
+        Dq = flint.fmpz(D)
         coef = {}
-        # j > n: downward from the top degree
-        nxt = flint.fmpq(0)       # A_{k, j+2}
-        for j in range(top, n, -2):
-            v = (nxt * ((j + 2) * (j + 1)) + R[j]) / (2 * (j - n))
-            coef[j] = v
-            nxt = v
-        Ek = -(nxt * ((n + 2) * (n + 1)) + R[n])     # A_{0,n} = 1, A_{k,n} = 0
+        nxt = flint.fmpq(0)                      # A_{k, j+2}
+        for j in range(top, n, -2):              # j > n: downward from the top degree
+            nxt = coef[j] = (nxt * ((j + 2) * (j + 1)) + flint.fmpq(Rc[j], Dq)) / (2 * (j - n))
+        Ek = -(nxt * ((n + 2) * (n + 1)) + flint.fmpq(Rc[n], Dq))   # A_{0,n} = 1, A_{k,n} = 0
         E.append(Ek)
+        Eint.append((int(Ek.p), int(Ek.q)))
         coef[n] = flint.fmpq(0)
-        nxt = flint.fmpq(0)
         for j in range(n - 2, -1, -2):
-            v = (coef[j + 2] * ((j + 2) * (j + 1)) + R[j] + Ek * a0[j]) / (2 * (j - n))
-            coef[j] = v
-        phis.append(flint.fmpq_poly([coef.get(j, 0) for j in range(top + 1)]))
+            coef[j] = (coef[j + 2] * ((j + 2) * (j + 1)) + flint.fmpq(Rc[j], Dq)
+                       + Ek * a0[j]) / (2 * (j - n))
+        pk = flint.fmpq_poly([coef.get(j, 0) for j in range(top + 1)])
+        P.append(pk.numer())
+        d.append(int(pk.denom()))
     return [Fraction(int(e.p), int(e.q)) for e in E]
 
 
