@@ -34,8 +34,9 @@ What this module computes
   ``(L-2) x (L-2)`` block and no truncation error arises.
 * :func:`exact_weak_coefficients` -- the same coefficients exactly, as
   polynomials with rational coefficients in ``c = cos(a)^2``, ``pi^2`` and the
-  odd zeta values (FLINT multivariate polynomials). Cheap to a few dozen loops
-  for a symbolic angle, to any order at ``a = 0`` (pure powers of ``pi^2``).
+  odd zeta values (FLINT multivariate polynomials). Limits, about two seconds
+  each: 24 loops for a symbolic angle, 30 for a rational ``cos(a)^2``, 60 at
+  ``a = 0`` (pure powers of ``pi^2``); see :func:`exact_loop_limit`.
 * :func:`weak_coupling_series` -- a :class:`resum.series.Series` in
   ``x = g^2``.
 * :func:`finite_coupling` -- ``F_a(g)`` at finite coupling from a truncated
@@ -65,11 +66,20 @@ from ..series.core import Coupling, Series
 from ._arb import acb_from_mpc, arb_from_mpf, arb_rad_to_mpf, arb_to_mpf, flint_prec
 
 __all__ = ["weak_coupling_coefficients", "weak_coupling_series", "exact_weak_coefficients",
-           "ExactCoefficient", "finite_coupling", "FiniteCouplingResult", "parse_angle",
+           "ExactCoefficient", "exact_loop_limit", "finite_coupling", "FiniteCouplingResult", "parse_angle",
            "zero_angle_closed_form", "cusp_strong_coupling", "MAX_LOOPS", "MAX_EXACT_LOOPS"]
 
 MAX_LOOPS = 2000
-MAX_EXACT_LOOPS = 60          # symbolic angle; at a = 0 (c = 1) there is no limit below MAX_LOOPS
+# exact coefficients: loops allowed (about two seconds each at the limit)
+MAX_EXACT_LOOPS = {"symbolic": 24, "rational": 30, "even": 60}
+
+
+def exact_loop_limit(cos2=None) -> int:
+    """Largest ``loops`` for :func:`exact_weak_coefficients` at this ``cos2``
+    (None: symbolic angle; 0 or 1: only even zeta values appear)."""
+    if cos2 is None:
+        return MAX_EXACT_LOOPS["symbolic"]
+    return MAX_EXACT_LOOPS["even"] if cos2 in (0, 1) else MAX_EXACT_LOOPS["rational"]
 _BUCKET = 8                   # column widths of the order blocks are rounded up to this
 
 
@@ -387,9 +397,10 @@ def exact_weak_coefficients(loops: int, cos2=None):
     -----
     Each coefficient of ``g^(2l)`` has uniform weight ``2l - 2`` in ``pi^2``
     (weight 2) and ``zeta(n)`` (weight n). The number of monomials grows
-    quickly with the order: a symbolic angle is limited to
-    ``MAX_EXACT_LOOPS`` loops (about a second at 20 loops); ``cos2 = 1``
-    (``a = 0``, pure powers of ``pi^2``) and ``cos2 = 0`` are cheap at any order.
+    quickly with the order (2629 at 20 loops for a symbolic angle), and the
+    recursion is done term by term in Python, so the loops are limited by
+    :func:`exact_loop_limit` (24 symbolic, 30 at a rational ``cos2``, 60 at
+    ``cos2`` in {0, 1}).
     """
     loops = _check_loops(loops)
     if cos2 is not None:
@@ -400,9 +411,10 @@ def exact_weak_coefficients(loops: int, cos2=None):
         if not 0 <= cos2 <= 1:
             raise InputError(f"cos2: cos(a)^2 must lie in [0, 1], got {cos2}")
     even_only = cos2 is not None and cos2 in (0, 1)
-    if not even_only and loops > MAX_EXACT_LOOPS:
-        raise InputError(f"loops: exact coefficients at this angle are limited to "
-                         f"{MAX_EXACT_LOOPS} loops; use the numeric series for more")
+    limit = exact_loop_limit(cos2)
+    if loops > limit:
+        raise InputError(f"loops: exact coefficients at this angle are limited to {limit} loops "
+                         "(the number of zeta monomials grows fast); use the numeric series for more")
     P = loops - 1
     N = max(1, P - 1)
     odd_z = [] if even_only else list(range(3, 2 * P + 2, 2))
@@ -430,26 +442,35 @@ def exact_weak_coefficients(loops: int, cos2=None):
                 zcache[n] = gens[f"z{n}"]
         return zcache[n]
 
-    def m_entry(i, j, k):
-        n = i + j + 2 * k
-        rat = Fraction(math.factorial(n) * math.factorial(n - 1),
-                       math.factorial(k) * math.factorial(i + k) * math.factorial(j + k)
-                       * math.factorial(i + j + k)) * (2 * j) * (-1) ** k
-        if i % 2 != j % 2 and i % 2 == 0:
-            if beta2.is_zero():
-                return None
-            rat = -rat
-            fac = beta2
-        elif i % 2 == j % 2:
-            fac = alpha
-        else:
-            fac = one
-        if even_only and n % 2:
-            return None
-        return zeta_poly(n) * fac * flint.fmpq(rat.numerator, rat.denominator)
+    fact = [1]
+    for m in range(1, 4 * P + 4):
+        fact.append(fact[-1] * m)
+    mcache = {}
 
-    # w[s][i] = coefficient of x^s in w_{i+1}
+    def m_entry(i, j, k):
+        key = (i, j, k)
+        if key in mcache:
+            return mcache[key]
+        n = i + j + 2 * k
+        val = None
+        if not (even_only and n % 2):
+            rat = Fraction(fact[n] * fact[n - 1],
+                           fact[k] * fact[i + k] * fact[j + k] * fact[i + j + k]) * (2 * j) * (-1) ** k
+            if i % 2 != j % 2 and i % 2 == 0:
+                fac = None if beta2.is_zero() else beta2
+                rat = -rat
+            elif i % 2 == j % 2:
+                fac = alpha
+            else:
+                fac = one
+            if fac is not None:
+                val = zeta_poly(n) * fac * flint.fmpq(rat.numerator, rat.denominator)
+        mcache[key] = val
+        return val
+
+    # w[s][i] = coefficient of x^s in w_{i+1}; nz[s] lists the indices j with w_j^(s) != 0
     w = [[one] + [zero] * (N - 1)]
+    nz = [[1]]
     u = [one]
     for p in range(1, P + 1):
         rows = 1 if p == P else min(p, N)
@@ -460,16 +481,14 @@ def exact_weak_coefficients(loops: int, cos2=None):
                 s = p - q
                 k = q - i
                 ws = w[s]
-                for j in range(1, min(N, max(1, s)) + 1):
-                    wj = ws[j - 1]
-                    if wj.is_zero():
-                        continue
+                for j in nz[s]:
                     m = m_entry(i, j, k)
                     if m is not None:
-                        tot = tot + m * wj
+                        tot = tot + m * ws[j - 1]
             new.append(-tot)
         new += [zero] * (N - len(new))
         w.append(new)
+        nz.append([j for j in range(1, N + 1) if not new[j - 1].is_zero()])
         u.append(new[0])
     out = [ExactCoefficient(zero, names)] + [ExactCoefficient(4 * x, names) for x in u]
     return out
@@ -490,8 +509,8 @@ def weak_coupling_series(angle, loops: int, ctx: Optional[Context] = None,
     angle whose ``cos(a)^2`` is a rational with denominator up to 10^4 (to all
     working digits), the exact coefficients (expressions in ``pi`` and
     ``zeta(n)``) are stored in ``provenance["exact_coefficients"]``; for other
-    angles the symbolic form in ``c = cos(a)^2`` is stored (at most
-    ``MAX_EXACT_LOOPS`` loops).
+    angles the symbolic form in ``c = cos(a)^2``. Exact forms cover the first
+    ``provenance["exact_loops"]`` loops (see :func:`exact_loop_limit`).
 
     >>> s = weak_coupling_series("0", 3, Context(dps=15))
     >>> s.coupling.power, [mpmath.nstr(c, 10) for c in s.coefficients]
@@ -510,11 +529,10 @@ def weak_coupling_series(angle, loops: int, ctx: Optional[Context] = None,
                                                       default=mpmath.mpf(0)), 3)}
         if exact:
             c2 = _rational_cos2(a)
-            if c2 is None and loops > MAX_EXACT_LOOPS:
-                raise InputError(f"exact: the symbolic form is limited to {MAX_EXACT_LOOPS} loops "
-                                 "for an angle whose cos(a)^2 is not a simple rational")
-            ex = exact_weak_coefficients(loops, cos2=c2)
+            n_exact = min(loops, exact_loop_limit(c2))
+            ex = exact_weak_coefficients(n_exact, cos2=c2)
             prov["exact_coefficients"] = [e.expression() for e in ex]
+            prov["exact_loops"] = n_exact
             prov["exact_cos2"] = "symbolic c = cos(a)^2" if c2 is None else num_to_str(c2)
         coeffs = [0] + [c.value for c in cs[1:]]
     return Series(coeffs, variable="x", digits=ctx.dps, coupling=Coupling("g", 2, 1),

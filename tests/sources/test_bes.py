@@ -191,7 +191,7 @@ def test_bad_input():
     with pytest.raises(InputError, match="Im g"):
         bes.finite_coupling(mpmath.mpc(1, 0.3), 0)
     with pytest.raises(InputError, match="loops"):
-        bes.exact_weak_coefficients(bes.MAX_EXACT_LOOPS + 1)
+        bes.exact_weak_coefficients(bes.exact_loop_limit() + 1)
 
 
 def test_failure_is_reported_not_silent():
