@@ -25,7 +25,10 @@ ratios ``z_n = c_n/c_(n-s)`` satisfy ``z_n = mu^s (1 - s (1+theta)/n + O(1/n^2))
 Neville table in ``1/n`` (:mod:`resum.estimators._extrap`), the exponent from
 ``n (z_n/mu^s - 1)/s`` in the same way. The step ``s`` is 1 or 2, chosen by
 the data (``s = 2`` removes the even/odd oscillation caused by a competing
-singularity at ``-x_c``). Bands: safety factor (2) times the spread of the
+singularity at ``-x_c``). The same tables are also built in ``1/sqrt(n)``,
+which removes the half-integer powers that confluent corrections bring; if
+the two extrapolations differ by more than the band, the band becomes twice
+their difference. Bands: safety factor (2) times the spread of the
 last entries of the chosen Neville column and its change to the next
 column, never below the amplified coefficient noise; the exponent band also
 carries the effect of the intercept's band.
@@ -131,10 +134,21 @@ def _ratio_step(c, step, eps):
     mus, mu_half, k_mu, info_mu = extrapolate(wn, wz, noise)
     if mus == 0:
         return None
+    # confluent corrections make z_n - mu^s contain half-integer powers of 1/n, which a table
+    # in 1/n does not remove; a table in 1/sqrt(n) does (at some cost in sharpness). Their
+    # difference is added to the band.
+    sq, sq_half, _, _ = extrapolate([mpmath.sqrt(n) for n in wn], wz, noise)
+    confluent_shift = abs(sq - mus)
+    if confluent_shift > max(mu_half, sq_half):      # both settled, and they disagree
+        mu_half = SAFETY * confluent_shift
     # exponent: g_n = n (z_n / mu^s - 1) / s  ->  -(1 + theta)
     g_of = lambda m: [n * (zz / m - 1) / step for n, zz in zip(wn, wz)]  # noqa: E731
     g_noise = [n * noise * 2 for n in wn]
     g, g_half, k_g, info_g = extrapolate(wn, g_of(mus), noise, noise=[abs(x) for x in g_noise])
+    gs, gs_half, _, _ = extrapolate([mpmath.sqrt(n) for n in wn], g_of(mus), noise,
+                                    noise=[abs(x) for x in g_noise])
+    if abs(gs - g) > max(g_half, gs_half):
+        g_half = SAFETY * abs(gs - g)
     # sensitivity to the intercept band
     if mu_half > 0:
         for m in (mus - mu_half, mus + mu_half):
