@@ -69,7 +69,7 @@ __all__ = ["weak_coupling_coefficients", "weak_coupling_series", "exact_weak_coe
            "ExactCoefficient", "exact_loop_limit", "finite_coupling", "FiniteCouplingResult", "parse_angle",
            "zero_angle_closed_form", "cusp_strong_coupling", "MAX_LOOPS", "MAX_EXACT_LOOPS"]
 
-MAX_LOOPS = 2000
+MAX_LOOPS = 400           # cost grows like loops^4 (150 loops: ~2 s), memory like loops^3
 # exact coefficients: loops allowed (about two seconds each at the limit)
 MAX_EXACT_LOOPS = {"symbolic": 24, "rational": 30, "even": 60}
 
@@ -251,7 +251,7 @@ def weak_coupling_coefficients(angle, loops: int, ctx: Optional[Context] = None)
     of the last digit. No truncation error: ``loops`` loops need only the
     finite ``(loops-2)``-square block.
 
-    Applicability: any real angle, ``loops <= 2000`` (cost grows like
+    Applicability: any real angle, ``loops <= 400`` (cost grows like
     ``loops^4``; 150 loops at 100 digits take about two seconds).
 
     References
@@ -267,21 +267,31 @@ def weak_coupling_coefficients(angle, loops: int, ctx: Optional[Context] = None)
             alpha, beta2 = _angle_factors(a, bits + 64, ctx.work_dps + 20)
             with flint_prec(bits):
                 cs = _weak_arb(loops, alpha, beta2)
-            worst = _worst_relative_radius(cs)
+            worst = _worst_relative_radius(cs, ctx.dps)
             if worst <= mpmath.mpf(10) ** (-(ctx.dps + 2)):
                 break
             bits = int(bits * 1.5) + 64
         out = [Estimate.exact(0)]
-        for c in cs:
+        for k, c in enumerate(cs, start=1):
             m, r = arb_to_mpf(c), arb_rad_to_mpf(c)
+            if _negligible(m, r, k, ctx.dps):
+                m = mpmath.mpf(0)          # a ball around 0, e.g. every c_k, k >= 2, at a = pi/2
             out.append(Estimate(m, m - r, m + r))
     return out
 
 
-def _worst_relative_radius(cs):
+def _negligible(m, r, k, dps):
+    """A coefficient compatible with 0 whose ball is below 10^-dps of the natural
+    size 4 * 16^(k-1) (coefficients grow like 16^k: radius |g| = 1/4)."""
+    return abs(m) <= r and r <= mpmath.mpf(10) ** (-dps - 2) * 4 * mpmath.mpf(16) ** (k - 1)
+
+
+def _worst_relative_radius(cs, dps):
     worst = mpmath.mpf(0)
-    for c in cs:
+    for k, c in enumerate(cs, start=1):
         m, r = arb_to_mpf(c), arb_rad_to_mpf(c)
+        if _negligible(m, r, k, dps):
+            continue
         if m == 0:
             return mpmath.inf
         worst = max(worst, r / abs(m))
@@ -525,8 +535,8 @@ def weak_coupling_series(angle, loops: int, ctx: Optional[Context] = None,
                 "loops": loops, "dps": ctx.dps,
                 "method": "exact Bessel-product expansion, Gamma(s) zeta(s) moments, order-by-order "
                           "Neumann series in x = g^2; python-flint balls",
-                "max_relative_radius": num_to_str(max((c.error / abs(c.value) for c in cs[1:]),
-                                                      default=mpmath.mpf(0)), 3)}
+                "max_relative_radius": num_to_str(max((c.error / abs(c.value) for c in cs[1:]
+                                                       if c.value != 0), default=mpmath.mpf(0)), 3)}
         if exact:
             c2 = _rational_cos2(a)
             n_exact = min(loops, exact_loop_limit(c2))
@@ -534,7 +544,7 @@ def weak_coupling_series(angle, loops: int, ctx: Optional[Context] = None,
             prov["exact_coefficients"] = [e.expression() for e in ex]
             prov["exact_loops"] = n_exact
             prov["exact_cos2"] = "symbolic c = cos(a)^2" if c2 is None else num_to_str(c2)
-        coeffs = [0] + [c.value for c in cs[1:]]
+        coeffs = [0] + [c.value if c.value != 0 else 0 for c in cs[1:]]
     return Series(coeffs, variable="x", digits=ctx.dps, coupling=Coupling("g", 2, 1),
                   name=f"bes(angle={angle_text})",
                   description=f"angle-deformed BES kernel quantity F_a, a = {angle_text}, "

@@ -217,3 +217,11 @@ def test_bessel_table_against_mpmath():
             for n in (1, 2, 30, 59, 60):
                 ref = mpmath.besselj(n, z)
                 assert abs(arb_to_mpf(J[n - 1, m]) - ref) <= abs(ref) * mpmath.mpf(10) ** -30, (z, n)
+
+
+def test_right_angle_is_free():
+    # a = pi/2: K(a) = 0 by the definition (cos a = 0), so F = 4 g^2 exactly (no source needed)
+    cs = bes.weak_coupling_coefficients("pi/2", 6, Context(dps=30))
+    assert cs[1].value == 4 and all(c.value == 0 for c in cs[2:])
+    r = bes.finite_coupling(3, "pi/2", Context(dps=20))
+    assert r.success and r.value.contains(36) and r.value.error < 1e-19
