@@ -329,7 +329,7 @@ def _deflation(c):
 def _zero_approx(L, M, dps, exact, method):
     zero = Fraction(0) if exact else mpmath.mpf(0)
     one = Fraction(1) if exact else mpmath.mpf(1)
-    return PadeApprox((zero,), (one,), 0, 0, (L, M), M, math.inf if exact else math.inf,
+    return PadeApprox((zero,), (one,), 0, 0, (L, M), M, math.inf,
                       exact, method, dps, {"note": "zero approximant"})
 
 

@@ -184,6 +184,27 @@ def study_pade(sizes, digit_levels, cap):
     return tab
 
 
+def study_matched(cases):
+    """resum asked for exactly the digits mpmath.pade delivers at mp.dps = dps."""
+    tab = Table("[N/N] at matched accuracy: mpmath.pade at mp.dps = dps vs resum.pade asked for "
+                "the digits mpmath delivered (at least 10)",
+                ["N", "mp.dps", "mpmath.pade", "digits", "resum (dps asked)", "digits", "speed-up"])
+    for N, dps in cases:
+        c = series_log(2 * N + 1, dps)
+        qref, _ = reference_q(c, N, dps + int(3 * N) + 100, need=dps + 120)
+
+        def run_m():
+            with workdps(dps):
+                return mpmath.pade(c, N, N)
+        t_m, (pm, qm) = timed(run_m)
+        d_m = digits(qm, qref)
+        ask = max(10, int(d_m))
+        t_r, r = timed(lambda: pade(c, N, N, ask), repeat=2)
+        tab.add(N, dps, fmt_t(t_m), fmt_d(d_m), f"{fmt_t(t_r)} ({ask})", fmt_d(digits(r.q, qref)),
+                f"{t_m / t_r:.0f}x")
+    return tab
+
+
 def study_table(N, dps):
     tab = Table(f"Near-diagonal table (offsets -2..2, all orders up to [{N}/{N}]) at {dps} digits "
                 f"vs one mpmath.pade [{N}/{N}]",
@@ -305,26 +326,38 @@ def main(argv=None):
     ap.add_argument("--cap", type=float, default=120.0, help="baseline time cap in seconds")
     ap.add_argument("--out", default=str(HERE / "out"), help="folder for performance.txt")
     ap.add_argument("--pipeline", action="store_true", help="also time analyze/evaluate")
+    ap.add_argument("--only", choices=["pade", "matched", "table", "roots", "fp", "pipeline"],
+                    help="run one table only")
     args = ap.parse_args(argv)
     sizes = (25, 50) if args.quick else (25, 50, 100, 200)
     levels = (50, 100) if args.quick else (50, 100, 300)
     tables = []
-    print("Padé [N/N]", flush=True)
-    tables.append(study_pade(sizes, levels, args.cap))
-    print("table", flush=True)
-    tables.append(study_table(50 if args.quick else 100, 100 if args.quick else 300))
-    print("roots", flush=True)
-    tables.append(study_roots((10, 25) if args.quick else (10, 25, 50, 100), 50 if args.quick else 100,
-                              args.cap))
-    print("double precision", flush=True)
-    tables.append(study_fp())
-    if args.pipeline:
+    want = (lambda name: args.only in (None, name)) if args.only != "pipeline" else \
+        (lambda name: name == "pipeline")
+    if want("pade"):
+        print("Padé [N/N]", flush=True)
+        tables.append(study_pade(sizes, levels, args.cap))
+    if want("matched"):
+        print("matched", flush=True)
+        tables.append(study_matched([(50, 100)] if args.quick else [(50, 300), (100, 300), (100, 100)]))
+    if want("table"):
+        print("table", flush=True)
+        tables.append(study_table(50 if args.quick else 100, 100 if args.quick else 300))
+    if want("roots"):
+        print("roots", flush=True)
+        tables.append(study_roots((10, 25) if args.quick else (10, 25, 50, 100),
+                                  50 if args.quick else 100, args.cap))
+    if want("fp"):
+        print("double precision", flush=True)
+        tables.append(study_fp())
+    if args.pipeline or args.only == "pipeline":
         print("pipeline", flush=True)
         tables.append(study_pipeline(30))
     text = "\n\n".join(t.render() for t in tables) + "\n"
     out = Path(args.out)
     out.mkdir(parents=True, exist_ok=True)
-    (out / "performance.txt").write_text(text)
+    name = "performance.txt" if args.only is None else f"performance_{args.only}.txt"
+    (out / name).write_text(text)
     print()
     print(text)
     return 0
