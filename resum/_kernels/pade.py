@@ -834,7 +834,9 @@ def pade(c: Sequence, L: int, M: int, dps: int, *, input_digits: Optional[float]
         ``10**-input_digits`` or ``10**-dps``).
     method : {'auto', 'exact', 'fraction', 'svd'}
         Force one construction (module docstring); 'auto' picks 'exact' for
-        int/Fraction input, otherwise 'fraction' with 'svd' as fallback.
+        int/Fraction input, otherwise 'fraction', then (at a singular block)
+        a ball LU solve of the Toeplitz system ('lu', O(M^3) in C), then
+        'svd' if that system is singular too.
     max_prec_bits : int, optional
         Cap on the working precision (default: the larger of 8 x the bits of
         ``dps`` + 1024 and twice the precision plan). If the cap is reached
@@ -895,8 +897,58 @@ def pade(c: Sequence, L: int, M: int, dps: int, *, input_digits: Optional[float]
         if method == "fraction":
             raise ArithmeticError("the continued-fraction recursion met a singular block; "
                                   "use method='auto' or 'svd'")
-        diag["note"] = "recursion met a singular block; SVD construction used"
+        if Mg > 0:
+            out = _pade_lu(g, Lg, Mg, dps, cplx, maxp)
+            if out is not None:
+                pb, qb, digs, prec = out
+                diag["prec_bits"] = prec
+                diag["note"] = "recursion met a singular block; ball LU on the Toeplitz system used"
+                if input_digits is not None:
+                    gp = _perturbed(g, input_digits)
+                    out2 = _pade_lu(gp, Lg, Mg, dps, cplx, prec)
+                    if out2 is not None:
+                        with fb.flint_prec(prec):
+                            d2 = min(_coeff_diff_digits(_ball_poly_to_list(pb, Lg),
+                                                        _ball_poly_to_list(out2[0], Lg)),
+                                     _coeff_diff_digits(_ball_poly_to_list(qb, Mg),
+                                                        _ball_poly_to_list(out2[1], Mg)))
+                        diag["input_sensitivity_digits"] = d2
+                        digs = min(digs, d2)
+                with fb.flint_prec(prec):
+                    return _finish_inexact(pb, qb, Lg, Mg, (L, M), v, s, sc, digs, dps, "lu", diag)
+        diag["note"] = "recursion met a singular block and the Toeplitz system is singular; " \
+                       "SVD construction used"
     return _pade_svd(g, Lg, Mg, (L, M), v, s, sc, dps, tl, input_digits, diag)
+
+
+def _pade_lu(g, L, M, dps, cplx, max_prec_bits):
+    """[L/M] with q(0) = 1 from the Toeplitz system by ball LU (O(M^3) in C).
+    Returns (p_balls, q_balls, digits, prec) or None when the system is
+    numerically singular even at the cap (then a lower-degree or q(0) = 0
+    solution is needed: the SVD construction)."""
+    prec = fb.prec_for_dps(dps + guard_digits_for_pade(L + M + 1, dps, growth=1.6))
+    Mat = flint.acb_mat if cplx else flint.arb_mat
+    P = flint.acb_poly if cplx else flint.arb_poly
+    while True:
+        with fb.flint_prec(prec):
+            f = _balls(g, cplx)
+            Z = flint.acb(0) if cplx else flint.arb(0)
+            T = Mat(M, M, [f[L + i - j] if L + i - j >= 0 else Z
+                           for i in range(1, M + 1) for j in range(1, M + 1)])
+            rhs = Mat(M, 1, [-f[L + i] for i in range(1, M + 1)])
+            try:
+                x = T.solve(rhs)
+            except ZeroDivisionError:
+                x = None
+            if x is not None:
+                qb = P([flint.acb(1) if cplx else flint.arb(1)] + [x[i, 0] for i in range(M)])
+                pb = (P(f[:L + 1]) * qb).truncate(L + 1)
+                digs = min(_rel_digits(pb.coeffs()), _rel_digits(qb.coeffs()))
+                if digs >= dps or prec >= max_prec_bits:
+                    return pb, qb, digs, prec
+        if prec >= max_prec_bits:
+            return None
+        prec = min(max_prec_bits, 2 * prec)
 
 
 def _default_max_prec(n_terms, dps, growth):

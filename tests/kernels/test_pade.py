@@ -273,3 +273,17 @@ def test_complex_table_against_mpmath():
             p_ref, q_ref = mpmath.pade(z[:L + M + 1], L, M)
             assert digits_agree(r.q, q_ref) >= 30, (L, M)
             assert digits_agree(r.p, p_ref) >= 30, (L, M)
+
+
+def test_block_in_recursion_falls_back_to_ball_lu():
+    # c_1 = 0 makes the very first step of the continued fraction singular while the
+    # Toeplitz systems stay regular; reference: mpmath.pade (dense LU) at high precision
+    with workdps(80):
+        c = [mpmath.mpf(1), mpmath.mpf(0)] + [mpmath.mpf(1) / (k + 1) for k in range(2, 13)]
+        p_ref, q_ref = mpmath.pade(c, 6, 6)
+    r = pade(c, 6, 6, dps=40)
+    assert r.method == "lu" and r.digits >= 40
+    with workdps(80):
+        assert digits_agree(r.q, q_ref) >= 40 and digits_agree(r.p, p_ref) >= 40
+    t = pade_table(c, dps=30, offsets=(0,), min_order=10)
+    assert {a.method for a in t.values()} == {"lu"}
