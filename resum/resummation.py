@@ -26,9 +26,11 @@ Methods (exact registry keys, see :data:`METHODS`):
     when a map can be chosen, else Padé; points well inside the disk ->
     partial sums.
 
-What a band means: the spread of the stable approximants of the last few
-orders (widened by a factor 2), never narrower than the quadrature error
-and the working precision; with ``verify=True`` (default) the whole
+What a band means: the value is the median of the three highest-order
+approximants; the band is 4 x the larger of their spread and the error at
+the full order extrapolated from how fast the lower orders approach the
+value (inflated by the scatter of that convergence), never narrower than the
+quadrature error, the working precision and the digits asked for; with ``verify=True`` (default) the whole
 computation is rerun at higher precision (with inexact coefficients moved
 by one unit in their last digit) and with fewer terms, and the band is
 widened to cover the reruns. It is an estimate of the error, not a proof.
@@ -164,6 +166,14 @@ class EvaluationResult:
 
     @classmethod
     def from_dict(cls, d: dict) -> "EvaluationResult":
+        # parse the decimal strings at (at least) the precision they were written with
+        dps = int((d.get("provenance") or {}).get("dps", 50)) + 10
+        longest = max([len(v) for p in d["points"] for v in _strings(p)] + [0])
+        with _wd(max(dps, longest + 5)):
+            return cls._from_dict(d)
+
+    @classmethod
+    def _from_dict(cls, d: dict) -> "EvaluationResult":
         return cls(tuple(PointResult.from_dict(p) for p in d["points"]), d["method"], bool(d["success"]),
                    Status(d["status"]), d.get("message", ""), tuple(d.get("warnings", [])),
                    d.get("variable", "x"), d.get("coupling"), dict(d.get("diagnostics", {})),
@@ -194,6 +204,17 @@ class EvaluationResult:
                     row.update({"im": i["value"], "im_lo": i["lo"], "im_hi": i["hi"]})
             vals.append(row)
         return {"values": vals, "warnings": list(self.warnings)}
+
+
+def _strings(obj):
+    if isinstance(obj, str):
+        yield obj
+    elif isinstance(obj, dict):
+        for v in obj.values():
+            yield from _strings(v)
+    elif isinstance(obj, (list, tuple)):
+        for v in obj:
+            yield from _strings(v)
 
 
 def _num(s: str):

@@ -210,7 +210,7 @@ def _line_fit(xs, ys):
     return (sy - beta * sx) / m, beta
 
 
-def band_from_candidates(vals: Sequence, n_used: Sequence[int], *, floor=0, safety=3,
+def band_from_candidates(vals: Sequence, n_used: Sequence[int], *, floor=0, safety=4,
                          n_top: int = 4, min_core: int = 3):
     """Estimate (real numbers) or pair of Estimates (complex) from candidate values.
 
@@ -321,7 +321,7 @@ class PointOutcome:
     info: dict = field(default_factory=dict)
 
 
-def outcomes_from_table(table, n_used, *, floors=None, safety=3, min_core=3):
+def outcomes_from_table(table, n_used, *, floors=None, safety=4, min_core=3):
     """Band every point of a candidate table ``table[point][candidate]``."""
     out = []
     for j, vals in enumerate(table):

@@ -87,7 +87,7 @@ def borel_plane_poles(r, dps: int, cmap: Optional[ConformalMap] = None):
 
 def borel_evaluate(c: Sequence, xs: Sequence, dps: int, *, b=0, cmap: Optional[ConformalMap] = None,
                    alpha=None, n_orders: int = 7, offsets: Sequence[int] = (0,), lateral="auto",
-                   path_tol=mpmath.mpf("0.002"), safety=3, quad_dps: Optional[int] = None):
+                   path_tol=mpmath.mpf("0.002"), safety=4, quad_dps: Optional[int] = None):
     """Borel(-Le Roy)-Padé sums with bands at the points ``xs``.
 
     Parameters

@@ -57,7 +57,7 @@ def mapped_coefficients(c: Sequence, cmap: ConformalMap, dps: int, alpha=None) -
 
 
 def conformal_evaluate(c: Sequence, xs: Sequence, cmap: ConformalMap, dps: int, *, alpha=None,
-                       n_orders: int = 7, offsets: Sequence[int] = (0,), safety=3):
+                       n_orders: int = 7, offsets: Sequence[int] = (0,), safety=4):
     """Conformal-map Padé values with bands at the points ``xs`` (expansion variable)."""
     cw = mapped_coefficients(c, cmap, dps, alpha)
     ws, bad = [], []

@@ -48,7 +48,7 @@ __all__ = ["pade_evaluate", "partial_sum_evaluate"]
 
 def pade_evaluate(c: Sequence, zs: Sequence, dps: int, *, n_orders: int = 7,
                   offsets: Sequence[int] = (0,), pole_tol=mpmath.mpf("0.01"),
-                  post: Optional[Callable] = None, safety=3):
+                  post: Optional[Callable] = None, safety=4):
     """Padé values with bands at the points ``zs`` (in the variable of ``c``).
 
     Parameters
@@ -96,7 +96,7 @@ def pade_evaluate(c: Sequence, zs: Sequence, dps: int, *, n_orders: int = 7,
     return outs, {"n_singular_systems": singular, "orders": [list(o) for o in orders]}
 
 
-def partial_sum_evaluate(c: Sequence, zs: Sequence, dps: int, *, n_orders: int = 7, safety=3):
+def partial_sum_evaluate(c: Sequence, zs: Sequence, dps: int, *, n_orders: int = 7, safety=4):
     """Partial sums as candidates (for points well inside the disk of convergence)."""
     from .resum_band import PointOutcome, band_from_candidates
     N = len(c)

@@ -19,7 +19,7 @@ __all__ = ["render_evaluation", "BAND_MEANING"]
 
 BAND_MEANING = (
     "What the band means: the value is the median of the three highest-order approximants; the band is "
-    "3 x the larger of their spread and the error extrapolated from how fast lower orders approach the "
+    "4 x the larger of their spread and the error extrapolated from how fast lower orders approach the "
     "value, never below the quadrature error and the working precision, widened to cover a rerun at "
     "higher precision (inexact coefficients moved by one unit in their last digit). A rerun with fewer "
     "terms must reach the value within its own band. It is an estimate, not a proof. Optimal truncation "

@@ -175,7 +175,10 @@ class ArcMap(ConformalMap):
 
     ``ArcMap(b, -a)`` with ``a, b > 0`` is the plane with the two real cuts
     ``(-inf, -a]`` and ``[b, inf)``; ``ArcMap(s, conj(s))`` the plane cut along
-    the circular arc from ``s`` to ``conj(s)`` that avoids the origin.
+    the circular arc from ``s`` to ``conj(s)`` that avoids the origin. That arc
+    passes through infinity only for an imaginary pair; otherwise ``x = inf``
+    maps to an interior point :meth:`rim_point` (a pole of ``x(w)``), so use it
+    only for functions regular at infinity.
     """
 
     s1: object
@@ -263,7 +266,11 @@ def choose_map(singularities, *, rel_tol=0.05) -> ConformalMap | None:
     a complex-conjugate nearest pair -> :class:`ArcMap` joining the pair; a real
     nearest singularity with a real one of the opposite sign no farther than
     three times away -> :class:`ArcMap` with the two real cuts; otherwise a
-    :class:`RayMap` from the nearest. Returns ``None`` for an empty list.
+    :class:`RayMap` from the nearest. A complex pair off the imaginary axis
+    gives ``None`` (no map): the arc joining it does not pass through
+    infinity, so ``x = infinity`` would land inside the disk and a function
+    singular there would gain a singularity inside. Returns ``None`` for an
+    empty list too.
     """
     locs = []
     for s in singularities:
@@ -277,7 +284,9 @@ def choose_map(singularities, *, rel_tol=0.05) -> ConformalMap | None:
     z = locs[0]
     r = abs(z)
     if abs(z.imag) > rel_tol * r:
-        return ArcMap(z, mpmath.conj(z))
+        if abs(z.real) <= rel_tol * r:
+            return ArcMap(z, mpmath.conj(z))     # imaginary pair: the arc passes through infinity
+        return None                              # the arc would put x = infinity inside the disk
     xr = z.real
     for u in locs[1:]:
         if abs(u.imag) <= rel_tol * abs(u) and u.real * xr < 0 and abs(u) <= 3 * r:

@@ -1,0 +1,108 @@
+"""Public API, JSON round trip, input errors and the command line."""
+import json
+import math
+
+import mpmath
+import pytest
+
+from resum.cli import main
+from resum.context import Context, workdps
+from resum.errors import InputError
+from resum.resummation import METHODS, EvaluationResult, evaluate
+from resum.series import Series
+
+
+def _euler(n=24):
+    return Series([(-1) ** k * math.factorial(k) for k in range(n)])
+
+
+def test_unknown_method_lists_the_valid_ones():
+    with pytest.raises(InputError) as exc:
+        evaluate(_euler(), ["1"], method="magic")
+    for m in METHODS:
+        assert m in str(exc.value)
+    assert "\n" not in str(exc.value)
+
+
+@pytest.mark.parametrize("points", [[], ["1/0"], ["abc"], [float("nan")]])
+def test_bad_points_are_input_errors(points):
+    with pytest.raises(InputError):
+        evaluate(_euler(), points)
+
+
+def test_too_few_terms():
+    with pytest.raises(InputError):
+        evaluate(Series([1, 1, 1]), ["0.5"])
+
+
+def test_round_trip_and_contract():
+    # log(1+x)/x at x = 3 (outside the disk): truth log(4)/3 from mpmath
+    with workdps(50):
+        cs = [mpmath.mpf(-1) ** n / (n + 1) for n in range(40)]
+    s = Series(cs, digits=45)
+    r = evaluate(s, ["3", "1/2"], Context(dps=20), method="pade")
+    with workdps(40):
+        assert r.points[0].value.contains(mpmath.log(4) / 3)
+        assert r.points[1].value.contains(mpmath.log(mpmath.mpf(3) / 2) * 2)
+    d = json.loads(json.dumps(r.to_dict()))
+    r2 = EvaluationResult.from_dict(d)
+    with workdps(40):
+        # written with the digits the band supports plus three: equal to well inside the band
+        assert abs(r2.points[0].value.value - r.points[0].value.value) < r.points[0].value.error / 100
+        assert r2.points[0].value.contains(mpmath.log(4) / 3)
+    assert r2.to_dict()["points"][0]["value"] == d["points"][0]["value"]
+    cd = r.contract_dict()
+    assert set(cd) == {"values", "warnings"}
+    for row in cd["values"]:
+        assert set(row) == {"at", "value", "lo", "hi", "method"}
+        assert all(isinstance(v, str) for v in row.values())
+        assert mpmath.mpf(row["lo"]) <= mpmath.mpf(row["value"]) <= mpmath.mpf(row["hi"])
+    assert cd["values"][1]["at"].startswith("0.5")
+
+
+def test_coupling_points_are_in_g():
+    # f(x) = 1/(1+x) with x = g^2: evaluating at g = 2 means x = 4 -> 1/5 (exact rational function)
+    s = Series([(-1) ** n for n in range(20)], coupling=__import__("resum").Coupling("g", 2, 1))
+    r = evaluate(s, ["2"], Context(dps=20), method="pade", verify=False)
+    with workdps(40):
+        assert r.points[0].value.contains(mpmath.mpf(1) / 5)
+        assert r.points[0].x == 4
+    assert r.contract_dict()["values"][0]["at"].startswith("2")
+
+
+def test_partial_sum_inside_the_disk():
+    # geometric series at x = 0.1: 1/(1 - x) (common practice, no source)
+    s = Series([1] * 60)
+    r = evaluate(s, ["0.1"], Context(dps=20), method="partial-sum", verify=False)
+    with workdps(40):
+        assert r.points[0].value.contains(mpmath.mpf(10) / 9)
+        assert r.points[0].value.digits() >= 19
+
+
+def test_cli_text_json_and_exit_codes(tmp_path, capsys):
+    f = tmp_path / "euler.txt"
+    f.write_text("\n".join(str((-1) ** n * math.factorial(n)) for n in range(24)) + "\n")
+    ref = tmp_path / "ref.txt"
+    with workdps(40):
+        v = mpmath.e * mpmath.e1(1)          # Euler sum at x = 1 (mpmath exponential integral)
+        ref.write_text(f"# at value\n1 {mpmath.nstr(v, 30)}\n")
+    assert main(["evaluate", str(f), "--at", "1", "--reference", str(ref), "--no-verify",
+                 "--dps", "20"]) == 0
+    out = capsys.readouterr().out
+    assert "optimal truncation" in out and "inside the band" in out and "What the band means" in out
+    assert main(["evaluate", str(f), "--at", "1", "--at", "1/2", "--json", "--no-verify", "--dps", "20"]) == 0
+    doc = json.loads(capsys.readouterr().out)
+    assert [r["method"] for r in doc["values"]] == ["borel-conformal-pade"] * 2
+    assert main(["evaluate", str(f), "--at", "1", "--method", "nope"]) == 2
+    assert "nope" in capsys.readouterr().err
+    assert main(["evaluate", str(f), "--at", "x+"]) == 2
+
+
+def test_cli_plot(tmp_path, capsys):
+    pytest.importorskip("matplotlib")
+    f = tmp_path / "euler.txt"
+    f.write_text("\n".join(str((-1) ** n * math.factorial(n)) for n in range(20)) + "\n")
+    out = tmp_path / "plots"
+    assert main(["evaluate", str(f), "--at", "0.5", "--at", "1", "--no-verify", "--dps", "15",
+                 "--plot", str(out)]) == 0
+    assert (out / "evaluation.png").exists() and (out / "borel_plane.png").exists()

@@ -1,0 +1,54 @@
+"""Conformal maps and Borel transforms against closed forms."""
+from fractions import Fraction
+
+import mpmath
+import pytest
+
+from resum.context import workdps
+from resum.transforms.borel import borel_coefficients, laplace
+from resum.transforms.conformal import ArcMap, RayMap, choose_map, pull_back
+
+
+@pytest.mark.parametrize("cmap", [RayMap(mpmath.mpf(-1) / 16), RayMap(mpmath.mpc(1, 2)),
+                                  ArcMap(mpmath.mpf(2), mpmath.mpf(-1)),
+                                  ArcMap(mpmath.mpc(0, 1), mpmath.mpc(0, -1))])
+def test_map_inverse_and_series(cmap):
+    # x(w(x)) = x, and the Taylor series of x(w) reproduces x(w) inside the disk
+    # (common practice, no source)
+    with workdps(40):
+        for x in [mpmath.mpf("0.3"), mpmath.mpf(-0.01), mpmath.mpc("0.2", "0.1")]:
+            assert abs(cmap.x_of_w(cmap.w_of_x(x)) - x) < mpmath.mpf(10) ** -35
+        w = mpmath.mpf("0.3")
+        cs = cmap.x_series(120, 40)
+        assert abs(sum(c * w ** k for k, c in enumerate(cs)) - cmap.x_of_w(w)) < mpmath.mpf(10) ** -30
+        # the branch points sit on the unit circle
+        for z in cmap.branch_points():
+            assert abs(abs(cmap.w_of_x(z * (1 + mpmath.mpf(10) ** -30))) - 1) < mpmath.mpf(10) ** -10
+
+
+def test_pull_back_exact_log():
+    # log(1+x) with x = 4w/(1-w)^2 (cut (-inf,-1]) is 2 log((1+w)/(1-w)) = 4 (w + w^3/3 + w^5/5 + ...)
+    cs = [0] + [Fraction((-1) ** (k + 1), k) for k in range(1, 30)]
+    cw = pull_back(cs, RayMap(-1), 30)
+    assert cw == [0] + [Fraction(4, k) if k % 2 else 0 for k in range(1, 30)]
+
+
+def test_choose_map():
+    assert isinstance(choose_map([mpmath.mpf(-1) / 16]), RayMap)
+    assert isinstance(choose_map([mpmath.mpc(0, 1), mpmath.mpc(0, -1)]), ArcMap)
+    assert choose_map([mpmath.mpc(-1, 1), mpmath.mpc(-1, -1)]) is None    # infinity would land inside
+    assert isinstance(choose_map([mpmath.mpf(1), mpmath.mpf(-2)]), ArcMap)
+    assert choose_map([]) is None
+
+
+def test_borel_laplace_stieltjes():
+    # Borel transform of sum (-1)^n n! x^n is 1/(1+t); Laplace integral = e^{1/x} E_1(1/x)/x
+    # (Bender and Orszag 1978, sec. 8.2; mpmath e1)
+    with workdps(40):
+        d = borel_coefficients([(-1) ** n * mpmath.factorial(n) for n in range(10)], 0)
+        assert all(abs(v - (-1) ** n) < mpmath.mpf(10) ** -35 for n, v in enumerate(d))
+        v, err = laplace(lambda t: 1 / (1 + t), mpmath.mpf(2), 0, 40)
+        assert abs(v - mpmath.e ** mpmath.mpf(0.5) * mpmath.e1(0.5) / 2) < mpmath.mpf(10) ** -35
+        # Borel-Le Roy b = 1/2 with the Gamma(n + 3/2) weights, same function
+        d2 = borel_coefficients([(-1) ** n * mpmath.factorial(n) for n in range(3)], mpmath.mpf(1) / 2)
+        assert abs(d2[1] + 1 / mpmath.gamma(mpmath.mpf(5) / 2)) < mpmath.mpf(10) ** -35
