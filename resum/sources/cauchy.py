@@ -106,6 +106,24 @@ class TaylorResult:
     dps: int
     diagnostics: dict = field(default_factory=dict)
 
+    def to_dict(self) -> dict:
+        from ..results import jsonable
+        return {"success": self.success, "status": self.status.value, "message": self.message,
+                "coefficients": [c.to_dict() for c in self.coefficients],
+                "imag": [c.to_dict() for c in self.imag],
+                "radius": [num_to_str(r, 10) for r in self.radius],
+                "accepted_radii": [num_to_str(r, 10) for r in self.accepted_radii],
+                "points": self.points, "dps": self.dps, "diagnostics": jsonable(self.diagnostics)}
+
+    @classmethod
+    def from_dict(cls, d: dict) -> "TaylorResult":
+        return cls(bool(d["success"]), Status(d["status"]), d.get("message", ""),
+                   tuple(Estimate.from_dict(c) for c in d["coefficients"]),
+                   tuple(Estimate.from_dict(c) for c in d["imag"]),
+                   tuple(mpmath.mpf(r) for r in d["radius"]),
+                   tuple(mpmath.mpf(r) for r in d["accepted_radii"]),
+                   int(d["points"]), int(d["dps"]), dict(d.get("diagnostics", {})))
+
     @property
     def is_real(self) -> bool:
         return all(abs(i.value) <= max(i.error, c.error) for c, i in zip(self.coefficients, self.imag))

@@ -26,6 +26,12 @@ def test_log1p():
     assert res.is_real
     s = res.series()
     assert s.digits >= 30 and s.coefficients[0] == 0
+    import json
+    from resum.sources.cauchy import TaylorResult
+    with workdps(60):
+        back = TaylorResult.from_dict(json.loads(json.dumps(res.to_dict())))
+        assert len(back.coefficients) == 40
+        assert abs(back.coefficients[7].value - res.coefficients[7].value) <= res.coefficients[7].error
 
 
 def test_central_binomial():
