@@ -140,30 +140,35 @@ def validate_task(name: str, opts: dict, dps: int, source_name: str, source) -> 
 # coefficients: partial sums and a plain ratio estimate
 # ----------------------------------------------------------------------------
 
-def ratio_estimate(coeffs, ctx: Context, tail: int = 8, digits=None) -> dict:
+def ratio_estimate(coeffs, ctx: Context, tail: int = 8, digits=None, order: int = 3) -> dict:
     """Ratio-method estimate of the radius from coefficients alone.
 
     With ``r_n = c_n / c_{n-d}`` (``d`` the spacing of the non-zero
-    coefficients) and the usual ansatz ``r_n ~ mu^d (1 + (gamma - 1) d / n)``
-    the linear intercepts ``m_n = (n r_n - (n - d) r_{n-d}) / d`` tend to
-    ``mu^d`` faster than ``r_n``; the radius is ``|m_n|^(-1/d)`` at the
-    highest order. When ``log|r_n|`` grows like ``log n`` (factorial growth,
-    ``c_n ~ A^-n n!``) the radius is zero and the same intercept applied to
-    ``r_n / n`` estimates ``1/|A|``, the distance of the nearest Borel-plane
-    singularity.
+    coefficients) and the usual ansatz ``r_n = mu^d (1 + a_1/n + a_2/n^2 + ...)``,
+    Neville's table extrapolates ``r_n`` polynomially in ``1/n`` to
+    ``1/n = 0``; column ``k`` removes the terms up to ``1/n^k``. The estimate
+    is column ``order`` at the highest ``n`` and the radius is
+    ``|T|^(-1/d)``. When ``log|r_n|`` grows like ``log n`` (factorial growth,
+    ``c_n ~ A^-n n!``) the radius is zero and the same table applied to
+    ``r_n / n^d`` estimates ``1/|A|^d``, the distance of the nearest
+    Borel-plane singularity.
 
     Returns a dict with ``growth`` ("finite radius" or "factorial"),
-    ``radius`` or ``borel_distance`` (estimate dicts), ``status`` and
-    ``how``.
+    ``radius`` or ``borel_distance`` (estimate dicts), ``status``, the
+    columns used and ``how``.
 
     Notes
     -----
-    The band is twice the spread of the last ``tail`` intercepts around the
-    last one, and never narrower than the rounding of the intercepts
-    (``n`` times the relative precision ``10^-digits`` of the coefficients,
-    ``digits`` defaulting to ``ctx.dps``). It is an estimate, not a bound: intercepts oscillate when
-    several singularities share the nearest modulus (complex pairs), then
-    the band is wide and the status says ``not converged``.
+    The band is the largest of: three times the change from column ``order - 1``
+    to column ``order`` at the highest ``n``; twice the spread of column
+    ``order`` over the last ``tail`` orders; and the rounding of the table
+    (``n^order`` times the relative precision ``10^-digits`` of the
+    coefficients, ``digits`` defaulting to ``ctx.dps``). It is an estimate,
+    not a bound: the columns converge slowly when the singularity carries
+    logarithms or a second singularity lies nearly as close, and they
+    oscillate when several singularities share the nearest modulus (complex
+    pairs); then the band is wide and the status says ``not converged``
+    (relative band above 1 %).
 
     Examples
     --------
@@ -171,24 +176,25 @@ def ratio_estimate(coeffs, ctx: Context, tail: int = 8, digits=None) -> dict:
     >>> ctx = Context(dps=20)
     >>> r = ratio_estimate([(n + 1) * mpmath.mpf(2) ** -n for n in range(30)], ctx)
     >>> r["growth"], r["radius"]["value"][:6]
-    ('finite radius', '2.0000')
+    ('finite radius', '2.0')
 
     References
     ----------
-    common practice, no source (ratio method with linear intercepts in 1/n).
+    Ratio method with polynomial extrapolation in 1/n: common practice, no
+    source (see e.g. the reviews of series analysis in critical phenomena).
     """
     with ctx.working():
         c = [mpmath.mpf(x) if not isinstance(x, mpmath.mpc) else x for x in coeffs]
         nz = [k for k, x in enumerate(c) if x != 0]
-        base = {"method": "ratio", "tail": tail}
-        if len(nz) < tail + 3:
+        base = {"method": "ratio", "tail": tail, "order": order}
+        need = tail + order + 2
+        if len(nz) < need:
             return {**base, "status": Status.TOO_FEW_TERMS.value, "growth": "",
                     "radius": None, "borel_distance": None,
-                    "how": f"needs at least {tail + 3} non-zero coefficients, has {len(nz)}"}
+                    "how": f"needs at least {need} non-zero coefficients, has {len(nz)}"}
         d = 0
         for a, b in zip(nz, nz[1:]):
             d = math.gcd(d, b - a)
-        # use indices on the lattice nz[0] + k d, starting after the first few
         ns = [n for n in range(nz[0] + d, len(c), d) if c[n - d] != 0 and c[n] != 0]
         r = {n: c[n] / c[n - d] for n in ns}
         keys = sorted(r)
@@ -200,37 +206,49 @@ def ratio_estimate(coeffs, ctx: Context, tail: int = 8, digits=None) -> dict:
         else:
             slope = mpmath.mpf(0)
         factorial = slope > mpmath.mpf("0.5") * d
-        seq = {n: (r[n] / mpmath.mpf(n) ** d if factorial else r[n]) for n in keys}
-        inter = []
-        for n in keys:
-            if n - d in seq:
-                m = (n * seq[n] - (n - d) * seq[n - d]) / d
-                if m != 0:
-                    inter.append((n, abs(m) ** (-mpmath.mpf(1) / d)))
-        if len(inter) < tail:
+        col = {n: (r[n] / mpmath.mpf(n) ** d if factorial else r[n]) for n in keys}
+        table = [col]
+        for k in range(1, order + 1):
+            prev, cur = table[-1], {}
+            for n in keys:
+                m = n - k * d
+                if n in prev and (n - d) in prev and m > 0:
+                    hn, hm = mpmath.mpf(1) / n, mpmath.mpf(1) / m
+                    cur[n] = (hm * prev[n] - hn * prev[n - d]) / (hm - hn)
+            table.append(cur)
+        top, below = table[order], table[order - 1]
+        usable = [n for n in sorted(top) if top[n] != 0]
+        if len(usable) < tail:
             return {**base, "status": Status.TOO_FEW_TERMS.value, "growth": "",
                     "radius": None, "borel_distance": None,
-                    "how": f"only {len(inter)} usable ratio intercepts"}
-        last = inter[-1][1]
-        samples = [v for _, v in inter[-tail:]]
+                    "how": f"only {len(usable)} usable orders in column {order}"}
+
+        def dist(t):
+            return abs(t) ** (-mpmath.mpf(1) / d)
+
+        n_top = usable[-1]
+        last = dist(top[n_top])
+        samples = [dist(top[n]) for n in usable[-tail:]]
+        step = abs(dist(below[n_top]) - last) if below.get(n_top) else mpmath.inf
+        spread = max(abs(v - last) for v in samples)
         dig = ctx.dps if digits is None else min(int(digits), ctx.dps)
-        floor = abs(last) * inter[-1][0] * mpmath.mpf(10) ** (-dig)
-        est = Estimate.from_spread(last, samples, safety=2, floor=floor / 2)
-        rel = est.error / abs(last) if last != 0 else mpmath.inf
+        floor = abs(last) * mpmath.mpf(n_top) ** order * mpmath.mpf(10) ** (-dig)
+        half_width = max(3 * step, 2 * spread, floor)
+        est = Estimate(last, last - half_width, last + half_width)
+        rel = half_width / abs(last) if last != 0 else mpmath.inf
         status = Status.CONVERGED if rel < mpmath.mpf("0.01") else Status.NOT_CONVERGED
         if factorial:
-            # m_n -> 1/A^d for r_n / n^d; the distance is |A| = m^(-1/d) ... but
-            # r_n/n^d ~ A^-d, so the intercept power -1/d gives |A| directly.
             out = {**base, "growth": "factorial", "radius": estimate_json(Estimate.exact(0)),
                    "borel_distance": estimate_json(est)}
         else:
             out = {**base, "growth": "finite radius", "radius": estimate_json(est),
                    "borel_distance": None}
-        out.update(status=status.value, spacing=d, orders_used=[inter[-tail][0], inter[-1][0]],
+        out.update(status=status.value, spacing=d, orders_used=[usable[-tail], n_top],
                    log_slope=num_to_str(slope, 6),
-                   how=(f"intercepts (n r_n - (n-d) r_(n-d))/d of the ratios r_n = c_n/c_(n-d), d={d}"
-                        f"{', divided by n^d' if factorial else ''}; band = 2 x spread of the last "
-                        f"{tail}"))
+                   how=(f"Neville table in 1/n of the ratios r_n = c_n/c_(n-d), d={d}"
+                        f"{', divided by n^d' if factorial else ''}, column {order} at n={n_top}; "
+                        f"band = max(3 x change from column {order - 1}, 2 x spread of the last "
+                        f"{tail}, rounding)"))
         return out
 
 
@@ -238,7 +256,8 @@ def _run_coefficients(series, params, ctx, opts, source):
     dense = series.dense(ctx)
     out = {"n_terms": series.n_terms, "digits": series.digits,
            "exact": series.is_exact, "variable": series.variable}
-    out["ratio"] = ratio_estimate(dense, ctx, tail=opts.get("tail", 8), digits=series.digits)
+    out["ratio"] = ratio_estimate(dense, ctx, tail=opts.get("tail", 8), digits=series.digits,
+                                  order=opts.get("order", 3))
     sums = []
     with ctx.working():
         for x in opts.get("at", []):
@@ -404,11 +423,13 @@ def _check_truth_task(opts, source_name, source):
 def _check_coefficients(opts, source_name, source):
     if opts.get("tail", 8) < 3:
         raise InputError("tail must be at least 3")
+    if not 1 <= opts.get("order", 3) <= 8:
+        raise InputError("order (columns of the ratio table) must be 1..8")
 
 
 TASKS = {
     "coefficients": TaskDef("coefficients", "partial sums and a plain ratio estimate",
-                            {"at": "numbers", "tail": "int"}, _run_coefficients),
+                            {"at": "numbers", "tail": "int", "order": "int"}, _run_coefficients),
     "analyze": TaskDef("analyze", "radius, singularities and exponents with bands",
                        {"methods": "strs", "verify": "bool"}, _run_analyze),
     "evaluate": TaskDef("evaluate", "resummed values at given couplings",
