@@ -1,0 +1,58 @@
+"""Strong-coupling probe on the BES family.
+
+Expected coefficients: at a = pi/4 (the cusp anomalous dimension, half the BES f(g))
+F = 2g - 3 ln2/(2 pi) - K/(8 pi^2 g) + ... (S. Frolov and A. A. Tseytlin, JHEP 0206 (2002) 007,
+hep-th/0204226; R. Roiban and A. A. Tseytlin, JHEP 0711 (2007) 016, arXiv:0709.0681); at a = 0
+the closed form (2/pi^2) log cosh(2 pi g) = 4g/pi - 2 ln2/pi^2 + O(exp(-4 pi g)).
+"""
+import mpmath
+import pytest
+
+from resum.context import Context, workdps
+from resum.estimators.strong_coupling import probe_strong_coupling, simple_rational
+from resum.sources.bes import weak_coupling_series
+
+GRID = [2, 3, 4, 5, 6, 8, 10, 12, 15, 20]
+
+
+def _check(r, expected, max_band):
+    assert r.success
+    assert r.leading_power.value == 1 and "rounded to 1" in r.power_source
+    for lab, ev in expected.items():
+        e = r.coefficient(lab)
+        assert e is not None and e.contains(ev), (lab, e, ev)
+        assert e.error < max_band[lab], (lab, e.error)
+
+
+def test_zero_angle_strong_coupling():
+    s = weak_coupling_series("0", 100, Context(dps=150))
+    with workdps(30):
+        exp = {"g^1": 4 / mpmath.pi, "g^0": -2 * mpmath.log(2) / mpmath.pi ** 2}
+    r = probe_strong_coupling(s, couplings=GRID, ctx=Context(dps=30), expected=exp,
+                              evaluate_options={"verify": False})
+    _check(r, exp, {"g^1": 1e-4, "g^0": 1e-3})
+    assert r.trusted_up_to >= 12
+    assert all(v["inside"] for v in r.comparison.values())
+
+
+@pytest.mark.slow
+def test_cusp_strong_coupling():
+    s = weak_coupling_series("pi/4", 100, Context(dps=150))
+    with workdps(30):
+        exp = {"g^1": 2, "g^0": -3 * mpmath.log(2) / (2 * mpmath.pi)}
+    r = probe_strong_coupling(s, couplings=GRID, ctx=Context(dps=30), expected=exp,
+                              evaluate_options={"verify": False})
+    _check(r, exp, {"g^1": 1e-3, "g^0": 2e-2})
+
+
+def test_simple_rational():
+    # common practice, no source
+    assert simple_rational(mpmath.mpf("0.3334"), mpmath.mpf("0.001")) == __import__("fractions").Fraction(1, 3)
+    assert simple_rational(mpmath.mpf("0.37"), mpmath.mpf("0.001")) is None
+
+
+def test_too_few_trusted_points():
+    s = weak_coupling_series("0", 20, Context(dps=40))
+    r = probe_strong_coupling(s, couplings=[30, 40, 50, 60], ctx=Context(dps=20),
+                              evaluate_options={"verify": False})
+    assert not r.success and r.status.value == "too few terms"
