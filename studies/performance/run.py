@@ -305,16 +305,21 @@ def study_pipeline(dps):
     ctx = Context(dps=dps)
     try:
         t, res = timed(lambda: analyze(s, ctx))
-        tab.add("analyze", fmt_t(t), f"radius {res.radius}" if hasattr(res, "radius") else str(res)[:60])
+        rad = getattr(res, "radius", None)
+        tab.add("analyze", fmt_t(t), f"radius {rad} (truth 1; band contains it: "
+                f"{rad.contains(1) if rad is not None else None})" if rad is not None
+                else str(res)[:60])
     except Exception as err:     # a study records a failure and goes on
         tab.add("analyze", "-", f"failed: {type(err).__name__}: {str(err)[:80]}")
     try:
         from resum.resummation import evaluate
         t, res = timed(lambda: evaluate(s, ["2"], ctx))
-        vals = getattr(res, "values", None)
+        pts = getattr(res, "points", None)
+        got = str(pts[0].value) if pts else str(res)[:80]
         ref = mpmath.log(3) / 2
+        ok = pts[0].value.contains(ref) if pts else None
         tab.add("evaluate at x=2", fmt_t(t),
-                f"{vals[0] if vals else res}; log(3)/2 = {mpmath.nstr(ref, 20)}")
+                f"{got}; truth log(3)/2 = {mpmath.nstr(ref, 25)}; band contains truth: {ok}")
     except Exception as err:
         tab.add("evaluate at x=2", "-", f"failed: {type(err).__name__}: {str(err)[:80]}")
     return tab
