@@ -594,6 +594,20 @@ class FiniteCouplingResult:
     provenance: Optional[Provenance] = None
 
     def to_dict(self) -> dict:
+        # Estimate.to_dict writes at most the current mpmath digits + 5: work at enough
+        # digits for every band this result holds
+        with workdps(self._digits_needed()):
+            return self._to_dict()
+
+    def _digits_needed(self) -> int:
+        ests = [e for e in vars(self).values() if isinstance(e, Estimate)]
+        for v in vars(self).values():
+            if isinstance(v, tuple):
+                ests += [e for e in v if isinstance(e, Estimate)]
+        d = [e.digits() for e in ests if e.digits() != math.inf]
+        return int(max(d, default=30)) + 15
+
+    def _to_dict(self) -> dict:
         from ..results import jsonable
         return {"g": num_to_str(self.g), "angle": num_to_str(self.angle), "success": self.success,
                 "status": self.status.value, "message": self.message,
@@ -606,6 +620,12 @@ class FiniteCouplingResult:
 
     @classmethod
     def from_dict(cls, d: dict) -> "FiniteCouplingResult":
+        # parse the decimal strings at as many digits as they carry
+        with workdps(_longest_number(d) + 10):
+            return cls._from_dict(d)
+
+    @classmethod
+    def _from_dict(cls, d: dict) -> "FiniteCouplingResult":
         from ..results import str_to_num
         est = lambda k: None if d.get(k) is None else Estimate.from_dict(d[k])  # noqa: E731
         return cls(str_to_num(d["g"]), str_to_num(d["angle"]), bool(d["success"]), Status(d["status"]),
@@ -1022,3 +1042,17 @@ def cusp_strong_coupling(g, ctx: Optional[Context] = None):
     with ctx.working():
         g = mpmath.mpmathify(g)
         return 2 * g - 3 * mpmath.log(2) / (2 * mpmath.pi) - mpmath.catalan / (8 * mpmath.pi ** 2 * g)
+
+
+def _longest_number(obj) -> int:
+    """Most digits in any decimal string inside a JSON-like object (at least 15)."""
+    best = 15
+    if isinstance(obj, dict):
+        for v in obj.values():
+            best = max(best, _longest_number(v))
+    elif isinstance(obj, (list, tuple)):
+        for v in obj:
+            best = max(best, _longest_number(v))
+    elif isinstance(obj, str):
+        best = max(best, sum(ch.isdigit() for ch in obj))
+    return best

@@ -107,6 +107,20 @@ class TaylorResult:
     diagnostics: dict = field(default_factory=dict)
 
     def to_dict(self) -> dict:
+        # Estimate.to_dict writes at most the current mpmath digits + 5: work at enough
+        # digits for every band this result holds
+        with workdps(self._digits_needed()):
+            return self._to_dict()
+
+    def _digits_needed(self) -> int:
+        ests = [e for e in vars(self).values() if isinstance(e, Estimate)]
+        for v in vars(self).values():
+            if isinstance(v, tuple):
+                ests += [e for e in v if isinstance(e, Estimate)]
+        d = [e.digits() for e in ests if e.digits() != math.inf]
+        return int(max(d, default=30)) + 15
+
+    def _to_dict(self) -> dict:
         from ..results import jsonable
         return {"success": self.success, "status": self.status.value, "message": self.message,
                 "coefficients": [c.to_dict() for c in self.coefficients],
@@ -117,6 +131,12 @@ class TaylorResult:
 
     @classmethod
     def from_dict(cls, d: dict) -> "TaylorResult":
+        # parse the decimal strings at as many digits as they carry
+        with workdps(_longest_number(d) + 10):
+            return cls._from_dict(d)
+
+    @classmethod
+    def _from_dict(cls, d: dict) -> "TaylorResult":
         return cls(bool(d["success"]), Status(d["status"]), d.get("message", ""),
                    tuple(Estimate.from_dict(c) for c in d["coefficients"]),
                    tuple(Estimate.from_dict(c) for c in d["imag"]),
@@ -264,3 +284,17 @@ def _on_circle(f, r, n, N):
         vals.append(a2)
         errs.append(abs(a1 - a2) + 10 * eps * fmax * math.log2(M) / r ** j)
     return vals, errs, fmax
+
+
+def _longest_number(obj) -> int:
+    """Most digits in any decimal string inside a JSON-like object (at least 15)."""
+    best = 15
+    if isinstance(obj, dict):
+        for v in obj.values():
+            best = max(best, _longest_number(v))
+    elif isinstance(obj, (list, tuple)):
+        for v in obj:
+            best = max(best, _longest_number(v))
+    elif isinstance(obj, str):
+        best = max(best, sum(ch.isdigit() for ch in obj))
+    return best

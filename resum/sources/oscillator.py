@@ -40,7 +40,7 @@ import flint
 import mpmath
 import numpy as np
 
-from ..context import DEFAULT, Context
+from ..context import DEFAULT, Context, workdps
 from ..errors import InputError
 from ..results import Estimate, Provenance, Status, num_to_str
 from ..series.core import Series
@@ -157,6 +157,20 @@ class EnergyResult:
     provenance: Optional[Provenance] = None
 
     def to_dict(self) -> dict:
+        # Estimate.to_dict writes at most the current mpmath digits + 5: work at enough
+        # digits for every band this result holds
+        with workdps(self._digits_needed()):
+            return self._to_dict()
+
+    def _digits_needed(self) -> int:
+        ests = [e for e in vars(self).values() if isinstance(e, Estimate)]
+        for v in vars(self).values():
+            if isinstance(v, tuple):
+                ests += [e for e in v if isinstance(e, Estimate)]
+        d = [e.digits() for e in ests if e.digits() != math.inf]
+        return int(max(d, default=30)) + 15
+
+    def _to_dict(self) -> dict:
         from ..results import jsonable
         return {"g": num_to_str(self.g), "state": self.state, "success": self.success,
                 "status": self.status.value, "message": self.message,
@@ -168,6 +182,12 @@ class EnergyResult:
 
     @classmethod
     def from_dict(cls, d: dict) -> "EnergyResult":
+        # parse the decimal strings at as many digits as they carry
+        with workdps(_longest_number(d) + 10):
+            return cls._from_dict(d)
+
+    @classmethod
+    def _from_dict(cls, d: dict) -> "EnergyResult":
         from ..results import str_to_num
         return cls(str_to_num(d["g"]), int(d["state"]), bool(d["success"]), Status(d["status"]),
                    d.get("message", ""), None if d.get("value") is None else Estimate.from_dict(d["value"]),
@@ -384,3 +404,17 @@ def _frequency(g):
     if g == 0:
         return mpmath.mpf(1)
     return mpmath.findroot(lambda w: w ** 3 - w - 3 * g, mpmath.mpf(1) + g)
+
+
+def _longest_number(obj) -> int:
+    """Most digits in any decimal string inside a JSON-like object (at least 15)."""
+    best = 15
+    if isinstance(obj, dict):
+        for v in obj.values():
+            best = max(best, _longest_number(v))
+    elif isinstance(obj, (list, tuple)):
+        for v in obj:
+            best = max(best, _longest_number(v))
+    elif isinstance(obj, str):
+        best = max(best, sum(ch.isdigit() for ch in obj))
+    return best

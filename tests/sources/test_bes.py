@@ -225,3 +225,13 @@ def test_right_angle_is_free():
     assert cs[1].value == 4 and all(c.value == 0 for c in cs[2:])
     r = bes.finite_coupling(3, "pi/2", Context(dps=20))
     assert r.success and r.value.contains(36) and r.value.error < 1e-19
+
+
+def test_finite_coupling_result_json_round_trip():
+    import json
+    r = bes.finite_coupling(1, "pi/4", Context(dps=35))
+    back = bes.FiniteCouplingResult.from_dict(json.loads(json.dumps(r.to_dict())))
+    assert back.success and back.size == r.size and back.status == r.status
+    with workdps(50):
+        assert abs(back.value.value - r.value.value) <= r.value.error / 100
+        assert abs(back.value.error - r.value.error) <= r.value.error / 100
