@@ -286,7 +286,12 @@ def plot_band_digits(records, x=None, ax=None):
             with mpmath.workdps(max(30, len(str(e.get("value", ""))) + 5)):
                 v, lo, hi = (mpmath.mpf(str(e[k])) for k in ("value", "lo", "hi"))
                 err = max(hi - v, v - lo)
-                d = float(-mpmath.log10(err / abs(v))) if err > 0 and v != 0 else math.nan
+                if err > 0 and v != 0:
+                    d = float(-mpmath.log10(err / abs(v)))
+                elif v != 0:    # band below the written digits: at least that many
+                    d = float(len(str(e["value"]).lstrip("-0.").replace(".", "")))
+                else:
+                    d = math.nan
             return (d, d, d) if not math.isnan(d) else MISS
         return g
 

@@ -126,3 +126,16 @@ def test_missing_tables_and_file(tmp_path):
 def test_truth_task_needs_an_evaluator():
     with pytest.raises(InputError, match="no finite-coupling evaluator"):
         parse(GOOD + "\n[tasks.truth]\nat = [1]\n")
+
+
+@pytest.mark.parametrize("extra, words", [
+    ('\n[tasks.analyze]\nmethods = ["nonsense"]\n', ["tasks.analyze", "nonsense"]),
+    ('\n[tasks.evaluate]\nat = [1]\nmethod = "guess"\n', ["tasks.evaluate", "unknown method", "guess"]),
+    ('\n[tasks.evaluate]\nmethod = "pade"\n', ["tasks.evaluate", "needs option 'at'"]),
+    ('\n[tasks.strong]\nn_terms_fit = [0]\n', ["tasks.strong", "positive integers"]),
+])
+def test_unknown_methods_and_missing_options(extra, words):
+    with pytest.raises(InputError) as err:
+        parse(GOOD + extra)
+    for w in words:
+        assert w in str(err.value), str(err.value)
