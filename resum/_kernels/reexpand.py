@@ -49,7 +49,6 @@ from dataclasses import dataclass, field
 from typing import Optional
 
 import flint
-import mpmath
 
 from . import flint_bridge as fb
 

@@ -31,7 +31,6 @@ from __future__ import annotations
 
 import argparse
 import math
-import os
 import sys
 import time
 import tracemalloc

@@ -1,6 +1,5 @@
 """Lossless conversions mpmath <-> python-flint (round trips are exact by
 construction: both store binary mantissa-exponent pairs; common practice, no source)."""
-from fractions import Fraction
 
 import flint
 import mpmath

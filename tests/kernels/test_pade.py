@@ -62,7 +62,7 @@ def test_exp_exact_matches_closed_form(L, M):
     c = [Fraction(1, math.factorial(k)) for k in range(L + M + 1)]
     r = pade(c, L, M, dps=30)
     p, q = exp_pade_closed_form(L, M)
-    assert r.exact and r.method == "exact"
+    assert isinstance(r, PadeApprox) and r.exact and r.method == "exact"
     assert list(r.p) == p and list(r.q) == q
     assert (r.L, r.M, r.defect) == (L, M, 0)
 

@@ -6,7 +6,6 @@
   change across the returned root) and with mpmath.polyroots;
 - numpy.polynomial for the double-precision path.
 """
-import math
 from fractions import Fraction
 
 import mpmath
