@@ -61,8 +61,13 @@ largest coefficient of each), for the input *as given*:
 * ``fraction``: a rigorous bound from the ball arithmetic, treating the
   given coefficients as exact numbers (against exact rational references the
   bound is within a few digits of the true error, see tests/kernels);
+* ``lu`` (ball LU on the Toeplitz system, used at singular blocks of the
+  recursion): a rigorous bound as for ``fraction``;
 * ``svd``: the agreement between two runs at different precisions (an
   estimate).
+
+If fewer than ``dps`` digits could be earned, ``diagnostics['message']``
+says so; callers should check ``digits`` against what they need.
 
 When ``input_digits`` is given, the effect of the input's own uncertainty is
 estimated by one rerun with the input perturbed at its last digit, and
@@ -722,6 +727,9 @@ def _assemble(p, q, requested, v, s, sc, digits, dps, method, diag):
     p, q = _trim(p), _trim(q)
     diag = dict(diag)
     diag.update({"deflation": (v, s), "scale_exponent": sc})
+    if digits < dps:
+        diag["message"] = (f"only {digits:.1f} of the {dps} requested digits earned "
+                           "(precision cap or input accuracy reached)")
     return PadeApprox(tuple(p), tuple(q), len(p) - 1, len(q) - 1, (L0, M0), M0 - (len(q) - 1),
                       digits, False, method, dps, diag)
 
