@@ -61,3 +61,19 @@ def test_bad_input_is_one_line_exit_2(tmp_path, capsys):
     assert not out.exists()
     assert main(["generate", "bes", "--loops", "0", "-o", str(out)]) == 2
     assert main(["generate", "euler", "--sign", "2", "-o", str(out)]) == 2
+
+
+def test_missing_or_unknown_source(capsys):
+    assert main(["generate"]) == 2
+    assert "name a source" in capsys.readouterr().err
+    assert main(["generate", "nope", "-o", "x.json"]) == 2
+
+
+def test_exact_flag_stores_exact_forms(tmp_path):
+    out = tmp_path / "cusp.json"
+    assert main(["generate", "bes", "--angle", "pi/4", "--loops", "4", "--dps", "25", "--exact",
+                 "-o", str(out)]) == 0
+    prov = json.loads(out.read_text())["provenance"]
+    # Beisert-Eden-Staudacher hep-th/0610251, four loops: -8 (73/630 pi^6 + 4 zeta(3)^2)
+    assert prov["exact_coefficients"][4] == "-292/315*pi^6 - 32*zeta(3)^2"
+    assert prov["exact_cos2"] == "1/2"

@@ -90,9 +90,9 @@ def _values(spec, args, dps_for_parse: int) -> dict:
 def run(args) -> int:
     from ..context import DEFAULT, Context
     from ..series.io import write_series
-    from ..sources import get_source
+    from ..sources import SOURCES, get_source
     if not getattr(args, "source", None):
-        raise InputError("name a source: " + ", ".join(sorted(__import__("resum.sources", fromlist=["SOURCES"]).SOURCES)))
+        raise InputError("name a source: " + ", ".join(sorted(SOURCES)))
     spec = get_source(args.source)
     dps = getattr(args, "dps", None)
     ctx = Context(dps=dps) if dps and dps >= 5 else DEFAULT
