@@ -74,6 +74,7 @@ def test_catalan():
     _check(r.singularities[0].exponent, Fraction(1, 2), 0.2)
 
 
+@pytest.mark.slow
 def test_two_singularities():
     # (1-x)^(-1/2) + (1+x/2)^(-3/2): points 1 and -2, exponents -1/2, -3/2
     r = analyze(Series(two_singularities(60)), Context(dps=80))
@@ -105,6 +106,7 @@ def test_entire_like():
     assert not mpmath.isfinite(r.radius.value)
 
 
+@pytest.mark.slow
 def test_saw_growth_constant_80_terms():
     # I. Jensen, J. Phys. A 49 (2016) 424003 (arXiv:1607.01109), 80 terms; mu = 2.63815853032790(3)
     # (Jacobsen, Scullard, Guttmann, J. Phys. A 49 (2016) 494004, arXiv:1607.02984);
@@ -131,6 +133,7 @@ def test_ising_susceptibility_27_terms():
     _check(s.exponent, Fraction(-7, 4), 0.05)
 
 
+@pytest.mark.slow
 def test_bes_family_radius():
     # angle-deformed BES kernel (Beisert, Eden, Staudacher, hep-th/0610251): radius |g| = 1/4,
     # i.e. x = g^2 = -1/16; at a = 0 the function is (2/pi^2) log cosh(2 pi g) (closed form),

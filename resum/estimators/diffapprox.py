@@ -153,6 +153,9 @@ def estimate_diffapprox(series, ctx=None, order=1, count=16, max_radius_factor=2
         growth, kappa = classify_growth(c)
         if growth == "factorial":
             return failed(method, Status.NOT_APPLICABLE, "factorially divergent series: radius 0", prep)
+        if growth == "entire-like":
+            return failed(method, Status.NOT_APPLICABLE, "coefficients decay faster than any power: "
+                          "entire-like, no finite singular point", prep)
         K = order
         D = _deriv_coeffs(c, K)
         N = len(c)

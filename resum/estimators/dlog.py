@@ -87,6 +87,9 @@ def estimate_dlog(series, ctx=None, derivatives=(0, 1, 2), count=8):
         growth, kappa = classify_growth(c)
         if growth == "factorial":
             return failed(method, Status.NOT_APPLICABLE, "factorially divergent series: radius 0", prep)
+        if growth == "entire-like":
+            return failed(method, Status.NOT_APPLICABLE, "coefficients decay faster than any power: "
+                          "entire-like, no finite singular point", prep)
         runs = []
         for d in derivatives:
             g = dlog_series(c, d)

@@ -19,10 +19,10 @@ from .refs import binomial_power, complex_pair, lattice, quartic_oscillator
 
 
 def _series_for(name):
-    if name in ("ratio", "root-test", "diff-approx2"):
+    if name in ("ratio", "root-test"):
         cs, _ = lattice("saw_square_lattice")       # Jensen, J. Phys. A 49 (2016) 424003
         return Series(cs), Context(dps=50)
-    if name == "diff-approx":
+    if name in ("diff-approx", "diff-approx2"):
         cs, _ = lattice("ising_sq_susceptibility_hightemp")   # Sykes et al. 1972 / OEIS A002906
         return Series(cs), Context(dps=40)
     if name == "conjugate-pair":
