@@ -91,7 +91,10 @@ def parse_angle(angle, dps: int):
     """The angle as an mpf at ``dps`` digits (radians).
 
     Accepts a number (int, Fraction, float, mpf) or an expression string such
-    as ``"pi/3"`` or ``"0.7"``. Raises :class:`InputError` for anything else.
+    as ``"pi/3"`` or ``"0.7"``. Decimal literals and floats are taken as exact
+    (``"0.7"`` means 7/10, a float its binary value); expressions are
+    evaluated at ``dps`` digits and that rounding is carried into the balls
+    downstream. Raises :class:`InputError` for anything else.
     """
     from ..series.expr import evaluate_expression
     if isinstance(angle, bool):
