@@ -164,7 +164,7 @@ class Estimate:
 
     def __post_init__(self):
         for f in ("value", "lower", "upper"):
-            object.__setattr__(self, f, mpf(getattr(self, f)))
+            object.__setattr__(self, f, _real(getattr(self, f)))
         if self.lower > self.value or self.upper < self.value:
             lo, hi = min(self.lower, self.value), max(self.upper, self.value)
             object.__setattr__(self, "lower", lo)
@@ -194,7 +194,7 @@ class Estimate:
         return self.upper - self.lower
 
     def contains(self, x) -> bool:
-        x = mpf(x)
+        x = _real(x)
         return bool(self.lower <= x <= self.upper)
 
     def digits(self) -> float:
@@ -219,6 +219,14 @@ class Estimate:
     @classmethod
     def from_dict(cls, d: dict) -> "Estimate":
         return cls(mpf(d["value"]), mpf(d["lo"]), mpf(d["hi"]))
+
+
+def _real(x):
+    """An mpf from int, Fraction, float, str or mpf (Fractions exactly, at working precision)."""
+    from fractions import Fraction
+    if isinstance(x, Fraction):
+        return mpf(x.numerator) / x.denominator
+    return mpf(x)
 
 
 def _dps_for_band(e: Estimate) -> int:
