@@ -139,7 +139,8 @@ def _ratio_step(c, step, eps):
     # difference is added to the band.
     sq, sq_half, _, _ = extrapolate([mpmath.sqrt(n) for n in wn], wz, noise)
     confluent_shift = abs(sq - mus)
-    if confluent_shift > max(mu_half, sq_half):      # both settled, and they disagree
+    confluent = confluent_shift > max(mu_half, sq_half)     # both settled, and they disagree
+    if confluent:
         mu_half = SAFETY * confluent_shift
     # exponent: g_n = n (z_n / mu^s - 1) / s  ->  -(1 + theta)
     g_of = lambda m: [n * (zz / m - 1) / step for n, zz in zip(wn, wz)]  # noqa: E731
@@ -149,6 +150,10 @@ def _ratio_step(c, step, eps):
                                     noise=[abs(x) for x in g_noise])
     if abs(gs - g) > max(g_half, gs_half):
         g_half = SAFETY * abs(gs - g)
+    elif confluent:
+        # half-integer corrections seen in the intercept: the exponent is only as good as
+        # the cruder of the two tables
+        g_half = max(g_half, SAFETY * abs(gs - g), gs_half)
     # sensitivity to the intercept band
     if mu_half > 0:
         for m in (mus - mu_half, mus + mu_half):
