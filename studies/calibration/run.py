@@ -236,9 +236,10 @@ def main(argv=None):
     print()
     print(f"coverage: {held}/{len(checks)} checks hold ({100 * held / max(1, len(checks)):.1f} %)")
     for what in ("radius", "theta", "re x_c", "A", "b"):
-        ds = [min(c["digits"], 60) for c in checks if c["what"] == what and c["digits"] is not None]
+        ds = [min(c["digits"], args.dps) for c in checks if c["what"] == what and c["digits"] is not None]
         if ds:
-            print(f"median digits reached, {what}: {statistics.median(ds):.1f} over {len(ds)} cases")
+            print(f"median digits reached, {what}: {statistics.median(ds):.1f} over {len(ds)} cases "
+                  f"(exact hits counted as {args.dps})")
     fails = [(r["case"], c["what"]) for r in rows for c in r["checks"] if c["in_band"] is False]
     if fails:
         print("bands that missed:", "; ".join(f"{a} [{b}]" for a, b in fails))
