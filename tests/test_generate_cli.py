@@ -2,7 +2,6 @@
 import json
 
 import mpmath
-import pytest
 
 from resum.cli import main
 from resum.context import workdps

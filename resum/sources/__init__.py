@@ -31,7 +31,7 @@ Any analytic callable: :func:`resum.sources.cauchy.taylor_coefficients`.
 """
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 from typing import Any, Callable, Optional, Sequence
 
 from ..context import DEFAULT, Context

@@ -31,7 +31,6 @@ which the tests check against direct quadrature (mpmath.quad).
 """
 from __future__ import annotations
 
-import math
 from fractions import Fraction
 from typing import Optional, Sequence
 

@@ -204,7 +204,6 @@ def test_failure_is_reported_not_silent():
 def test_bessel_table_against_mpmath():
     # the recurrences behind the quadrature (forward for z >= N, Miller below) against
     # mpmath.besselj at nodes on both sides of the turning point z = N
-    import flint
     from resum.sources._arb import arb_from_mpf, arb_to_mpf, flint_prec
     N, bits = 60, 120
     with workdps(45):

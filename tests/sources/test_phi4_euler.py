@@ -1,5 +1,4 @@
 """Zero-dimensional phi^4 integral and Euler's series against mpmath quadrature."""
-from fractions import Fraction
 
 import mpmath
 import pytest
