@@ -779,27 +779,83 @@ def _bessel_table(N: int, zs, bits: int, cplx: bool):
     return J
 
 
+_GL_ARB = {}
+
+
+def _gauss_legendre_arb(n: int, dps: int, bits: int):
+    """:func:`_gauss_legendre` as python-flint balls (midpoints), cached."""
+    key = (n, dps, bits)
+    if key not in _GL_ARB:
+        xs, ws = _gauss_legendre(n, dps)
+        _GL_ARB[key] = ([arb_from_mpf(x) for x in xs], [arb_from_mpf(w) for w in ws])
+    return _GL_ARB[key]
+
+
+def _kernel_matrix_fixed(N: int, zs, wts, bits: int):
+    """Real coupling: I = Jh Jh^T, Jh = J sqrt(w), entirely in fixed point.
+
+    Every value is an integer at scale 2^P (P = bits). Nodes with z >= N: the
+    forward recurrence J_{n+1} = (2n/z) J_n - J_{n-1} from python-flint J_0, J_1
+    runs on Python integers (neutrally stable for n < z: the error stays a few
+    units of 2^-P per step). Nodes with z < N: Miller's recurrence in balls
+    (:func:`_bessel_table`), then rounded. The product of the integer matrices is
+    exact; each entry of I is off by at most about Q N 2^-P.
+    """
+    P = bits
+    Q = len(zs)
+    big = [m for m, z in enumerate(zs) if z >= N]
+    small = [m for m, z in enumerate(zs) if not z >= N]
+    J = np.zeros((N, Q), dtype=object)
+    with flint_prec(bits + 32):
+        scale = flint.arb(2) ** P
+        to_int = (lambda x: int((x * scale).mid().floor().unique_fmpz()))
+        if big:
+            zb = [zs[m] for m in big]
+            prev = np.array([to_int(z.bessel_j(0)) for z in zb], dtype=object)
+            cur = np.array([to_int(z.bessel_j(1)) for z in zb], dtype=object)
+            c2z = np.array([to_int(2 / z) for z in zb], dtype=object)
+            J[0, big] = cur
+            for n in range(1, N):
+                nxt = ((cur * c2z) * n >> P) - prev
+                prev, cur = cur, nxt
+                J[n, big] = cur
+        if small:
+            Js = _bessel_table(N, [zs[m] for m in small], bits, False)
+            conv = np.frompyfunc(to_int, 1, 1)
+            J[:, small] = conv(Js)
+        sw = np.array([to_int(w_.sqrt()) for w_ in wts], dtype=object)
+    Jh = (J * sw[None, :]) >> P
+    with flint_prec(2 * P + 64):
+        A = flint.arb_mat(N, Q, [int(v) for v in Jh.ravel()])
+        prod = A * A.transpose()
+    with flint_prec(bits):
+        inv = flint.arb(2) ** (-2 * P)
+        I = [(x * inv) for x in prod.entries()]
+    return np.array(I, dtype=object).reshape(N, N)
+
+
 def _kernel_matrix(g, N: int, panels, bits: int, dps: int):
     """Quadrature approximation of the BES integrals I_ij (i, j <= N) as numpy object N x N."""
     cplx = isinstance(g, mpmath.mpc)
-    nodes, weights = [], []
-    with workdps(dps):
-        for a, b, n in panels:
-            xs, ws = _gauss_legendre(n, dps)
-            h = mpmath.mpf(b - a) / 2
-            c = mpmath.mpf(a + b) / 2
-            for x, w_ in zip(xs, ws):
-                t = c + h * x
-                nodes.append(t)
-                weights.append(w_ * h / (t * mpmath.expm1(t)))
     with flint_prec(bits):
-        tw = [arb_from_mpf(t) for t in nodes]
+        tw, wl = [], []
+        for a, b, n in panels:
+            xs, ws = _gauss_legendre_arb(n, dps, bits)
+            h = (arb_from_mpf(b) - arb_from_mpf(a)) / 2
+            c = (arb_from_mpf(a) + arb_from_mpf(b)) / 2
+            for x, w_ in zip(xs, ws):
+                t = (c + h * x).mid()
+                tw.append(t)
+                wl.append((w_ * h / (t * t.expm1())).mid())
+        nodes = tw
         if cplx:
             g2 = 2 * acb_from_mpc(g)
         else:
             g2 = 2 * arb_from_mpf(g)
         zs = [g2 * t for t in tw]
-        wts = np.array([arb_from_mpf(w_) for w_ in weights], dtype=object)
+        wts = np.array(wl, dtype=object)
+    if not cplx:
+        return _kernel_matrix_fixed(N, zs, wts, bits), len(nodes)
     J = _bessel_table(N, zs, bits, cplx)
     Q = len(nodes)
     with flint_prec(bits):
@@ -890,10 +946,13 @@ def finite_coupling(g, angle="pi/4", ctx: Optional[Context] = None, digits: Opti
     Notes
     -----
     The kernel integrals are computed by composite Gauss-Legendre quadrature
-    on ``[0, T]`` (``e^-T`` below the requested accuracy), panels shorter
-    than the oscillation length ``1/(4|g|)``, node counts falling with ``t``
+    on ``[0, T]`` (``e^-T`` below the requested accuracy), panels spanning a
+    few oscillations of ``J_i(2gt) J_j(2gt)``, node counts falling with ``t``
     as ``e^-t`` lowers the accuracy each panel needs. Bessel functions come
-    from backward recurrence started from python-flint values. The matrix is
+    from three-term recurrences (forward where ``2gt`` exceeds the matrix
+    size, Miller's backward one below) started from python-flint values; for
+    real ``g`` the recurrence and the kernel product run in fixed-point
+    integers. The matrix is
     truncated at a size chosen from ``|g|`` and the digits asked (about
     ``digits sqrt(g)``), then checked against a smaller size (same
     quadrature) and against a second quadrature rule (other panels, more
