@@ -234,3 +234,17 @@ def test_finite_coupling_result_json_round_trip():
     with workdps(50):
         assert abs(back.value.value - r.value.value) <= r.value.error / 100
         assert abs(back.value.error - r.value.error) <= r.value.error / 100
+
+
+def test_kernel_integrals_against_mpmath_quad():
+    # the quadrature of int_0^oo dt/t J_i(2gt) J_j(2gt)/(e^t - 1) (fixed-point path for real g)
+    # against mpmath.quad with mpmath.besselj
+    g = mpmath.mpf(3)
+    panels = bes._panel_nodes(12.0, 30, 75.0, 1.0, 0)
+    I, Q = bes._kernel_matrix(g, 5, panels, 150, 40)
+    from resum.sources._arb import arb_to_mpf
+    with workdps(30):
+        for i, j in ((1, 4), (5, 5)):
+            f = lambda t: mpmath.besselj(i, 2 * g * t) * mpmath.besselj(j, 2 * g * t) / (t * mpmath.expm1(t))
+            ref = mpmath.quad(f, mpmath.linspace(0, 72, 37))
+            assert abs(arb_to_mpf(I[i - 1, j - 1]) - ref) < mpmath.mpf(10) ** -25, (i, j)
