@@ -211,7 +211,7 @@ def _line_fit(xs, ys):
 
 
 def band_from_candidates(vals: Sequence, n_used: Sequence[int], *, floor=0, safety=4,
-                         n_top: int = 4, min_core: int = 3):
+                         n_top: int = 4, min_core: int = 3, nearest_far: bool = False):
     """Estimate (real numbers) or pair of Estimates (complex) from candidate values.
 
     Parameters
@@ -239,8 +239,10 @@ def band_from_candidates(vals: Sequence, n_used: Sequence[int], *, floor=0, safe
     where ``rms`` is the scatter (in decades) of the distances about the
     geometric line: approximants converge irregularly. When the lower orders do not approach the value
     (``b >= 0``) the band is their largest distance instead and
-    ``info["converging"]`` is False. The band is at least ``floor`` and the
-    working-precision floor.
+    ``info["converging"]`` is False. With ``nearest_far`` the extrapolated
+    error is at least the distance of the highest lower-order candidate (used
+    for Borel sums, whose sequences tend to plateau). The band is at least
+    ``floor`` and the working-precision floor.
     """
     pairs = [(n, v) for n, v in zip(n_used, vals) if v is not None and mpmath.isfinite(abs(v))]
     info = {"n_candidates": len(vals), "n_finite": len(pairs)}
@@ -294,6 +296,10 @@ def band_from_candidates(vals: Sequence, n_used: Sequence[int], *, floor=0, safe
             extrap = max(d for _, d in dist)
     elif far:
         extrap = max(abs(v - center) for _, v in far)
+    if nearest_far and far:
+        # conservative variant (Borel sums, whose approximant sequences plateau): the error is
+        # taken to be at least the distance of the nearest lower-order candidate
+        extrap = max(extrap or 0, abs(far[0][1] - center))
     info["converging"] = converging
     w = max(top_spread, extrap or 0) * safety
     fl = max(mpmath.mpf(floor), abs(center) * mpmath.mpf(10) ** (3 - mpmath.mp.dps))

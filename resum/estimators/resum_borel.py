@@ -225,7 +225,7 @@ def borel_evaluate(c: Sequence, xs: Sequence, dps: int, *, b=0, cmap: Optional[C
         if not use_lateral:
             vv = vals[thetas[0]]
             fl = max(errs[thetas[0]])
-            re, im, binfo = band_from_candidates(vv, ns, floor=fl, safety=safety)
+            re, im, binfo = band_from_candidates(vv, ns, floor=fl, safety=safety, nearest_far=True)
             info.update(binfo)
             info["values"] = [None if v is None else mpmath.nstr(v, 25) for v in vv]
             if re is None:
@@ -245,9 +245,9 @@ def borel_evaluate(c: Sequence, xs: Sequence, dps: int, *, b=0, cmap: Optional[C
                 amb.append((sp - sm) / (2j))
         fl = max(max(errs[tp]), max(errs[tm]))
         re, _, binfo = band_from_candidates([None if v is None else mpmath.re(v) for v in avg], ns,
-                                            floor=fl, safety=safety)
+                                            floor=fl, safety=safety, nearest_far=True)
         am, _, ainfo = band_from_candidates([None if v is None else mpmath.re(v) for v in amb], ns,
-                                            floor=fl, safety=safety)
+                                            floor=fl, safety=safety, nearest_far=True)
         info.update(binfo)
         info["theta"] = mpmath.nstr(tp, 8)
         Apos = None

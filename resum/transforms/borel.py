@@ -90,7 +90,7 @@ def laplace(F: Callable, x, b, dps: int, *, theta=0, scale=1, s_max=None):
             w *= u ** b
         return w
 
-    v, err = mpmath.quad(integrand, pts, error=True, maxdegree=10)
+    v, err = mpmath.quad(integrand, pts, error=True, maxdegree=8 + int(dps) // 20)
     v = v * e
     floor = abs(v) * mpmath.mpf(10) ** (3 - dps)
     return v, max(mpmath.mpf(err), floor)
