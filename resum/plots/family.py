@@ -17,6 +17,7 @@ out of the line and marked with a cross at the bottom of the panel.
 * :func:`plot_borel_exponent` -- the Gamma-function shift b of the large-order growth;
 * :func:`plot_values` -- resummed values at fixed couplings, with the source's truth;
 * :func:`plot_value_errors` -- resummed minus true values, with bands;
+* :func:`plot_value_digits` -- digits claimed by the bands and digits that agree with the truth;
 * :func:`plot_strong` -- one strong-coupling coefficient;
 * :func:`write_family_plots` -- all figures that have data, as PNG and PDF.
 """
@@ -27,7 +28,7 @@ from pathlib import Path
 from typing import Callable, Optional
 
 __all__ = ["plot_radius", "plot_band_digits", "plot_singularity_locations", "plot_exponents",
-           "plot_borel", "plot_borel_exponent", "plot_values", "plot_value_errors", "plot_strong", "write_family_plots",
+           "plot_borel", "plot_borel_exponent", "plot_values", "plot_value_errors", "plot_value_digits", "plot_strong", "write_family_plots",
            "family_x"]
 
 
@@ -250,7 +251,8 @@ def _finish(ax, x, ylabel, title=""):
         ax.set_title(title, fontsize=10)
     h, labels = ax.get_legend_handles_labels()
     if labels:
-        ax.legend(fontsize=7, loc="best")
+        ax.legend(fontsize=6 if len(labels) > 6 else 7, loc="best",
+                  ncol=2 if len(labels) > 6 else 1, framealpha=0.6)
     ax.grid(alpha=0.3)
     try:
         ax.ticklabel_format(axis="y", useOffset=False)
@@ -407,6 +409,67 @@ _STRONG_KINDS = (("resummed", "from the resummed series", "o"),
                  ("truth", "from the finite-coupling values", "D"))
 
 
+def _rel_digits(v, t=None):
+    """-log10 of the relative band of ``v`` (``t`` None) or of |v - t|/|t|,
+    computed from the decimal strings at high precision."""
+    import mpmath
+    with mpmath.workdps(80):
+        try:
+            val = mpmath.mpf(str(v["value"]))
+            if t is None:
+                err = max(mpmath.mpf(str(v["hi"])) - val, val - mpmath.mpf(str(v["lo"])))
+                ref = val
+            else:
+                ref = mpmath.mpf(str(t["value"]))
+                err = abs(val - ref)
+        except (KeyError, ValueError, TypeError):
+            return None
+        if not mpmath.isfinite(val) or ref == 0:
+            return None
+        if err == 0:
+            # equal as written: they agree to within the wider of their bands
+            widths = [mpmath.mpf(str(d[k])) - mpmath.mpf(str(d["value"])) for d in (v, t or v)
+                      for k in ("hi", "lo") if k in d]
+            err = max([abs(w) for w in widths] or [0])
+            if err == 0:
+                return float(len(str(v["value"]).lstrip("-0.").replace(".", "")))
+        return float(-mpmath.log10(err / abs(ref)))
+
+
+def plot_value_digits(records, x=None, ax=None, at=None):
+    """Digits claimed by the resummed band (filled) and digits that agree with
+    the source's finite-coupling values (open), per coupling, against ``x``.
+    An honest band claims no more digits than agree."""
+    x = family_x(records, x)
+    ax = _ax(ax)
+    ats = at if at is not None else _points_at(records, "evaluate")
+    import matplotlib.pyplot as plt
+    colors = plt.rcParams["axes.prop_cycle"].by_key().get("color", [None])
+    for j, a in enumerate(ats):
+        col = colors[j % len(colors)]
+
+        def claimed(r, a=a):
+            v = _values(r, "evaluate").get(_at_key(a))
+            if not v:
+                return None
+            d = _rel_digits(v) if _band(v) else None
+            return MISS if d is None else (d, d, d)
+
+        def agree(r, a=a):
+            v = _values(r, "evaluate").get(_at_key(a))
+            t = _values(r, "truth").get(_at_key(a))
+            if not v or not t or _band(v) is None or _band(t) is None:
+                return None
+            d = _rel_digits(v, t)
+            return None if d is None else (d, d, d)
+        _draw(ax, _series(records, x, claimed, "evaluate"), f"band at {a}", "o", color=col)
+        for g, (xs, vs, *_rest) in _series(records, x, agree, "truth").items():
+            if xs:
+                ax.plot(xs, vs, "D", mfc="none", color=col, ms=7,
+                        label=f"agreeing at {a}" + (f", {g}" if g else ""))
+    return _finish(ax, x, "digits (relative)")
+
+
 def strong_keys(records) -> list:
     """Fitted strong-coupling coefficients found in the records (labels such
     as ``"g^1"``, ``"g^0"``), leading power last if it was estimated."""
@@ -509,13 +572,20 @@ def write_family_plots(records, outdir, x=None, title="") -> list:
         save(fig, "borel")
     if _points_at(records, "evaluate"):
         has_truth = bool(_points_at(records, "truth"))
-        fig, axs = plt.subplots(2 if has_truth else 1, 1, figsize=(6.4, 6.4 if has_truth else 4.2),
-                                sharex=True, squeeze=False)
+        fig, axs = plt.subplots(2, 1, figsize=(6.4, 7.4), sharex=True, squeeze=False)
         plot_values(records, x, axs[0][0])
-        if has_truth:
-            plot_value_errors(records, x, axs[1][0])
-            axs[0][0].set_xlabel("")
+        vals = [_band(v) for r in records for v in _values(r, "evaluate").values()]
+        vals = [b for b in vals if b is not None]
+        if vals and all(b[0] > 0 for b in vals) and max(b[0] for b in vals) > 20 * min(
+                b[0] for b in vals):
+            axs[0][0].set_yscale("log")
+        plot_value_digits(records, x, axs[1][0])
+        axs[0][0].set_xlabel("")
         save(fig, "values")
+        if has_truth:
+            fig, ax = plt.subplots(figsize=(6.4, 4.2))
+            plot_value_errors(records, x, ax)
+            save(fig, "value_errors")
     keys = strong_keys(records)
     if keys:
         fig, axs = plt.subplots(len(keys), 1, figsize=(6.4, 2.6 * len(keys) + 0.8), sharex=True,
