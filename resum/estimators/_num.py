@@ -18,6 +18,7 @@ singular or a ball is too wide to say anything at the requested precision.
 from __future__ import annotations
 
 import contextlib
+import math
 
 import flint
 import mpmath
@@ -112,14 +113,23 @@ def polyder(p):
 def poly_roots(p, dps: int):
     """All complex roots of the polynomial ``p`` (coefficients low to high).
 
-    Trailing zero coefficients are dropped. Uses flint's root isolation on the
-    midpoints (an exact polynomial), falling back to mpmath's Durand-Kerner
-    iteration when isolation fails (for example for numerically multiple
+    Trailing zero coefficients are dropped and exact zero roots split off.
+    Uses flint's root isolation on the midpoints (an exact polynomial),
+    falling back to double-precision companion roots polished by Newton steps
+    at the working precision when isolation fails (numerically multiple
     roots). Returns a list of mpc (empty for a constant polynomial).
     """
     p = list(p)
     while p and p[-1] == 0:
         p.pop()
+    # exact zero roots (low-order zero coefficients) are split off: flint's isolation needs a
+    # squarefree polynomial
+    z0 = 0
+    while z0 < len(p) - 1 and p[z0] == 0:
+        z0 += 1
+    if z0:
+        rest = poly_roots(p[z0:], dps)
+        return None if rest is None else [mpmath.mpc(0)] * z0 + rest
     if len(p) <= 1:
         return []
     with workdps(dps + 10), flint_dps(dps + 10):
@@ -131,12 +141,37 @@ def poly_roots(p, dps: int):
             return [_from_ball(r) for r in rts]
         except (ValueError, ArithmeticError):
             pass
+        # numerically multiple roots: double-precision companion roots polished by Newton
+        # steps at the working precision (linear convergence at a multiple root, which is
+        # then known only to about half the digits -- such roots are flagged by the callers'
+        # clustering, not trusted individually)
+        return _newton_polish(p, dps)
+
+
+def _newton_polish(p, dps, steps=60):
+    import numpy as np
+    with workdps(dps + 10):
+        pm = [mpmath.mpmathify(c) for c in p]
+        lead = pm[-1]
         try:
-            rts = mpmath.polyroots(list(reversed([mpmath.mpmathify(c) for c in p])),
-                                   maxsteps=400, extraprec=4 * dps, error=False)
-            return [mpmath.mpc(r) for r in rts]
-        except mpmath.libmp.NoConvergence:
+            guess = np.roots([complex(c / lead) for c in reversed(pm)])
+        except (ValueError, np.linalg.LinAlgError, OverflowError):
             return None
+        dp = polyder(pm)
+        out = []
+        tol = mpmath.mpf(10) ** (-dps)
+        for g in guess:
+            z = mpmath.mpc(complex(g))
+            for _ in range(steps):
+                d = polyval(dp, z)
+                if d == 0:
+                    break
+                step = polyval(pm, z) / d
+                z -= step
+                if abs(step) <= tol * max(1, abs(z)):
+                    break
+            out.append(z)
+        return out
 
 
 def pade_coeffs(c, L: int, M: int, dps: int):
@@ -145,21 +180,35 @@ def pade_coeffs(c, L: int, M: int, dps: int):
     ``c`` holds at least ``L + M + 1`` coefficients low to high. The
     denominator is normalised by ``q[0] = 1``. Returns ``(p, q, rel_err)`` or
     ``None`` if the Toeplitz system is singular at ``dps`` digits.
+
+    Delegates to :func:`resum._kernels.pade.pade` (continued-fraction
+    recursion in ball arithmetic with its own guard digits; ball LU or SVD at
+    singular blocks), so the coefficients carry at least ``dps`` correct
+    digits for the input as given. ``rel_err`` is ``10**-digits`` of the
+    kernel with ``input_digits = dps + 10``: the normwise relative change of
+    the coefficients when the input is perturbed at the ``10**-(dps + 10)``
+    level (an estimate of the conditioning, as the radius of the former
+    ``dps + 10``-digit solve was), or the rigorous rounding bound if larger.
+    ``p`` and ``q`` are padded with zeros to ``L + 1`` and ``M + 1`` entries.
+    ``None`` when the table is degenerate there (the kernel had to lower the
+    degrees by rank: SVD or exact reduction) or the approximant is zero.
     """
     if len(c) < L + M + 1:
         raise ValueError(f"[{L}/{M}] needs {L + M + 1} coefficients, got {len(c)}")
-    cc = lambda k: c[k] if k >= 0 else 0  # noqa: E731
-    if M == 0:
-        q = [mpmath.mpf(1)]
-        err = 0.0
-    else:
-        rows = [[cc(L + i - j) for j in range(1, M + 1)] for i in range(1, M + 1)]
-        rhs = [-cc(L + i) for i in range(1, M + 1)]
-        sol = solve(rows, rhs, dps)
-        if sol is None:
-            return None
-        qs, err = sol
-        q = [mpmath.mpf(1)] + qs
+    from .._kernels.pade import pade
     with workdps(dps + 10):
-        p = [sum(q[j] * cc(k - j) for j in range(0, min(k, M) + 1)) for k in range(L + 1)]
+        cm = [v if isinstance(v, (mpmath.mpf, mpmath.mpc)) else mpmath.mpmathify(v)
+              for v in c[:L + M + 1]]
+    try:
+        r = pade(cm, L, M, dps, input_digits=dps + 10)
+    except (ArithmeticError, ValueError):
+        return None
+    if r.diagnostics.get("note") == "zero approximant":
+        return None
+    if r.defect > 0 and r.method in ("svd", "exact"):
+        return None
+    err = 0.0 if not math.isfinite(r.digits) else 10.0 ** (-r.digits)
+    with workdps(dps + 10):
+        p = [mpmath.mpmathify(a) for a in r.p] + [mpmath.mpf(0)] * (L + 1 - len(r.p))
+        q = [mpmath.mpmathify(b) for b in r.q] + [mpmath.mpf(0)] * (M + 1 - len(r.q))
     return p, q, err
