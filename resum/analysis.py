@@ -292,6 +292,26 @@ def _combine_group(g, warnings):
     return Singularity(re, im, kind, theta, best.method, note), [s.method for s in g]
 
 
+def _drop_inside_growth_radius(combined, ok, warnings):
+    """Drop points seen by one method only that sit well inside the radius the growth of the
+    coefficients implies (root test, ratios): a singularity there would make the coefficients
+    grow faster than they do. Kept if nothing better supported remains."""
+    bounds = [ok[k].radius.lower for k in ("root-test", "ratio")
+              if k in ok and ok[k].radius is not None and mpmath.isfinite(ok[k].radius.lower)]
+    if not bounds or len(combined) < 2:
+        return combined
+    floor = max(bounds) * mpmath.mpf("0.9")
+    kept = [(s, f) for s, f in combined if not (len(f) == 1 and abs(s.location) + _err(s) < floor)]
+    if not kept:
+        return combined
+    for s, f in combined:
+        if (s, f) not in kept:
+            warnings.append(f"discarded a point at {mpmath.nstr(s.location, 6)} seen only by {f[0]}: it lies "
+                            f"inside the radius {mpmath.nstr(max(bounds), 6)} implied by the growth of the "
+                            "coefficients")
+    return kept
+
+
 def _reconcile(series, results, warnings):
     ok = {k: r for k, r in results.items() if r.success}
     growth = "finite radius"
@@ -321,6 +341,7 @@ def _reconcile(series, results, warnings):
     for g in groups:
         s, found_by = _combine_group(g, warnings)
         combined.append((s, found_by))
+    combined = _drop_inside_growth_radius(combined, ok, warnings)
     # leading singularities: those within 10 % of the nearest (both members of a pair,
     # a competing point on the other side), then anything found by two methods or more
     rmin = min(abs(s.location) for s, _ in combined)
