@@ -405,8 +405,8 @@ def plot_value_errors(records, x=None, ax=None, at=None):
     return _finish(ax, x, "resummed - truth")
 
 
-_STRONG_KINDS = (("resummed", "from the resummed series", "o"),
-                 ("truth", "from the finite-coupling values", "D"))
+_STRONG_KINDS = (("resummed", "from the resummed series", "o", "C0"),
+                 ("truth", "from the finite-coupling values", "D", "C1"))
 
 
 def _rel_digits(v, t=None):
@@ -470,13 +470,14 @@ def plot_value_digits(records, x=None, ax=None, at=None):
     return _finish(ax, x, "digits (relative)")
 
 
-def strong_keys(records) -> list:
-    """Fitted strong-coupling coefficients found in the records (labels such
-    as ``"g^1"``, ``"g^0"``), leading power last if it was estimated."""
+def strong_keys(records, max_terms: int = 3) -> list:
+    """The ``max_terms`` leading fitted strong-coupling coefficients found in
+    the records (labels such as ``"g^1"``, ``"g^0"``), and the leading power
+    last if it was estimated."""
     keys, power = [], False
     for r in records:
         t = _task(r, "strong") or {}
-        for kind, _, _ in _STRONG_KINDS:
+        for kind, _, _, _ in _STRONG_KINDS:
             d = t.get(kind) or {}
             for k, v in (d.get("coefficients") or {}).items():
                 if _band(v) is not None and k not in keys:
@@ -491,7 +492,7 @@ def strong_keys(records) -> list:
         except (IndexError, ValueError):
             return 0, True
     keys.sort(key=order)
-    return keys + (["leading_power"] if power else [])
+    return keys[:max_terms] + (["leading_power"] if power else [])
 
 
 def plot_strong(records, key, x=None, ax=None):
@@ -500,7 +501,7 @@ def plot_strong(records, key, x=None, ax=None):
     source's finite-coupling values (open)."""
     x = family_x(records, x)
     ax = _ax(ax)
-    for kind, label, mk in _STRONG_KINDS:
+    for kind, label, mk, colour in _STRONG_KINDS:
         def get(r, kind=kind):
             d = (_task(r, "strong") or {}).get(kind)
             if d is None:
@@ -509,8 +510,9 @@ def plot_strong(records, key, x=None, ax=None):
                 return MISS
             if key == "leading_power":
                 return _or_miss(_band(d.get("leading_power")))
-            return _or_miss(_band((d.get("coefficients") or {}).get(key)))
-        _draw(ax, _series(records, x, get, "strong"), label, mk)
+            co = d.get("coefficients") or {}
+            return _band(co[key]) if key in co else None     # absent: that form had no such term
+        _draw(ax, _series(records, x, get, "strong"), label, mk, color=colour)
     return _finish(ax, x, "leading power" if key == "leading_power" else f"coefficient of {key}")
 
 
@@ -541,7 +543,9 @@ def write_family_plots(records, outdir, x=None, title="") -> list:
     def save(fig, name):
         if title:
             fig.suptitle(title, fontsize=11)
-        fig.tight_layout()
+            fig.tight_layout(rect=(0, 0, 1, 0.97))
+        else:
+            fig.tight_layout()
         for ext in ("png", "pdf"):
             p = outdir / f"{name}.{ext}"
             fig.savefig(p, dpi=130)
