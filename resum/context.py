@@ -23,7 +23,7 @@ from dataclasses import dataclass, replace
 import mpmath
 from mpmath import mpf, mpc, nstr  # re-exported for convenience  # noqa: F401
 
-__all__ = ["Context", "DEFAULT", "workdps", "bits_for", "mpf", "mpc", "nstr"]
+__all__ = ["Context", "DEFAULT", "workdps", "workprec", "bits_for", "mpf", "mpc", "nstr"]
 
 DEFAULT_DPS = 30
 DEFAULT_GUARD = 15
@@ -85,6 +85,17 @@ def workdps(dps: int):
     """Set mpmath's working precision to ``dps`` digits for a block, then restore it."""
     old = mpmath.mp.prec
     mpmath.mp.dps = int(dps)
+    try:
+        yield
+    finally:
+        mpmath.mp.prec = old
+
+
+@contextlib.contextmanager
+def workprec(prec: int):
+    """Set mpmath's working precision to ``prec`` bits for a block, then restore it."""
+    old = mpmath.mp.prec
+    mpmath.mp.prec = int(prec)
     try:
         yield
     finally:

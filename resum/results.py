@@ -32,6 +32,7 @@ import mpmath
 from mpmath import mpf
 
 from ._version import __version__
+from .context import workdps, workprec
 
 __all__ = [
     "Estimate", "Status", "Singularity", "Provenance", "MethodResult",
@@ -184,14 +185,21 @@ class Estimate:
     def exact(cls, value) -> "Estimate":
         return cls(value, value, value)
 
+    def _prec(self):
+        """Bits that hold value, lower and upper and their differences exactly enough,
+        whatever mpmath's working precision is at the time of the call."""
+        return _span_prec(self.value, self.lower, self.upper)
+
     @property
     def error(self):
         """Half-width that encloses the band symmetrically."""
-        return max(self.upper - self.value, self.value - self.lower)
+        with workprec(self._prec()):
+            return max(self.upper - self.value, self.value - self.lower)
 
     @property
     def width(self):
-        return self.upper - self.lower
+        with workprec(self._prec()):
+            return self.upper - self.lower
 
     def contains(self, x) -> bool:
         x = _real(x)
@@ -199,26 +207,31 @@ class Estimate:
 
     def digits(self) -> float:
         """Significant decimal digits supported by the band (relative)."""
-        if self.error == 0:
+        err = self.error
+        if err == 0:
             return math.inf
         if self.value == 0:
             return 0.0
-        return max(0.0, float(-mpmath.log10(self.error / abs(self.value))))
+        return max(0.0, float(-mpmath.log10(err / abs(self.value))))
 
     def __str__(self):
-        return format_value_error(self.value, self.lower, self.upper)
+        with workprec(self._prec()):
+            return format_value_error(self.value, self.lower, self.upper)
 
     def __float__(self):
         return float(self.value)
 
     def to_dict(self) -> dict:
-        dps = _dps_for_band(self)
-        return {"value": num_to_str(self.value, dps), "lo": num_to_str(self.lower, dps),
-                "hi": num_to_str(self.upper, dps)}
+        with workprec(self._prec()):
+            dps = _dps_for_band(self)
+            return {"value": num_to_str(self.value, dps), "lo": num_to_str(self.lower, dps),
+                    "hi": num_to_str(self.upper, dps)}
 
     @classmethod
     def from_dict(cls, d: dict) -> "Estimate":
-        return cls(mpf(d["value"]), mpf(d["lo"]), mpf(d["hi"]))
+        texts = [str(d[k]) for k in ("value", "lo", "hi")]
+        with workdps(max(len(t) for t in texts) + 10):
+            return cls(*(mpf(t) for t in texts))
 
 
 def _real(x):
@@ -229,12 +242,26 @@ def _real(x):
     return mpf(x)
 
 
+def _span_prec(*xs) -> int:
+    """Precision (bits) at which the given mpf and their differences are represented exactly."""
+    tops, bottoms = [], []
+    for x in xs:
+        if not isinstance(x, mpmath.mpf) or not mpmath.isfinite(x) or x == 0:
+            continue
+        sign, man, exp, bc = x._mpf_
+        tops.append(exp + bc)
+        bottoms.append(exp)
+    if not tops:
+        return mpmath.mp.prec
+    return int(min(max(mpmath.mp.prec, max(tops) - min(bottoms) + 20), 200000))
+
+
 def _dps_for_band(e: Estimate) -> int:
     """Digits to write: those supported by the band plus three guard digits."""
     if e.error == 0 or e.value == 0:
         return max(3, int(mpmath.mp.dps))
     d = e.digits()
-    return int(min(max(d + 3, 3), mpmath.mp.dps + 5))
+    return int(min(max(d + 3, 3), int(e._prec() * 0.30103) + 5))
 
 
 # ----------------------------------------------------------------------------
