@@ -203,6 +203,8 @@ def pade_coeffs(c, L: int, M: int, dps: int):
         r = pade(cm, L, M, dps, input_digits=dps + 10)
     except (ArithmeticError, ValueError):
         return None
+    except Exception:  # noqa: BLE001 -- an internal kernel failure: use the direct solve instead
+        return _pade_by_solve(c, L, M, dps)
     if r.diagnostics.get("note") == "zero approximant":
         return None
     if r.defect > 0 and r.method in ("svd", "exact"):
@@ -211,4 +213,23 @@ def pade_coeffs(c, L: int, M: int, dps: int):
     with workdps(dps + 10):
         p = [mpmath.mpmathify(a) for a in r.p] + [mpmath.mpf(0)] * (L + 1 - len(r.p))
         q = [mpmath.mpmathify(b) for b in r.q] + [mpmath.mpf(0)] * (M + 1 - len(r.q))
+    return p, q, err
+
+
+def _pade_by_solve(c, L: int, M: int, dps: int):
+    """[L/M] from the Toeplitz system solved in ball arithmetic (fallback path)."""
+    cc = lambda k: c[k] if k >= 0 else 0  # noqa: E731
+    if M == 0:
+        q = [mpmath.mpf(1)]
+        err = 0.0
+    else:
+        rows = [[cc(L + i - j) for j in range(1, M + 1)] for i in range(1, M + 1)]
+        rhs = [-cc(L + i) for i in range(1, M + 1)]
+        sol = solve(rows, rhs, dps)
+        if sol is None:
+            return None
+        qs, err = sol
+        q = [mpmath.mpf(1)] + qs
+    with workdps(dps + 10):
+        p = [sum(q[j] * cc(k - j) for j in range(0, min(k, M) + 1)) for k in range(L + 1)]
     return p, q, err
