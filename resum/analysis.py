@@ -509,6 +509,9 @@ def _analyze(series, ctx, names, verify, prep):
         used |= {v for v in base["combined"].values() if isinstance(v, str)}
         contributing = [k for k, r in results.items() if r.success and k in used] or \
             [k for k, r in results.items() if r.success]
+        # the growth-rate bounds (cheap) always rerun: they screen points inside the radius
+        contributing += [k for k in ("root-test", "ratio")
+                         if k in results and results[k].success and k not in contributing]
         final_v, verification = _verify(series, ctx, contributing, base, warnings)
         final.update(final_v)
     growth = base["growth"]
