@@ -13,7 +13,7 @@ is returned and the last term is the error estimate.
 ...     c = [(-1) ** n * mpmath.factorial(n) for n in range(30)]     # Euler series
 ...     t = optimal_truncation(c, mpmath.mpf('0.1'), 30)
 >>> t["n_terms"], mpmath.nstr(t["value"].value, 8)
-(10, '0.9154563')
+(10, '0.91545632')
 """
 from __future__ import annotations
 
