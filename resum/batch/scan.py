@@ -9,7 +9,7 @@ In Python::
 from __future__ import annotations
 
 from dataclasses import dataclass, field
-from typing import Optional
+
 
 from .progress import Progress
 from .records import RunFolder

@@ -61,7 +61,7 @@ import math
 import re
 from dataclasses import dataclass, field
 from fractions import Fraction
-from typing import Any, Mapping, Optional, Sequence
+from typing import Mapping, Optional
 
 import mpmath
 

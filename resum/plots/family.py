@@ -285,7 +285,7 @@ def plot_band_digits(records, x=None, ax=None):
             if b is None or b is MISS:
                 return b
             e = raw(r)
-            with mpmath.workdps(max(30, len(str(e.get("value", ""))) + 5)):
+            with mpmath.workdps(max(60, *(len(str(e.get(k, ""))) + 10 for k in ("value", "lo", "hi")))):
                 v, lo, hi = (mpmath.mpf(str(e[k])) for k in ("value", "lo", "hi"))
                 err = max(hi - v, v - lo)
                 if err > 0 and v != 0:
@@ -413,7 +413,8 @@ def _rel_digits(v, t=None):
     """-log10 of the relative band of ``v`` (``t`` None) or of |v - t|/|t|,
     computed from the decimal strings at high precision."""
     import mpmath
-    with mpmath.workdps(80):
+    longest = max(len(str(d.get(k, ""))) for d in (v, t or v) for k in ("value", "lo", "hi"))
+    with mpmath.workdps(max(80, longest + 10)):
         try:
             val = mpmath.mpf(str(v["value"]))
             if t is None:
