@@ -49,3 +49,26 @@ def table(rows, head):
     print("-" * len(line))
     for r in rows:
         print("  ".join(str(c).ljust(w) for c, w in zip(r, widths)))
+
+
+def _ulp_of_text(s: str):
+    """One unit in the last written decimal place of ``s`` (as an mpf)."""
+    import mpmath
+    s = str(s).strip().lower()
+    mant, _, exp = s.partition("e")
+    dec = len(mant.split(".", 1)[1]) if "." in mant else 0
+    return mpmath.mpf(10) ** (-dec + (int(exp) if exp else 0))
+
+
+def bands_overlap(a: dict, b: dict) -> bool:
+    """True when two recorded bands ``{"value", "lo", "hi"}`` overlap, each end
+    widened by one unit in its last written digit (the records round their
+    decimals to the digits the band supports plus guard digits)."""
+    import mpmath
+    with mpmath.workdps(80):
+        def ends(d):
+            v = d["value"]
+            lo, hi = d.get("lo", v), d.get("hi", v)
+            return (mpmath.mpf(lo) - _ulp_of_text(lo), mpmath.mpf(hi) + _ulp_of_text(hi))
+        (alo, ahi), (blo, bhi) = ends(a), ends(b)
+        return bool(alo <= bhi and blo <= ahi)

@@ -15,7 +15,7 @@ sys.path.insert(0, str(HERE.parents[1]))          # run from a checkout
 
 import mpmath  # noqa: E402
 
-from resum.batch.studyrun import est, run_study, table  # noqa: E402
+from resum.batch.studyrun import bands_overlap, est, run_study, table  # noqa: E402
 
 
 def references(a):
@@ -50,9 +50,8 @@ def main():
                 if ok:
                     tv = mpmath.mpf(t["value"])
                     lo, hi = mpmath.mpf(v["lo"]), mpmath.mpf(v["hi"])
-                    tlo, thi = mpmath.mpf(t.get("lo", tv)), mpmath.mpf(t.get("hi", tv))
                     # the two bands overlap: resummation and evaluator agree
-                    inside = "yes" if lo <= thi and tlo <= hi else "NO"
+                    inside = "yes" if bands_overlap(v, t) else "NO"
                     w = max(hi - mpmath.mpf(v["value"]), mpmath.mpf(v["value"]) - lo)
                     digits = f"{float(-mpmath.log10(w / abs(tv))):.1f}" if w > 0 else "all"
                     if inside == "yes" and w < abs(tv) / 1000:
