@@ -51,6 +51,11 @@ class RunFolder:
         Raises InputError when ``DIR`` holds a run of a different spec, or
         holds records of this one and ``resume`` is False.
         """
+        self.check(spec, resume)
+        self._create(spec)
+
+    def check(self, spec: FamilySpec, resume: bool = False) -> None:
+        """The checks of :meth:`prepare`, writing nothing."""
         meta_path = self.path / "run.json"
         if self.path.exists() and not self.path.is_dir():
             raise InputError("exists and is not a folder; choose another -o", where=str(self.path))
@@ -72,6 +77,9 @@ class RunFolder:
         elif self.path.exists() and any(self.path.iterdir()):
             raise InputError("is not empty and holds no resum run; choose a new -o folder",
                              where=str(self.path))
+
+    def _create(self, spec: FamilySpec) -> None:
+        meta_path = self.path / "run.json"
         self.points.mkdir(parents=True, exist_ok=True)
         for tmp in self.points.glob(".*.tmp"):
             try:

@@ -186,13 +186,33 @@ class DaskRunner:
                                    dashboard_address=None, silence_logs=40)
             return Client(cluster), cluster
         try:
-            return Client(self.address, timeout="20s"), None
-        except (OSError, TimeoutError) as exc:
-            raise InputError(f"cannot reach the dask scheduler at {self.address}: {exc}") from None
+            return Client(self.address, timeout="10s"), None
+        except Exception as exc:   # OSError, TimeoutError, ValueError for a malformed address
+            msg = f"{type(exc).__name__}: {exc}".splitlines()[0]
+            raise InputError(f"cannot reach the dask scheduler at {self.address} ({msg}); start "
+                             "it with 'dask scheduler' or use --cluster local:N") from None
+
+    def prepare(self) -> None:
+        """Connect (or start the local cluster) before any file is written, so
+        that an unreachable scheduler is an input error with nothing left behind."""
+        if getattr(self, "_conn", None) is None:
+            self._conn = self._client()
+
+    def close(self) -> None:
+        """Disconnect (and stop a local cluster) if :meth:`prepare` connected and
+        :meth:`run` was not called."""
+        conn, self._conn = getattr(self, "_conn", None), None
+        if conn is not None:
+            client, cluster = conn
+            client.close()
+            if cluster is not None:
+                cluster.close()
 
     def run(self, spec, indices: Sequence[int], on_start: Callable, on_record: Callable) -> None:
         from distributed import as_completed
-        client, cluster = self._client()
+        self.prepare()
+        client, cluster = self._conn
+        self._conn = None
         try:
             if not self.jobs:
                 self.jobs = max(1, sum(w.get("nthreads", 1) for w in

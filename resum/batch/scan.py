@@ -86,8 +86,18 @@ def run_family(spec: FamilySpec, outdir, runner=None, resume: bool = False,
     """
     runner = runner or SerialRunner()
     folder = RunFolder(outdir)
-    folder.prepare(spec, resume=resume or retry_failed)
-    todo, skipped = plan(spec, folder, retry_failed=retry_failed)
+    folder.check(spec, resume=resume or retry_failed)
+    if hasattr(runner, "prepare"):
+        runner.prepare()          # e.g. reach the cluster before writing anything
+    try:
+        folder.prepare(spec, resume=resume or retry_failed)
+        todo, skipped = plan(spec, folder, retry_failed=retry_failed)
+    except BaseException:
+        if hasattr(runner, "close"):
+            runner.close()
+        raise
+    if not todo and hasattr(runner, "close"):
+        runner.close()
     prog = Progress(spec.n_points, label=spec.name, stream=stream, quiet=quiet,
                     skipped=len(skipped))
     running = set()
