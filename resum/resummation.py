@@ -49,8 +49,8 @@ widened to cover the reruns. It is an estimate of the error, not a proof.
 from __future__ import annotations
 
 import time
-from dataclasses import dataclass, field, replace
-from typing import Any, Optional, Sequence
+from dataclasses import dataclass, field
+from typing import Any, Optional
 
 import mpmath
 
@@ -58,9 +58,9 @@ from .context import DEFAULT, Context
 from .errors import InputError
 from .results import Estimate, Provenance, Status, num_to_str, jsonable
 from .series.core import Series
-from .estimators.resum_band import PointOutcome, rational_fit
+from .estimators.resum_band import rational_fit
 from .estimators.resum_truncation import optimal_truncation
-from .transforms.conformal import ArcMap, ConformalMap, RayMap, choose_map
+from .transforms.conformal import ConformalMap, RayMap, choose_map
 
 __all__ = ["METHODS", "evaluate", "EvaluationResult", "PointResult", "Baseline",
            "probe_strong_coupling", "parse_points"]

@@ -38,7 +38,6 @@ from typing import Sequence
 import mpmath
 
 from ..transforms.conformal import ConformalMap, pull_back, rim_factor
-from ..transforms._arb import compose_series  # noqa: F401  (kept for callers)
 from .resum_band import PointOutcome
 from .resum_pade import pade_evaluate
 
