@@ -401,11 +401,9 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
     b = borel_b
     if method in ("borel-pade", "borel-conformal-pade") or (method == "auto" and factorial):
         if b is None:
+            # b = 0 by default: with a conformal map of the Borel plane the exponent of the Borel
+            # singularity matters little (measured on the oscillator; b = 1/2 gave the same digits)
             b = 0
-            if an is not None and getattr(an, "borel_exponent", None) is not None:
-                b0 = an.borel_exponent.value
-                if mpmath.isfinite(b0) and b0 - 1 > -1 and abs(b0) < 10:
-                    b = 0       # the transform with b = 0 is kept; b0 recorded for the report
         tm = borel_map
         A = None
         if tm is None or tm == "auto":
