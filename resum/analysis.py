@@ -293,20 +293,20 @@ def _combine_group(g, warnings):
 
 
 def _drop_inside_growth_radius(combined, ok, warnings):
-    """Drop points seen by one method only that sit well inside the radius the growth of the
-    coefficients implies (root test, ratios): a singularity there would make the coefficients
-    grow faster than they do. Kept if nothing better supported remains."""
+    """Drop points that sit well inside the radius the growth of the coefficients implies
+    (root test, ratios): a singularity there would make the coefficients grow faster than
+    they do. Kept if nothing else remains."""
     bounds = [ok[k].radius.lower for k in ("root-test", "ratio")
               if k in ok and ok[k].radius is not None and mpmath.isfinite(ok[k].radius.lower)]
     if not bounds or len(combined) < 2:
         return combined
-    floor = max(bounds) * mpmath.mpf("0.9")
-    kept = [(s, f) for s, f in combined if not (len(f) == 1 and abs(s.location) + _err(s) < floor)]
+    floor = max(bounds) * mpmath.mpf("0.97")   # 3 % inside: c_n would grow (1.03)^n faster
+    kept = [(s, f) for s, f in combined if not abs(s.location) + _err(s) < floor]
     if not kept:
         return combined
     for s, f in combined:
         if (s, f) not in kept:
-            warnings.append(f"discarded a point at {mpmath.nstr(s.location, 6)} seen only by {f[0]}: it lies "
+            warnings.append(f"discarded a point at {mpmath.nstr(s.location, 6)} seen by {', '.join(f)}: it lies "
                             f"inside the radius {mpmath.nstr(max(bounds), 6)} implied by the growth of the "
                             "coefficients")
     return kept
