@@ -18,6 +18,7 @@ COMMANDS = {
     "tour": "tour",
     "analyze": "analyze",
     "evaluate": "evaluate",
+    "strong": "strong",
     "generate": "generate",
     "scan": "family",
 }

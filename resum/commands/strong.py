@@ -1,0 +1,86 @@
+"""``resum strong FILE``: strong-coupling probe of a resummed series.
+
+Resums the series at growing coupling, finds the leading power from the
+log-derivative (or takes ``--power``), fits the asymptotic form
+``a_p g^p + a_(p-1) g^(p-1) + ...`` over an ensemble of fits, and reports each
+coefficient with a band and the largest coupling whose resummed band was
+trusted. With ``--expect`` the fitted coefficients are compared with values the
+user supplies.
+"""
+from __future__ import annotations
+
+import json
+
+from ..errors import InputError
+from ..series.expr import evaluate_expression
+from ._common import add_common_options, emit_json, load_series, log
+
+HELP = "strong-coupling probe: fit the asymptotic form of the resummed function, with bands"
+DESCRIPTION = __doc__.split("\n\n", 1)[1].strip()
+
+
+def add_arguments(parser) -> None:
+    parser.add_argument("file", metavar="FILE", help="series file (JSON, CSV or text)")
+    parser.add_argument("--at", action="append", default=None, metavar="G",
+                        help="coupling to resum at (repeat; default: a geometric ladder beyond "
+                             "the nearest singularity)")
+    parser.add_argument("--power", default=None, metavar="P",
+                        help="leading power p in f ~ a g^p (default: estimated from x f'/f)")
+    parser.add_argument("--logs", action="store_true", help="also fit g^(p-k) log g terms")
+    parser.add_argument("--expect", action="append", default=[], metavar="LABEL=VALUE",
+                        help="expected coefficient to compare with, e.g. 'g^1=2' or "
+                             "'g^0=-3*log(2)/(2*pi)' (repeat)")
+    parser.add_argument("--method", default="auto", help="resummation method (as in evaluate)")
+    add_common_options(parser)
+
+
+def _number(text, dps, where):
+    try:
+        v = evaluate_expression(text, dps)
+    except InputError as e:
+        raise e.at(where) from None
+    return v.value
+
+
+def run(args) -> int:
+    from ..estimators.strong_coupling import probe_strong_coupling
+    series, ctx = load_series(args.file, args.dps)
+    couplings = None if not args.at else [_number(t, ctx.work_dps, "--at") for t in args.at]
+    power = None if args.power is None else _number(args.power, ctx.work_dps, "--power")
+    expected = {}
+    for item in args.expect:
+        label, sep, value = item.partition("=")
+        if not sep or not label.strip():
+            raise InputError(f"write --expect as LABEL=VALUE (e.g. g^1=2), got {item!r}", where="--expect")
+        expected[label.strip()] = _number(value, ctx.work_dps, f"--expect {label.strip()}")
+    if not args.json:
+        log(f"probing {series.name or args.file} at growing coupling ({ctx.dps} digits)")
+    res = probe_strong_coupling(series, couplings, ctx, method=args.method, leading_power=power,
+                                log_terms=args.logs, expected=expected or None)
+    if args.json:
+        emit_json(res.to_dict())
+    else:
+        print(_render(res))
+    return 0 if res.success else 1
+
+
+def _render(res) -> str:
+    lines = [f"Strong-coupling probe in {res.variable}: {res.status.value}"
+             + (f" ({res.message})" if res.message else "")]
+    if res.leading_power is not None:
+        lines.append(f"leading power p = {res.leading_power}   ({res.power_source})")
+    if res.trusted_up_to is not None:
+        lines.append(f"resummed values trusted up to {res.variable} = {res.trusted_up_to}")
+    if res.coefficients:
+        lines.append("fitted form f ~ sum of terms, coefficient with band:")
+        for label, e in res.coefficients:
+            cmp = res.comparison.get(label)
+            tail = ""
+            if cmp:
+                tail = f"   expected {cmp.get('expected')}: {'inside' if cmp.get('inside') else 'OUTSIDE'} the band"
+            lines.append(f"  {label:>14}  {e}{tail}")
+    for w in res.warnings:
+        lines.append(f"warning: {w}")
+    lines.append("The bands come from the spread over an ensemble of fits (numbers of terms and "
+                 "fit windows) and the bands of the resummed values; they are estimates, not proofs.")
+    return "\n".join(lines)

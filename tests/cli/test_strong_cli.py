@@ -1,0 +1,30 @@
+"""`resum strong`: the fitted strong-coupling coefficients of F_0(g) = (2/pi^2) log cosh(2 pi g)
+(closed form at angle 0: Belitsky and Korchemsky, arXiv:1907.13131, normalisation from memory;
+the sources tests check it order by order) are 4/pi and -2 log 2/pi^2."""
+import json
+
+import mpmath
+
+from resum.cli import main
+from resum.context import workdps
+
+
+def test_strong_json_recovers_closed_form(tmp_path, capsys):
+    f = tmp_path / "a0.json"
+    assert main(["generate", "bes", "--angle", "0", "--loops", "80", "--dps", "50", "-o", str(f)]) == 0
+    capsys.readouterr()
+    code = main(["strong", str(f), "--json", "--expect", "g^1=4/pi"])
+    doc = json.loads(capsys.readouterr().out)
+    assert code == 0 and doc["success"]
+    coef = dict((k, v) for k, v in doc["coefficients"])
+    with workdps(30):
+        for label, truth, width in (("g^1", 4 / mpmath.pi, 1e-3), ("g^0", -2 * mpmath.log(2) / mpmath.pi ** 2, 0.05)):
+            lo, hi = mpmath.mpf(coef[label]["lo"]), mpmath.mpf(coef[label]["hi"])
+            assert lo <= truth <= hi and hi - lo < width
+
+
+def test_strong_bad_expect_is_input_error(tmp_path, capsys):
+    f = tmp_path / "s.txt"
+    f.write_text("\n".join(str((-1) ** k) for k in range(20)) + "\n")
+    assert main(["strong", str(f), "--expect", "nonsense"]) == 2
+    assert "LABEL=VALUE" in capsys.readouterr().err
