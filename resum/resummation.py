@@ -622,7 +622,11 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                         continue
                     dev = abs(oc.re.value - re.value)
                     agree[name] = mpmath.nstr(dev, 5)
-                    tol = 100 * max(re.error + oc.re.error, abs(re.value) * mpmath.mpf(10) ** (3 - wd))
+                    # the input's own digits limit agreement too: a perturbation in the last
+                    # digit of the coefficients may move the value by that much
+                    d_in = ctx.dps if series.digits is None else min(ctx.dps, series.digits)
+                    tol = 100 * max(re.error + oc.re.error, abs(re.value) * mpmath.mpf(10) ** (3 - wd),
+                                    abs(re.value) * mpmath.mpf(10) ** (-d_in))
                     if dev > tol:
                         if name == "higher precision":
                             status, success = Status.UNSTABLE_PRECISION, False
