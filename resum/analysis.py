@@ -48,11 +48,9 @@ import mpmath
 from ._version import __version__
 from .context import DEFAULT, Context
 from .errors import InputError
-from .estimators import METHODS, get_method, validate_methods
+from .estimators import METHODS, get_method, validate_methods  # METHODS: re-exported registry
 from .estimators._common import MIN_TERMS, classify_kind, prepare
-from .estimators.ratio import classify_growth
-from .results import (Estimate, MethodResult, Provenance, Singularity, Status, _jsonable,
-                      num_to_str)
+from .results import (Estimate, MethodResult, Provenance, Singularity, Status, _jsonable)
 from .uncertainty.ensemble import SAFETY, digits_agree, modulus_band
 
 __all__ = ["AnalysisResult", "analyze", "default_context"]

@@ -11,7 +11,7 @@ from resum.context import Context, workdps
 from resum.errors import InputError
 from resum.series import Series
 
-from tests.estimators.refs import (binomial_power, catalan, complex_pair, euler_series, lattice,
+from tests.estimators.refs import (binomial_power, catalan, complex_pair, lattice,
                                    log1p_series, quartic_oscillator, two_singularities)
 
 

@@ -1,10 +1,8 @@
 """`resum analyze` in process: text report, JSON contract, plots, exit codes."""
 import json
-import math
 from fractions import Fraction
 
 import mpmath
-import pytest
 
 from resum import Series
 from resum.analysis import AnalysisResult, analyze

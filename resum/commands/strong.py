@@ -9,7 +9,6 @@ user supplies.
 """
 from __future__ import annotations
 
-import json
 
 from ..errors import InputError
 from ..series.expr import evaluate_expression

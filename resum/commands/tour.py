@@ -19,7 +19,7 @@ import mpmath
 
 from ..context import Context
 from ..errors import InputError
-from ..results import jsonable, num_to_str
+from ..results import jsonable
 from ..series.io import atomic_write_text, write_series
 from ._common import log
 

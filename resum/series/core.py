@@ -20,7 +20,7 @@ import json
 import numbers
 from dataclasses import dataclass, field, replace
 from fractions import Fraction
-from typing import Mapping, Optional, Sequence
+from typing import Mapping, Optional
 
 import mpmath
 

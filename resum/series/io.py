@@ -49,7 +49,6 @@ from fractions import Fraction
 from pathlib import Path
 from typing import Optional
 
-import mpmath
 
 from ..context import DEFAULT, Context
 from ..errors import InputError

@@ -107,20 +107,6 @@ class TaylorResult:
     diagnostics: dict = field(default_factory=dict)
 
     def to_dict(self) -> dict:
-        # Estimate.to_dict writes at most the current mpmath digits + 5: work at enough
-        # digits for every band this result holds
-        with workdps(self._digits_needed()):
-            return self._to_dict()
-
-    def _digits_needed(self) -> int:
-        ests = [e for e in vars(self).values() if isinstance(e, Estimate)]
-        for v in vars(self).values():
-            if isinstance(v, tuple):
-                ests += [e for e in v if isinstance(e, Estimate)]
-        d = [e.digits() for e in ests if e.digits() != math.inf]
-        return int(max(d, default=30)) + 15
-
-    def _to_dict(self) -> dict:
         from ..results import jsonable
         return {"success": self.success, "status": self.status.value, "message": self.message,
                 "coefficients": [c.to_dict() for c in self.coefficients],

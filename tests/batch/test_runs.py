@@ -5,7 +5,6 @@ radius is R and whose sum is known in closed form (common practice, no
 source); mpmath evaluates the closed form for the checks.
 """
 import json
-import os
 import signal
 import subprocess
 import sys
