@@ -239,8 +239,7 @@ def series_from_dict(doc: dict, ctx: Optional[Context] = None, where: str = "") 
         coeffs.append(v)
         digs.append(d)
     s = _build(coeffs, digs, doc, lambda key: _w(where, key or "coefficients"), ctx)
-    _keep_where(s, digs, lambda i: _w(where, f"coefficients[{i}]"))
-    return s
+    return _keep_where(s, digs, lambda i: _w(where, f"coefficients[{i}]"))
 
 
 class _JsonFloat(str):
@@ -251,18 +250,21 @@ def _w(where, key):
     return f"{where}: {key}" if where else key
 
 
-_WHERE_LEAST = {}
+_WHERE_KEY = "least_precise_at"      # provenance key; not written back to files
 
 
 def _keep_where(series, digs, loc):
+    """The series with the place of its least precise coefficient noted in its provenance."""
     i = _least_precise(digs)
-    if i is not None:
-        _WHERE_LEAST[id(series)] = loc(i)
+    if i is None:
+        return series
+    return Series(series.coefficients, series.variable, series.start, series.digits, series.coupling,
+                  series.name, series.description, {**series.provenance, _WHERE_KEY: loc(i)})
 
 
 def least_precise_location(series) -> Optional[str]:
-    """Where the least precise coefficient of a freshly read series sits (file and line/field)."""
-    return _WHERE_LEAST.get(id(series))
+    """Where the least precise coefficient of a series read from a file sits (file and line/field)."""
+    return series.provenance.get(_WHERE_KEY)
 
 
 def _read_text_file(path: Path) -> str:
@@ -308,8 +310,6 @@ def read_series(path, ctx: Optional[Context] = None, fmt: Optional[str] = None) 
     prov.setdefault("file", path.name)
     out = Series(s.coefficients, s.variable, s.start, s.digits, s.coupling, s.name or path.stem,
                  s.description, prov)
-    if id(s) in _WHERE_LEAST:
-        _WHERE_LEAST[id(out)] = _WHERE_LEAST.pop(id(s))
     return out
 
 
@@ -364,8 +364,7 @@ def _read_plain(text, fname, ctx):
         digs.append(d)
         lines.append(lineno)
     s = _build(coeffs, digs, meta, lambda key: fname if key is None else f"{fname}: {key}", ctx)
-    _keep_where(s, digs, lambda i: f"{fname}: line {lines[i]}")
-    return s
+    return _keep_where(s, digs, lambda i: f"{fname}: line {lines[i]}")
 
 
 def _read_csv(text, fname, ctx):
@@ -417,8 +416,7 @@ def _read_csv(text, fname, ctx):
         digs[order - start] = d
         lines[order - start] = lineno
     s = _build(coeffs, digs, meta, lambda key: fname if key is None else f"{fname}: {key}", ctx)
-    _keep_where(s, digs, lambda i: f"{fname}: line {lines[i]}")
-    return s
+    return _keep_where(s, digs, lambda i: f"{fname}: line {lines[i]}")
 
 
 # ---------------------------------------------------------------- writers
@@ -443,7 +441,7 @@ def series_to_dict(series: Series) -> dict:
         d["coupling"] = series.coupling.describe(series.variable)
     if series.digits is not None:
         d["digits"] = series.digits
-    prov = {k: v for k, v in series.provenance.items() if k != "metadata"}
+    prov = {k: v for k, v in series.provenance.items() if k not in ("metadata", _WHERE_KEY)}
     if prov:
         from ..results import jsonable
         d["provenance"] = jsonable(prov)
