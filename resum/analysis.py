@@ -48,7 +48,7 @@ import mpmath
 from ._version import __version__
 from .context import DEFAULT, Context
 from .errors import InputError
-from .estimators import METHODS, get_method, validate_methods  # METHODS: re-exported registry
+from .estimators import METHODS, get_method, validate_methods  # noqa: F401  (METHODS re-exported)
 from .estimators._common import MIN_TERMS, classify_kind, prepare
 from .results import (Estimate, MethodResult, Provenance, Singularity, Status, _jsonable)
 from .uncertainty.ensemble import SAFETY, digits_agree, modulus_band

@@ -242,6 +242,20 @@ def _real(x):
     return mpf(x)
 
 
+def longest_number(obj) -> int:
+    """Most digits in any decimal string inside a JSON-like object (at least 15)."""
+    best = 15
+    if isinstance(obj, dict):
+        for v in obj.values():
+            best = max(best, longest_number(v))
+    elif isinstance(obj, (list, tuple)):
+        for v in obj:
+            best = max(best, longest_number(v))
+    elif isinstance(obj, str):
+        best = max(best, sum(ch.isdigit() for ch in obj))
+    return best
+
+
 def _span_prec(*xs) -> int:
     """Precision (bits) at which the given mpf and their differences are represented exactly."""
     tops, bottoms = [], []

@@ -62,6 +62,7 @@ import numpy as np
 from ..context import DEFAULT, Context, bits_for, workdps
 from ..errors import InputError
 from ..results import Estimate, Provenance, Status, num_to_str
+from ..results import longest_number
 from ..series.core import Coupling, Series
 from ._arb import acb_from_mpc, arb_from_mpf, arb_rad_to_mpf, arb_to_mpf, flint_prec
 
@@ -610,7 +611,7 @@ class FiniteCouplingResult:
     @classmethod
     def from_dict(cls, d: dict) -> "FiniteCouplingResult":
         # parse the decimal strings at as many digits as they carry
-        with workdps(_longest_number(d) + 10):
+        with workdps(longest_number(d) + 10):
             return cls._from_dict(d)
 
     @classmethod
@@ -1091,16 +1092,3 @@ def cusp_strong_coupling(g, ctx: Optional[Context] = None):
         g = mpmath.mpmathify(g)
         return 2 * g - 3 * mpmath.log(2) / (2 * mpmath.pi) - mpmath.catalan / (8 * mpmath.pi ** 2 * g)
 
-
-def _longest_number(obj) -> int:
-    """Most digits in any decimal string inside a JSON-like object (at least 15)."""
-    best = 15
-    if isinstance(obj, dict):
-        for v in obj.values():
-            best = max(best, _longest_number(v))
-    elif isinstance(obj, (list, tuple)):
-        for v in obj:
-            best = max(best, _longest_number(v))
-    elif isinstance(obj, str):
-        best = max(best, sum(ch.isdigit() for ch in obj))
-    return best

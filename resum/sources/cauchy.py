@@ -34,6 +34,7 @@ import mpmath
 from ..context import DEFAULT, Context, workdps
 from ..errors import InputError
 from ..results import Estimate, Status, num_to_str
+from ..results import longest_number
 from ..series.core import Series
 
 __all__ = ["taylor_coefficients", "TaylorResult", "fft"]
@@ -118,7 +119,7 @@ class TaylorResult:
     @classmethod
     def from_dict(cls, d: dict) -> "TaylorResult":
         # parse the decimal strings at as many digits as they carry
-        with workdps(_longest_number(d) + 10):
+        with workdps(longest_number(d) + 10):
             return cls._from_dict(d)
 
     @classmethod
@@ -271,16 +272,3 @@ def _on_circle(f, r, n, N):
         errs.append(abs(a1 - a2) + 10 * eps * fmax * math.log2(M) / r ** j)
     return vals, errs, fmax
 
-
-def _longest_number(obj) -> int:
-    """Most digits in any decimal string inside a JSON-like object (at least 15)."""
-    best = 15
-    if isinstance(obj, dict):
-        for v in obj.values():
-            best = max(best, _longest_number(v))
-    elif isinstance(obj, (list, tuple)):
-        for v in obj:
-            best = max(best, _longest_number(v))
-    elif isinstance(obj, str):
-        best = max(best, sum(ch.isdigit() for ch in obj))
-    return best

@@ -43,6 +43,7 @@ import numpy as np
 from ..context import DEFAULT, Context, workdps
 from ..errors import InputError
 from ..results import Estimate, Provenance, Status, num_to_str
+from ..results import longest_number
 from ..series.core import Series
 
 __all__ = ["rs_coefficients", "series", "energy", "EnergyResult", "MAX_ORDERS"]
@@ -169,7 +170,7 @@ class EnergyResult:
     @classmethod
     def from_dict(cls, d: dict) -> "EnergyResult":
         # parse the decimal strings at as many digits as they carry
-        with workdps(_longest_number(d) + 10):
+        with workdps(longest_number(d) + 10):
             return cls._from_dict(d)
 
     @classmethod
@@ -391,16 +392,3 @@ def _frequency(g):
         return mpmath.mpf(1)
     return mpmath.findroot(lambda w: w ** 3 - w - 3 * g, mpmath.mpf(1) + g)
 
-
-def _longest_number(obj) -> int:
-    """Most digits in any decimal string inside a JSON-like object (at least 15)."""
-    best = 15
-    if isinstance(obj, dict):
-        for v in obj.values():
-            best = max(best, _longest_number(v))
-    elif isinstance(obj, (list, tuple)):
-        for v in obj:
-            best = max(best, _longest_number(v))
-    elif isinstance(obj, str):
-        best = max(best, sum(ch.isdigit() for ch in obj))
-    return best
