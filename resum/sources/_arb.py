@@ -1,29 +1,18 @@
 """Helpers for python-flint ball arithmetic used by the sources.
 
 python-flint keeps its working precision in the global ``flint.ctx.prec``.
-:func:`flint_prec` sets it for the span of a block and restores it, exactly
+:func:`flint_prec` (from ``resum._kernels.flint_bridge``) sets it for the span of a block and restores it, exactly
 as :func:`resum.context.workdps` does for mpmath, so nothing leaks between
 calls. Nothing else in resum.sources touches ``flint.ctx``.
 """
 from __future__ import annotations
 
-import contextlib
-
 import flint
 import mpmath
 
+from .._kernels.flint_bridge import flint_prec  # the one place that sets flint.ctx.prec
+
 __all__ = ["flint_prec", "arb_from_mpf", "arb_to_mpf", "arb_rad_to_mpf", "acb_from_mpc"]
-
-
-@contextlib.contextmanager
-def flint_prec(bits: int):
-    """Set python-flint's working precision to ``bits`` for a block, then restore it."""
-    old = flint.ctx.prec
-    flint.ctx.prec = int(bits)
-    try:
-        yield
-    finally:
-        flint.ctx.prec = old
 
 
 def arb_from_mpf(x, rad=0) -> "flint.arb":
