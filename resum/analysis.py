@@ -278,6 +278,10 @@ def _combine_group(g, warnings):
             if s is not eb and _exponent_reliable(s) and not _overlap(theta, s.exponent):
                 disagree.append(f"{s.method} (exponent)")
                 theta = _touch(theta, s.exponent)
+        if "exponent still drifting" in (eb.note or ""):
+            warnings.append(f"the exponent near {mpmath.nstr(mpmath.mpc(best.re.value, best.im.value), 8)} "
+                            f"({eb.method}) still drifts with the number of terms without slowing down: its "
+                            "band assumes the drift slows; more terms would tell")
     kind = classify_kind(theta) if theta is not None else best.kind
     if theta is None and best.kind == "branch":
         kind = "branch"
@@ -294,11 +298,11 @@ def _drop_inside_growth_radius(combined, ok, warnings):
     """Drop points that sit well inside the radius the growth of the coefficients implies
     (root test, ratios): a singularity there would make the coefficients grow faster than
     they do. Kept if nothing else remains."""
-    bounds = [ok[k].radius.lower for k in ("root-test", "ratio")
-              if k in ok and ok[k].radius is not None and mpmath.isfinite(ok[k].radius.lower)]
-    if not bounds or len(combined) < 2:
+    top = _growth_floor(ok)
+    if top is None or len(combined) < 2:
         return combined
-    floor = max(bounds) * mpmath.mpf("0.97")   # 3 % inside: c_n would grow (1.03)^n faster
+    bounds = [top]
+    floor = top * mpmath.mpf("0.97")   # 3 % inside: c_n would grow (1.03)^n faster
     kept = [(s, f) for s, f in combined if not abs(s.location) + _err(s) < floor]
     if not kept:
         return combined
@@ -308,6 +312,48 @@ def _drop_inside_growth_radius(combined, ok, warnings):
                             f"inside the radius {mpmath.nstr(max(bounds), 6)} implied by the growth of the "
                             "coefficients")
     return kept
+
+
+#: a point seen by one method only is dropped before grouping when its whole band lies this
+#: far inside the growth-rate radius (see :func:`_screen_lone_inner_points`)
+LONE_INNER_MARGIN = mpmath.mpf("0.01")
+
+
+def _growth_floor(ok):
+    """Largest lower end of the growth-rate radius bands (root test, ratio), or None."""
+    bounds = [ok[k].radius.lower for k in ("root-test", "ratio")
+              if k in ok and ok[k].radius is not None and mpmath.isfinite(ok[k].radius.lower)]
+    return max(bounds) if bounds else None
+
+
+def _screen_lone_inner_points(sings, ok, warnings):
+    """Drop, before grouping, points that one method alone puts inside the growth radius.
+
+    A differential approximant often has a few zeros of ``Q_K`` just inside a branch point
+    (in about half of the ensemble), while the ratios converge to the branch point itself. If
+    such a point were real with an amplitude that matters, the ratios could not converge
+    to the farther point; if it is not dropped before grouping, it can join (and widen) the
+    group of the true point. A point is kept when a second method also finds a point inside
+    the growth radius near it.
+    """
+    floor = _growth_floor(ok)
+    if floor is None:
+        return sings
+    floor = floor * (1 - LONE_INNER_MARGIN)
+    inner = [s for s in sings if abs(s.location) + _err(s) < floor]
+    drop = []
+    for s in inner:
+        confirmed = any(o.method != s.method and abs(o.location - s.location) <= max(
+            mpmath.mpf("0.01") * abs(s.location), _err(s) + _err(o)) for o in inner)
+        if not confirmed:
+            drop.append(s)
+    if not drop or len(drop) == len(sings):
+        return sings
+    for s in drop:
+        warnings.append(f"discarded a point at {mpmath.nstr(s.location, 6)} seen by {s.method} only: it lies "
+                        f"inside the radius {mpmath.nstr(floor / (1 - LONE_INNER_MARGIN), 6)} implied by the "
+                        "growth of the coefficients")
+    return [s for s in sings if not any(s is d for d in drop)]
 
 
 def _reconcile(series, results, warnings):
@@ -334,6 +380,7 @@ def _reconcile(series, results, warnings):
             out["combined"] = {"radius": "root-test"}
             warnings.append("only the root test gave an estimate: radius without singularities")
         return out
+    sings = _screen_lone_inner_points(sings, ok, warnings)
     groups = _group(sings)
     combined = []
     for g in groups:

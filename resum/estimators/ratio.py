@@ -166,6 +166,41 @@ def _ratio_step(c, step, eps):
             "table_theta": info_g}
 
 
+#: a drift that shrinks by less than this factor per step of sqrt(2) in the number of terms is
+#: extrapolated as if it shrank by this factor (a correction falling like n^-0.64 or slower)
+DRIFT_Q_MAX = mpmath.mpf("0.8")
+
+
+def drift_extension(v_half, v_mid, v_full, noise=0):
+    """Room left by a steady drift of an estimate with the number of terms.
+
+    ``v_half``, ``v_mid``, ``v_full`` are the estimates from ``N/2``,
+    ``N/sqrt(2)`` and ``N`` terms. When the two changes have the same sign and
+    both exceed ``noise``, the estimate is still moving: a correction falling
+    like ``N^-delta`` shrinks by ``q = 2^(-delta/2)`` per step, and what is
+    left after ``v_full`` is ``d q / (1 - q)`` (``d`` the last change; ``q``
+    read from the two changes, at most :data:`DRIFT_Q_MAX`). Returns
+    ``(down, up, slow)``: how far the band must reach below and above ``v_full``
+    (before the safety factor); ``(0, 0, False)`` when there is no steady drift.
+
+    ``slow`` (third value) is True when the changes do not shrink by at least
+    :data:`DRIFT_Q_MAX` per step: the extension is then a guess, not a fit.
+
+    Corrections of non-integer order (confluent singularities whose exponents
+    differ by a small amount) are what the Neville tables in ``1/n`` and
+    ``1/sqrt(n)`` cannot remove; this is the check that sees them.
+    """
+    if v_half is None or v_mid is None:
+        return 0, 0, False
+    d1, d2 = mpmath.re(v_mid - v_half), mpmath.re(v_full - v_mid)
+    if d1 == 0 or d2 == 0 or (d1 > 0) != (d2 > 0) or min(abs(d1), abs(d2)) <= noise:
+        return 0, 0, False
+    q = min(abs(d2 / d1), DRIFT_Q_MAX)
+    rest = abs(d2) * q / (1 - q)
+    slow = abs(d2 / d1) >= DRIFT_Q_MAX
+    return (0, rest, slow) if d2 > 0 else (rest, 0, slow)
+
+
 def _choose_mu(c, mus, step):
     """mu from mu^step: the root consistent with the one-step ratios."""
     if step == 1:
@@ -228,30 +263,55 @@ def estimate_ratio(series, ctx=None, step=None):
                           "ratios do not settle (complex or competing singularities?); try the "
                           "conjugate-pair, Padé or differential-approximant methods", prep,
                           {"relative_half_width": rel})
+        # steady drift with the number of terms (checked with N/2 and N/sqrt(2) terms): the
+        # band reaches, in the direction of the drift, as far as the drift has yet to go
+        N = len(c)
+        short = [_ratio_step(c[:m], s, prep.eps) for m in (N // 2, int(N / mpmath.sqrt(2)))]
+        short = [t if t is not None and t["step"] == s else None for t in short]
+        get = lambda key: [None if t is None else t[key] for t in short]  # noqa: E731
+        mu_dn, mu_up, mu_slow = drift_extension(*get("mu_s"), r["mu_s"], noise=prep.eps * 16 * abs(r["mu_s"]))
+        th_dn, th_up, th_slow = drift_extension(*get("theta"), r["theta"], noise=prep.eps * 16 * N)
+        drift = {"mu_s": [t for t in get("mu_s")] + [r["mu_s"]],
+                 "theta": [t for t in get("theta")] + [r["theta"]],
+                 "n_terms": [N // 2, int(N / mpmath.sqrt(2)), N]}
         # band on mu from band on mu^s: d mu = d(mu^s) / (s mu^(s-1))
-        mu_half = r["mu_s_half"] / (s * abs(mu) ** (s - 1))
+        to_mu = s * abs(mu) ** (s - 1)
+        mu_half = r["mu_s_half"] / to_mu
+        # |mu| below / above its value (for mu < 0 with s = 1 a larger mu^s is a smaller |mu|)
+        flip = s == 1 and mpmath.re(mu) < 0
+        lo_ext, hi_ext = (mu_up, mu_dn) if flip else (mu_dn, mu_up)
+        amu_dn = mu_half + SAFETY * lo_ext / to_mu
+        amu_up = mu_half + SAFETY * hi_ext / to_mu
         xc = 1 / mu
-        xc_half = mu_half / abs(mu) ** 2 * (1 + mu_half / abs(mu)) if mu_half < abs(mu) else abs(xc)
+        amu = abs(mu)
         if isinstance(xc, mpmath.mpc) and xc.imag != 0:
+            m_half = max(amu_dn, amu_up)
+            xc_half = m_half / amu ** 2 * (1 + m_half / amu) if m_half < amu else abs(xc)
             re = Estimate(xc.real, xc.real - xc_half, xc.real + xc_half)
             im = Estimate(xc.imag, xc.imag - xc_half, xc.imag + xc_half)
         else:
             xc = mpmath.re(xc)
-            re = Estimate(xc, 1 / (mu + mu_half) if mu > 0 else 1 / (mu + mu_half),
-                          1 / (mu - mu_half) if mu > 0 else 1 / (mu - mu_half))
+            # |x_c| = 1/|mu|: from 1/(|mu| + up) to 1/(|mu| - down)
+            near, far = 1 / (amu + amu_up), (1 / (amu - amu_dn) if amu_dn < amu else mpmath.inf)
+            re = Estimate(xc, near, far) if xc > 0 else Estimate(xc, -far, -near)
             im = Estimate.exact(0)
-        theta = Estimate(mpmath.re(r["theta"]), mpmath.re(r["theta"]) - r["theta_half"],
-                         mpmath.re(r["theta"]) + r["theta_half"])
+        th = mpmath.re(r["theta"])
+        theta = Estimate(th, th - r["theta_half"] - SAFETY * th_dn, th + r["theta_half"] + SAFETY * th_up)
         kind = classify_kind(theta)
+        slow = [w for w, f in (("location", mu_slow), ("exponent", th_slow)) if f]
         sing = Singularity(re, im, kind, theta, method,
-                           f"ratio step {s}, Neville orders {r['k_mu']} (intercept) and {r['k_theta']} (exponent)")
+                           f"ratio step {s}, Neville orders {r['k_mu']} (intercept) and {r['k_theta']} (exponent)"
+                           + (f"; {' and '.join(slow)} still drifting with the number of terms" if slow else ""))
         how = (f"Ratios z_n = c_n/c_(n-{s}) over n = {r['ns'][0]}..{r['ns'][-1]}; intercept mu^{s} and "
                f"exponent extrapolated in 1/n by Neville tables, order chosen where the last 4 entries "
                f"agree best; band = {SAFETY} x (spread of those entries, change to the next order, "
-               "noise floor); exponent band includes the intercept's band.")
+               "noise floor); exponent band includes the intercept's band; a steady drift of either "
+               f"between N/2, N/sqrt(2) and N terms extends the band (x {SAFETY}) in its direction by what "
+               "is left of it if it shrinks geometrically (by at most 0.8 per step).")
         diag = {"how": how, "step": s, "kappa": kappa, "ratios": [(n, z) for n, z in zip(r["ns"], r["z"])],
                 "neville_intercept": r["table_mu"], "neville_exponent": r["table_theta"],
-                "steps_tried": [{"step": t[1]["step"], "rel_half_width": t[0]} for t in cands]}
+                "steps_tried": [{"step": t[1]["step"], "rel_half_width": t[0]} for t in cands],
+                "drift": drift}
         return finish(method, prep, [sing], diagnostics=diag, step=s)
 
 
