@@ -287,3 +287,43 @@ def test_block_in_recursion_falls_back_to_ball_lu():
         assert digits_agree(r.q, q_ref) >= 40 and digits_agree(r.p, p_ref) >= 40
     t = pade_table(c, dps=30, offsets=(0,), min_order=10)
     assert {a.method for a in t.values()} == {"lu"}
+
+
+def _mpmath_reference(c, N, dps, extra):
+    """[N/N] by mpmath.pade (dense LU) at dps + extra digits, checked against a
+    second run at dps + extra + 40: returns (p, q, digits the two agree to)."""
+    with workdps(dps + extra):
+        p1, q1 = mpmath.pade(c, N, N)
+    with workdps(dps + extra + 40):
+        p2, q2 = mpmath.pade(c, N, N)
+        agree = min(digits_agree(p1, p2), digits_agree(q1, q2))
+    return p2, q2, agree
+
+
+@pytest.mark.parametrize("kind,N,dps", [("log", 20, 30), ("log", 24, 60), ("random", 20, 40),
+                                        ("exp", 22, 50)])
+def test_scheduled_recursion_claims_no_more_than_mpmath_confirms(kind, N, dps):
+    # N large enough that the recursion's precision schedule is active (the
+    # working precision falls from the plan to dps + _FINAL_MARGIN over the
+    # steps). Reference: mpmath.pade (dense LU) at many more digits, itself
+    # confirmed by a run at 40 more digits. Series: log(1+x)/x and exp(x)
+    # (closed-form coefficients), and seeded random coefficients in [-1, 1].
+    from resum._kernels import flint_bridge as fb
+    from resum._kernels.pade import _FINAL_MARGIN
+    rng = random.Random(11)
+    with workdps(dps + 20):
+        if kind == "log":
+            c = [mpmath.mpf((-1) ** k) / (k + 1) for k in range(2 * N + 1)]
+        elif kind == "exp":
+            c = [1 / mpmath.factorial(k) for k in range(2 * N + 1)]
+        else:
+            c = [mpmath.mpf(rng.uniform(-1, 1)) for _ in range(2 * N + 1)]
+    r = pade(c, N, N, dps)
+    assert r.method == "fraction"
+    assert r.diagnostics["prec_bits"] > fb.prec_for_dps(dps + _FINAL_MARGIN)   # schedule active
+    p_ref, q_ref, agree = _mpmath_reference(c, N, dps, 3 * N + 60)
+    assert agree >= r.digits + 5          # the reference resolves the claim
+    with workdps(dps + 3 * N + 100):
+        got = min(digits_agree(r.p, p_ref), digits_agree(r.q, q_ref))
+    assert r.digits >= dps
+    assert got >= r.digits - 2            # claimed <= measured (up to the report's rounding)
