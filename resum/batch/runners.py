@@ -75,6 +75,17 @@ class ProcessRunner:
         todo.reverse()                 # pop() from the end keeps the spec's order
         suspects = []                  # in flight when a worker died: rerun one at a time
         ctx = _mp_context()
+
+        def lost(i, alone):
+            # a worker died: a point that ran alone is to blame and is recorded as
+            # failed; one that ran beside others is rerun alone later
+            if alone:
+                on_record(failure_record(
+                    spec, i, "the worker process died while computing this point alone "
+                    "(killed, crashed or out of memory)", runner=self.name))
+            else:
+                suspects.append(i)
+
         while todo or suspects:
             pool = cf.ProcessPoolExecutor(max_workers=self.jobs, mp_context=ctx)
             inflight = {}              # future -> (index, ran alone)
@@ -108,13 +119,7 @@ class ProcessRunner:
                         broken = True
                         for fut, (i, alone) in list(inflight.items()):
                             del inflight[fut]
-                            if alone:
-                                on_record(failure_record(
-                                    spec, i, "the worker process died while computing this "
-                                    "point alone (killed, crashed or out of memory)",
-                                    runner=self.name))
-                            else:
-                                suspects.append(i)
+                            lost(i, alone)
                         _terminate(pool)
                         continue
                     for fut in done:
@@ -123,13 +128,7 @@ class ProcessRunner:
                             rec = fut.result()
                         except cf.process.BrokenProcessPool:
                             broken = True
-                            if alone:
-                                on_record(failure_record(
-                                    spec, i, "the worker process died while computing this "
-                                    "point alone (killed, crashed or out of memory)",
-                                    runner=self.name))
-                            else:
-                                suspects.append(i)
+                            lost(i, alone)
                             continue
                         on_record(rec)
                 # a broken pool fails every future still in flight: those are suspects too
