@@ -108,9 +108,17 @@ from . import flint_bridge as fb
 __all__ = ["PadeApprox", "pade", "pade_table", "guard_digits_for_pade", "pade_fp"]
 
 #: Digits lost per unit of denominator degree M by the continued-fraction
-#: recursion, measured on [M/M] of log(1+x)/x and exp(x) for M = 10..100 against
-#: exact rational references (about 4 digits per M; the Toeplitz system itself
-#: loses about 1.5, see guard_digits_for_pade).
+#: recursion *as its ball radii certify them*, measured on [M/M] of log(1+x)/x
+#: and exp(x) for M = 10..100 (about 4 digits per M; the Toeplitz system itself
+#: loses about 1.5, see guard_digits_for_pade). The ball midpoints are as poor
+#: as the radii say (Arb rounds a result's midpoint to the accuracy its radius
+#: leaves), but the same recursion in plain MPFR arithmetic (gmpy2, one flat
+#: precision, no radii) loses only about 150 digits at [100/100] of
+#: log(1+x)/x, i.e. about what the system's conditioning costs
+#: (studies/performance/radius_vs_midpoint.py). A radius-free recursion with a
+#: cheaper certificate would let the plan drop to ~1.6 digits per M; none that
+#: costs less than the ball recursion is implemented yet (a ball LU of the
+#: system at the lower precision costs more than the whole recursion at N = 100).
 DEFAULT_GROWTH = 4.2
 
 #: Digits above the request kept at the last step of the recursion's
@@ -133,10 +141,12 @@ def guard_digits_for_pade(n_terms: int, dps_out: int, growth: Optional[float] = 
     (moments of a positive measure, the commonest case in perturbation
     theory) the condition number of the M x M Hankel matrix grows like
     ``(1 + sqrt 2)^(4M)``, as for the Hilbert matrix: about 1.53 decimal
-    digits per unit of M. The continued-fraction recursion used here is
-    forward-unstable on top of that: measured against exact rational
-    references it loses about 4 digits per unit of M (log(1+x)/x and exp(x),
-    M up to 100; see :data:`DEFAULT_GROWTH`). We therefore carry
+    digits per unit of M. The continued-fraction recursion's ball radii grow
+    faster than that: they certify about 4 fewer digits per unit of M
+    (log(1+x)/x and exp(x), M up to 100), and Arb's midpoints follow the
+    radii; in plain MPFR arithmetic the recursion loses only about what the
+    conditioning costs (see :data:`DEFAULT_GROWTH`). As the digits reported
+    are the certified ones, the plan follows the radii. We therefore carry
     ``growth * M + 10 + log10(n_terms)`` guard digits with
     ``M = n_terms // 2``. Kernels that use this plan still verify: the ball
     radii bound the rounding error, and the precision is raised by the
