@@ -16,7 +16,7 @@ out of the line and marked with a cross at the bottom of the panel.
 * :func:`plot_borel` -- distance of the nearest Borel-plane singularity;
 * :func:`plot_borel_exponent` -- the Gamma-function shift b of the large-order growth;
 * :func:`plot_values` -- resummed values at fixed couplings, with the source's truth;
-* :func:`plot_value_errors` -- resummed minus true values, with bands;
+* :func:`plot_value_errors` -- resummed minus true values in units of the band;
 * :func:`plot_value_digits` -- digits claimed by the bands and digits that agree with the truth;
 * :func:`plot_strong` -- one strong-coupling coefficient;
 * :func:`write_family_plots` -- all figures that have data, as PNG and PDF.
@@ -387,22 +387,52 @@ def plot_values(records, x=None, ax=None, at=None):
     return _finish(ax, x, "value")
 
 
+def _pull(v, t):
+    """(resummed - truth) / (half-width of the resummed band on the truth's
+    side, plus the truth's own half-width), from the decimal strings at high
+    precision (in floats, 30 agreeing digits would cancel to 0). |pull| <= 1:
+    the truth lies in the band."""
+    import mpmath
+    longest = max(len(str(d.get(k, ""))) for d in (v, t) for k in ("value", "lo", "hi"))
+    with mpmath.workdps(max(80, longest + 10)):
+        try:
+            val, ref = mpmath.mpf(str(v["value"])), mpmath.mpf(str(t["value"]))
+            side = (mpmath.mpf(str(v["hi"])) - val) if ref >= val else (val - mpmath.mpf(str(v["lo"])))
+            own = max(abs(mpmath.mpf(str(t.get(k, t["value"]))) - ref) for k in ("lo", "hi"))
+        except (KeyError, ValueError, TypeError):
+            return None
+        if not (mpmath.isfinite(val) and mpmath.isfinite(ref)):
+            return None
+        width = side + own
+        if width == 0:
+            return 0.0 if val == ref else None
+        return float((val - ref) / width)
+
+
 def plot_value_errors(records, x=None, ax=None, at=None):
-    """Resummed minus true value (points) with the resummation band (bars)."""
+    """How far each resummed value lies from the truth, in units of its band:
+    (resummed - truth) / (band half-width towards the truth + the truth's own
+    half-width). Points between the dashed lines at +-1 have the truth in
+    their band; points near 0 have bands much wider than their error."""
     x = family_x(records, x)
     ax = _ax(ax)
     ats = at if at is not None else _points_at(records, "evaluate")
     for a in ats:
-        def diff(r, a=a):
+        def pull(r, a=a):
             v = _values(r, "evaluate").get(_at_key(a))
             t = _values(r, "truth").get(_at_key(a))
-            bv, bt = (_band(v) if v else None), (_band(t) if t else None)
-            if bv is None or bt is None:
+            if not (_band(v) if v else None) or not (_band(t) if t else None):
                 return None
-            return bv[0] - bt[0], bv[1] - bt[0], bv[2] - bt[0]
-        _draw(ax, _series(records, x, diff, "truth"), f"at {a}", "o")
+            p = _pull(v, t)
+            return None if p is None else (p, p, p)
+        _draw(ax, _series(records, x, pull, "truth"), f"at {a}", "o")
     ax.axhline(0, color="k", lw=0.6)
-    return _finish(ax, x, "resummed - truth")
+    for y in (-1, 1):
+        ax.axhline(y, color="0.4", lw=0.8, ls="--")
+    ax.set_yscale("symlog", linthresh=1.0)
+    from matplotlib.ticker import FuncFormatter
+    ax.yaxis.set_major_formatter(FuncFormatter(lambda y, _: f"{y:g}"))
+    return _finish(ax, x, "(resummed - truth) / band")
 
 
 _STRONG_KINDS = (("resummed", "from the resummed series", "o", "C0"),

@@ -28,3 +28,19 @@ def test_family_plots_written_and_faithful(tmp_path):
     assert sorted(crosses) == [-1, -1]
     import matplotlib.pyplot as plt
     plt.close("all")
+
+
+def test_value_errors_are_pulls_computed_at_the_recorded_precision():
+    """Agreement to 30 digits must not cancel to 0 in floats: the pull is
+    (value - truth) / (band towards the truth + the truth's own band), plain
+    arithmetic on the recorded decimals (common practice, no source)."""
+    from resum.plots.family import _pull
+    one = "1." + "0" * 29
+    v = {"value": one + "3", "lo": one + "1", "hi": one + "5"}      # 1 + 3e-30, band [-2e-30, +2e-30]
+    t = {"value": one + "2", "lo": one + "2", "hi": one + "2"}      # exact truth 1 + 2e-30
+    assert _pull(v, t) == pytest.approx(0.5)                        # 1e-30 / 2e-30
+    t_out = {"value": one + "0", "lo": one + "0", "hi": one + "0"}  # truth 3e-30 below: outside
+    assert _pull(v, t_out) == pytest.approx(1.5)
+    t_wide = {"value": one + "0", "lo": "0.999999999999999999999999999999", "hi": one + "1"}
+    assert _pull(v, t_wide) == pytest.approx(3 / 3)                 # 3e-30 / (2e-30 + 1e-30)
+    assert _pull({"value": "nan", "lo": "nan", "hi": "nan"}, t) is None
