@@ -63,7 +63,7 @@ from .estimators.resum_truncation import optimal_truncation
 from .transforms.conformal import ConformalMap, RayMap, choose_map
 
 __all__ = ["METHODS", "evaluate", "EvaluationResult", "PointResult", "Baseline",
-           "probe_strong_coupling", "parse_points"]
+           "probe_strong_coupling", "parse_points", "polynomial_degree"]
 
 METHODS = ("auto", "partial-sum", "pade", "conformal-pade", "borel-pade", "borel-conformal-pade")
 
@@ -363,6 +363,25 @@ def _series_singularities(c):
     return [z]
 
 
+def polynomial_degree(coefficients) -> Optional[int]:
+    """Degree of the series read as an exact polynomial, or ``None``.
+
+    The coefficients (from ``x^0``) are taken to be those of a polynomial
+    when they vanish exactly (zero, not merely small) from some power ``k + 1``
+    to the last term given, and those known zeros are at least as many as
+    the polynomial's own terms (``k + 1``) and at least 4: a series known to
+    twice the degree that stops there. Common practice, no source. An
+    all-zero series has degree 0.
+    """
+    c = list(coefficients)
+    nz = [k for k, v in enumerate(c) if v != 0]
+    k = nz[-1] if nz else 0
+    zeros = len(c) - 1 - k
+    if zeros >= max(4, k + 1):
+        return k
+    return None
+
+
 def _analysis(series, ctx):
     """The analysis engineer's verdict, if that module is available (else None)."""
     try:
@@ -392,6 +411,11 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
           lateral, large_x_power, use_analysis, warnings) -> _Plan:
     """Choose the method and its parameters (map, Borel parameter)."""
     an = None
+    deg = polynomial_degree(c)
+    if deg is not None and method in ("auto", "partial-sum"):
+        # a polynomial is its own resummation (and its own strong-coupling expansion)
+        return _Plan("partial-sum", why=f"exact polynomial of degree {deg} in {series.variable}: "
+                                        f"the coefficients vanish from the next power through the last term given")
     g = _growth(c)
     if method == "auto" and use_analysis:
         an = _analysis(series, ctx)
@@ -606,6 +630,7 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
         n_fail = 0
         for j, (a, x, o) in enumerate(zip(at, xs, outs)):
             pdiag = dict(o.info)
+            parts = {}      # half-width of the band after each widening step (diagnostics)
             status, success, msg = Status.CONVERGED, True, ""
             re, im = o.re, o.im
             if not o.ok or re is None:
@@ -622,6 +647,7 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                         continue
                     dev = abs(oc.re.value - re.value)
                     agree[name] = mpmath.nstr(dev, 5)
+                    agree[name + " band"] = mpmath.nstr(oc.re.error, 5)
                     # the input's own digits limit agreement too: a perturbation in the last
                     # digit of the coefficients may move the value by that much
                     d_in = ctx.dps if series.digits is None else min(ctx.dps, series.digits)
@@ -633,18 +659,21 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                         else:
                             status, success = Status.UNSTABLE_ORDER, False
                         msg = f"the {name} rerun moved the value by {mpmath.nstr(dev, 3)}, far outside the band"
+                parts["approximants"] = mpmath.nstr(re.error, 5)
                 if checks[j]:
                     # the precision rerun widens the band; the fewer-terms rerun only checks it
                     # (its own band must reach the full-order value), and widens when it fails to
                     prec = [oc for name, oc in checks[j] if name == "higher precision" and oc is not None and oc.ok]
                     few = [oc for name, oc in checks[j] if name != "higher precision" and oc is not None and oc.ok]
                     re = _widen(re, [oc.re for oc in prec])
+                    parts["precision rerun"] = mpmath.nstr(re.error, 5)
                     if im is not None:
                         im = _widen(im, [oc.im for oc in prec])
                     for oc in few:
                         if oc.re is not None and not oc.re.contains(re.value) and success:
                             dev = abs(oc.re.value - re.value)
                             re = Estimate(re.value, min(re.lower, re.value - dev), max(re.upper, re.value + dev))
+                            parts["fewer terms"] = mpmath.nstr(re.error, 5)
                             warnings.append(f"at {mpmath.nstr(a, 10)}: the band with fewer terms does not reach "
                                             "the full-order value; band widened to their distance")
                     pdiag["verification"] = agree
@@ -657,6 +686,8 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                 fl = abs(re.value) * mpmath.mpf(10) ** (-d_rep)
                 if re.error < fl:
                     re = Estimate(re.value, min(re.lower, re.value - fl), max(re.upper, re.value + fl))
+                    parts["digits floor"] = mpmath.nstr(re.error, 5)
+                pdiag["band_steps"] = parts
                 if im is not None:
                     fli = max(abs(im.value), abs(re.value)) * mpmath.mpf(10) ** (-d_rep)
                     if im.error < fli:

@@ -198,6 +198,12 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
         if any(isinstance(g, mpmath.mpc) or g <= 0 for g in gs):
             raise InputError("strong-coupling couplings must be real and positive", where="couplings")
         gs = sorted(gs)
+        if values is None and series.start >= 0:
+            from ..resummation import polynomial_degree
+            c = series.dense(Context(dps=ctx.work_dps, guard=0))
+            deg = polynomial_degree(c)
+            if deg is not None:
+                return _polynomial_result(series, c, deg, gs, ctx, var, expected, n_terms_fit, log_terms)
         if values is None:
             res = evaluate(series, gs, ctx, method=method, **(evaluate_options or {}))
             vals = [p.value if p.success else None for p in res.points]
@@ -211,9 +217,12 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
                    if v is not None and v.value != 0 and v.error <= max_rel_band * abs(v.value)]
         trusted_up_to = trusted[-1][0] if trusted else None
         if len(trusted) < 4:
+            got = [g for g, v in zip(gs, vals) if v is not None]
             return StrongCouplingResult(False, Status.TOO_FEW_TERMS,
-                                        f"only {len(trusted)} couplings with a band below "
-                                        f"{mpmath.nstr(max_rel_band, 3)} of the value; need 4",
+                                        f"only {len(trusted)} of {len(gs)} couplings have a resummed band below "
+                                        f"{mpmath.nstr(max_rel_band, 3)} of the value "
+                                        f"({len(got)} gave a value at all); the fit needs 4: give more terms, "
+                                        "smaller couplings, or a larger max_rel_band",
                                         var, tuple(gs), tuple(vals), trusted_up_to, None, "", ())
         # leading power from log-derivative secants, extrapolated in 1/g
         secants = []
@@ -345,6 +354,59 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
                                     f"{var} = {mpmath.nstr(trusted_up_to, 6)}", var, tuple(gs), tuple(vals),
                                     trusted_up_to, lp, source, tuple(coeffs), comparison, tuple(warnings),
                                     diag, prov)
+
+
+def _polynomial_result(series, c, deg, gs, ctx, var, expected, n_terms_fit, log_terms):
+    """The strong-coupling expansion of an exact polynomial: the polynomial itself.
+
+    Leading power: the degree (times the coupling's power); coefficients: the
+    polynomial's, in the coupling (``x = scale g^q`` gives ``c_k scale^k`` for
+    ``g^(q k)``), exact, or with a band of one unit in the last digit the
+    series carries.
+    """
+    cpl = getattr(series, "coupling", None)
+    q = cpl.power if cpl is not None else 1
+    scale = mpmath.mpmathify(cpl.scale) if cpl is not None else mpmath.mpf(1)
+    rel = mpmath.mpf(0) if series.digits is None else mpmath.mpf(10) ** (-series.digits)
+
+    def est(v):
+        return Estimate(v, v - abs(v) * rel, v + abs(v) * rel)
+
+    coeffs = []
+    for k in range(deg, -1, -1):
+        if c[k] != 0:
+            coeffs.append((_label(q * k, False, var), est(c[k] * scale ** k)))
+    vals = []
+    for g in gs:
+        x = scale * g ** q
+        vals.append(est(sum(c[k] * x ** k for k in range(deg + 1))))
+    comparison, warnings = {}, []
+    for lab, ev in (expected or {}).items():
+        e = dict(coeffs).get(lab)
+        ev = mpmath.mpmathify(ev)
+        if e is None:
+            inside = ev == 0
+            comparison[lab] = {"expected": ev, "inside": inside, "note": "absent from the polynomial"}
+        else:
+            inside = e.contains(ev)
+            comparison[lab] = {"expected": ev, "inside": inside,
+                               "sigma": (e.value - ev) / e.error if e.error else (0 if inside else mpmath.inf)}
+        if not inside:
+            warnings.append(f"{lab}: the polynomial gives {e.value if e else 0}, not the expected {mpmath.nstr(ev, 12)}")
+    lp = Estimate.exact(mpmath.mpf(q * deg))
+    how = (f"exact polynomial of degree {deg} in {series.variable}: its coefficients vanish from "
+           f"{series.variable}^{deg + 1} through the last of the {len(c)} terms given, so it is its own "
+           "strong-coupling expansion; no resummation or fit")
+    prov = Provenance("strong-coupling", {"method": "exact polynomial", "leading_power": None,
+                                          "log_terms": log_terms, "n_terms_fit": list(n_terms_fit)},
+                      n_terms=getattr(series, "n_terms", 0), dps=ctx.work_dps,
+                      input_hash=series.input_hash() if hasattr(series, "input_hash") else "")
+    return StrongCouplingResult(True, Status.CONVERGED,
+                                f"exact polynomial: leading power {q * deg}, {len(coeffs)} coefficient(s)",
+                                var, tuple(gs), tuple(vals), gs[-1] if gs else None, lp,
+                                f"exact polynomial of degree {deg} in {series.variable}", tuple(coeffs),
+                                comparison, tuple(warnings), {"how": how, "resummation_method": "exact polynomial"},
+                                prov)
 
 
 def _frac_or(pw):

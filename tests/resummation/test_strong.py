@@ -56,3 +56,29 @@ def test_too_few_trusted_points():
     r = probe_strong_coupling(s, couplings=[30, 40, 50, 60], ctx=Context(dps=20),
                               evaluate_options={"verify": False})
     assert not r.success and r.status.value == "too few terms"
+
+
+def test_exact_polynomial_is_its_own_strong_coupling_expansion():
+    # at a = pi/2 the source's series is the polynomial F = 4 g^2 (x = g^2; the source's docstring);
+    # a polynomial is its own strong-coupling expansion: leading power 2, coefficient 4, nothing else
+    s = weak_coupling_series("pi/2", 40, Context(dps=40))
+    r = probe_strong_coupling(s, couplings=[2, 5, 10, 20], ctx=Context(dps=20),
+                              expected={"g^2": 4, "g^1": 0, "g^0": 0})
+    assert r.success and r.leading_power.value == 2 and r.leading_power.error == 0
+    assert [k for k, _ in r.coefficients] == ["g^2"]
+    assert r.coefficient("g^2").contains(4) and r.coefficient("g^2").error <= mpmath.mpf(10) ** -38 * 4
+    assert all(v["inside"] for v in r.comparison.values())
+    assert all(v.contains(4 * g ** 2) for g, v in zip(r.couplings, r.values))
+    # a wrong expectation is reported, not hidden
+    bad = probe_strong_coupling(s, couplings=[2, 5], ctx=Context(dps=20), expected={"g^2": 3})
+    assert bad.comparison["g^2"]["inside"] is False and bad.warnings
+
+
+def test_polynomial_degree_needs_enough_known_zeros():
+    # common practice, no source: a series stopping at x^k counts as a polynomial only when it is
+    # known to vanish through at least k + 1 (and 4) further powers
+    from resum.resummation import polynomial_degree
+    assert polynomial_degree([1, 2, 3, 0, 0, 0, 0]) == 2
+    assert polynomial_degree([1, 2, 3, 0, 0]) is None
+    assert polynomial_degree([1, 2, 3, 4, 5, 6, 7, 8]) is None
+    assert polynomial_degree([1, 0, 0, 1, 0, 0, 0, 0]) == 3
