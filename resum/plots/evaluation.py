@@ -11,7 +11,7 @@ from typing import Optional, Sequence
 
 import mpmath
 
-from ..context import workdps
+from ..context import Context, workdps
 
 __all__ = ["plot_evaluation", "plot_digits", "plot_borel_plane", "write_evaluation_plots"]
 
@@ -80,31 +80,60 @@ def plot_digits(result, ax=None, reference: Optional[Sequence] = None):
     return ax
 
 
-def plot_borel_plane(series, ctx, ax=None, b=0):
-    """Poles of the top near-diagonal Padé approximant of the Borel transform (and its zeros).
+def plot_borel_plane(series, ctx, ax=None, b=0, dps=None, doublet_tol=1e-6):
+    """Poles and zeros of the top near-diagonal Padé approximant of the Borel transform.
 
-    A cut shows as a line of poles; isolated pole-zero pairs are Froissart doublets.
+    ``dps`` is the working precision of the approximant; pass the one the
+    evaluation used (``result.provenance.dps``): at too few digits the
+    rounding of the Borel coefficients itself creates pole-zero pairs. A cut
+    shows as a line of poles interleaved with zeros; a pole with a zero closer
+    than ``doublet_tol`` (relative) is drawn as a Froissart doublet (grey),
+    a heuristic, not a proof. The window is sized from the nearest other
+    pole; the title counts what falls outside. The Laplace integral runs
+    along the positive real axis (drawn in green).
     """
     from ..estimators.resum_band import rational_fit
     from ..transforms.borel import borel_coefficients
     ax = _ax(ax)
-    with ctx.working():
-        c = series.dense(ctx)
+    work = int(dps) if dps else ctx.work_dps
+    outside = 0
+    with workdps(work):
+        c = series.dense(Context(dps=work, guard=0))
         d = borel_coefficients(c, b)
         n = len(d)
         M = (n - 1) // 2
-        r = rational_fit(d, n - 1 - M, M, ctx.work_dps)
+        r = rational_fit(d, n - 1 - M, M, work)
         if r is not None:
-            ps = r.poles(ctx.work_dps)
-            zs = r.zeros(ctx.work_dps)
-            ax.plot([float(mpmath.re(z)) for z in ps], [float(mpmath.im(z)) for z in ps], "x", label="poles")
-            ax.plot([float(mpmath.re(z)) for z in zs], [float(mpmath.im(z)) for z in zs], "o", mfc="none",
-                    ms=4, label="zeros")
+            ps, zs = r.poles(work), r.zeros(work)
+
+            def doublet(z):
+                return any(abs(z - w) <= doublet_tol * max(1, abs(z)) for w in zs)
+            good = [z for z in ps if not doublet(z)]
+            bad = [z for z in ps if doublet(z)]
+            near = min((abs(z) for z in good or ps), default=mpmath.mpf(1))
+            half = float(6 * near) if near > 0 else 1.0
+            inside = lambda z: abs(float(mpmath.re(z))) <= half and abs(float(mpmath.im(z))) <= half  # noqa: E731
+            outside = sum(1 for z in ps + zs if not inside(z))
+            for pts, style, kw in ((good, "x", {"label": "poles", "color": "C0"}),
+                                   (zs, "o", {"label": "zeros", "mfc": "none", "ms": 4, "color": "C1"}),
+                                   (bad, "s", {"label": "Froissart doublets", "mfc": "none", "ms": 7,
+                                               "color": "0.5"})):
+                pts = [z for z in pts if inside(z)]
+                if pts:
+                    ax.plot([float(mpmath.re(z)) for z in pts], [float(mpmath.im(z)) for z in pts],
+                            style, **kw)
+            ax.set_xlim(-half, half)
+            ax.set_ylim(-half, half)
+            ax.plot([0, half], [0, 0], color="C2", lw=2.5, alpha=0.6, label="Laplace integration ray",
+                    zorder=0)
     ax.axhline(0, color="0.7", lw=0.6)
     ax.axvline(0, color="0.7", lw=0.6)
+    ax.set_aspect("equal")
     ax.set_xlabel("Re t")
     ax.set_ylabel("Im t")
-    ax.set_title(f"Borel plane (b = {b}): [{n - 1 - M}/{M}] Padé")
+    more = f"; {outside} outside the window" if outside else ""
+    ax.set_title(f"Borel plane (b = {mpmath.nstr(b, 6)}): [{n - 1 - M}/{M}] Padé at {work} digits{more}",
+                 fontsize=9)
     ax.legend(fontsize=8)
     return ax
 
@@ -129,7 +158,7 @@ def write_evaluation_plots(result, series, ctx, folder, reference=None) -> list:
     if method.startswith("borel"):
         fig, ax = plt.subplots(figsize=(5.6, 5.0))
         b = result.provenance.options.get("borel_b", "0")
-        plot_borel_plane(series, ctx, ax, b=mpmath.mpf(b))
+        plot_borel_plane(series, ctx, ax, b=mpmath.mpf(b), dps=result.provenance.dps)
         fig.tight_layout()
         path = os.path.join(folder, "borel_plane.png")
         fig.savefig(path, dpi=110)
