@@ -24,9 +24,10 @@ def test_oscillator_borel_plane_shows_the_cut_from_minus_two_thirds():
     and Wu, Phys. Rev. D 7 (1973) 1620, large-order formula rescaled to this
     Hamiltonian; Borel summability: Graffi, Grecchi and Simon, Phys. Lett. B 32
     (1970) 631). At the 85 digits the resummation works at, every drawn pole
-    lies in the left half plane and the nearest is within 1 % of -2/3; at the
-    45 digits of a 30-digit context the rounding alone puts pole-zero pairs
-    in the right half plane, which is why the figure takes the precision."""
+    lies in the left half plane, none is a Froissart doublet, and the nearest
+    is within 1 % of -2/3; at the 45 digits of a 30-digit context the
+    rounding alone puts pole-zero pairs in the right half plane, which is why
+    the figure takes the precision and marks such pairs."""
     import matplotlib.pyplot as plt
     ctx = Context(dps=30)
     s = get_source("oscillator").build(ctx, orders=80)
@@ -35,7 +36,10 @@ def test_oscillator_borel_plane_shows_the_cut_from_minus_two_thirds():
     assert poles and all(p.real < 0 for p in poles)
     nearest = min(poles, key=abs)
     assert abs(nearest + 2 / 3) < 0.01 * 2 / 3
+    assert not _points(ax, "Froissart doublets")
     assert "85 digits" in ax.get_title()
+    noisy = plot_borel_plane(s, ctx)            # the context's own 45 digits
+    assert any(z.real > 0 for z in _points(noisy, "Froissart doublets"))
     plt.close("all")
 
 
