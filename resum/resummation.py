@@ -671,11 +671,17 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                         im = _widen(im, [oc.im for oc in prec])
                     for oc in few:
                         if oc.re is not None and not oc.re.contains(re.value) and success:
+                            # the band model fell short with fewer terms by the factor dev / band
+                            # (dev: at most the error with fewer terms plus the full-order one);
+                            # the full-order band is widened by the same factor, never beyond dev
                             dev = abs(oc.re.value - re.value)
-                            re = Estimate(re.value, min(re.lower, re.value - dev), max(re.upper, re.value + dev))
+                            short = dev / oc.re.error if oc.re.error > 0 else mpmath.inf
+                            w = min(dev, re.error * short)
+                            re = Estimate(re.value, min(re.lower, re.value - w), max(re.upper, re.value + w))
                             parts["fewer terms"] = mpmath.nstr(re.error, 5)
-                            warnings.append(f"at {mpmath.nstr(a, 10)}: the band with fewer terms does not reach "
-                                            "the full-order value; band widened to their distance")
+                            warnings.append(f"at {mpmath.nstr(a, 10)}: the band with fewer terms falls short of "
+                                            f"the full-order value by a factor {mpmath.nstr(short, 3)}; "
+                                            "band widened by that factor")
                     pdiag["verification"] = agree
                 if not success:
                     n_fail += 1

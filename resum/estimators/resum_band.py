@@ -270,7 +270,8 @@ def band_from_candidates(vals: Sequence, n_used: Sequence[int], *, floor=0, safe
     and the larger of the two lines continued to the full term count is kept
     (geometric and sub-geometric convergence), multiplied by ``10^(1.5 rms)``
     where ``rms`` is the scatter (in decades) of the distances about the
-    geometric line: approximants converge irregularly. When the lower orders do not approach the value
+    geometric line (``10^(0.5 rms)`` without ``nearest_far``): approximants converge irregularly.
+    When the lower orders do not approach the value
     (``b >= 0``) the band is their largest distance instead and
     ``info["converging"]`` is False. With ``nearest_far`` the extrapolated
     error is at least the distance of the highest lower-order candidate (used
@@ -316,12 +317,20 @@ def band_from_candidates(vals: Sequence, n_used: Sequence[int], *, floor=0, safe
         if fit is not None and fit[1] < 0:
             a, b = fit
             extrap = mpmath.mpf(10) ** (a + b * nmax)
+            info["extrapolated_geometric"] = mpmath.nstr(extrap, 5)
             if fit2 is not None:
-                extrap = max(extrap, mpmath.mpf(10) ** (fit2[0] + fit2[1] * mpmath.sqrt(nmax)))
+                e2 = mpmath.mpf(10) ** (fit2[0] + fit2[1] * mpmath.sqrt(nmax))
+                info["extrapolated_sqrt"] = mpmath.nstr(e2, 5)
+                extrap = max(extrap, e2)
             # approximants converge irregularly (plateaus, jumps): inflate by the scatter of the
             # distances about the fitted line (rms, in decades)
             rms = mpmath.sqrt(sum((y - (a + b * x)) ** 2 for x, y in pts) / len(pts))
-            extrap *= mpmath.mpf(10) ** (mpmath.mpf(3) / 2 * rms)
+            # weight of the scatter: 1/2 for approximant sequences in the expansion (or disk)
+            # variable, where the spread of the top candidates already covers the irregular
+            # cases; 3/2 for Borel sums (nearest_far), whose sequences plateau. Measured on
+            # 41 cases with outside truths (studies/accuracy): with 1/2 the band stayed above
+            # 2.7x the actual error everywhere, the largest ratio fell from 893 to ~300
+            extrap *= mpmath.mpf(10) ** ((mpmath.mpf(3) / 2 if nearest_far else mpmath.mpf(1) / 2) * rms)
             info["decay_digits_per_term"] = mpmath.nstr(-b, 4)
             info["fit_scatter_decades"] = mpmath.nstr(rms, 3)
         else:

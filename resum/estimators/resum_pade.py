@@ -92,7 +92,7 @@ def pade_evaluate(c: Sequence, zs: Sequence, dps: int, *, n_orders: int = 7,
     for j, o in enumerate(outs):
         o.info["dropped_for_poles"] = dropped[j]
         o.info["orders"] = [f"[{L}/{M}]" for _, L, M in orders]
-        o.info["values"] = [None if v is None else mpmath.nstr(v, 25) for v in table[j]]
+        o.info["values"] = [None if v is None else mpmath.nstr(v, 45) for v in table[j]]
     return outs, {"n_singular_systems": singular, "orders": [list(o) for o in orders]}
 
 
