@@ -65,6 +65,17 @@ largest coefficient of each), for the input *as given*:
   recursion): a rigorous bound as for ``fraction``;
 * ``svd``: the agreement between two runs at different precisions (an
   estimate).
+* ``fraction_rerun`` (``pade(..., check='rerun')``): the same recursion on
+  plain MPFR numbers (gmpy2), run at ``lo`` bits (plan: ``dps + 1.6 M``
+  digits) and at ``lo`` + 20 digits; ``digits`` is where the two runs agree,
+  minus one, and never more than the ``lo`` run carries. An estimate, not a
+  bound: it assumes the rounding error shrinks with the precision, and it
+  cannot see an error that does not (for example input rounded to the
+  wrong precision before either run). Measured on log(1+x)/x at [100/100],
+  300 digits: claim 326, true 347. It is not faster than ``fraction`` on
+  this machine (the ball recursion runs in C with a falling precision
+  schedule; the MPFR one is a Python loop run twice), see
+  studies/performance.
 
 If fewer than ``dps`` digits could be earned, ``diagnostics['message']``
 says so; callers should check ``digits`` against what they need.
@@ -221,7 +232,8 @@ class PadeApprox:
         for exact.
     exact : bool
     method : str
-        'exact', 'fraction', 'svd' or 'fp' (double precision).
+        'exact', 'fraction', 'fraction_rerun', 'lu', 'svd' or 'fp' (double
+        precision).
     dps : int
         Digits the caller asked for.
     diagnostics : dict
@@ -509,14 +521,19 @@ class _MPoly:
     def __mul__(self, other):
         if not isinstance(other, _MPoly):
             return _MPoly([x * other for x in self.c])
+        # one product in FLINT on exact balls at the gmpy2 precision: each
+        # coefficient of the result is rounded about once, as a dot product
+        # in MPFR would be, but in C (the schoolbook loop in Python costs
+        # ~10 ms at degree 100 and 1500 bits)
         a, b = self.c, other.c
         if not a or not b:
             return _MPoly([])
-        out = [a[0] * 0] * (len(a) + len(b) - 1)
-        for i, x in enumerate(a):
-            for j, y in enumerate(b):
-                out[i + j] += x * y
-        return _MPoly(out)
+        bits = gmpy2.get_context().precision
+        cplx = any(isinstance(x, _GMP_TYPES[1]) for x in a + b)
+        P = flint.acb_poly if cplx else flint.arb_poly
+        with fb.flint_prec(bits):
+            prod = P([_gmp_to_ball(x) for x in a]) * P([_gmp_to_ball(x) for x in b])
+            return _MPoly([_mp_to_gmp(_mid_to_mp(z), cplx) for z in prod.coeffs()])
 
     def right_shift(self, n):
         return _MPoly(self.c[n:])
@@ -529,13 +546,31 @@ class _MPoly:
         return _MPoly(self.c[:n])
 
 
+def _gmp_to_ball(x):
+    """gmpy2 mpfr/mpc -> exact arb/acb."""
+    if isinstance(x, _GMP_TYPES[1]):
+        return flint.acb(_gmp_to_ball(x.real), _gmp_to_ball(x.imag))
+    if x == 0:
+        return flint.arb(0)
+    m, e = x.as_mantissa_exp()
+    return flint.arb((int(m), int(e)))
+
+
+def _mid_to_mp(z):
+    """Midpoint of an arb/acb as an exact mpf/mpc."""
+    if isinstance(z, flint.acb):
+        return fb.acb_to_mpc(z)
+    return fb.arb_to_mpf(z)
+
+
 def _mp_to_gmp(x, cplx=False):
     """int, Fraction, mpf or mpc -> gmpy2 mpfr/mpc, rounded to the current
     gmpy2 precision (exact when the precision holds all the bits)."""
     if isinstance(x, _GMP_TYPES):
         return gmpy2.mpc(x) if cplx else x
-    if isinstance(x, mpmath.mpc) or (cplx and isinstance(x, complex)):
-        x = mpmath.mpc(x)
+    if isinstance(x, complex):
+        x = mpmath.mpc(x)              # exact: a double fits mpmath's precision
+    if isinstance(x, mpmath.mpc):      # (never mpmath.mpc(x) on an mpc: it rounds)
         return gmpy2.mpc(_mp_to_gmp(x.real), _mp_to_gmp(x.imag))
     if isinstance(x, Fraction):
         r = gmpy2.mpfr(gmpy2.mpq(x.numerator, x.denominator))
@@ -1080,7 +1115,9 @@ def _fraction_rerun(g, Lg, Mg, dps, tol, cplx, max_prec_bits):
         if p1.length() != p2.length() or q1.length() != q2.length():
             agree = 0.0         # the runs ended the fraction at different steps
         else:
-            agree = min(_gmp_agree_digits(p1.c, p2.c), _gmp_agree_digits(q1.c, q2.c))
+            with _MPFR.precision(hi):      # read every bit out of both runs
+                agree = min(_gmp_agree_digits(p1.coeffs(), p2.coeffs()),
+                            _gmp_agree_digits(q1.coeffs(), q2.coeffs()))
         digs = min(agree - 1, (lo - 8) * 0.30102999566398120)
         if digs >= dps or hi >= max_prec_bits:
             return p2, q2, max(0.0, digs), hi, lo, agree

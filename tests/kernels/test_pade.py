@@ -289,6 +289,18 @@ def test_block_in_recursion_falls_back_to_ball_lu():
     assert {a.method for a in t.values()} == {"lu"}
 
 
+def _test_series(kind, n, dps, seed):
+    """n coefficients at dps digits: log(1+x)/x or exp(x) (closed forms), or
+    seeded random numbers in [-1, 1]."""
+    rng = random.Random(seed)
+    with workdps(dps):
+        if kind == "log":
+            return [mpmath.mpf((-1) ** k) / (k + 1) for k in range(n)]
+        if kind == "exp":
+            return [1 / mpmath.factorial(k) for k in range(n)]
+        return [mpmath.mpf(rng.uniform(-1, 1)) for _ in range(n)]
+
+
 def _mpmath_reference(c, N, dps, extra):
     """[N/N] by mpmath.pade (dense LU) at dps + extra digits, checked against a
     second run at dps + extra + 40: returns (p, q, digits the two agree to)."""
@@ -310,14 +322,7 @@ def test_scheduled_recursion_claims_no_more_than_mpmath_confirms(kind, N, dps):
     # (closed-form coefficients), and seeded random coefficients in [-1, 1].
     from resum._kernels import flint_bridge as fb
     from resum._kernels.pade import _FINAL_MARGIN
-    rng = random.Random(11)
-    with workdps(dps + 20):
-        if kind == "log":
-            c = [mpmath.mpf((-1) ** k) / (k + 1) for k in range(2 * N + 1)]
-        elif kind == "exp":
-            c = [1 / mpmath.factorial(k) for k in range(2 * N + 1)]
-        else:
-            c = [mpmath.mpf(rng.uniform(-1, 1)) for _ in range(2 * N + 1)]
+    c = _test_series(kind, 2 * N + 1, dps + 20, seed=11)
     r = pade(c, N, N, dps)
     assert r.method == "fraction"
     assert r.diagnostics["prec_bits"] > fb.prec_for_dps(dps + _FINAL_MARGIN)   # schedule active
@@ -327,3 +332,50 @@ def test_scheduled_recursion_claims_no_more_than_mpmath_confirms(kind, N, dps):
         got = min(digits_agree(r.p, p_ref), digits_agree(r.q, q_ref))
     assert r.digits >= dps
     assert got >= r.digits - 2            # claimed <= measured (up to the report's rounding)
+
+
+@pytest.mark.parametrize("kind,N,dps", [("log", 12, 30), ("log", 24, 60), ("exp", 16, 40),
+                                        ("random", 14, 40)])
+def test_rerun_check_claims_no_more_than_mpmath_confirms(kind, N, dps):
+    # check='rerun' (MPFR recursion run at two precisions) against mpmath.pade
+    # (dense LU) at 3N + 60 more digits, itself confirmed by a run at 40 more.
+    # Series: log(1+x)/x and exp(x) (closed-form coefficients), and seeded
+    # random coefficients in [-1, 1].
+    c = _test_series(kind, 2 * N + 1, dps + 20, seed=5)
+    r = pade(c, N, N, dps, check="rerun")
+    assert r.method == "fraction_rerun"
+    assert r.digits >= dps
+    assert r.digits <= r.diagnostics["rerun"]["agree_digits"] - 1
+    p_ref, q_ref, agree = _mpmath_reference(c, N, dps, 3 * N + 60)
+    assert agree >= r.digits + 5          # the reference resolves the claim
+    with workdps(dps + 3 * N + 100):
+        got = min(digits_agree(r.p, p_ref), digits_agree(r.q, q_ref))
+    assert got >= r.digits                # claimed <= measured
+
+
+def test_rerun_check_complex_and_off_diagonal():
+    # complex coefficients (MPFR mpc lists) and L != M (including L < M, which
+    # goes through the reciprocal series); reference: mpmath.pade at 80 digits
+    rng = random.Random(8)
+    with workdps(50):
+        c = [mpmath.mpc(rng.uniform(-1, 1), rng.uniform(-1, 1)) for _ in range(17)]
+    for L, M in ((9, 7), (6, 10)):
+        r = pade(c, L, M, 30, check="rerun")
+        assert r.method == "fraction_rerun" and r.digits >= 30
+        with workdps(80):
+            p_ref, q_ref = mpmath.pade(c[:L + M + 1], L, M)
+            assert digits_agree(r.q, q_ref) >= r.digits and digits_agree(r.p, p_ref) >= r.digits
+
+
+def test_rerun_check_singular_block_falls_back_to_ball_lu():
+    # the same c_1 = 0 series as above: the recursion stops at its first step
+    # and the certified ball LU takes over; reference: mpmath.pade at 80 digits
+    with workdps(80):
+        c = [mpmath.mpf(1), mpmath.mpf(0)] + [mpmath.mpf(1) / (k + 1) for k in range(2, 13)]
+        p_ref, q_ref = mpmath.pade(c, 6, 6)
+    r = pade(c, 6, 6, dps=40, check="rerun")
+    assert r.method == "lu" and r.digits >= 40
+    with workdps(80):
+        assert digits_agree(r.q, q_ref) >= 40 and digits_agree(r.p, p_ref) >= 40
+    with pytest.raises(ValueError):
+        pade(c, 6, 6, dps=40, check="radius")
