@@ -25,7 +25,8 @@ import mpmath
 
 from ..context import workdps
 
-__all__ = ["flint_dps", "solve", "poly_roots", "pade_coeffs", "polyval", "polyder"]
+__all__ = ["flint_dps", "solve", "poly_roots", "pade_coeffs", "polyval", "polyval_many", "polyder",
+           "nearest_distances"]
 
 
 @contextlib.contextmanager
@@ -69,6 +70,27 @@ def _rel_rad(b) -> float:
     return r / m
 
 
+def _to_balls(values, cplx):
+    """Entries as arb/acb, converting each distinct mpmath object once.
+
+    The matrices of the estimators are Toeplitz-like: the same coefficient
+    object appears in many entries, and converting it is what costs.
+    """
+    cache = {}      # id -> (ball, value); holding the value keeps its id from being reused
+    out = []
+    for v in values:
+        hit = cache.get(id(v))
+        if hit is None:
+            if cplx:
+                z = mpmath.mpc(v)
+                ball = flint.acb(z.real, z.imag)
+            else:
+                ball = flint.arb(mpmath.mpf(v))
+            hit = cache[id(v)] = (ball, v)
+        out.append(hit[0])
+    return out
+
+
 def solve(rows, rhs, dps: int):
     """Solve the square system ``rows @ x = rhs`` at ``dps`` digits.
 
@@ -76,18 +98,20 @@ def solve(rows, rhs, dps: int):
     ``rel_err`` the largest relative ball radius of the solution (a measure of
     how many digits survived the elimination), or ``None`` when the matrix is
     singular at this precision.
+
+    Each distinct coefficient object is converted to a ball once (the
+    estimators' matrices are Toeplitz-like).
     """
     n = len(rows)
     flat = [v for r in rows for v in r]
     cplx = _is_complex(flat) or _is_complex(rhs)
     with workdps(dps + 10), flint_dps(dps + 10):
         if cplx:
-            conv = lambda v: flint.acb(mpmath.mpc(v).real, mpmath.mpc(v).imag)  # noqa: E731
-            A = flint.acb_mat(n, n, [conv(v) for v in flat])
-            b = flint.acb_mat(n, 1, [conv(v) for v in rhs])
+            A = flint.acb_mat(n, n, _to_balls(flat, True))
+            b = flint.acb_mat(n, 1, _to_balls(rhs, True))
         else:
-            A = flint.arb_mat(n, n, [flint.arb(mpmath.mpf(v)) for v in flat])
-            b = flint.arb_mat(n, 1, [flint.arb(mpmath.mpf(v)) for v in rhs])
+            A = flint.arb_mat(n, n, _to_balls(flat, False))
+            b = flint.arb_mat(n, 1, _to_balls(rhs, False))
         try:
             x = A.solve(b)
         except ZeroDivisionError:
@@ -104,6 +128,54 @@ def polyval(p, x):
     for c in reversed(p):
         s = s * x + c
     return s
+
+
+def polyval_many(p, xs, dps: int):
+    """Values of the polynomial ``p`` (low to high) at each of ``xs``, as mpmath numbers.
+
+    One conversion of ``p`` to a flint polynomial, then each point evaluated in C at
+    ``dps + 10`` digits (the midpoint of the ball is returned); much faster than
+    :func:`polyval` on many points. Falls back to :func:`polyval` for an empty
+    polynomial.
+    """
+    if not p:
+        return [mpmath.mpf(0) for _ in xs]
+    with workdps(dps + 10), flint_dps(dps + 10):
+        poly = flint.acb_poly([_to_arb(mpmath.mpmathify(c)) for c in p])
+        out = []
+        for x in xs:
+            v = poly(_to_arb(mpmath.mpc(x)))
+            out.append(mpmath.mpc(mpmath.mpf(v.real.mid()), mpmath.mpf(v.imag.mid())))
+    return out
+
+
+def nearest_distances(zs, ws):
+    """For each point of ``zs`` the distance to the nearest of ``ws`` (inf if none).
+
+    Computed in double precision with numpy; each distance is then recomputed in
+    mpmath from the few candidates within a factor 2 of the double-precision
+    minimum (plus a rounding margin), so the result equals the plain mpmath
+    minimum. Points outside the double range are handled in mpmath throughout.
+    """
+    import numpy as np
+    if not ws:
+        return [mpmath.inf] * len(zs)
+    try:
+        wa = np.array([complex(w) for w in ws])
+        za = np.array([complex(z) for z in zs])
+    except OverflowError:
+        wa = za = None
+    if wa is None or not (np.all(np.isfinite(wa)) and np.all(np.isfinite(za))):
+        return [min(abs(z - w) for w in ws) for z in zs]
+    dist = np.abs(za[:, None] - wa[None, :])
+    scale = np.maximum(np.abs(za)[:, None], np.abs(wa)[None, :])
+    out = []
+    for i, z in enumerate(zs):
+        row = dist[i]
+        lim = 2 * row.min() + 1e-12 * scale[i].max()
+        cand = np.nonzero(row <= lim)[0]
+        out.append(min(abs(z - ws[j]) for j in cand))
+    return out
 
 
 def polyder(p):

@@ -56,7 +56,7 @@ import mpmath
 from ..results import Status
 from ..uncertainty.ensemble import SAFETY
 from ._common import failed, finish, prepare
-from ._num import poly_roots, polyder, polyval, solve
+from ._num import poly_roots, polyder, polyval, polyval_many, solve
 from .pade_sing import clusters_to_singularities
 from .ratio import classify_growth
 
@@ -131,6 +131,19 @@ def exponent_at(Q, K, z):
     return 1 - polyval(Q[K - 1], z) / dQK
 
 
+def exponents_at(Q, K, zs, dps):
+    """:func:`exponent_at` at many zeros at once (polynomials evaluated in flint)."""
+    dQK = polyval_many(polyder(Q[K]), zs, dps)
+    top = polyval_many(Q[0] if K == 1 else Q[K - 1], zs, dps)
+    out = []
+    for d, t in zip(dQK, top):
+        if d == 0:
+            out.append(None)
+        else:
+            out.append(-t / d if K == 1 else 1 - t / d)
+    return out
+
+
 def estimate_diffapprox(series, ctx=None, order=1, count=16, max_radius_factor=2.5):
     """Singularities from an ensemble of inhomogeneous differential approximants.
 
@@ -203,11 +216,8 @@ def estimate_diffapprox(series, ctx=None, order=1, count=16, max_radius_factor=2
                 if not roots:
                     skipped.append((L, tuple(Ms)))
                     continue
-                pts = []
-                for z in roots:
-                    th = exponent_at(Q, K, z)
-                    if th is not None and mpmath.isfinite(th):
-                        pts.append((z, th))
+                pts = [(z, th) for z, th in zip(roots, exponents_at(Q, K, roots, prep.dps))
+                       if th is not None and mpmath.isfinite(th)]
                 ens.append({"L": L, "M": tuple(Ms), "poles": pts, "zeros": [], "spurious": [], "rel_err": err})
                 table.append({"L": L, "M": list(Ms), "roots": [z for z, _ in pts],
                               "exponents": [t for _, t in pts]})

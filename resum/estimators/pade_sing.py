@@ -47,7 +47,7 @@ import mpmath
 from ..results import Estimate, Singularity, Status
 from ..uncertainty.ensemble import SAFETY, cluster_points, robust_center
 from ._common import classify_kind, failed, finish, prepare
-from ._num import pade_coeffs, poly_roots, polyder, polyval
+from ._num import nearest_distances, pade_coeffs, poly_roots, polyder, polyval_many
 from .ratio import classify_growth
 
 __all__ = ["estimate_pade", "pade_ensemble", "table_orders", "clusters_to_singularities"]
@@ -148,10 +148,11 @@ def pade_ensemble(c, dps: int, digits: int, count: int = 10, max_rel_err=None, o
         dq = polyder(q)
         pnorm = max(abs(x) for x in p) if p else 1
         keep, spur = [], []
-        for z in poles:
-            d = min((abs(z - w) for w in zeros), default=mpmath.inf)
-            den = polyval(dq, z)
-            res = polyval(p, z) / den if den != 0 else mpmath.inf
+        dists = nearest_distances(poles, zeros)
+        dens = polyval_many(dq, poles, dps)
+        nums = polyval_many(p, poles, dps)
+        for z, d, den, num in zip(poles, dists, dens, nums):
+            res = num / den if den != 0 else mpmath.inf
             scale = max(abs(z), 1)
             tiny_res = abs(res) < tol * pnorm * mpmath.mpf(10) ** -2 * scale
             if d < tol * scale or tiny_res:
@@ -159,8 +160,8 @@ def pade_ensemble(c, dps: int, digits: int, count: int = 10, max_rel_err=None, o
             else:
                 keep.append((z, res))
         # a zero paired with a removed pole is removed too
-        zeros_kept = [w for w in zeros if min((abs(w - z) for z in spur), default=mpmath.inf)
-                      >= tol * max(abs(w), 1)]
+        zeros_kept = [w for w, dw in zip(zeros, nearest_distances(zeros, spur))
+                      if dw >= tol * max(abs(w), 1)]
         out.append({"L": L, "M": M, "poles": keep, "zeros": zeros_kept, "spurious": spur,
                     "rel_err": err})
     return out, skipped
