@@ -402,8 +402,7 @@ def _reconcile(series, results, warnings):
     if nearest_methods == 1 and len(ok) > 1:
         warnings.append("the nearest singularity was found by one method only; treat it with care")
     out["singularities"] = tuple(s for s, _ in chosen)
-    near = min((s for s, _ in lead), key=lambda s: abs(s.location))
-    rad = modulus_band(near.re, near.im)
+    rad = radius_band([s for s, _ in lead])
     out["radius"] = rad
     out["combined"] = {"singularities": [{"location": s.location, "found_by": f,
                                           "used": [m for m in f if m in (s.note or "").split("; found by")[0]]}
@@ -412,6 +411,26 @@ def _reconcile(series, results, warnings):
     if rt is not None and rt.radius is not None and not _overlap(rt.radius, rad):
         warnings.append(f"root test radius {rt.radius} does not overlap {rad}")
     return out
+
+
+def radius_band(sings) -> Estimate:
+    """Band for the radius ``min |s|`` over singularities with bands.
+
+    Every point whose modulus band reaches below the upper end of the nearest
+    one's could be the nearest: the radius lies between the smallest lower end
+    and the smallest upper end of their modulus bands (each point found is an
+    upper bound on the radius; any of them may set the lower one). The value is
+    the modulus of the nearest centre. With two points at the same distance
+    (``x_c`` and ``-x_c``) the radius is thus bounded above by the sharper of
+    the two and below by the wider one, instead of taking both ends from
+    whichever centre happens to lie nearer.
+    """
+    bands = [(abs(s.location), modulus_band(s.re, s.im)) for s in sings]
+    v, near = min(bands, key=lambda t: t[0])
+    contenders = [b for _, b in bands if b.lower <= near.upper]
+    lo = min(b.lower for b in contenders)
+    hi = min(b.upper for b in contenders)
+    return Estimate(v, min(lo, v), max(hi, v))
 
 
 def _perturbed(series, seed=12345):
@@ -499,8 +518,7 @@ def _verify(series, ctx, names, base, warnings):
         info[key] = entry
     # the radius follows the nearest (widened) singularity
     if sings and base["growth"] == "finite radius":
-        near = min(sings, key=lambda s: abs(s.location))
-        rb = modulus_band(near.re, near.im)
+        rb = radius_band(sings)
         rad = Estimate(rad.value, min(rad.lower, rb.lower), max(rad.upper, rb.upper)) if rad else rb
     hp = info.get("higher_precision") or info.get("perturbed_input")
     if hp is not None and "radius_digits_agree" in hp and rad is not None and rad.error > 0:
