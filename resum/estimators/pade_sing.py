@@ -146,22 +146,28 @@ def pade_ensemble(c, dps: int, digits: int, count: int = 10, max_rel_err=None, o
             skipped.append((L, M))
             continue
         dq = polyder(q)
-        pnorm = max(abs(x) for x in p) if p else 1
         keep, spur = [], []
         dists = nearest_distances(poles, zeros)
         dens = polyval_many(dq, poles, dps)
         nums = polyval_many(p, poles, dps)
-        for z, d, den, num in zip(poles, dists, dens, nums):
-            res = num / den if den != 0 else mpmath.inf
-            scale = max(abs(z), 1)
-            tiny_res = abs(res) < tol * pnorm * mpmath.mpf(10) ** -2 * scale
-            if d < tol * scale or tiny_res:
+        # a doublet's residue is tiny against the other residues of the same
+        # approximant (each taken relative to its pole's distance, |res|/|z|,
+        # which scales like the function under x -> c x). The reference is the
+        # largest such residue, so the test does not depend on the radius (a test
+        # against max |p_k| called every residue tiny for a radius of 1/16, whose
+        # p_k grow like 16^k)
+        ress = [num / den if den != 0 else mpmath.inf for den, num in zip(dens, nums)]
+        rel = [abs(r) / abs(z) if z != 0 else abs(r) for r, z in zip(ress, poles)]
+        ref = max((v for v in rel if mpmath.isfinite(v)), default=mpmath.mpf(0))
+        for z, d, res, rr in zip(poles, dists, ress, rel):
+            tiny_res = rr < tol * mpmath.mpf(10) ** -2 * ref
+            if d < tol * abs(z) or tiny_res:
                 spur.append(z)
             else:
                 keep.append((z, res))
         # a zero paired with a removed pole is removed too
         zeros_kept = [w for w, dw in zip(zeros, nearest_distances(zeros, spur))
-                      if dw >= tol * max(abs(w), 1)]
+                      if dw >= tol * abs(w)]
         out.append({"L": L, "M": M, "poles": keep, "zeros": zeros_kept, "spurious": spur,
                     "rel_err": err})
     return out, skipped
