@@ -326,6 +326,14 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
             spread = max(hi_q - med, med - lo_q)
             w = 3 * max(spread, sorted(ses)[len(ses) // 2])
             coeffs.append((lab, Estimate(med, med - w, med + w)))
+        if not coeffs:
+            # fits were made, but no coefficient was carried by two of them: nothing to report
+            return StrongCouplingResult(
+                False, Status.NOT_CONVERGED,
+                f"no coefficient is supported by two fits: only {len(members)} fit(s) from "
+                f"{len(trusted)} sharp values up to {var} = {mpmath.nstr(trusted_up_to, 6)}; give "
+                f"more couplings, fewer fit terms (n_terms_fit) or sharper values", var, tuple(gs),
+                tuple(vals), trusted_up_to, lp, source, (), {}, tuple(warnings))
         comparison = {}
         for lab, ev in (expected or {}).items():
             e = dict(coeffs).get(lab)

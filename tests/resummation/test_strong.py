@@ -82,3 +82,19 @@ def test_polynomial_degree_needs_enough_known_zeros():
     assert polynomial_degree([1, 2, 3, 0, 0]) is None
     assert polynomial_degree([1, 2, 3, 4, 5, 6, 7, 8]) is None
     assert polynomial_degree([1, 0, 0, 1, 0, 0, 0, 0]) == 3
+
+
+def test_no_coefficient_carried_by_two_fits_is_a_failure():
+    """Four values of 4g/pi - 2 ln2/pi^2 (the a = 0 closed form's strong-coupling
+    form) fitted with three terms leave exactly one fit: no coefficient can be
+    checked against a second fit, so the probe must not report success."""
+    s = weak_coupling_series("0", 20, Context(dps=40))
+    with workdps(30):
+        gs = [4, 6, 8, 10]
+        vals = [4 * g / mpmath.pi - 2 * mpmath.log(2) / mpmath.pi ** 2 for g in gs]
+        from resum.results import Estimate
+        vals = [Estimate(v, v - mpmath.mpf(10) ** -20, v + mpmath.mpf(10) ** -20) for v in vals]
+    r = probe_strong_coupling(s, couplings=gs, ctx=Context(dps=30), values=vals,
+                              leading_power=1, n_terms_fit=[3])
+    assert not r.success and r.status.value == "not converged", (r.status, r.message)
+    assert "two fits" in r.message and not r.coefficients
