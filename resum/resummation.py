@@ -383,13 +383,17 @@ def polynomial_degree(coefficients) -> Optional[int]:
 
 
 def _analysis(series, ctx):
-    """The analysis engineer's verdict, if that module is available (else None)."""
+    """The singularity analysis used to plan the method and map (None if it fails).
+
+    Run without its verification reruns: they only widen bands and add
+    warnings, never move a location, and the plan uses locations and the
+    growth verdict alone (about a third of the analysis time saved)."""
     try:
         from .analysis import analyze  # noqa: WPS433
     except ImportError:
         return None
     try:
-        return analyze(series, ctx)
+        return analyze(series, ctx, verify=False)
     except InputError:
         raise
     except Exception:  # noqa: BLE001 - the analysis is an aid; evaluation goes on without it
@@ -408,7 +412,7 @@ class _Plan:
 
 
 def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map, alpha,
-          lateral, large_x_power, use_analysis, warnings) -> _Plan:
+          lateral, large_x_power, use_analysis, warnings, analysis=None) -> _Plan:
     """Choose the method and its parameters (map, Borel parameter)."""
     an = None
     deg = polynomial_degree(c)
@@ -418,7 +422,7 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
                                         f"the coefficients vanish from the next power through the last term given")
     g = _growth(c)
     if method == "auto" and use_analysis:
-        an = _analysis(series, ctx)
+        an = analysis if analysis is not None else _analysis(series, ctx)
     factorial = g["factorial"]
     if an is not None and getattr(an, "growth", ""):
         factorial = an.growth == "factorial"
@@ -531,7 +535,7 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
              verify: bool = True, *, cmap: Optional[ConformalMap] = None, singularities=None,
              borel_b=None, borel_map=None, alpha=None, large_x_power=None, lateral: str = "auto",
              n_orders: Optional[int] = None, use_analysis: bool = True,
-             work_dps: Optional[int] = None) -> EvaluationResult:
+             work_dps: Optional[int] = None, analysis=None) -> EvaluationResult:
     """Resummed values of ``series`` at ``points``, with bands.
 
     Parameters
@@ -569,6 +573,10 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
     n_orders : int, optional
         How many lower term counts (down to about 55% of the terms) are used to
         extrapolate the band (default 7); 0 keeps only the top four.
+    analysis : AnalysisResult, optional
+        A singularity analysis of this same series (from
+        :func:`resum.analysis.analyze`) to plan the method and map from; by
+        default ``method="auto"`` runs one (without its verification reruns).
 
     Returns
     -------
@@ -604,7 +612,8 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
         c = series.dense(Context(dps=wd, guard=0))
         plan = _plan(method, c, xs, series, ctx, cmap=cmap, singularities=singularities,
                      borel_b=borel_b, borel_map=borel_map, alpha=alpha, lateral=lateral,
-                     large_x_power=large_x_power, use_analysis=use_analysis, warnings=warnings)
+                     large_x_power=large_x_power, use_analysis=use_analysis, warnings=warnings,
+                     analysis=analysis)
         # the Padé systems need the long working precision; the Laplace integrals only the
         # reported digits plus guards (tanh-sinh converges fast there)
         qd = min(wd, ctx.work_dps + 5)

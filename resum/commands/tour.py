@@ -67,7 +67,7 @@ def run(args) -> int:
     atomic_write_text(out / "analysis.json", json.dumps(ana.to_dict(), indent=1) + "\n")
 
     _step(f"resummation at g = {', '.join(COUPLINGS)} (automatic method; verified)", t0)
-    ev = evaluate(series, list(COUPLINGS), ctx)
+    ev = evaluate(series, list(COUPLINGS), ctx, analysis=ana)
     atomic_write_text(out / "evaluation.txt", render_evaluation(ev) + "\n")
     atomic_write_text(out / "evaluation.json", json.dumps(ev.to_dict(), indent=1) + "\n")
 
