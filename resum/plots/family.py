@@ -231,12 +231,17 @@ def _draw(ax, series, label_prefix="", marker="o", color=None, offset=0.0, lines
     for g, (xs, vs, los, his, miss) in series.items():
         lab = ", ".join(t for t in (label_prefix, g) if t)
         if xs:
+            n += len(xs)
+            if lines and miss:
+                # a failed point breaks the line (NaN), so no segment bridges it
+                pts = sorted([(xv, v, lo, hi) for xv, v, lo, hi in zip(xs, vs, los, his)]
+                             + [(xv, math.nan, math.nan, math.nan) for xv in miss])
+                xs, vs, los, his = (list(t) for t in zip(*pts))
             yerr = [[max(0.0, v - lo) for v, lo in zip(vs, los)],
                     [max(0.0, hi - v) for v, hi in zip(vs, his)]]
             xo = [xv + offset for xv in xs]
             ax.errorbar(xo, vs, yerr=yerr, fmt=marker + ("-" if lines else ""), ms=4, lw=1,
                         capsize=2.5, label=lab or None, color=color)
-            n += len(xs)
         if miss:
             seen = "failed or not converged" in ax.get_legend_handles_labels()[1]
             ax.plot(miss, [0] * len(miss), "x", color="0.5", transform=ax.get_xaxis_transform(),

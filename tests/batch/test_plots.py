@@ -44,3 +44,17 @@ def test_value_errors_are_pulls_computed_at_the_recorded_precision():
     t_wide = {"value": one + "0", "lo": "0.999999999999999999999999999999", "hi": one + "1"}
     assert _pull(v, t_wide) == pytest.approx(3 / 3)                 # 3e-30 / (2e-30 + 1e-30)
     assert _pull({"value": "nan", "lo": "nan", "hi": "nan"}, t) is None
+
+
+def test_a_failed_point_breaks_the_line():
+    """A point that failed is a cross, and no line segment bridges it."""
+    import math
+    import matplotlib.pyplot as plt
+    from resum.plots.family import _draw
+    fig, ax = plt.subplots()
+    _draw(ax, {"": ([1.0, 3.0], [1.0, 3.0], [0.9, 2.9], [1.1, 3.1], [2.0])}, "value", "o")
+    line = next(ln for ln in ax.get_lines() if ln.get_marker() == "o")
+    assert list(line.get_xdata()) == [1.0, 2.0, 3.0]
+    y = list(line.get_ydata())
+    assert y[0] == 1.0 and math.isnan(y[1]) and y[2] == 3.0
+    plt.close(fig)
