@@ -301,7 +301,6 @@ def _drop_inside_growth_radius(combined, ok, warnings):
     top = _growth_floor(ok)
     if top is None or len(combined) < 2:
         return combined
-    bounds = [top]
     floor = top * mpmath.mpf("0.97")   # 3 % inside: c_n would grow (1.03)^n faster
     kept = [(s, f) for s, f in combined if not abs(s.location) + _err(s) < floor]
     if not kept:
@@ -309,7 +308,7 @@ def _drop_inside_growth_radius(combined, ok, warnings):
     for s, f in combined:
         if (s, f) not in kept:
             warnings.append(f"discarded a point at {mpmath.nstr(s.location, 6)} seen by {', '.join(f)}: it lies "
-                            f"inside the radius {mpmath.nstr(max(bounds), 6)} implied by the growth of the "
+                            f"inside the radius {mpmath.nstr(top, 6)} implied by the growth of the "
                             "coefficients")
     return kept
 
