@@ -39,12 +39,19 @@ def plot_evaluation(result, ax=None, reference: Optional[Sequence] = None):
                     if result.points else "resummed")
         bs = [p for p in result.points if p.baseline is not None and not isinstance(p.at, mpmath.mpc)]
         if bs:
-            bx = [float(p.at) for p in bs]
-            by = [float(p.baseline.value.value) for p in bs]
-            be = [float(p.baseline.value.error) for p in bs]
-            ax.errorbar(bx, by, yerr=be, fmt="s", ms=3, alpha=0.6, capsize=2, label="optimal truncation")
             span = max(ys) - min(ys) if len(ys) > 1 else (abs(ys[0]) if ys else 1)
             lo_y, hi_y = (min(ys) - span, max(ys) + span) if ys else (None, None)
+            # a baseline whose error bar is wider than the window says nothing it can show:
+            # it is counted in the legend instead of drawn across the figure
+            shown = [p for p in bs if lo_y is None or float(p.baseline.value.error) <= span]
+            off = len(bs) - len(shown)
+            label = "optimal truncation" + (f" ({off} off scale: error > {span:.3g})" if off else "")
+            if shown:
+                ax.errorbar([float(p.at) for p in shown], [float(p.baseline.value.value) for p in shown],
+                            yerr=[float(p.baseline.value.error) for p in shown], fmt="s", ms=3, alpha=0.6,
+                            capsize=2, label=label)
+            elif off:
+                ax.plot([], [], "s", ms=3, alpha=0.6, label=label)
             if lo_y is not None and lo_y != hi_y:
                 ax.set_ylim(lo_y, hi_y)
         if reference:

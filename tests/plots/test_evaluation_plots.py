@@ -54,3 +54,23 @@ def test_euler_series_single_pole():
     assert len(poles) == 1 and abs(poles[0] + 1) < 1e-12
     assert not _points(ax, "Froissart doublets")
     plt.close("all")
+
+
+def test_off_scale_baseline_is_counted_not_drawn():
+    """log(1+x)/x = sum (-1)^k x^k/(k+1) (common practice, no source): at x = 5,
+    outside the radius 1, the smallest term is of order 1, wider than the range of
+    the resummed values (log(1.5)/0.5 = 0.81 to log(6)/5 = 0.36), so the
+    optimal-truncation bar is left out and counted; at x = 1/2 it is drawn."""
+    from fractions import Fraction
+
+    import matplotlib.pyplot as plt
+    from resum.plots.evaluation import plot_evaluation
+    from resum.resummation import evaluate
+    from resum.series import Series
+    s = Series([Fraction((-1) ** k, k + 1) for k in range(30)])
+    r = evaluate(s, ["1/2", "5"], Context(dps=20), method="pade", verify=False)
+    ax = plot_evaluation(r)
+    labels = ax.get_legend_handles_labels()[1]
+    base = [lab for lab in labels if lab.startswith("optimal truncation")]
+    assert base and "1 off scale" in base[0], labels
+    plt.close("all")
