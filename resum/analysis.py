@@ -278,6 +278,19 @@ def _combine_group(g, warnings):
             if s is not eb and _exponent_reliable(s) and not _overlap(theta, s.exponent):
                 disagree.append(f"{s.method} (exponent)")
                 theta = _touch(theta, s.exponent)
+        # two disjoint exponents at one point: the smaller one dominates the large-order
+        # growth (c_n ~ n^(-theta-1) x_c^-n), the larger is likely a subleading term that one
+        # method locked onto; the value follows the smaller, the band still covers both
+        rel_exps = [s for s in exps if _exponent_reliable(s)] or exps
+        low = min(rel_exps, key=lambda s: s.exponent.value)
+        if low is not eb and not _overlap(eb.exponent, low.exponent):
+            warnings.append(f"two exponents at {mpmath.nstr(mpmath.mpc(best.re.value, best.im.value), 8)}: "
+                            f"{low.exponent} ({low.method}) and {eb.exponent} ({eb.method}); the smaller "
+                            "dominates the growth of the coefficients and is reported, the larger may be "
+                            "a subleading singular term; the band covers both")
+            theta = Estimate(low.exponent.value, min(theta.lower, low.exponent.lower),
+                             max(theta.upper, low.exponent.upper))
+            theta_from = low.method
         if "exponent still drifting" in (eb.note or ""):
             warnings.append(f"the exponent near {mpmath.nstr(mpmath.mpc(best.re.value, best.im.value), 8)} "
                             f"({eb.method}) still drifts with the number of terms without slowing down: its "

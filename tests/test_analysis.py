@@ -209,3 +209,23 @@ def test_methods_subset_and_how_text():
     r = analyze(Series(catalan(40)), Context(dps=40), methods=["ratio"], verify=False)
     assert list(r.methods) == ["ratio"]
     assert "safety factor" in r.diagnostics["how"]
+
+
+def test_disjoint_exponents_report_the_dominant_one():
+    # two methods see one point with disjoint exponent bands (a second-order differential
+    # approximant can lock onto a subleading term, e.g. 3/2 beside a leading 2/3): the
+    # smaller exponent dominates c_n ~ n^(-theta-1) x_c^-n (common practice, no source), so it
+    # is the value reported; the band still covers both, and a warning names them
+    from resum.analysis import _combine_group
+    from resum.results import Estimate, Singularity
+    loc = Estimate(mpmath.mpf(-1) / 16, mpmath.mpf("-0.06250001"), mpmath.mpf("-0.06249999"))
+    zero = Estimate.exact(0)
+    lead = Singularity(loc, zero, "branch", Estimate(mpmath.mpf("0.66"), mpmath.mpf("0.63"),
+                                                     mpmath.mpf("0.69")), "ratio", "ratio")
+    sub = Singularity(loc, zero, "branch", Estimate(mpmath.mpf("1.499"), mpmath.mpf("1.481"),
+                                                    mpmath.mpf("1.517")), "diff-approx2", "da2")
+    warnings = []
+    s, used = _combine_group([sub, lead], warnings)
+    assert s.exponent.value == mpmath.mpf("0.66")
+    assert s.exponent.contains(mpmath.mpf("0.64")) and s.exponent.contains(mpmath.mpf("1.5"))
+    assert any(w.startswith("two exponents") for w in warnings)
