@@ -144,9 +144,12 @@ def test_killed_run_resumes_without_loss(tmp_path, how):
     spec_path = tmp_path / "spec.toml"
     spec_path.write_text(spec_text([1, 2, 3, 4, 5], delay=0.25))
     out = tmp_path / "o"
+    # Ctrl-C as at a terminal: a test run started in the background by a shell without job
+    # control inherits SIGINT ignored, and Python then never raises KeyboardInterrupt
     proc = subprocess.Popen([sys.executable, "-m", "resum.commands.family", str(spec_path),
                              "-o", str(out), "--jobs", "1", "--no-plots"], cwd=ROOT,
-                            stdout=subprocess.DEVNULL, stderr=subprocess.PIPE)
+                            stdout=subprocess.DEVNULL, stderr=subprocess.PIPE,
+                            preexec_fn=lambda: signal.signal(signal.SIGINT, signal.SIG_DFL))
     deadline = time.time() + 30
     while time.time() < deadline and len(list((out / "points").glob("p*.json"))) < 3:
         time.sleep(0.05)
