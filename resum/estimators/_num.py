@@ -135,8 +135,7 @@ def polyval_many(p, xs, dps: int):
 
     One conversion of ``p`` to a flint polynomial, then each point evaluated in C at
     ``dps + 10`` digits (the midpoint of the ball is returned); much faster than
-    :func:`polyval` on many points. Falls back to :func:`polyval` for an empty
-    polynomial.
+    :func:`polyval` on many points. An empty polynomial is 0 everywhere.
     """
     if not p:
         return [mpmath.mpf(0) for _ in xs]

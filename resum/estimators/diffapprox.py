@@ -58,7 +58,7 @@ import mpmath
 from ..results import Status
 from ..uncertainty.ensemble import SAFETY
 from ._common import failed, finish, prepare
-from ._num import poly_roots, polyder, polyval, polyval_many, solve
+from ._num import poly_roots, polyder, polyval_many, solve
 from .pade_sing import clusters_to_singularities
 from .ratio import classify_growth
 
@@ -123,18 +123,9 @@ def diffapprox_orders(N, K, count=16, Ls=(0, 1, 2, 4, 6)):
     return out
 
 
-def exponent_at(Q, K, z):
-    """Critical exponent of the approximant at a simple zero ``z`` of ``Q_K``."""
-    dQK = polyval(polyder(Q[K]), z)
-    if dQK == 0:
-        return None
-    if K == 1:
-        return -polyval(Q[0], z) / dQK
-    return 1 - polyval(Q[K - 1], z) / dQK
-
-
 def exponents_at(Q, K, zs, dps):
-    """:func:`exponent_at` at many zeros at once (polynomials evaluated in flint)."""
+    """Critical exponents of the approximant at simple zeros ``zs`` of ``Q_K``
+    (``None`` where ``Q_K'`` vanishes); polynomials evaluated in flint."""
     dQK = polyval_many(polyder(Q[K]), zs, dps)
     top = polyval_many(Q[0] if K == 1 else Q[K - 1], zs, dps)
     out = []
