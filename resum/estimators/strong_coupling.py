@@ -334,17 +334,7 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
                 f"{len(trusted)} sharp values up to {var} = {mpmath.nstr(trusted_up_to, 6)}; give "
                 f"more couplings, fewer fit terms (n_terms_fit) or sharper values", var, tuple(gs),
                 tuple(vals), trusted_up_to, lp, source, (), {}, tuple(warnings))
-        comparison = {}
-        for lab, ev in (expected or {}).items():
-            e = dict(coeffs).get(lab)
-            ev = mpmath.mpmathify(ev)
-            if e is None:
-                comparison[lab] = {"expected": ev, "inside": None, "note": "not fitted"}
-            else:
-                comparison[lab] = {"expected": ev, "inside": e.contains(ev),
-                                   "sigma": (e.value - ev) / e.error if e.error else mpmath.inf}
-                if not e.contains(ev):
-                    warnings.append(f"{lab}: fitted {e} does not contain the expected {mpmath.nstr(ev, 12)}")
+        comparison = _compare(coeffs, expected, warnings)
         diag = {"n_fits": len(members), "n_fits_kept": len(ok), "secants": [
             (mpmath.nstr(g, 6), mpmath.nstr(p, 10)) for g, p, _ in secants],
             "power_estimate": None if p_est is None else p_est.to_dict(),
@@ -362,6 +352,31 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
                                     f"{var} = {mpmath.nstr(trusted_up_to, 6)}", var, tuple(gs), tuple(vals),
                                     trusted_up_to, lp, source, tuple(coeffs), comparison, tuple(warnings),
                                     diag, prov)
+
+
+def _compare(coeffs, expected, warnings, exact_polynomial=False) -> dict:
+    """Each expected coefficient against the one found: ``{"expected", "inside",
+    "sigma" or "note"}`` per label; a warning for each that is not inside. A label
+    absent from an exact polynomial is a zero coefficient; absent from a fit, it
+    is unknown (``inside`` None)."""
+    found = dict(coeffs)
+    comparison = {}
+    for lab, ev in (expected or {}).items():
+        e = found.get(lab)
+        ev = mpmath.mpmathify(ev)
+        if e is None:
+            inside = (ev == 0) if exact_polynomial else None
+            comparison[lab] = {"expected": ev, "inside": inside,
+                               "note": "absent from the polynomial" if exact_polynomial else "not fitted"}
+        else:
+            inside = e.contains(ev)
+            comparison[lab] = {"expected": ev, "inside": inside,
+                               "sigma": (e.value - ev) / e.error if e.error else (0 if inside else mpmath.inf)}
+        if inside is False:
+            what = "the polynomial gives" if exact_polynomial else "fitted"
+            warnings.append(f"{lab}: {what} {e if e is not None else 0}, which does not contain the "
+                            f"expected {mpmath.nstr(ev, 12)}")
+    return comparison
 
 
 def _polynomial_result(series, c, deg, gs, ctx, var, expected, n_terms_fit, log_terms):
@@ -388,19 +403,8 @@ def _polynomial_result(series, c, deg, gs, ctx, var, expected, n_terms_fit, log_
     for g in gs:
         x = scale * g ** q
         vals.append(est(sum(c[k] * x ** k for k in range(deg + 1))))
-    comparison, warnings = {}, []
-    for lab, ev in (expected or {}).items():
-        e = dict(coeffs).get(lab)
-        ev = mpmath.mpmathify(ev)
-        if e is None:
-            inside = ev == 0
-            comparison[lab] = {"expected": ev, "inside": inside, "note": "absent from the polynomial"}
-        else:
-            inside = e.contains(ev)
-            comparison[lab] = {"expected": ev, "inside": inside,
-                               "sigma": (e.value - ev) / e.error if e.error else (0 if inside else mpmath.inf)}
-        if not inside:
-            warnings.append(f"{lab}: the polynomial gives {e.value if e else 0}, not the expected {mpmath.nstr(ev, 12)}")
+    warnings = []
+    comparison = _compare(coeffs, expected, warnings, exact_polynomial=True)
     lp = Estimate.exact(mpmath.mpf(q * deg))
     how = (f"exact polynomial of degree {deg} in {series.variable}: its coefficients vanish from "
            f"{series.variable}^{deg + 1} through the last of the {len(c)} terms given, so it is its own "
