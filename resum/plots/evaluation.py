@@ -99,6 +99,7 @@ def plot_borel_plane(series, ctx, ax=None, b=0, dps=None, doublet_tol=1e-6):
     pole; the title counts what falls outside. The Laplace integral runs
     along the positive real axis (drawn in green).
     """
+    from ..estimators._num import nearest_distances
     from ..estimators.resum_band import rational_fit
     from ..transforms.borel import borel_coefficients
     ax = _ax(ax)
@@ -112,11 +113,9 @@ def plot_borel_plane(series, ctx, ax=None, b=0, dps=None, doublet_tol=1e-6):
         r = rational_fit(d, n - 1 - M, M, work)
         if r is not None:
             ps, zs = r.poles(work), r.zeros(work)
-
-            def doublet(z):
-                return any(abs(z - w) <= doublet_tol * max(1, abs(z)) for w in zs)
-            good = [z for z in ps if not doublet(z)]
-            bad = [z for z in ps if doublet(z)]
+            pair = [d <= doublet_tol * max(1, abs(z)) for z, d in zip(ps, nearest_distances(ps, zs))]
+            good = [z for z, b in zip(ps, pair) if not b]
+            bad = [z for z, b in zip(ps, pair) if b]
             near = min((abs(z) for z in good or ps), default=mpmath.mpf(1))
             half = float(6 * near) if near > 0 else 1.0
             inside = lambda z: abs(float(mpmath.re(z))) <= half and abs(float(mpmath.im(z))) <= half  # noqa: E731
