@@ -163,6 +163,10 @@ def estimate_diffapprox(series, ctx=None, order=1, count=16, max_radius_factor=2
             return failed(method, Status.NOT_APPLICABLE, "coefficients decay faster than any power: "
                           "entire-like, no finite singular point", prep)
         K = order
+        # f = x^r g with g(0) != 0 has the singular points and exponents of g away from 0;
+        # leading zeros would make every approximant with a low-degree P singular
+        r = next(i for i, v in enumerate(c) if v != 0)
+        c = c[r:]
         D = _deriv_coeffs(c, K)
         N = len(c)
         if N > 100:

@@ -137,6 +137,35 @@ def test_diffapprox_saw_square_lattice():
     _check(a.exponent, Fraction(1, 2), 2e-3)
 
 
+def test_diffapprox_sap_series_with_leading_zeros():
+    # square-lattice polygons by perimeter in u = x^2, 66 terms starting at u^2 (Clisby and
+    # Jensen, J. Phys. A 45 (2012) 115202): u_c = 1/mu^2 with mu = 2.63815853032790(3)
+    # (Jacobsen, Scullard, Guttmann, J. Phys. A 49 (2016) 494004), singular part
+    # (1 - u/u_c)^(3/2) (alpha = 1/2, Nienhuis, PRL 49 (1982) 1062). The two leading zeros
+    # once made every first-order approximant singular ("degenerate").
+    cs, _ = lattice("sap_square_lattice_perimeter")
+    assert cs[0] == 0 and cs[1] == 0
+    r = estimate_diffapprox(Series(cs), Context(dps=100), order=1)
+    assert r.success, r.message
+    uc = 1 / mpmath.mpf("2.63815853032790") ** 2
+    s = _near(r.singularities, uc)
+    _check(s.re, uc, 1e-9)
+    _check(s.exponent, Fraction(3, 2), 1e-5)
+
+
+def test_diffapprox_ignores_a_monomial_factor():
+    # x^3 [(1-x)^(-1/2) + (1+x/2)^(-3/2)]: the factor x^3 moves no singular point and no
+    # exponent, so the tolerances of test_diffapprox_two_singularities hold (common practice,
+    # no source)
+    r = estimate_diffapprox(Series([0, 0, 0] + two_singularities(60)), Context(dps=80), order=1)
+    assert r.success, r.message
+    s1, s2 = _near(r.singularities, 1), _near(r.singularities, -2)
+    _check(s1.re, 1, 1e-8)
+    _check(s1.exponent, Fraction(-1, 2), 1e-6)
+    _check(s2.re, -2, 1e-2)
+    _check(s2.exponent, Fraction(-3, 2), 1e-1)
+
+
 def test_diffapprox_ising_susceptibility():
     # square-lattice Ising susceptibility, 27 terms (Sykes et al., J. Phys. A 5 (1972) 624;
     # OEIS A002906): v_c = sqrt(2) - 1 (Kramers-Wannier 1941), gamma = 7/4 (Wu, McCoy,
