@@ -3,6 +3,7 @@
 * x -> c x divides the radius (and every singular point) by c, and the Borel
   singularity A of a factorial series by c;
 * adding a polynomial changes no singularity;
+* multiplying by x^2 (two leading zeros) changes no singularity;
 * a rerun at higher precision agrees within the bands.
 """
 import math
@@ -87,3 +88,17 @@ def test_higher_precision_agrees(name):
     r2 = f(s, ctx.higher())
     assert r2.success, r2.message
     assert _agree(_key(r2), _key(r1))
+
+
+@pytest.mark.parametrize("name", sorted(METHODS))
+def test_monomial_factor_changes_no_singularity(name):
+    s, ctx = _series_for(name)
+    f = get_method(name)
+    base = s.truncate(s.n_terms - 2)        # the same information with and without the factor
+    r1 = f(base, ctx)
+    assert r1.success, r1.message
+    zeros = Series([0, 0] + list(base.coefficients), variable=s.variable, digits=s.digits)
+    for times_x2 in (zeros, base.shift(2)):      # explicit zeros, or a series starting at x^2
+        r2 = f(times_x2, ctx)
+        assert r2.success, r2.message
+        assert _agree(_key(r2), _key(r1))
