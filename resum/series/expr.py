@@ -36,19 +36,22 @@ import mpmath
 from ..context import workdps
 from ..errors import InputError
 
-__all__ = ["evaluate_expression", "ExprValue", "MAX_LENGTH"]
+__all__ = ["evaluate_expression", "ExprValue", "MAX_LENGTH", "decimal_to_int", "int_to_decimal"]
 
 MAX_LENGTH = 20000      # characters in one expression
 MAX_DEPTH = 60          # nesting of parentheses / unary operators
 MAX_INT_EXPONENT = 4096
 MAX_ZETA_ARG = 100000
+MAX_EXACT_BITS = 1 << 20   # size of an exact intermediate (about 315 000 decimal digits)
+MAX_ARG_MAG = 4096         # |argument| of exp, sin, cos, gamma, zeta below 2^4096 (about 10^1233)
+_SHOW = 60                 # characters of an expression quoted in a message
 
 _TOKEN = re.compile(r"""
     (?P<num>(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?[jJ]?)
   | (?P<name>[A-Za-z_][A-Za-z_0-9]*)
   | (?P<op>\*\*|[-+*/^(),])
   | (?P<ws>\s+)
-""", re.VERBOSE)
+""", re.VERBOSE | re.ASCII)
 
 _CONSTANTS = {
     "pi": lambda: mpmath.pi,
@@ -77,6 +80,46 @@ class ExprValue:
     digits: Optional[int]
 
 
+def _show(text: str) -> str:
+    """``text`` quoted for a one-line message (long input is cut)."""
+    return repr(text if len(text) <= _SHOW else text[:_SHOW - 3] + "...")
+
+
+_CHUNK = 4000      # digits converted at once (below Python's int/str conversion limit)
+
+
+def decimal_to_int(digits: str) -> int:
+    """``int(digits)`` for a string of ASCII decimal digits of any length.
+
+    Python refuses to convert more than a few thousand digits at once; long
+    exact coefficients (high orders of factorially growing series) have more.
+    """
+    sign = 1
+    if digits[:1] in "+-":
+        sign, digits = (-1 if digits[0] == "-" else 1), digits[1:]
+    if not digits or not digits.isascii() or not digits.isdigit():
+        raise ValueError(f"not a decimal integer: {_show(digits)}")
+    return sign * _dec_to_int(digits)
+
+
+def _dec_to_int(d: str) -> int:
+    if len(d) <= _CHUNK:
+        return int(d)
+    k = len(d) // 2
+    return _dec_to_int(d[:-k]) * 10 ** k + _dec_to_int(d[-k:])
+
+
+def int_to_decimal(n: int) -> str:
+    """``str(n)`` for an integer of any size (see :func:`decimal_to_int`)."""
+    if n < 0:
+        return "-" + int_to_decimal(-n)
+    if n.bit_length() <= 3 * _CHUNK:
+        return str(n)
+    k = (n.bit_length() * 30103 // 100000) // 2      # about half the decimal digits
+    q, r = divmod(n, 10 ** k)
+    return int_to_decimal(q) + int_to_decimal(r).rjust(k, "0")
+
+
 def _sig_digits(lit: str) -> int:
     mant = re.split(r"[eE]", lit.rstrip("jJ"))[0].replace(".", "").lstrip("0")
     return max(1, len(mant))
@@ -91,7 +134,7 @@ class _Parser:
         while pos < len(text):
             m = _TOKEN.match(text, pos)
             if not m:
-                raise InputError(f"unexpected character {text[pos]!r} at position {pos + 1} in {text!r}")
+                raise InputError(f"unexpected character {text[pos]!r} at position {pos + 1} in {_show(text)}")
             if m.lastgroup != "ws":
                 self.tokens.append((m.lastgroup, m.group(), pos))
             pos = m.end()
@@ -105,9 +148,9 @@ class _Parser:
     def take(self, want=None):
         tok = self.peek()
         if tok[0] is None:
-            raise InputError(f"expression {self.text!r} ends too early")
+            raise InputError(f"expression {_show(self.text)} ends too early")
         if want is not None and tok[1] != want:
-            raise InputError(f"expected {want!r} at position {tok[2] + 1} in {self.text!r}")
+            raise InputError(f"expected {want!r} at position {tok[2] + 1} in {_show(self.text)}")
         self.i += 1
         return tok
 
@@ -122,7 +165,7 @@ class _Parser:
         v = self.expr()
         if self.i != len(self.tokens):
             tok = self.peek()
-            raise InputError(f"unexpected {tok[1]!r} at position {tok[2] + 1} in {self.text!r}")
+            raise InputError(f"unexpected {_show(tok[1])} at position {tok[2] + 1} in {_show(self.text)}")
         return v
 
     def expr(self):
@@ -130,7 +173,7 @@ class _Parser:
         while self.peek()[1] in ("+", "-"):
             op = self.take()[1]
             w = self.term()
-            v = v + w if op == "+" else v - w
+            v = _bounded(v + w if op == "+" else v - w)
         return v
 
     def term(self):
@@ -139,11 +182,11 @@ class _Parser:
             op = self.take()[1]
             w = self.unary()
             if op == "*":
-                v = v * w
+                v = _bounded(v * w)
             else:
                 if w == 0:
-                    raise InputError(f"division by zero in {self.text!r}")
-                v = Fraction(v) / w if isinstance(v, int) and isinstance(w, int) else v / w
+                    raise InputError(f"division by zero in {_show(self.text)}")
+                v = _bounded(Fraction(v) / w if isinstance(v, int) and isinstance(w, int) else v / w)
         return v
 
     def unary(self):
@@ -168,10 +211,22 @@ class _Parser:
                     raise InputError(f"exponent {ex} too large (limit {MAX_INT_EXPONENT})")
                 if isinstance(base, (int, Fraction)):
                     if base == 0 and ex < 0:
-                        raise InputError(f"0 to a negative power in {self.text!r}")
-                    return Fraction(base) ** ex
+                        raise InputError(f"0 to a negative power in {_show(self.text)}")
+                    b = Fraction(base)
+                    size = max(b.numerator.bit_length(), b.denominator.bit_length()) * abs(ex)
+                    if size > MAX_EXACT_BITS:
+                        raise InputError(f"exact power in {_show(self.text)} would have about "
+                                         f"{size * 30103 // 100000} digits (limit "
+                                         f"{MAX_EXACT_BITS * 30103 // 100000}); write a decimal "
+                                         f"base (for example 10.0^{ex}) to get a floating value")
+                    return b ** ex
                 return base ** ex
-            return mpmath.power(_mp(base), _mp(ex))
+            b, e = _mp(base), _mp(ex)
+            if b != 0 and e != 0 and mpmath.mag(abs(e)) + max(0, mpmath.mag(mpmath.log(abs(b)))) > MAX_ARG_MAG:
+                # b^e = exp(e log b): the same limit as for exp
+                raise InputError(f"exponent too large in {_show(self.text)} (|exponent * log(base)| "
+                                 f"must stay below about 10^{MAX_ARG_MAG * 30103 // 100000})")
+            return mpmath.power(b, e)
         return base
 
     def atom(self):
@@ -180,8 +235,8 @@ class _Parser:
             if text[-1] in "jJ":
                 self._note_digits(text)
                 return mpmath.mpc(0, self._decimal(text[:-1]))
-            if re.fullmatch(r"\d+", text):
-                return int(text)
+            if re.fullmatch(r"\d+", text, re.ASCII):
+                return _bounded(decimal_to_int(text))
             self._note_digits(text)
             return self._decimal(text)
         if kind == "name":
@@ -195,19 +250,23 @@ class _Parser:
                 self.take(")")
                 return self._call(text, arg)
             valid = ", ".join(sorted(_CONSTANTS) + [f + "()" for f in sorted(_FUNCTIONS)])
-            raise InputError(f"unknown name {text!r} in {self.text!r}; known: {valid}")
+            raise InputError(f"unknown name {_show(text)} in {_show(self.text)}; known: {valid}")
         if text == "(":
             self._enter()
             v = self.expr()
             self.depth -= 1
             self.take(")")
             return v
-        raise InputError(f"unexpected {text!r} at position {pos + 1} in {self.text!r}")
+        raise InputError(f"unexpected {text!r} at position {pos + 1} in {_show(self.text)}")
 
     def _decimal(self, text):
         # keep every written digit, however many
         with workdps(max(self.dps, _sig_digits(text) + 10)):
-            return mpmath.mpf(text)
+            if len(text) <= _CHUNK:
+                return mpmath.mpf(text)
+            m = re.fullmatch(r"(\d*)\.?(\d*)(?:[eE]([+-]?\d+))?", text, re.ASCII)
+            exp = int(m.group(3) or 0) - len(m.group(2))
+            return mpmath.mpf(decimal_to_int(m.group(1) + m.group(2))) * mpmath.mpf(10) ** exp
 
     def _note_digits(self, text):
         d = _sig_digits(text)
@@ -219,6 +278,11 @@ class _Parser:
                 raise InputError("zeta(1) is infinite")
             if isinstance(arg, (int, Fraction)) and abs(arg) > MAX_ZETA_ARG:
                 raise InputError(f"zeta argument too large (limit {MAX_ZETA_ARG})")
+        if name in ("exp", "sin", "cos", "gamma", "zeta") and arg != 0 \
+                and mpmath.mag(abs(_mp(arg))) > MAX_ARG_MAG:
+            # the cost of argument reduction, or the size of the result's exponent, grows with it
+            raise InputError(f"{name} argument too large in {_show(self.text)} (limit about "
+                             f"10^{MAX_ARG_MAG * 30103 // 100000})")
         if name == "log" and arg == 0:
             raise InputError("log(0) is infinite")
         if name == "sqrt" and isinstance(arg, (int, Fraction)) and arg >= 0:
@@ -230,6 +294,20 @@ class _Parser:
         if name == "gamma" and isinstance(arg, int) and arg <= 0:
             raise InputError(f"gamma({arg}) is infinite")
         return _FUNCTIONS[name](_mp(arg))
+
+
+def _bounded(v):
+    """``v``, refused if it is an exact number too large to work with."""
+    if isinstance(v, int):
+        n = v.bit_length()
+    elif isinstance(v, Fraction):
+        n = max(v.numerator.bit_length(), v.denominator.bit_length())
+    else:
+        return v
+    if n > MAX_EXACT_BITS:
+        raise InputError(f"exact number with about {n * 30103 // 100000} digits (limit "
+                         f"{MAX_EXACT_BITS * 30103 // 100000})")
+    return v
 
 
 def _mp(v):
@@ -248,7 +326,8 @@ def evaluate_expression(text: str, dps: int = 30) -> ExprValue:
     if not isinstance(text, str):
         raise InputError(f"expected an expression as text, got {type(text).__name__}")
     if len(text) > MAX_LENGTH:
-        raise InputError(f"expression longer than {MAX_LENGTH} characters")
+        raise InputError(f"expression longer than {MAX_LENGTH} characters ({len(text)}); "
+                         "give a decimal value instead")
     longest = max((_sig_digits(m.group()) for m in re.finditer(r"(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?", text)),
                   default=0)
     work = max(dps, longest) + 10     # arithmetic on long literals keeps all their digits
@@ -259,7 +338,7 @@ def evaluate_expression(text: str, dps: int = 30) -> ExprValue:
         except (ZeroDivisionError, OverflowError, ValueError) as exc:
             if isinstance(exc, InputError):
                 raise
-            raise InputError(f"cannot evaluate {text!r}: {exc}") from None
+            raise InputError(f"cannot evaluate {_show(text)}: {str(exc) or 'division by zero'}") from None
         if isinstance(v, Fraction) and v.denominator == 1:
             v = int(v)
         exact = isinstance(v, (int, Fraction)) and p.digits is None
@@ -268,5 +347,5 @@ def evaluate_expression(text: str, dps: int = 30) -> ExprValue:
             if isinstance(v, mpmath.mpc) and v.imag == 0:
                 v = v.real
             if not mpmath.isfinite(v):
-                raise InputError(f"{text!r} is not finite")
+                raise InputError(f"{_show(text)} is not finite")
     return ExprValue(v, exact, p.digits)

@@ -63,3 +63,64 @@ def test_refuses_unsafe_or_malformed(bad):
     with pytest.raises(InputError) as e:
         ev(bad)
     assert "\n" not in str(e.value)
+
+
+# Inputs that used to hang the parser (minutes or more) or leak a Python error: each must now be
+# refused at once with a short, one-line InputError.
+@pytest.mark.parametrize("bad", [
+    "(10^4096)^4096",                      # exact power with ~16 million digits
+    "((10^4096)^4096)^4096",
+    "(2^4096)^255*(2^4096)^255*(2^4096)^255",   # products of large exact numbers
+    "sin(1e1000000000)",                   # argument reduction over a billion digits
+    "exp(I*1e1000000000)",
+    "2.0^1e100000000",                     # result exponent with 10^8 digits
+    "(-1)^(1e1000000000)",
+    "gamma(1e100000000)", "zeta(-1e100000000+0.5)",
+    "0.0^-1",
+    "\uff11",                              # a full-width digit is not an ASCII number
+])
+def test_refuses_resource_attacks_quickly(bad):
+    import time
+    t0 = time.perf_counter()
+    with pytest.raises(InputError) as e:
+        ev(bad)
+    assert time.perf_counter() - t0 < 2
+    msg = str(e.value)
+    assert "\n" not in msg and msg.strip() and len(msg) < 300
+
+
+def test_messages_quote_long_input_shortened():
+    with pytest.raises(InputError) as e:
+        ev("x" * 5000)
+    assert len(str(e.value)) < 300
+
+
+def test_long_integers_stay_exact():
+    # 2000! has more digits than Python converts at once by default (4300); its decimal text is
+    # built here from two 3000-digit halves, each within that limit
+    import math
+    n = math.factorial(2000)
+    hi, lo = divmod(n, 10 ** 3000)
+    text = str(hi) + str(lo).rjust(3000, "0")
+    assert len(text) > 4300
+    v = ev(text)
+    assert v.exact and v.value == n
+    assert ev("-" + text).value == -n
+
+
+def test_long_decimal_keeps_every_digit():
+    text = "1." + "3" * 5000
+    v = ev(text, dps=30)
+    assert v.digits == 5001 and not v.exact
+    with workdps(5100):
+        assert abs(v.value - (mpmath.mpf(4) / 3)) < mpmath.mpf(10) ** -4990
+
+
+def test_int_decimal_round_trip():
+    import math
+    from resum.series.expr import decimal_to_int, int_to_decimal
+    for n in (0, 7, -12345, math.factorial(2500), -(3 ** 20000) + 1):
+        s = int_to_decimal(n)
+        assert decimal_to_int(s) == n
+    # against Python's own conversion below its limit
+    assert int_to_decimal(math.factorial(1000)) == str(math.factorial(1000))
