@@ -195,11 +195,14 @@ class Series:
     def input_hash(self) -> str:
         """SHA-256 of the canonical coefficient strings, variable and start."""
         from ..results import num_to_str
-        payload = json.dumps([self.variable, self.start, [num_to_str(c) for c in self.coefficients]])
+        from .expr import exact_to_text      # exact numbers of any length (str() stops at 4300 digits)
+        payload = json.dumps([self.variable, self.start, [exact_to_text(c) if is_exact_number(c) else num_to_str(c)
+                                                          for c in self.coefficients]])
         return hashlib.sha256(payload.encode()).hexdigest()[:16]
 
     def __repr__(self):
-        head = ", ".join(str(c) if is_exact_number(c) else mpmath.nstr(c, 8) for c in self.coefficients[:4])
+        head = ", ".join(_short_exact(c) if is_exact_number(c) else mpmath.nstr(c, 8)
+                         for c in self.coefficients[:4])
         more = ", ..." if self.n_terms > 4 else ""
         kind = "exact" if self.is_exact else f"{self.digits} digits"
         return f"Series([{head}{more}], n_terms={self.n_terms}, start={self.start}, {kind})"
@@ -402,6 +405,14 @@ def _to_mp(c):
     if isinstance(c, Fraction):
         return mpmath.mpf(c.numerator) / c.denominator
     return mpmath.mpmathify(c)
+
+
+def _short_exact(c) -> str:
+    """An exact number for a repr: in full when short, else its size."""
+    big = max(c.numerator.bit_length(), c.denominator.bit_length()) if isinstance(c, Fraction) else c.bit_length()
+    if big < 3000:
+        return str(c)
+    return f"<exact, about {big * 30103 // 100000} digits>"
 
 
 def _min_digits(a, b):

@@ -36,7 +36,8 @@ import mpmath
 from ..context import workdps
 from ..errors import InputError
 
-__all__ = ["evaluate_expression", "ExprValue", "MAX_LENGTH", "decimal_to_int", "int_to_decimal"]
+__all__ = ["evaluate_expression", "ExprValue", "MAX_LENGTH", "decimal_to_int", "int_to_decimal",
+           "exact_to_text"]
 
 MAX_LENGTH = 20000      # characters in one expression
 MAX_DEPTH = 60          # nesting of parentheses / unary operators
@@ -118,6 +119,15 @@ def int_to_decimal(n: int) -> str:
     k = (n.bit_length() * 30103 // 100000) // 2      # about half the decimal digits
     q, r = divmod(n, 10 ** k)
     return int_to_decimal(q) + int_to_decimal(r).rjust(k, "0")
+
+
+def exact_to_text(v) -> str:
+    """An int or Fraction as ``"n"`` or ``"p/q"``, every digit, any size."""
+    if isinstance(v, Fraction):
+        if v.denominator == 1:
+            return int_to_decimal(v.numerator)
+        return f"{int_to_decimal(v.numerator)}/{int_to_decimal(v.denominator)}"
+    return int_to_decimal(int(v))
 
 
 def _sig_digits(lit: str) -> int:

@@ -54,7 +54,7 @@ from ..context import DEFAULT, Context
 from ..errors import InputError
 from ..results import num_to_str
 from .core import Coupling, Series
-from .expr import evaluate_expression
+from .expr import decimal_to_int, evaluate_expression, exact_to_text
 
 __all__ = ["read_series", "write_series", "series_from_dict", "series_to_dict",
            "parse_coupling", "atomic_write_text", "FORMAT_TAG", "MAX_TERMS"]
@@ -62,6 +62,8 @@ __all__ = ["read_series", "write_series", "series_from_dict", "series_to_dict",
 FORMAT_TAG = "resum-series/1"
 MAX_TERMS = 100000
 MAX_FILE_BYTES = 200 * 1024 * 1024
+MAX_DIGITS = 100000          # digits a file may declare its coefficients carry
+MAX_COUPLING_POWER = 100     # x = g^p with 1 <= p <= this
 _JSON_KEYS = {"format", "name", "description", "variable", "start", "coupling", "digits",
               "exact", "coefficients", "provenance", "metadata"}
 _HEADER_KEYS = {"format", "name", "description", "variable", "start", "coupling", "digits", "exact"}
@@ -87,7 +89,21 @@ def parse_coupling(text: str, variable: str = "x") -> Coupling:
     if m.group("div"):
         scale /= _exact_scale(m.group("div"), text)
     scale = int(scale) if scale.denominator == 1 else scale
-    return Coupling(symbol=m.group("sym"), power=int(m.group("pow") or 1), scale=scale)
+    return Coupling(symbol=m.group("sym"), power=_coupling_power(m.group("pow") or 1, text),
+                    scale=scale)
+
+
+def _coupling_power(p, text):
+    if isinstance(p, bool):
+        raise InputError(f"coupling {text!r}: the power must be a whole number, not {p!r}")
+    try:
+        p = int(p)
+    except (TypeError, ValueError):
+        raise InputError(f"coupling {text!r}: the power must be a whole number, got {p!r}") from None
+    if not 1 <= p <= MAX_COUPLING_POWER:
+        raise InputError(f"coupling {text!r}: the power must be between 1 and {MAX_COUPLING_POWER}, "
+                         f"got {p}")
+    return p
 
 
 def _exact_scale(s, text):
@@ -112,7 +128,10 @@ def _coupling_from_json(obj, variable, where):
         try:
             scale = _exact_scale(str(obj.get("scale", "1")), str(obj))
             scale = int(scale) if scale.denominator == 1 else scale
-            return Coupling(symbol=str(obj.get("symbol", "g")), power=int(obj.get("power", 1)), scale=scale)
+            power = _coupling_power(obj.get("power", 1), str(obj))
+            return Coupling(symbol=str(obj.get("symbol", "g")), power=power, scale=scale)
+        except InputError as e:
+            raise e.at(where) from None
         except (TypeError, ValueError) as e:
             raise InputError(str(e), where=where) from None
     raise InputError("must be a string like 'x = g^2' or an object {symbol, power, scale}", where=where)
@@ -129,7 +148,10 @@ def _parse_coefficient(text, where, dps, exact_decimals):
     if low in ("nan", "+nan", "-nan", "inf", "+inf", "-inf", "infinity", "-infinity"):
         raise InputError(f"coefficient {t!r} is not finite; give a finite number", where=where)
     if exact_decimals and re.fullmatch(r"[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?", t):
-        return _exact_decimal(t), None
+        try:
+            return _exact_decimal(t), None
+        except InputError as e:
+            raise e.at(where) from None
     try:
         v = evaluate_expression(t, dps)
     except InputError as e:
@@ -138,15 +160,27 @@ def _parse_coefficient(text, where, dps, exact_decimals):
 
 
 def _parse_dps(declared, ctx):
-    """Digits to parse at: the working digits, or more if the file declares more."""
+    """Digits to parse at: the working digits, or more if the file declares more.
+
+    An unreadable or out-of-range declaration is refused later, by :func:`_build`.
+    """
     try:
-        return max(ctx.work_dps, int(declared) + 10) if declared is not None else ctx.work_dps
+        d = int(declared) if declared is not None and not isinstance(declared, bool) else None
     except (TypeError, ValueError):
+        d = None
+    if d is None or not 1 <= d <= MAX_DIGITS:
         return ctx.work_dps
+    return max(ctx.work_dps, d + 10)
 
 
 def _exact_decimal(t):
-    return Fraction(t) if Fraction(t).denominator != 1 else int(Fraction(t))
+    m = re.fullmatch(r"([-+]?)(\d*)\.?(\d*)(?:[eE]([-+]?\d+))?", t, re.ASCII)
+    exp = int(m.group(4) or 0) - len(m.group(3))
+    if abs(exp) > MAX_DIGITS:
+        raise InputError(f"exponent of {t[:40]!r} too large for an exact value (limit {MAX_DIGITS})")
+    mant = decimal_to_int(m.group(1) + ((m.group(2) + m.group(3)) or "0"))
+    v = Fraction(mant) * Fraction(10) ** exp
+    return int(v) if v.denominator == 1 else v
 
 
 def _build(coeffs, digits_list, meta, where_of, ctx):
@@ -158,23 +192,32 @@ def _build(coeffs, digits_list, meta, where_of, ctx):
     if not isinstance(variable, str) or not variable.isidentifier():
         raise InputError(f"variable {variable!r} is not a name (use letters, digits, '_')",
                          where=where_of("variable"))
+    fmt = meta.get("format", FORMAT_TAG)
+    if fmt != FORMAT_TAG:
+        raise InputError(f"format {fmt!r} is not {FORMAT_TAG!r}", where=where_of("format"))
     start = meta.get("start", 0)
     try:
+        if isinstance(start, bool):
+            raise ValueError
         start = int(start)
     except (TypeError, ValueError):
         raise InputError(f"start must be an integer, got {start!r}", where=where_of("start")) from None
+    if abs(start) > MAX_TERMS:
+        raise InputError(f"start {start} is out of range (|start| <= {MAX_TERMS})", where=where_of("start"))
     coupling = _coupling_from_json(meta.get("coupling"), variable, where_of("coupling"))
     digits = meta.get("digits")
     inexact_digits = [d for d in digits_list if d is not None]
     any_inexact = any(not isinstance(c, (int, Fraction)) for c in coeffs)
     if digits is not None:
         try:
+            if isinstance(digits, bool):
+                raise ValueError
             digits = int(digits)
-            if digits < 1:
+            if not 1 <= digits <= MAX_DIGITS:
                 raise ValueError
         except (TypeError, ValueError):
-            raise InputError(f"digits must be a positive integer, got {meta.get('digits')!r}",
-                             where=where_of("digits")) from None
+            raise InputError(f"digits must be a whole number from 1 to {MAX_DIGITS}, got "
+                             f"{meta.get('digits')!r}", where=where_of("digits")) from None
     elif any_inexact:
         # literals carry what they show; expressions carry the working precision
         digits = min(inexact_digits) if inexact_digits else ctx.work_dps
@@ -182,10 +225,13 @@ def _build(coeffs, digits_list, meta, where_of, ctx):
             digits = ctx.work_dps
     if not any_inexact:
         digits = None
-    with ctx.working():
-        s = Series(tuple(coeffs), variable=variable, start=start, digits=digits, coupling=coupling,
-                   name=str(meta.get("name", "")), description=str(meta.get("description", "")),
-                   provenance=dict(meta.get("provenance", {}) or {}))
+    try:
+        with ctx.working():
+            s = Series(tuple(coeffs), variable=variable, start=start, digits=digits, coupling=coupling,
+                       name=str(meta.get("name", "")), description=str(meta.get("description", "")),
+                       provenance=dict(meta.get("provenance", {}) or {}))
+    except (TypeError, ValueError) as e:
+        raise InputError(str(e).split("\n", 1)[0], where=where_of(None)) from None
     if s.is_zero():
         raise InputError("every coefficient is zero; nothing to analyse", where=where_of("coefficients"))
     if "metadata" in meta:
@@ -294,7 +340,8 @@ def read_series(path, ctx: Optional[Context] = None, fmt: Optional[str] = None) 
     fmt = fmt or _guess_format(path, text)
     if fmt == "json":
         try:
-            doc = json.loads(text, parse_float=_JsonFloat, parse_constant=_refuse_constant)
+            doc = json.loads(text, parse_float=_JsonFloat, parse_int=_json_int,
+                             parse_constant=_refuse_constant)
         except json.JSONDecodeError as e:
             raise InputError(f"line {e.lineno}: malformed JSON ({e.msg})", where=str(path)) from None
         except InputError as e:
@@ -311,6 +358,12 @@ def read_series(path, ctx: Optional[Context] = None, fmt: Optional[str] = None) 
     out = Series(s.coefficients, s.variable, s.start, s.digits, s.coupling, s.name or path.stem,
                  s.description, prov)
     return out
+
+
+def _json_int(text):
+    if len(text) > 20000:      # as for an expression (resum.series.expr.MAX_LENGTH)
+        raise InputError(f"integer with {len(text)} digits; at most 20000")
+    return decimal_to_int(text)
 
 
 def _refuse_constant(name):
@@ -378,13 +431,23 @@ def _read_csv(text, fname, ctx):
             continue
         if s.startswith("#"):
             inner = s[1:].strip()
-            if _HEADER_RE.match(inner) and not pairs:
+            m = _HEADER_RE.match(inner)
+            if m and body:
+                raise InputError(f"header line {m.group(1)!r} after the first row; put '# key: value' "
+                                 "lines at the top", where=f"{fname}: line {lineno}")
+            if m:
                 _header_line(inner, meta, f"{fname}: line {lineno}")
             continue
         body.append((lineno, raw))
     last = None
     for lineno, raw in body:
-        row = next(csv.reader(io.StringIO(raw)))
+        try:
+            row = next(csv.reader(io.StringIO(raw), strict=True))
+        except (csv.Error, StopIteration) as e:
+            raise InputError(f"malformed CSV row ({e}); write 'order,coefficient'",
+                             where=f"{fname}: line {lineno}") from None
+        if raw.count('"') % 2:
+            raise InputError("unbalanced quote; write 'order,coefficient'", where=f"{fname}: line {lineno}")
         row = [c.strip() for c in row]
         if not header_seen and not pairs and row and row[0].lower() in ("order", "n", "k", "power"):
             header_seen = True
@@ -399,6 +462,9 @@ def _read_csv(text, fname, ctx):
         if last is not None and order <= last:
             raise InputError(f"orders must increase (order {order} after {last})",
                              where=f"{fname}: line {lineno}")
+        if pairs and order - pairs[0][0] >= MAX_TERMS:
+            raise InputError(f"order {order} is {order - pairs[0][0]} past the first order {pairs[0][0]}; "
+                             f"a series holds at most {MAX_TERMS} terms", where=f"{fname}: line {lineno}")
         last = order
         v, d = _parse_coefficient(row[1], f"{fname}: line {lineno}", _parse_dps(meta.get("digits"), ctx),
                                   meta.get("exact", False))
@@ -406,8 +472,14 @@ def _read_csv(text, fname, ctx):
     if not pairs:
         raise InputError("no coefficients; a series needs at least one", where=fname)
     start = pairs[0][0]
-    if "start" in meta and int(meta["start"]) != start:
-        raise InputError(f"header start {meta['start']} disagrees with the first order {start}", where=fname)
+    if "start" in meta:
+        try:
+            declared = int(meta["start"])
+        except ValueError:
+            raise InputError(f"start must be an integer, got {meta['start']!r}", where=f"{fname}: start") from None
+        if declared != start:
+            raise InputError(f"header start {declared} disagrees with the first order {start}; "
+                             "drop the header line or fix it", where=fname)
     meta["start"] = start
     n = pairs[-1][0] - start + 1
     coeffs, digs, lines = [0] * n, [None] * n, [0] * n
@@ -423,7 +495,7 @@ def _read_csv(text, fname, ctx):
 
 def _coef_text(c, digits):
     if isinstance(c, (int, Fraction)):
-        return num_to_str(c)
+        return exact_to_text(c)
     return num_to_str(c, digits)
 
 
@@ -453,27 +525,46 @@ def series_to_dict(series: Series) -> dict:
 
 def atomic_write_text(path, text: str) -> None:
     """Write ``text`` to ``path`` atomically (temporary file in the same folder, then rename)."""
+    if not str(path).strip():
+        raise InputError("empty output file name; give a file name", where="output")
     path = Path(path)
     folder = path.parent if str(path.parent) else Path(".")
     if not folder.exists():
-        raise InputError("folder does not exist", where=str(folder))
-    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=folder)
+        raise InputError("folder does not exist; create it first or choose another place",
+                         where=str(folder))
+    if not folder.is_dir():
+        raise InputError("is not a folder; choose another place for the output", where=str(folder))
+    if path.is_dir():
+        raise InputError("is a folder; give a file name for the output", where=str(path))
+    if path.exists() and not path.is_file():
+        # renaming over a device, pipe or socket would replace it with a plain file
+        raise InputError("is not a regular file; give a file name for the output", where=str(path))
+    try:
+        fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=folder)
+    except OSError as e:
+        raise InputError(f"cannot write here ({e.strerror}); choose another place for the output",
+                         where=str(path)) from None
     try:
         with os.fdopen(fd, "w", encoding="utf-8") as fh:
             fh.write(text)
             fh.flush()
             os.fsync(fh.fileno())
         os.replace(tmp, path)
-    except BaseException:
+    except BaseException as exc:
         try:
             os.unlink(tmp)
         except OSError:
             pass
+        if isinstance(exc, OSError):
+            raise InputError(f"cannot write ({exc.strerror or exc}); choose another place for the output",
+                             where=str(path)) from None
         raise
 
 
 def write_series(series: Series, path, fmt: Optional[str] = None) -> Path:
     """Write ``series`` to ``path`` (format from the extension or ``fmt``), atomically."""
+    if not str(path).strip():
+        raise InputError("empty output file name; give a file name", where="output")
     path = Path(path)
     fmt = fmt or {".json": "json", ".csv": "csv"}.get(path.suffix.lower(), "text")
     if fmt == "json":

@@ -88,6 +88,21 @@ BAD = [
     ("order.csv", "1,1\n0,1\n", "orders must increase"),
     ("var.json", '{"variable": "g^2", "coefficients": ["1"]}', "variable"),
     ("coup.json", '{"coefficients": ["1"], "coupling": "x = g^2.5"}', "coupling"),
+    # found by adversarial QA: each of these used to end in a traceback, a hang or silent acceptance
+    ("gap.csv", "order,coefficient\n0,1\n1000000000000,1\n", "at most 100000 terms"),
+    ("start.csv", "# start: abc\norder,coefficient\n0,1\n", "start must be an integer"),
+    ("quote.csv", 'order,coefficient\n0,1\n1,"2\n', "line 3"),
+    ("late.csv", "order,coefficient\n0,1\n# digits: 40\n1,2\n", "line 3: header line 'digits'"),
+    ("fmt.txt", "format: other/9\n1\n2\n", "format 'other/9'"),
+    ("pow0.txt", "coupling: x = g^0\n1\n2\n", "power must be between 1 and"),
+    ("powbig.txt", "coupling: x = g^99999999999\n1\n2\n", "power must be between 1 and"),
+    ("pow0.json", '{"coefficients": ["1"], "coupling": {"power": 0}}', "power must be between 1 and"),
+    ("startbig.txt", "start: 99999999999999999999\n1\n2\n", "start"),
+    ("startbool.json", '{"coefficients": ["1"], "start": true}', "start must be an integer"),
+    ("digbig.txt", "digits: 99999999999\n1.0\n2\n", "digits must be a whole number"),
+    ("digbool.json", '{"coefficients": ["1.0"], "digits": true}', "digits must be a whole number"),
+    ("exactexp.txt", "exact: true\n1\n1e100000000\n", "line 3"),
+    ("longint.json", '{"coefficients": [' + "9" * 30000 + ']}', "at most 20000"),
 ]
 
 
@@ -126,6 +141,63 @@ def test_failed_write_leaves_nothing(tmp_path):
         io.json.dumps = real
     assert target.read_text() == "old"
     assert [f.name for f in tmp_path.iterdir()] == ["out.json"]
+
+
+def _long_exact_series():
+    # 2000! and 1/3000!: more digits than Python's str()/int() convert at once (4300)
+    import math
+    return Series([math.factorial(2000), -1, Fraction(1, math.factorial(3000)), 7], name="long")
+
+
+@pytest.mark.parametrize("ext", FORMATS)
+def test_long_exact_integers_roundtrip(tmp_path, ext):
+    s = _long_exact_series()
+    p = write_series(s, tmp_path / f"long.{ext}")
+    t = read_series(p)
+    assert t.is_exact and t.coefficients == s.coefficients
+    assert t.input_hash() == s.input_hash()
+    assert "exact" in repr(t)
+
+
+def test_long_json_integer_literal(tmp_path):
+    import math
+    n = math.factorial(2000)
+    hi, lo = divmod(n, 10 ** 3000)        # decimal text from two halves within str()'s limit
+    p = tmp_path / "big.json"
+    p.write_text('{"coefficients": [' + str(hi) + str(lo).rjust(3000, "0") + ', 1]}')
+    assert read_series(p).coefficients == (n, 1)
+
+
+@pytest.mark.parametrize("target, needle", [
+    ("folder", "is a folder"),            # the output is an existing folder
+    ("nowhere/out.json", "folder does not exist"),
+    ("afile/out.json", "is not a folder"),
+    ("", "empty output file name"),
+])
+def test_write_errors_are_input_errors(tmp_path, target, needle):
+    (tmp_path / "folder").mkdir()
+    (tmp_path / "afile").write_text("x")
+    before = sorted(f.name for f in tmp_path.iterdir())
+    path = str(tmp_path / target) if target else ""
+    with pytest.raises(InputError, match=needle) as e:
+        write_series(Series([1, 2]), path)
+    assert "\n" not in str(e.value)
+    assert sorted(f.name for f in tmp_path.iterdir()) == before
+    assert list((tmp_path / "folder").iterdir()) == []
+
+
+def test_write_refuses_to_replace_a_special_file(tmp_path):
+    # a named pipe stands in for a device such as /dev/full: renaming over it would replace it
+    import os
+    import stat
+    if not hasattr(os, "mkfifo"):
+        pytest.skip("no named pipes here")
+    fifo = tmp_path / "pipe.json"
+    os.mkfifo(fifo)
+    with pytest.raises(InputError, match="not a regular file"):
+        write_series(Series([1, 2]), fifo)
+    assert stat.S_ISFIFO(os.stat(fifo).st_mode)
+    assert [f.name for f in tmp_path.iterdir()] == ["pipe.json"]
 
 
 def test_dict_interface():
