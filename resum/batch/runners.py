@@ -10,11 +10,12 @@ their ``run`` part (host, process, timings).
 
 * :class:`SerialRunner` -- one point after another in this process (for
   debugging: breakpoints and tracebacks work).
-* :class:`ProcessRunner` -- a local pool of ``jobs`` processes (default: all
-  cores). At most ``jobs`` points are in flight, so "running" is exact. When
-  a worker process dies (killed, out of memory) the pool is rebuilt and the
-  points that were in flight are tried once more; a point that was in
-  flight at two deaths is recorded as failed.
+* :class:`ProcessRunner` -- local processes, at most ``jobs`` at a time
+  (default: all cores), one per point, so "running" is exact and a worker
+  that dies (killed, out of memory) takes only its own point with it: that
+  point is computed once more alone, and recorded as failed if its process
+  dies again. Worker processes end with the main process, even when it is
+  killed with SIGKILL.
 * :class:`DaskRunner` -- a dask.distributed cluster: ``address`` joins a
   running scheduler (``tcp://host:8786``); ``local:N`` starts a LocalCluster
   with N single-threaded worker processes for the span of the run. Dask
@@ -23,9 +24,11 @@ their ``run`` part (host, process, timings).
 """
 from __future__ import annotations
 
-import concurrent.futures as cf
 import multiprocessing
+import multiprocessing.connection
 import os
+import signal
+import threading
 from typing import Callable, Optional, Sequence
 
 from ..errors import InputError
@@ -57,12 +60,52 @@ def _mp_context():
     # from a small server that has imported resum once
     if "forkserver" in methods:
         ctx = multiprocessing.get_context("forkserver")
-        ctx.set_forkserver_preload(["resum.batch.worker"])
+        ctx.set_forkserver_preload(["resum.batch.runners"])
         return ctx
     return multiprocessing.get_context("spawn")
 
 
+def _watch_parent() -> None:
+    """End this process when the process that started it ends (even by SIGKILL).
+
+    The parent holds the write end of the pipe behind ``parent_process().sentinel``;
+    the system closes it when the parent dies, whatever killed it.
+    """
+    parent = multiprocessing.parent_process()
+    if parent is None:  # pragma: no cover - not started by multiprocessing
+        return
+
+    def watch():
+        multiprocessing.connection.wait([parent.sentinel])
+        os._exit(1)
+
+    threading.Thread(target=watch, name="resum-parent-watch", daemon=True).start()
+
+
+def _point_process(conn, spec, index: int, runner: str) -> None:
+    """Body of the process computing one point: send its record back and end."""
+    # Ctrl-C at a terminal reaches the whole process group: the main process
+    # decides (it stops this process); no traceback from here
+    signal.signal(signal.SIGINT, signal.SIG_IGN)
+    _watch_parent()
+    rec = compute_point(spec, index, runner)
+    conn.send(rec)
+    conn.close()
+
+
 class ProcessRunner:
+    """Points in separate local processes, at most ``jobs`` at a time.
+
+    Each point runs in a process of its own (forked from a server that has
+    imported resum, so starting one costs milliseconds), which sends the
+    record back through a pipe and ends. A process that ends without sending
+    its record (killed, crashed, out of memory) is seen at once as the end
+    of its pipe; no shared queue or pool state is left behind by a death.
+    A point whose process died while other points ran is computed once more
+    alone; one whose process dies while it runs alone is recorded as failed.
+    Worker processes end when the main process ends, even when it is killed.
+    """
+
     name = "process"
 
     def __init__(self, jobs: Optional[int] = None):
@@ -73,90 +116,64 @@ class ProcessRunner:
     def run(self, spec, indices: Sequence[int], on_start: Callable, on_record: Callable) -> None:
         todo = list(indices)
         todo.reverse()                 # pop() from the end keeps the spec's order
-        suspects = []                  # in flight when a worker died: rerun one at a time
+        suspects = []                  # died beside others: rerun one at a time
         ctx = _mp_context()
+        running = {}                   # reader -> (process, index, ran alone)
 
-        def lost(i, alone):
-            # a worker died: a point that ran alone is to blame and is recorded as
-            # failed; one that ran beside others is rerun alone later
-            if alone:
-                on_record(failure_record(
-                    spec, i, "the worker process died while computing this point alone "
-                    "(killed, crashed or out of memory)", runner=self.name))
-            else:
-                suspects.append(i)
-
-        while todo or suspects:
-            pool = cf.ProcessPoolExecutor(max_workers=self.jobs, mp_context=ctx)
-            inflight = {}              # future -> (index, ran alone)
-            broken = False
+        def start(i, alone):
+            reader, writer = ctx.Pipe(duplex=False)
+            proc = ctx.Process(target=_point_process, args=(writer, spec, i, self.name),
+                               name=f"resum-point-{i}")
             try:
-                while (todo or suspects or inflight) and not broken:
+                proc.start()
+            finally:
+                writer.close()         # the child's copy is the only writer left
+            running[reader] = (proc, i, alone)
+            on_start(i)
+
+        try:
+            while todo or suspects or running:
+                if suspects:
+                    if not running:    # isolate: only once nothing else runs
+                        start(suspects.pop(0), True)
+                else:
+                    while todo and len(running) < self.jobs:
+                        start(todo.pop(), False)
+                for reader in multiprocessing.connection.wait(list(running)):
+                    proc, i, alone = running.pop(reader)
                     try:
-                        if suspects:
-                            # isolate: only once nothing else runs, one suspect at a time
-                            if not inflight:
-                                i = suspects[0]
-                                fut = pool.submit(compute_point, spec, i, self.name)
-                                suspects.pop(0)
-                                inflight[fut] = (i, True)
-                                on_start(i)
-                        else:
-                            while todo and len(inflight) < self.jobs:
-                                fut = pool.submit(compute_point, spec, todo[-1], self.name)
-                                i = todo.pop()
-                                inflight[fut] = (i, False)
-                                on_start(i)
-                    except (cf.process.BrokenProcessPool, OSError, RuntimeError):
-                        # the pool broke (or is being torn down after a worker died)
-                        broken = True      # the point stays queued; in-flight ones fail below
-                    if not inflight:
-                        continue
-                    done, _ = cf.wait(list(inflight), timeout=0.5, return_when=cf.FIRST_COMPLETED)
-                    if not done and _dead_worker(pool):
-                        # a worker died but the pool has not noticed (seen as a rare
-                        # hang on Python 3.11): treat the pool as broken ourselves
-                        broken = True
-                        for fut, (i, alone) in list(inflight.items()):
-                            del inflight[fut]
-                            lost(i, alone)
-                        _terminate(pool)
-                        continue
-                    for fut in done:
-                        i, alone = inflight.pop(fut)
-                        try:
-                            rec = fut.result()
-                        except cf.process.BrokenProcessPool:
-                            broken = True
-                            lost(i, alone)
-                            continue
+                        rec = reader.recv()
+                    except (EOFError, OSError):
+                        rec = None     # ended without a record
+                    reader.close()
+                    proc.join()
+                    proc.close()
+                    if rec is not None:
                         on_record(rec)
-                # a broken pool fails every future still in flight: those are suspects too
-                for fut, (i, alone) in inflight.items():
-                    suspects.append(i)
-            except BaseException:
-                pool.shutdown(wait=False, cancel_futures=True)
-                _terminate(pool)
-                raise
-            else:
-                pool.shutdown(wait=not broken, cancel_futures=True)
+                    elif alone:
+                        on_record(failure_record(
+                            spec, i, "the worker process died while computing this point "
+                            "alone (killed, crashed or out of memory)", runner=self.name))
+                    else:
+                        suspects.append(i)
+        finally:
+            _stop([proc for proc, _, _ in running.values()])
+            for reader in running:
+                reader.close()
 
 
-def _dead_worker(pool) -> bool:
-    """True if a worker process of ``pool`` has ended (the pool's workers only
-    end on shutdown, so an exit code while we wait means it died)."""
-    procs = getattr(pool, "_processes", None) or {}
-    return any(p.exitcode is not None for p in list(procs.values()))
-
-
-def _terminate(pool) -> None:
-    """Stop a pool's worker processes now (after Ctrl-C)."""
-    procs = getattr(pool, "_processes", None) or {}
-    for p in list(procs.values()):
+def _stop(procs, grace: float = 5.0) -> None:
+    """Terminate ``procs`` (interrupted run) and wait for them; kill any that linger."""
+    for p in procs:
         try:
             p.terminate()
         except Exception:  # pragma: no cover - already gone
             pass
+    for p in procs:
+        p.join(grace)
+        if p.exitcode is None:  # pragma: no cover - ignores SIGTERM
+            p.kill()
+            p.join()
 
 
 class DaskRunner:

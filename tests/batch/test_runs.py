@@ -5,6 +5,8 @@ radius is R and whose sum is known in closed form (common practice, no
 source); mpmath evaluates the closed form for the checks.
 """
 import json
+import multiprocessing
+import os
 import signal
 import subprocess
 import sys
@@ -118,6 +120,9 @@ def test_dead_worker_is_recorded_and_the_rest_finish(tmp_path):
         else:
             assert r["status"] == "ok"
     assert out.counts["failed"] == 4
+    # every worker process has ended and been joined: nothing is left for interpreter exit
+    # to wait on (an abandoned pool worker once blocked exit after the test session)
+    assert multiprocessing.active_children() == []
 
 
 def test_reuse_of_a_folder(tmp_path):
@@ -168,6 +173,58 @@ def test_killed_run_resumes_without_loss(tmp_path, how):
     for name, val in before.items():
         assert after[name] == val, f"{name} was recomputed"
     assert not list((out / "points").glob(".*.tmp"))
+
+
+def _descendants(pid):
+    """Process ids below ``pid`` (Linux /proc)."""
+    parent = {}
+    for d in os.listdir("/proc"):
+        if d.isdigit():
+            try:
+                with open(f"/proc/{d}/stat") as fh:
+                    parent[int(d)] = int(fh.read().rsplit(")", 1)[1].split()[1])
+            except (OSError, IndexError, ValueError):
+                pass
+    out, frontier = set(), {pid}
+    while frontier:
+        frontier = {c for c, p in parent.items() if p in frontier} - out
+        out |= frontier
+    return out
+
+
+@pytest.mark.skipif(not os.path.isdir("/proc/self"), reason="needs Linux /proc")
+def test_killed_pool_run_leaves_no_workers(tmp_path):
+    # SIGKILL of the main process gives it no chance to clean up: the workers must notice
+    # on their own and end, instead of living on (and holding the terminal's pipes)
+    spec_path = tmp_path / "spec.toml"
+    spec_path.write_text(spec_text([1, 2, 3, 4, 5], delay=1))
+    out = tmp_path / "o"
+    proc = subprocess.Popen([sys.executable, "-m", "resum.commands.family", str(spec_path),
+                             "-o", str(out), "--jobs", "2", "--no-plots"], cwd=ROOT,
+                            stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL)
+    deadline = time.time() + 30
+    while time.time() < deadline and not list((out / "points").glob("p*.json")):
+        time.sleep(0.05)
+    below = _descendants(proc.pid)
+    assert below, "no worker processes seen"
+    proc.kill()
+    proc.wait(timeout=30)
+    deadline = time.time() + 15
+    while time.time() < deadline and _alive(below):
+        time.sleep(0.1)
+    assert not _alive(below), f"worker processes left running: {sorted(_alive(below))}"
+
+
+def _alive(pids):
+    out = []
+    for p in pids:
+        try:
+            with open(f"/proc/{p}/stat") as fh:
+                if fh.read().rsplit(")", 1)[1].split()[0] != "Z":
+                    out.append(p)
+        except OSError:
+            pass
+    return out
 
 
 def test_cli_exit_codes(tmp_path, capsys):
