@@ -120,6 +120,15 @@ def source_params(source) -> dict:
     return out
 
 
+def source_choices(source) -> dict:
+    """``{name: choices}`` of the parameters that take only listed values."""
+    out = {}
+    for p in _get(source, "params", ()) or ():
+        if not isinstance(p, (tuple, list)) and _get(p, "choices"):
+            out[str(_get(p, "name"))] = tuple(_get(p, "choices"))
+    return out
+
+
 def _registry(sources=None) -> Mapping:
     if sources is not None:
         return sources
@@ -475,12 +484,15 @@ class _Validator:
                            f"{', '.join(sorted(_registry(self.registry))) or 'none installed'} "
                            "(or 'package.module:object' for a source of your own)")
         params = source_params(source)
+        self.choices = source_choices(source)
 
         # fixed parameters
         fixed = {}
         fixed_raw = self.table(raw.get("fixed", {}), "fixed", set(params))
         for k, val in fixed_raw.items():
-            fixed[k] = _param_value(val, params[k][0], dps, self.where(f"fixed.{k}"))
+            fixed[k] = self._choice(k, _param_value(val, params[k][0], dps,
+                                                    self.where(f"fixed.{k}")),
+                                    self.where(f"fixed.{k}"))
 
         # axes
         axes_raw = raw.get("axes")
@@ -548,8 +560,11 @@ class _Validator:
             vals = spec["values"]
             if not isinstance(vals, list) or not vals:
                 raise self.err(f"{dotted}.values", "expected a non-empty list")
-            out = tuple(_param_value(v, typ, dps, self.where(f"{dotted}.values") + f"[{i}]")
-                        for i, v in enumerate(vals))
+            out = []
+            for i, v in enumerate(vals):
+                w = self.where(f"{dotted}.values") + f"[{i}]"
+                out.append(self._choice(name, _param_value(v, typ, dps, w), w))
+            out = tuple(out)
         else:
             rng = self.table(spec["range"], f"{dotted}.range", _RANGE_KEYS,
                              required=("start", "stop", "num"))
@@ -559,15 +574,27 @@ class _Validator:
             num = rng["num"]
             if not isinstance(num, int) or isinstance(num, bool) or num < 1:
                 raise self.err(f"{dotted}.range", "num must be a positive integer")
+            if num > MAX_POINTS:   # before the values are built: that alone would take hours
+                raise self.err(f"{dotted}.range", f"num = {num} is more than {MAX_POINTS} "
+                               "points; split the family")
             spacing = rng.get("spacing", "linear")
             if spacing not in ("linear", "log"):
                 raise self.err(f"{dotted}.range", f"spacing {spacing!r}: use 'linear' or 'log'")
             a = _number(rng["start"], dps, w + " start")
             b = _number(rng["stop"], dps, w + " stop")
-            out = tuple(_coerce(x, typ, w, dps) for x in _linspace(a, b, num, spacing, dps, w))
+            out = tuple(self._choice(name, _coerce(x, typ, w, dps), w)
+                        for x in _linspace(a, b, num, spacing, dps, w))
         if len(set(value_json(v, dps) for v in out)) != len(out):
             raise self.err(dotted, "the axis repeats a value")
         return Axis(name, out)
+
+    def _choice(self, name, value, where):
+        """``value`` if the source accepts it for ``name`` (parameters with listed choices)."""
+        ch = getattr(self, "choices", {}).get(name)
+        if ch is not None and value not in ch:
+            raise InputError(f"{value_text(value)} is not allowed; choose from "
+                             f"{', '.join(value_text(c) for c in ch)}", where=where)
+        return value
 
     def _combine(self, grid, names) -> tuple:
         grid = self.table(grid, "grid", _GRID_KEYS)

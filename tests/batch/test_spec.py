@@ -139,3 +139,28 @@ def test_unknown_methods_and_missing_options(extra, words):
         parse(GOOD + extra)
     for w in words:
         assert w in str(err.value), str(err.value)
+
+
+def test_a_huge_range_is_refused_before_its_values_are_built():
+    from resum.batch.spec import MAX_POINTS
+    text = GOOD.replace("num = 3", f"num = {MAX_POINTS + 1}")
+    with pytest.raises(InputError) as err:
+        parse(text)
+    msg = str(err.value)
+    assert "axes.radius.range" in msg and "num" in msg and "split the family" in msg, msg
+
+
+@pytest.mark.parametrize("where, words", [
+    ("[fixed]\nsign = 2\n[axes]\norders = { values = [10, 20] }\n", ["fixed.sign", "2", "-1, 1"]),
+    ("[axes]\nsign = { values = [-1, 1, 0] }\n", ["axes.sign.values[2]", "0", "-1, 1"]),
+])
+def test_parameters_with_listed_choices(where, words):
+    # the euler source's sign takes only -1 or 1 (its registered choices)
+    text = f'[study]\nname = "e"\nsource = "euler"\n{where}[tasks.coefficients]\n'
+    with pytest.raises(InputError) as err:
+        parse(text)
+    for w in words:
+        assert w in str(err.value), str(err.value)
+    ok = parse(f'[study]\nname = "e"\nsource = "euler"\n[axes]\nsign = {{ values = [-1, 1] }}\n'
+               "[tasks.coefficients]\n")
+    assert [p.params["sign"] for p in ok.points()] == [-1, 1]
