@@ -11,7 +11,7 @@ from ..series.core import Series
 from ..series.io import atomic_write_text, least_precise_location, read_series
 
 __all__ = ["add_common_options", "load_series", "context_for", "emit_json", "atomic_write",
-           "fail", "log"]
+           "fail", "log", "prepare_plot_dir", "require_power_series", "at_file"]
 
 atomic_write = atomic_write_text
 
@@ -65,6 +65,43 @@ def load_series(path: str, dps: Optional[int] = None) -> Tuple[Series, Context]:
     if ctx.work_dps > probe.work_dps:
         s = read_series(path, ctx)
     return s, ctx
+
+
+def require_power_series(series: Series, path: str, min_terms: int, what: str) -> None:
+    """Refuse, naming the file, a series with negative powers or fewer than ``min_terms`` terms,
+    before any progress line is printed (the library refuses them too, later)."""
+    if series.start < 0:
+        raise InputError(f"series starts at {series.variable}^{series.start}; {what} needs a power "
+                         f"series: multiply by {series.variable}^{-series.start} first", where=str(path))
+    if series.n_terms < min_terms:
+        raise InputError(f"only {series.n_terms} terms; {what} needs at least {min_terms}; give more "
+                         "coefficients", where=str(path))
+
+
+def at_file(exc: InputError, path: str) -> InputError:
+    """An input error about the series itself (``series...``) relocated to its file."""
+    if not exc.where or exc.where.startswith("series"):
+        return InputError(exc.bare, where=str(path))
+    return exc
+
+
+def prepare_plot_dir(folder: str) -> str:
+    """Create ``folder`` for figures (before any computation) and check it can be written."""
+    import os
+    import tempfile
+    where = f"--plot {folder}"
+    if not str(folder).strip():
+        raise InputError("empty folder name; give a folder for the figures", where="--plot")
+    if os.path.exists(folder) and not os.path.isdir(folder):
+        raise InputError("is not a folder; give a folder for the figures", where=where)
+    try:
+        os.makedirs(folder, exist_ok=True)
+        with tempfile.TemporaryFile(dir=folder):
+            pass
+    except OSError as e:
+        raise InputError(f"cannot write figures there ({e.strerror or e}); choose another folder",
+                         where=where) from None
+    return folder
 
 
 def emit_json(obj) -> None:

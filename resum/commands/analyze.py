@@ -6,7 +6,7 @@ import os
 from ..analysis import analyze, default_context
 from ..errors import InputError
 from ..estimators import METHODS, validate_methods
-from ._common import add_common_options, emit_json, load_series, log
+from ._common import add_common_options, at_file, emit_json, load_series, log, prepare_plot_dir
 
 HELP = "radius of convergence, singularities and growth of a series, with error bands"
 DESCRIPTION = (HELP + ". Runs the ratio, Padé, Dlog-Padé and differential-approximant estimators, "
@@ -26,20 +26,33 @@ def add_arguments(parser) -> None:
 
 
 def run(args) -> int:
+    from ..estimators._common import prepare
     methods = validate_methods(args.methods) if args.methods else None
     series, ctx = load_series(args.file, args.dps)
     if args.dps is None:
         ctx = default_context(series)
-    log(f"analyzing {series.n_terms} terms of {args.file} at {ctx.dps} digits")
-    result = analyze(series, ctx, methods=methods, verify=not args.no_verify)
-    if args.plot:
+    try:
+        prepare(series, ctx)      # the analysis' own input check, before any progress line
+    except InputError as exc:
+        raise at_file(exc, args.file) from None
+    if args.plot is not None:
         try:
             from ..plots.analysis import write_analysis_plots
         except ImportError as exc:  # matplotlib missing
             raise InputError(f"--plot needs matplotlib ({exc}); install resum[plot]", where="--plot") from None
-        os.makedirs(args.plot, exist_ok=True)
-        for p in write_analysis_plots(result, series, args.plot):
-            log(f"wrote {p}")
+        prepare_plot_dir(args.plot)
+    log(f"analyzing {series.n_terms} terms of {args.file} at {ctx.dps} digits")
+    try:
+        result = analyze(series, ctx, methods=methods, verify=not args.no_verify)
+    except InputError as exc:
+        raise at_file(exc, args.file) from None
+    if args.plot is not None:
+        try:
+            for p in write_analysis_plots(result, series, args.plot):
+                log(f"wrote {p}")
+        except OSError as exc:
+            raise InputError(f"cannot write figures ({exc.strerror or exc}); choose another folder",
+                             where=f"--plot {args.plot}") from None
     if args.json:
         emit_json(result.contract_dict())
     else:

@@ -18,7 +18,10 @@ import os
 import sys
 
 from ..errors import InputError
-from ._common import add_common_options, emit_json, load_series, log
+from ._common import (add_common_options, at_file, emit_json, load_series, log, prepare_plot_dir,
+                      require_power_series)
+
+MIN_TERMS = 6       # resum.resummation.evaluate refuses fewer terms
 
 HELP = "resummed values at given points (beyond the radius, strong coupling), with error bands"
 DESCRIPTION = (
@@ -88,22 +91,43 @@ def _literal_error(text, value):
 
 def run(args) -> int:
     from ..resummation import evaluate, parse_points, _check_method
-    _check_method(args.method)
+    try:
+        _check_method(args.method)
+    except InputError as exc:
+        raise InputError(exc.bare, where="--method") from None
     series, ctx = load_series(args.file, args.dps)
-    points = parse_points(args.at, ctx.work_dps + series.n_terms)
+    require_power_series(series, args.file, MIN_TERMS, "resummation")
+    points = []
+    for text in args.at:
+        try:
+            points += parse_points([text], ctx.work_dps + series.n_terms)
+        except InputError as exc:
+            raise InputError(exc.bare, where=f"--at {text[:40]}") from None
     reference = read_reference(args.reference, ctx.work_dps) if args.reference else None
     large = None
     if args.large_power is not None:
-        large = parse_points([args.large_power], ctx.work_dps)[0]
-    log(f"evaluating {series.n_terms} terms of {args.file} at {len(points)} point(s), {ctx.dps} digits")
-    result = evaluate(series, points, ctx, method=args.method, verify=not args.no_verify,
-                      large_x_power=large)
-    if args.plot:
+        try:
+            large = parse_points([args.large_power], ctx.work_dps)[0]
+        except InputError as exc:
+            raise InputError(exc.bare, where="--large-power") from None
+    if args.plot is not None:
         try:
             from ..plots.evaluation import write_evaluation_plots
-            paths = write_evaluation_plots(result, series, ctx, args.plot, reference)
         except ImportError as exc:
             raise InputError(f"--plot needs matplotlib ({exc}); install resum[plot]", where="--plot") from None
+        prepare_plot_dir(args.plot)
+    log(f"evaluating {series.n_terms} terms of {args.file} at {len(points)} point(s), {ctx.dps} digits")
+    try:
+        result = evaluate(series, points, ctx, method=args.method, verify=not args.no_verify,
+                          large_x_power=large)
+    except InputError as exc:
+        raise at_file(exc, args.file) from None
+    if args.plot is not None:
+        try:
+            paths = write_evaluation_plots(result, series, ctx, args.plot, reference)
+        except OSError as exc:
+            raise InputError(f"cannot write figures ({exc.strerror or exc}); choose another folder",
+                             where=f"--plot {args.plot}") from None
         for p in paths:
             log(f"wrote {p}")
     if args.json:

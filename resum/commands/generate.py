@@ -31,7 +31,7 @@ def _int_arg(name):
         try:
             return int(text)
         except ValueError:
-            raise argparse.ArgumentTypeError(f"--{name}: {text!r} is not a whole number") from None
+            raise argparse.ArgumentTypeError(f"{text!r} is not a whole number") from None
     return conv
 
 

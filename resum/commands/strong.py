@@ -12,7 +12,7 @@ from __future__ import annotations
 
 from ..errors import InputError
 from ..series.expr import evaluate_expression
-from ._common import add_common_options, emit_json, load_series, log
+from ._common import add_common_options, at_file, emit_json, load_series, log, require_power_series
 
 HELP = "strong-coupling probe: fit the asymptotic form of the resummed function, with bands"
 DESCRIPTION = __doc__.split("\n\n", 1)[1].strip()
@@ -43,7 +43,13 @@ def _number(text, dps, where):
 
 def run(args) -> int:
     from ..estimators.strong_coupling import probe_strong_coupling
+    from ..resummation import _check_method
+    try:
+        _check_method(args.method)
+    except InputError as exc:
+        raise InputError(exc.bare, where="--method") from None
     series, ctx = load_series(args.file, args.dps)
+    require_power_series(series, args.file, 6, "the strong-coupling probe (a resummation)")
     couplings = None if not args.at else [_number(t, ctx.work_dps, "--at") for t in args.at]
     power = None if args.power is None else _number(args.power, ctx.work_dps, "--power")
     expected = {}
@@ -54,8 +60,11 @@ def run(args) -> int:
         expected[label.strip()] = _number(value, ctx.work_dps, f"--expect {label.strip()}")
     if not args.json:
         log(f"probing {series.name or args.file} at growing coupling ({ctx.dps} digits)")
-    res = probe_strong_coupling(series, couplings, ctx, method=args.method, leading_power=power,
-                                log_terms=args.logs, expected=expected or None)
+    try:
+        res = probe_strong_coupling(series, couplings, ctx, method=args.method, leading_power=power,
+                                    log_terms=args.logs, expected=expected or None)
+    except InputError as exc:
+        raise at_file(exc, args.file) from None
     if args.json:
         emit_json(res.to_dict())
     else:

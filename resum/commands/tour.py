@@ -52,7 +52,14 @@ def run(args) -> int:
     out = Path(args.output)
     if out.exists() and not out.is_dir():
         raise InputError("exists and is not a folder; choose another --output", where=str(out))
-    out.mkdir(parents=True, exist_ok=True)
+    try:
+        out.mkdir(parents=True, exist_ok=True)
+        import tempfile
+        with tempfile.TemporaryFile(dir=out):
+            pass
+    except OSError as exc:
+        raise InputError(f"cannot write there ({exc.strerror or exc}); choose another --output",
+                         where=str(out)) from None
     t0 = time.perf_counter()
     ctx = Context(dps=DPS)
     src = get_source("bes")

@@ -1,0 +1,103 @@
+"""Adversarial command-line input: each bad input gives exit code 2, exactly one line on stderr
+naming the file, option or field, nothing on stdout and no file left behind. The commands run in
+process via main(argv); every case is refused before any computation, so the file stays fast."""
+import math
+from fractions import Fraction
+
+import pytest
+
+from resum import Series
+from resum.cli import main
+from resum.series.io import write_series
+
+
+def catalan(n=30):
+    # Catalan numbers (common practice, no source)
+    return Series([Fraction(math.comb(2 * k, k), k + 1) for k in range(n)], name="catalan")
+
+
+def _refused(argv, capsys, needle):
+    code = main(argv)
+    out, err = capsys.readouterr()
+    assert code == 2, err
+    assert out == ""
+    lines = err.strip().splitlines()
+    assert len(lines) == 1, err                 # no progress line before the error, no traceback
+    assert needle in lines[0], lines[0]
+    return lines[0]
+
+
+@pytest.fixture
+def files(tmp_path):
+    good = write_series(catalan(), tmp_path / "cat.txt")
+    (tmp_path / "three.txt").write_text("1\n2\n3\n")
+    (tmp_path / "neg.csv").write_text("order,coefficient\n" + "".join(f"{k},{k + 5}\n" for k in range(-3, 12)))
+    (tmp_path / "afile").write_text("not a folder")
+    return tmp_path, str(good)
+
+
+@pytest.mark.parametrize("cmd", [["analyze"], ["evaluate", "--at", "0.1"], ["strong"]])
+def test_too_few_terms_and_negative_powers_name_the_file(files, capsys, cmd):
+    d, _ = files
+    for name, needle in (("three.txt", "only 3"), ("neg.csv", "starts at x^-3")):
+        line = _refused([cmd[0], str(d / name), *cmd[1:]], capsys, needle)
+        assert name in line
+
+
+@pytest.mark.parametrize("cmd", [["evaluate", "--at", "0.1"], ["strong"]])
+def test_unknown_method_lists_valid_ones_before_any_work(files, capsys, cmd):
+    _, good = files
+    line = _refused([cmd[0], good, *cmd[1:], "--method", "no-such"], capsys, "--method")
+    assert "borel-pade" in line and "auto" in line
+
+
+def test_at_not_a_number_names_the_option(files, capsys):
+    _, good = files
+    _refused(["evaluate", good, "--at", "0.1", "--at", "abc"], capsys, "--at abc")
+    _refused(["evaluate", good, "--at", "0.1", "--large-power", "two"], capsys, "--large-power")
+
+
+@pytest.mark.parametrize("cmd", [["analyze"], ["evaluate", "--at", "0.1"]])
+@pytest.mark.parametrize("plot, needle", [("afile", "is not a folder"),
+                                          ("afile/sub", "cannot write figures"),
+                                          ("", "empty folder name")])
+def test_plot_folder_unusable_is_refused_first(files, capsys, cmd, plot, needle):
+    d, good = files
+    target = str(d / plot) if plot else ""
+    _refused([cmd[0], good, *cmd[1:], "--plot", target], capsys, needle)
+    assert (d / "afile").read_text() == "not a folder"
+
+
+@pytest.mark.parametrize("out, needle", [("folder", "is a folder"),
+                                         ("missing/x.json", "folder does not exist"),
+                                         ("afile/x.json", "is not a folder"),
+                                         ("", "empty output file name")])
+def test_generate_output_errors_leave_nothing(files, capsys, out, needle):
+    d, _ = files
+    (d / "folder").mkdir()
+    before = sorted(p.name for p in d.iterdir())
+    target = str(d / out) if out else ""
+    _refused(["generate", "euler", "--orders", "5", "-o", target], capsys, needle)
+    assert sorted(p.name for p in d.iterdir()) == before
+    assert list((d / "folder").iterdir()) == []
+
+
+def test_generate_bad_integer_option_says_so_once(capsys):
+    line = _refused(["generate", "euler", "--orders", "abc", "-o", "x.json"], capsys, "'abc'")
+    assert line.count("--orders") == 1
+
+
+def test_tour_output_unwritable(files, capsys):
+    d, _ = files
+    _refused(["tour", "-o", str(d / "afile" / "sub")], capsys, "--output")
+
+
+def test_generate_long_exact_coefficients_round_trip(tmp_path, capsys):
+    # Euler's series: coefficient k is (-1)^k k!, and 1999! has more than 4300 digits (the most
+    # Python's str() converts by default); the file must hold them exactly
+    from resum.series.io import read_series
+    p = tmp_path / "euler.json"
+    assert main(["generate", "euler", "--orders", "2000", "-o", str(p)]) == 0
+    s = read_series(p)
+    assert s.coefficients[1999] == -math.factorial(1999)
+    assert s.coefficients[10] == math.factorial(10)
