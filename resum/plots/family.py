@@ -24,6 +24,7 @@ out of the line and marked with a cross at the bottom of the panel.
 from __future__ import annotations
 
 import math
+import re
 from pathlib import Path
 from typing import Callable, Optional
 
@@ -560,6 +561,19 @@ def _has(records, get):
     return any(r.get("status") == "ok" and get(r) not in (None, MISS) for r in records)
 
 
+def integer_ticks(fig, records, x) -> bool:
+    """Whole-number ticks on the x axes of ``fig`` when the axis ``x`` takes only whole
+    numbers (a level, a number of loops): no ticks at 0.25 of a state. Returns True if set."""
+    from matplotlib.ticker import MaxNLocator
+    vals = [r.get("params", {}).get(x) for r in records]
+    if not vals or not all(isinstance(v, str) and re.fullmatch(r"-?\d+", v.strip())
+                           for v in vals):
+        return False
+    for ax in fig.get_axes():
+        ax.xaxis.set_major_locator(MaxNLocator(integer=True))
+    return True
+
+
 def write_family_plots(records, outdir, x=None, title="") -> list:
     """Draw every family figure that has data into ``outdir`` (PNG and PDF).
 
@@ -577,6 +591,7 @@ def write_family_plots(records, outdir, x=None, title="") -> list:
     paths = []
 
     def save(fig, name):
+        integer_ticks(fig, records, x)
         if title:
             fig.suptitle(title, fontsize=11)
             fig.tight_layout(rect=(0, 0, 1, 0.97))

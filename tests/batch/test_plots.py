@@ -58,3 +58,22 @@ def test_a_failed_point_breaks_the_line():
     y = list(line.get_ydata())
     assert y[0] == 1.0 and math.isnan(y[1]) and y[2] == 3.0
     plt.close(fig)
+
+
+def test_a_whole_number_axis_gets_whole_number_ticks():
+    """A level or a loop count has no value between 0 and 1: its ticks are whole numbers;
+    an axis with fractional values keeps the default ticks."""
+    import matplotlib.pyplot as plt
+    from resum.plots.family import integer_ticks
+    recs = [{"index": i, "params": {"state": str(i)}} for i in (-1, 0, 1)]
+    fig, (a1, a2) = plt.subplots(2, 1, sharex=True)
+    a1.plot([-1, 0, 1], [1, 2, 3])
+    assert integer_ticks(fig, recs, "state")
+    fig.canvas.draw()
+    ticks = [t for t in a2.get_xticks() if -1 <= t <= 1]
+    assert ticks and all(t == int(t) for t in ticks), ticks
+    plt.close(fig)
+    frac = [{"index": 0, "params": {"angle": "0"}}, {"index": 1, "params": {"angle": "0.5236"}}]
+    fig, ax = plt.subplots()
+    assert not integer_ticks(fig, frac, "angle")
+    plt.close(fig)
