@@ -230,18 +230,32 @@ class DaskRunner:
         client, cluster = self._conn
         self._conn = None
         try:
-            if not self.jobs:
-                self.jobs = max(1, sum(w.get("nthreads", 1) for w in
-                                       client.scheduler_info().get("workers", {}).values()))
+            remote = not self.address.startswith("local:")
             spec_f = client.scatter(spec, broadcast=True)
+            pending = list(indices)
+            pending.reverse()          # pop() from the end keeps the spec's order
             futs = {}
-            for i in indices:
+            done = as_completed()
+
+            def submit():
+                i = pending.pop()
                 f = client.submit(compute_point, spec_f, i, self.name, pure=False,
                                   key=f"resum-{spec.name}-{i}-{os.getpid()}-{id(self)}")
                 futs[f] = i
+                done.add(f)
                 on_start(i)
-            for fut in as_completed(list(futs)):
-                i = futs[fut]
+
+            def fill():
+                # at most one point per worker thread in flight, so that "running" in the
+                # progress line is exact and an interrupt abandons only what really runs;
+                # a remote cluster's threads are counted again as workers come and go
+                limit = self.jobs if not remote else _threads(client)
+                while pending and len(futs) < max(1, limit):
+                    submit()
+
+            fill()
+            for fut in done:
+                i = futs.pop(fut)
                 try:
                     rec = fut.result()
                 except Exception as exc:   # KilledWorker, lost connection
@@ -249,12 +263,22 @@ class DaskRunner:
                                          f"{type(exc).__name__}: {exc}".splitlines()[0],
                                          kind=type(exc).__name__, runner=self.name)
                 on_record(rec)
+                fill()
         finally:
             try:
                 client.close()
             finally:
                 if cluster is not None:
                     cluster.close()
+
+
+def _threads(client) -> int:
+    """Worker threads of a dask cluster (0 while no worker has joined)."""
+    try:
+        workers = client.scheduler_info().get("workers", {})
+    except Exception:  # pragma: no cover - scheduler gone; the next result says why
+        return 1
+    return sum(int(w.get("nthreads", 1)) for w in workers.values())
 
 
 def make_runner(jobs: Optional[int] = None, cluster: Optional[str] = None, serial: bool = False):

@@ -98,7 +98,23 @@ def test_dask_local_cluster_identical(tmp_path):
     from resum.batch import DaskRunner
     spec = parse_spec(spec_text([1, "pi/2"]), path="spec.toml")
     run_family(spec, tmp_path / "serial", runner=SerialRunner(), quiet=True, plots=False)
-    run_family(spec, tmp_path / "dask", runner=DaskRunner("local:2"), quiet=True, plots=False)
+    inflight, most = set(), [0]
+
+    class Counting(DaskRunner):
+        def run(self, spec, indices, on_start, on_record):
+            def start(i):
+                inflight.add(i)
+                most[0] = max(most[0], len(inflight))
+                on_start(i)
+
+            def record(rec):
+                inflight.discard(rec["index"])
+                on_record(rec)
+            super().run(spec, indices, start, record)
+
+    run_family(spec, tmp_path / "dask", runner=Counting("local:2"), quiet=True, plots=False)
+    # at most one point per worker in flight: the progress line's "running" is what runs
+    assert most[0] == 2
     a, b = records(tmp_path / "serial"), records(tmp_path / "dask")
     assert a.keys() == b.keys() and len(a) == 4
     for k in a:
