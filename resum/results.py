@@ -239,6 +239,8 @@ def _real(x):
     from fractions import Fraction
     if isinstance(x, Fraction):
         return mpf(x.numerator) / x.denominator
+    if isinstance(x, mpf):
+        return x            # already a number: keep all its digits (mpf() would round it)
     return mpf(x)
 
 
