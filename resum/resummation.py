@@ -502,7 +502,7 @@ def _alpha_for(cmap, alpha, large_x_power):
     return 2 * p if isinstance(cmap, RayMap) else p
 
 
-def _run(plan: _Plan, c, xs, dps, n_orders, quad_dps=None):
+def _run(plan: _Plan, c, xs, dps, n_orders, quad_dps=None, target=None):
     from .estimators.resum_borel import borel_evaluate
     from .estimators.resum_conformal import conformal_evaluate
     from .estimators.resum_pade import pade_evaluate, partial_sum_evaluate
@@ -511,7 +511,8 @@ def _run(plan: _Plan, c, xs, dps, n_orders, quad_dps=None):
     if plan.method == "pade":
         return pade_evaluate(c, xs, dps, n_orders=7 if n_orders is None else n_orders)
     if plan.method == "conformal-pade":
-        return conformal_evaluate(c, xs, plan.cmap, dps, alpha=plan.alpha, n_orders=7 if n_orders is None else n_orders)
+        return conformal_evaluate(c, xs, plan.cmap, dps, alpha=plan.alpha,
+                                  n_orders=7 if n_orders is None else n_orders, target_digits=target)
     return borel_evaluate(c, xs, dps, b=plan.borel_b, cmap=plan.cmap, alpha=plan.alpha,
                           n_orders=7 if n_orders is None else n_orders, lateral=plan.lateral,
                           quad_dps=quad_dps)
@@ -625,7 +626,7 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
         # the Padé systems need the long working precision; the Laplace integrals only the
         # reported digits plus guards (tanh-sinh converges fast there)
         qd = min(wd, ctx.work_dps + 5)
-        outs, diag = _run(plan, c, xs, wd, n_orders, qd)
+        outs, diag = _run(plan, c, xs, wd, n_orders, qd, target=ctx.dps)
         checks = [[] for _ in xs]
         if verify:
             hi = ctx.higher()
@@ -633,9 +634,9 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
             with _wd(wd2):
                 c2 = series.dense(Context(dps=wd2, guard=0))
                 c2 = _perturb(c2, series.digits)
-                o2, _ = _run(plan, c2, xs, wd2, n_orders, min(wd2, hi.work_dps + 5))
+                o2, _ = _run(plan, c2, xs, wd2, n_orders, min(wd2, hi.work_dps + 5), target=hi.dps)
             nf = max(6, series.n_terms - max(4, series.n_terms // 10))
-            o3, _ = _run(plan, c[:nf], xs, wd, n_orders, qd)
+            o3, _ = _run(plan, c[:nf], xs, wd, n_orders, qd, target=ctx.dps)
             for j in range(len(xs)):
                 checks[j] = [("higher precision", o2[j]), (f"{nf} terms", o3[j])]
         baselines = []
