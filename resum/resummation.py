@@ -326,7 +326,8 @@ def _nearest_singularity(d):
             rows = [[mpmath.mpf(1), mpmath.mpf(1) / n, mpmath.mpf(1) / n ** 2] for n, _ in tail]
             rhs = [mpmath.re(r) for _, r in tail]
             try:
-                sol = mpmath.lu_solve(mpmath.matrix(rows), mpmath.matrix(rhs))
+                from .estimators._num import lu_solve
+                sol = lu_solve(mpmath.matrix(rows), mpmath.matrix(rhs))
                 return sol[0]
             except ZeroDivisionError:
                 pass

@@ -91,6 +91,19 @@ def _to_balls(values, cplx):
     return out
 
 
+def lu_solve(A, b):
+    """``mpmath.lu_solve`` that reports a singular system as ``ZeroDivisionError``.
+
+    mpmath's pivot search can fail on a singular matrix with an internal
+    ``TypeError`` (an all-zero column leaves no pivot) instead of its own
+    ``ZeroDivisionError``; callers catch the latter.
+    """
+    try:
+        return mpmath.lu_solve(A, b)
+    except TypeError as e:
+        raise ZeroDivisionError(f"singular linear system ({e})") from None
+
+
 def solve(rows, rhs, dps: int):
     """Solve the square system ``rows @ x = rhs`` at ``dps`` digits.
 

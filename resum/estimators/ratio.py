@@ -59,6 +59,7 @@ from ..results import Estimate, Singularity, Status
 from ..uncertainty.ensemble import SAFETY
 from ._common import classify_kind, failed, finish, prepare
 from ._extrap import extrapolate
+from ._num import lu_solve
 
 __all__ = ["estimate_ratio", "estimate_root_test", "estimate_conjugate_pair",
            "estimate_large_order", "classify_growth", "ratio_sequence"]
@@ -351,7 +352,10 @@ def estimate_root_test(series, ctx=None):
                 basis = lambda n: [mpmath.mpf(n), mpmath.log(n), mpmath.mpf(1), mpmath.mpf(1) / n][:nb]  # noqa: E731
                 A = mpmath.matrix([basis(n) for n, _ in sub])
                 b = mpmath.matrix([y for _, y in sub])
-                sol = mpmath.lu_solve(A.T * A, A.T * b)
+                try:
+                    sol = lu_solve(A.T * A, A.T * b)
+                except ZeroDivisionError:
+                    continue
                 ests.append(mpmath.exp(-sol[0]))
         if not ests:
             return failed(method, Status.TOO_FEW_TERMS, "too few non-zero coefficients", prep)
@@ -381,7 +385,7 @@ def _pair_fit(c, n, D):
         rows.append(row)
         rhs.append(c[m])
     try:
-        sol = mpmath.lu_solve(mpmath.matrix(rows), mpmath.matrix(rhs))
+        sol = lu_solve(mpmath.matrix(rows), mpmath.matrix(rhs))
     except ZeroDivisionError:
         return None
     a0, a1 = sol[0], (sol[1] if D >= 1 else 0)

@@ -44,6 +44,7 @@ import mpmath
 from ..context import DEFAULT, Context
 from ..errors import InputError
 from ..results import Estimate, Provenance, Status, jsonable, num_to_str
+from ._num import lu_solve
 
 __all__ = ["probe_strong_coupling", "StrongCouplingResult", "simple_rational"]
 
@@ -136,7 +137,7 @@ def _lstsq(rows, rhs, weights):
     n = A.cols
     Rn = R[:n, :n]
     qb = (Q.T * b)[:n, 0] if hasattr(Q, "T") else None
-    sol = mpmath.lu_solve(Rn, qb)
+    sol = lu_solve(Rn, qb)
     resid = A * sol - b
     chi2 = sum(resid[i] ** 2 for i in range(A.rows))
     # standard errors from (R^T R)^-1

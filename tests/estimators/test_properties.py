@@ -13,6 +13,7 @@ import mpmath
 import pytest
 
 from resum.context import Context, workdps
+from resum.errors import InputError
 from resum.estimators import METHODS, get_method
 from resum.series import Series
 
@@ -102,3 +103,20 @@ def test_monomial_factor_changes_no_singularity(name):
         r2 = f(times_x2, ctx)
         assert r2.success, r2.message
         assert _agree(_key(r2), _key(r1))
+
+
+@pytest.mark.parametrize("name", sorted(METHODS))
+def test_an_isolated_zero_coefficient_is_no_crash(name):
+    # 1/(1-x)^2 - 3x^2 to 10 terms: one zero coefficient among non-zero ones (the conjugate-pair fit
+    # met a singular system there and mpmath raised an internal TypeError); every estimator
+    # returns a result, and a successful one finds the double pole at 1 (common practice,
+    # no source)
+    cs = [n + 1 for n in range(10)]
+    cs[2] = 0
+    try:
+        r = get_method(name)(Series(cs), Context(dps=30))
+    except InputError:
+        return           # too few terms for this estimator: refused cleanly
+    if r.success and r.singularities:
+        z = min(r.singularities, key=lambda t: abs(t.location - 1))
+        assert abs(z.location - 1) <= 2 * (z.re.error + z.im.error) + mpmath.mpf(10) ** -20
