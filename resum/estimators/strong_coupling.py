@@ -188,6 +188,9 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
     n_terms_fit = tuple(int(k) for k in n_terms_fit)
     if not n_terms_fit or min(n_terms_fit) < 1:
         raise InputError("n_terms_fit must list positive integers", where="n_terms_fit")
+    if getattr(series, "start", 0) < 0:
+        raise InputError(f"series starts at {series.variable}^{series.start}; multiply by "
+                         f"{series.variable}^{-series.start} first", where="series")
     var = series.coupling.symbol if getattr(series, "coupling", None) is not None else series.variable
     warnings = []
     with ctx.working(10):

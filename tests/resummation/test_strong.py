@@ -98,3 +98,11 @@ def test_no_coefficient_carried_by_two_fits_is_a_failure():
                               leading_power=1, n_terms_fit=[3])
     assert not r.success and r.status.value == "not converged", (r.status, r.message)
     assert "two fits" in r.message and not r.coefficients
+
+
+def test_negative_powers_are_an_input_error():
+    from resum.errors import InputError
+    from resum.series import Series
+    s = Series([1, 2, 3, 4, 5, 6, 7, 8], start=-1)
+    with pytest.raises(InputError, match="starts at x"):
+        probe_strong_coupling(s, ["1", "2"], Context(dps=20))
