@@ -41,10 +41,12 @@ digits the series carries.
 """
 from __future__ import annotations
 
+import errno
 import json
 import os
 import re
-import tempfile
+import secrets
+import stat
 from fractions import Fraction
 from pathlib import Path
 from typing import Optional
@@ -57,7 +59,8 @@ from .core import Coupling, Series
 from .expr import decimal_to_int, evaluate_expression, exact_to_text
 
 __all__ = ["read_series", "write_series", "series_from_dict", "series_to_dict",
-           "parse_coupling", "atomic_write_text", "FORMAT_TAG", "MAX_TERMS"]
+           "parse_coupling", "atomic_write_text", "clean_temp_files", "TEMP_NAME", "FORMAT_TAG",
+           "MAX_TERMS"]
 
 FORMAT_TAG = "resum-series/1"
 MAX_TERMS = 100000
@@ -523,8 +526,58 @@ def series_to_dict(series: Series) -> dict:
     return d
 
 
+# temporary files of atomic writes: ".<target name>.<8 characters>.tmp" beside the target
+_TEMP_CHARS = "abcdefghijklmnopqrstuvwxyz0123456789_"
+TEMP_NAME = re.compile(r"^\..+\.[a-z0-9_]{8}\.tmp$")
+
+
+def _open_temp(folder: Path, name: str):
+    """Create a new temporary file for ``name`` in ``folder``: ``(fd, path)``.
+
+    Created like ``open(path, "w")`` creates a file (mode 0666 minus the
+    umask, and any default ACL of the folder), not private like
+    :func:`tempfile.mkstemp`, so the renamed file is readable by whoever may
+    read the folder's other files.
+    """
+    flags = os.O_WRONLY | os.O_CREAT | os.O_EXCL | getattr(os, "O_CLOEXEC", 0) \
+        | getattr(os, "O_BINARY", 0)
+    for _ in range(100):
+        tag = "".join(secrets.choice(_TEMP_CHARS) for _ in range(8))
+        tmp = folder / f".{name}.{tag}.tmp"
+        try:
+            return os.open(tmp, flags, 0o666), tmp
+        except FileExistsError:
+            continue
+    raise FileExistsError(errno.EEXIST, "no free temporary file name", str(folder))
+
+
+def clean_temp_files(folder) -> int:
+    """Remove leftover temporary files of interrupted atomic writes in ``folder``
+    (only names of our own pattern, see :func:`atomic_write_text`); returns how many."""
+    n = 0
+    try:
+        entries = list(Path(folder).iterdir())
+    except OSError:
+        return 0
+    for p in entries:
+        if TEMP_NAME.match(p.name) and p.is_file() and not p.is_symlink():
+            try:
+                p.unlink()
+                n += 1
+            except OSError:
+                pass
+    return n
+
+
 def atomic_write_text(path, text: str) -> None:
-    """Write ``text`` to ``path`` atomically (temporary file in the same folder, then rename)."""
+    """Write ``text`` to ``path`` atomically (temporary file in the same folder, fsync, rename).
+
+    A new file gets the permissions ``open(path, "w")`` would give it (0666
+    minus the umask); a file replaced keeps its permission bits. The
+    temporary file is named ``.<name>.<8 characters>.tmp``
+    (:data:`TEMP_NAME`); :func:`clean_temp_files` removes those an
+    interrupted write left behind.
+    """
     if not str(path).strip():
         raise InputError("empty output file name; give a file name", where="output")
     path = Path(path)
@@ -540,7 +593,11 @@ def atomic_write_text(path, text: str) -> None:
         # renaming over a device, pipe or socket would replace it with a plain file
         raise InputError("is not a regular file; give a file name for the output", where=str(path))
     try:
-        fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=folder)
+        old_mode = stat.S_IMODE(os.stat(path).st_mode)
+    except OSError:
+        old_mode = None
+    try:
+        fd, tmp = _open_temp(folder, path.name)
     except OSError as e:
         raise InputError(f"cannot write here ({e.strerror}); choose another place for the output",
                          where=str(path)) from None
@@ -548,6 +605,8 @@ def atomic_write_text(path, text: str) -> None:
         with os.fdopen(fd, "w", encoding="utf-8") as fh:
             fh.write(text)
             fh.flush()
+            if old_mode is not None and hasattr(os, "fchmod"):
+                os.fchmod(fh.fileno(), old_mode)
             os.fsync(fh.fileno())
         os.replace(tmp, path)
     except BaseException as exc:

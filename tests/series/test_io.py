@@ -203,3 +203,42 @@ def test_write_refuses_to_replace_a_special_file(tmp_path):
 def test_dict_interface():
     s = series_from_dict({"coefficients": ["1", "-1/2"], "exact": True})
     assert s.coefficients == (1, Fraction(-1, 2))
+
+
+def _with_umask(mask, fn):
+    import os
+    old = os.umask(mask)
+    try:
+        return fn()
+    finally:
+        os.umask(old)
+
+
+@pytest.mark.parametrize("mask", [0o022, 0o002, 0o077])
+def test_written_files_get_the_modes_open_would_give(tmp_path, mask):
+    # a new file gets 0666 minus the umask, as open(path, "w") gives it (POSIX creat();
+    # common practice, no source), not the 0600 of a private temporary file
+    import os
+    import stat
+    from resum.series.io import atomic_write_text
+    plain = tmp_path / "plain.txt"
+    _with_umask(mask, lambda: open(plain, "w").close())
+    want = 0o666 & ~mask
+    assert stat.S_IMODE(os.stat(plain).st_mode) == want
+    p = tmp_path / "s.json"
+    _with_umask(mask, lambda: write_series(Series([1, 2]), p))
+    assert stat.S_IMODE(os.stat(p).st_mode) == want
+    _with_umask(mask, lambda: atomic_write_text(tmp_path / "note.txt", "hi\n"))
+    assert stat.S_IMODE(os.stat(tmp_path / "note.txt").st_mode) == want
+    assert sorted(f.name for f in tmp_path.iterdir()) == ["note.txt", "plain.txt", "s.json"]
+
+
+def test_rewriting_keeps_the_mode_of_the_file_replaced(tmp_path):
+    import os
+    import stat
+    p = tmp_path / "s.json"
+    p.write_text("old")
+    os.chmod(p, 0o640)
+    _with_umask(0o077, lambda: write_series(Series([1, 2]), p))
+    assert stat.S_IMODE(os.stat(p).st_mode) == 0o640
+    assert read_series(p).coefficients == (1, 2)
