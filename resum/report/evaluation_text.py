@@ -71,6 +71,13 @@ def _render(result, title, reference):
         lines.append("  ".join(c.ljust(w) for c, w in zip(r, widths)).rstrip())
         if k == 0:
             lines.append("  ".join("-" * w for w in widths))
+    deriv = [p for p in result.points if p.diagnostics.get("variant") == "derivative"]
+    if deriv:
+        lines.append("")
+        lines.append("Derivative variant at " + ", ".join(mpmath.nstr(p.at, 12) for p in deriv) + ": there the "
+                     "approximants resum f' in the mapped variable and integrate it from 0 (exactly, by partial "
+                     "fractions); chosen because its band was narrower than that of the approximants to f itself, "
+                     "and widened to reach their value if the two bands did not overlap.")
     lat = [p for p in result.points if p.imag is not None]
     if lat:
         lines.append("")

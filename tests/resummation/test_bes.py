@@ -46,6 +46,8 @@ def test_zero_angle_derivative_variant(zero_angle):
                  cmap=RayMap(mpmath.mpf(-1) / 16), verify=False)
     p = r.points[0]
     assert p.diagnostics["variant"] == "derivative"
+    from resum.report.evaluation_text import render_evaluation
+    assert "Derivative variant at 5.0" in render_evaluation(r)       # the report says so
     with workdps(60):
         truth = zero_angle_closed_form("5", Context(dps=60))
         assert p.success and p.value.contains(truth)
