@@ -2,6 +2,7 @@
 import json
 
 import mpmath
+import pytest
 
 from resum.cli import main
 from resum.context import workdps
@@ -76,3 +77,35 @@ def test_exact_flag_stores_exact_forms(tmp_path):
     # Beisert-Eden-Staudacher hep-th/0610251, four loops: -8 (73/630 pi^6 + 4 zeta(3)^2)
     assert prov["exact_coefficients"][4] == "-292/315*pi^6 - 32*zeta(3)^2"
     assert prov["exact_cos2"] == "1/2"
+
+
+@pytest.mark.parametrize("args, option, bound", [
+    (["bes", "--loops", "-3"], "--loops", "1"),
+    (["bes", "--loops", "0"], "--loops", "1"),
+    (["bes", "--loops", "401"], "--loops", "400"),
+    (["bes", "--dps", "4"], "--dps", "5"),
+    (["bes", "--dps", "100000"], "--dps", "5000"),
+    (["oscillator", "--state", "-1"], "--state", "0"),
+    (["oscillator", "--orders", "0"], "--orders", "1"),
+    (["oscillator", "--orders", "3001"], "--orders", "3000"),
+    (["phi4", "--orders", "-2"], "--orders", "1"),
+    (["phi4", "--orders", "100001"], "--orders", "100000"),
+    (["euler", "--orders", "0"], "--orders", "1"),
+])
+def test_out_of_range_parameters_name_the_option(tmp_path, capsys, args, option, bound):
+    # the limits each source's build function accepts (bes: 1..400 loops, oscillator:
+    # 1..3000 orders); a huge --dps or --orders is refused at once instead of running for hours
+    out = tmp_path / "x.json"
+    assert main(["generate", *args, "-o", str(out)]) == 2
+    err = capsys.readouterr().err.strip().splitlines()
+    assert len(err) == 1, err
+    assert option in err[0] and bound in err[0] and args[-1] in err[0], err[0]
+    assert not out.exists() and list(tmp_path.iterdir()) == []
+
+
+def test_parameter_limits_are_declared_for_every_integer_parameter():
+    from resum.sources import SOURCES
+    for spec in SOURCES.values():
+        for p in spec.params:
+            if p.type == "int" and not p.choices:
+                assert p.minimum is not None, (spec.name, p.name)

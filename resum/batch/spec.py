@@ -129,6 +129,19 @@ def source_choices(source) -> dict:
     return out
 
 
+def source_limits(source) -> dict:
+    """``{name: (minimum, maximum)}`` of the parameters with a lower or upper limit
+    (inclusive; None where there is none)."""
+    out = {}
+    for p in _get(source, "params", ()) or ():
+        if isinstance(p, (tuple, list)):
+            continue
+        lo, hi = _get(p, "minimum"), _get(p, "maximum")
+        if lo is not None or hi is not None:
+            out[str(_get(p, "name"))] = (lo, hi)
+    return out
+
+
 def _registry(sources=None) -> Mapping:
     if sources is not None:
         return sources
@@ -485,6 +498,7 @@ class _Validator:
                            "(or 'package.module:object' for a source of your own)")
         params = source_params(source)
         self.choices = source_choices(source)
+        self.limits = source_limits(source)
 
         # fixed parameters
         fixed = {}
@@ -589,11 +603,19 @@ class _Validator:
         return Axis(name, out)
 
     def _choice(self, name, value, where):
-        """``value`` if the source accepts it for ``name`` (parameters with listed choices)."""
+        """``value`` if the source accepts it for ``name`` (listed choices, minimum, maximum)."""
         ch = getattr(self, "choices", {}).get(name)
         if ch is not None and value not in ch:
             raise InputError(f"{value_text(value)} is not allowed; choose from "
                              f"{', '.join(value_text(c) for c in ch)}", where=where)
+        lo, hi = getattr(self, "limits", {}).get(name, (None, None))
+        if isinstance(value, (int, float, Fraction, mpmath.mpf)) and not isinstance(value, bool):
+            if lo is not None and value < lo:
+                raise InputError(f"{name} = {value_text(value)} is too small; it must be at least "
+                                 f"{value_text(lo)}", where=where)
+            if hi is not None and value > hi:
+                raise InputError(f"{name} = {value_text(value)} is too large; it must be at most "
+                                 f"{value_text(hi)}", where=where)
         return value
 
     def _combine(self, grid, names) -> tuple:

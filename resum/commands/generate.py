@@ -76,12 +76,12 @@ def _values(spec, args, dps_for_parse: int) -> dict:
                 val = evaluate_expression(text, dps=dps_for_parse)
             except InputError as exc:
                 raise exc.at(f"--{p.name}") from None
+            if not isinstance(val.value, str):
+                p.check(val.value, f"--{p.name}")
             # keep the text for sources that re-evaluate it at their own precision
             kw[p.name] = text if not val.exact else val.value
         elif p.type == "int":
-            if p.name == "dps" and v < 5:
-                raise InputError(f"use at least 5 digits, got {v}", where="--dps")
-            kw[p.name] = v
+            kw[p.name] = p.check(v, f"--{p.name}")
         else:
             kw[p.name] = v
     return kw
@@ -95,7 +95,10 @@ def run(args) -> int:
         raise InputError("name a source: " + ", ".join(sorted(SOURCES)))
     spec = get_source(args.source)
     dps = getattr(args, "dps", None)
-    ctx = Context(dps=dps) if dps and dps >= 5 else DEFAULT
+    for p in spec.params:         # whole numbers first: --dps sets the precision of the rest
+        if p.type == "int":
+            p.check(getattr(args, p.name, None), f"--{p.name}")
+    ctx = Context(dps=dps) if dps is not None else DEFAULT
     kw = _values(spec, args, ctx.work_dps + 10)
     series = spec.build(ctx, **kw)
     path = write_series(series, args.out)

@@ -43,13 +43,45 @@ __all__ = ["SOURCES", "SourceSpec", "Param", "get_source"]
 @dataclass(frozen=True)
 class Param:
     """One source parameter: ``type`` is ``"int"``, ``"float"`` (a number or
-    an expression such as ``"pi/3"``), ``"str"`` or ``"bool"``."""
+    an expression such as ``"pi/3"``), ``"str"`` or ``"bool"``.
+
+    ``choices`` lists the only values allowed; ``minimum`` and ``maximum``
+    (inclusive, None: no limit) bound a numeric one. ``resum generate`` and
+    family specs refuse a value outside them before any work starts.
+
+    >>> Param("loops", "int", 60, "loops", minimum=1).check(-3)
+    Traceback (most recent call last):
+    ...
+    resum.errors.InputError: loops: must be at least 1, got -3
+    """
 
     name: str
     type: str
     default: Any
     help: str
     choices: Optional[tuple] = None
+    minimum: Any = None
+    maximum: Any = None
+
+    def check(self, value, where: Optional[str] = None):
+        """``value`` if this parameter accepts it; else an InputError naming
+        ``where`` (default: the parameter's name). None (the default) passes."""
+        where = where or self.name
+        if value is None or self.type not in ("int", "float") or isinstance(value, (str, bool)):
+            return value
+        if self.choices and value not in self.choices:
+            raise InputError(f"choose from {', '.join(str(c) for c in self.choices)}, got {value}",
+                             where=where)
+        try:
+            low = self.minimum is not None and value < self.minimum
+            high = self.maximum is not None and value > self.maximum
+        except TypeError:                      # a complex number
+            raise InputError(f"must be a real number, got {value}", where=where) from None
+        if low:
+            raise InputError(f"must be at least {self.minimum}, got {value}", where=where)
+        if high:
+            raise InputError(f"must be at most {self.maximum}, got {value}", where=where)
+        return value
 
 
 @dataclass(frozen=True)
@@ -61,12 +93,34 @@ class SourceSpec:
     truth: Optional[Callable] = None
     truth_help: str = ""
 
+    def check(self, **params) -> dict:
+        """``params`` if every value lies within its parameter's limits (see
+        :meth:`Param.check`); unknown names are left to ``build``."""
+        known = {p.name: p for p in self.params}
+        for k, v in params.items():
+            if k in known:
+                known[k].check(v)
+        return params
+
     def param(self, name: str) -> Param:
         for p in self.params:
             if p.name == name:
                 return p
         raise InputError(f"source {self.name!r} has no parameter {name!r}; known: "
                          f"{', '.join(p.name for p in self.params)}")
+
+
+# limits of the build functions, kept here so that reading the registry imports
+# no numerics (tests check them against resum.sources.bes / oscillator)
+BES_MAX_LOOPS = 400          # resum.sources.bes.MAX_LOOPS: cost grows like loops^4
+OSC_MAX_ORDERS = 3000        # resum.sources.oscillator.MAX_ORDERS
+MAX_DPS = 5000               # as for a family spec's study.dps
+MIN_DPS = 5                  # resum.context.Context refuses fewer digits
+MAX_ORDERS = 100000          # resum.series.io.MAX_TERMS: a longer series file cannot be read back
+
+
+def _checked(name: str, **params) -> dict:
+    return SOURCES[name].check(**params)
 
 
 def _ctx_with(ctx: Optional[Context], dps: Optional[int]) -> Context:
@@ -83,6 +137,7 @@ def _ctx_with(ctx: Optional[Context], dps: Optional[int]) -> Context:
 def _bes_build(ctx: Optional[Context] = None, angle="pi/4", loops: int = 60,
                dps: Optional[int] = None, exact: bool = False):
     from .bes import weak_coupling_series
+    _checked("bes", loops=loops, dps=dps)
     return weak_coupling_series(angle, loops, _ctx_with(ctx, dps), exact=bool(exact))
 
 
@@ -99,6 +154,7 @@ def _bes_truth(ctx: Context, points: Sequence, angle="pi/4", dps: Optional[int] 
 
 def _osc_build(ctx: Optional[Context] = None, state: int = 0, orders: int = 100):
     from .oscillator import series
+    _checked("oscillator", state=state, orders=orders)
     return series(state, orders)
 
 
@@ -115,6 +171,7 @@ def _osc_truth(ctx: Context, points: Sequence, state: int = 0, **_):
 
 def _phi4_build(ctx: Optional[Context] = None, orders: int = 60):
     from .phi4 import series
+    _checked("phi4", orders=orders)
     return series(orders)
 
 
@@ -127,6 +184,7 @@ def _phi4_truth(ctx: Context, points: Sequence, **_):
 
 def _euler_build(ctx: Optional[Context] = None, orders: int = 50, sign: int = -1):
     from .euler import series
+    _checked("euler", orders=orders, sign=sign)
     return series(orders, sign)
 
 
@@ -141,24 +199,28 @@ SOURCES = {
                "series in x = g^2 (a = pi/4: cusp anomalous dimension)",
         (Param("angle", "float", "pi/4", "deformation angle a in radians (a number or an "
                                          "expression such as pi/3)"),
-         Param("loops", "int", 60, "number of loops: highest power g^(2 loops)"),
+         Param("loops", "int", 60, "number of loops: highest power g^(2 loops)",
+               minimum=1, maximum=BES_MAX_LOOPS),
          Param("dps", "int", None, "correct significant digits of every coefficient "
-                                   "(default: the working precision)"),
+                                   "(default: the working precision)",
+               minimum=MIN_DPS, maximum=MAX_DPS),
          Param("exact", "bool", False, "also store the exact coefficients (pi, zeta values) in "
                                        "the provenance")),
         _bes_build, _bes_truth, "F_a(g) at couplings g by a truncated matrix and quadrature"),
     "oscillator": SourceSpec(
         "oscillator", "energy levels of p^2 + x^2 + g x^4 as exact Rayleigh-Schrodinger series in g",
-        (Param("state", "int", 0, "level: 0 ground state, 1 first excited, ..."),
-         Param("orders", "int", 100, "number of coefficients (g^0 .. g^(orders-1))")),
+        (Param("state", "int", 0, "level: 0 ground state, 1 first excited, ...", minimum=0),
+         Param("orders", "int", 100, "number of coefficients (g^0 .. g^(orders-1))",
+               minimum=1, maximum=OSC_MAX_ORDERS)),
         _osc_build, _osc_truth, "energy at couplings g by diagonalisation in an oscillator basis"),
     "phi4": SourceSpec(
         "phi4", "zero-dimensional phi^4 integral Z(g) = (2 pi)^(-1/2) Int exp(-x^2/2 - g x^4/4) dx",
-        (Param("orders", "int", 60, "number of coefficients (g^0 .. g^(orders-1))"),),
+        (Param("orders", "int", 60, "number of coefficients (g^0 .. g^(orders-1))",
+               minimum=1, maximum=MAX_ORDERS),),
         _phi4_build, _phi4_truth, "Z(g) from its modified-Bessel closed form"),
     "euler": SourceSpec(
         "euler", "Euler's series sum (sign)^n n! x^n",
-        (Param("orders", "int", 50, "number of coefficients"),
+        (Param("orders", "int", 50, "number of coefficients", minimum=1, maximum=MAX_ORDERS),
          Param("sign", "int", -1, "-1: alternating (Borel summable), 1: same sign", (-1, 1))),
         _euler_build, _euler_truth, "Borel sum e^(1/x) E_1(1/x)/x (alternating series only)"),
 }

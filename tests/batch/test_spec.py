@@ -164,3 +164,37 @@ def test_parameters_with_listed_choices(where, words):
     ok = parse(f'[study]\nname = "e"\nsource = "euler"\n[axes]\nsign = {{ values = [-1, 1] }}\n'
                "[tasks.coefficients]\n")
     assert [p.params["sign"] for p in ok.points()] == [-1, 1]
+
+
+@pytest.mark.parametrize("source, where, words", [
+    ("bes", "[fixed]\nloops = -3\n[axes]\nangle = { values = [0, 1] }\n", ["fixed.loops", "-3", "1"]),
+    ("bes", "[fixed]\ndps = 3\n[axes]\nangle = { values = [0, 1] }\n", ["fixed.dps", "3", "5"]),
+    ("bes", "[axes]\nloops = { range = { start = 0, stop = 10, num = 3 } }\n",
+     ["axes.loops.range", "0", "at least 1"]),
+    ("oscillator", "[fixed]\nstate = -1\n[axes]\norders = { values = [10, 20] }\n",
+     ["fixed.state", "-1", "0"]),
+    ("oscillator", "[fixed]\norders = 5000\n[axes]\nstate = { values = [0, 1] }\n",
+     ["fixed.orders", "5000", "3000"]),
+    ("oscillator", "[axes]\norders = { values = [10, -1] }\n", ["axes.orders.values[1]", "-1", "1"]),
+    ("phi4", "[axes]\norders = { values = [0, 10] }\n", ["axes.orders.values[0]", "0", "1"]),
+    ("euler", "[fixed]\norders = 0\n[axes]\nsign = { values = [-1, 1] }\n", ["fixed.orders", "0", "1"]),
+])
+def test_parameters_out_of_their_range_are_refused(source, where, words):
+    # refused while the spec is read, naming the field, instead of failing every point later
+    text = f'[study]\nname = "r"\nsource = "{source}"\n{where}[tasks.coefficients]\n'
+    with pytest.raises(InputError) as err:
+        parse(text)
+    msg = str(err.value)
+    assert "\n" not in msg
+    for w in words:
+        assert w in msg, msg
+
+
+def test_limits_of_a_source_of_your_own():
+    reg = {"mine": {"params": [{"name": "n", "type": "int", "default": 3, "minimum": 2,
+                                "maximum": 4}]}}
+    text = '[study]\nname = "m"\nsource = "mine"\n[axes]\nn = { values = [%s] }\n[tasks.coefficients]\n'
+    assert [p.params["n"] for p in parse_spec(text % "2, 3, 4", sources=reg).points()] == [2, 3, 4]
+    for bad, word in (("1", "at least 2"), ("5", "at most 4")):
+        with pytest.raises(InputError, match=word):
+            parse_spec(text % bad, sources=reg)
