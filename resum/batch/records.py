@@ -12,24 +12,40 @@ Layout of ``DIR``::
 Each record is written to a temporary file in ``DIR/points`` and renamed
 into place (``os.replace``), so a record on disk is always complete; a run
 killed at any moment loses only the points still being computed. Leftover
-temporary files are removed when a run starts.
+temporary files (``.<name>.<8 characters>.tmp`` beside the files above) are
+removed when a run starts.
+
+``spec.toml`` is written before ``run.json``; a folder that holds only the
+``spec.toml`` of the same spec (a first run killed between the two writes)
+is taken up as a new run.
 """
 from __future__ import annotations
 
 import csv
 import io
 import json
+import re
 import time
 from pathlib import Path
 from typing import Iterable, Optional
 
 from ..errors import InputError
-from ..series.io import atomic_write_text
-from .spec import FamilySpec
+from ..series.io import atomic_write_text, clean_temp_files, temp_target
+from .spec import FamilySpec, spec_digest, tomllib
 
 __all__ = ["RunFolder", "flatten_record", "summary_rows", "RUN_FORMAT"]
 
 RUN_FORMAT = "resum-family-run/1"
+_TOP_FILES = ("spec.toml", "run.json", "summary.json", "summary.csv")
+_RECORD = re.compile(r"^p\d+\.json$")
+
+
+def _ours_top(target: str) -> bool:
+    return target in _TOP_FILES
+
+
+def _ours_points(target: str) -> bool:
+    return bool(_RECORD.match(target))
 
 
 def _dump(obj) -> str:
@@ -74,20 +90,51 @@ class RunFolder:
             if n and not resume:
                 raise InputError(f"already holds {n} point records of this study; pass --resume "
                                  "to continue it or choose a new -o folder", where=str(self.path))
-        elif self.path.exists() and any(self.path.iterdir()):
+        elif self.path.exists():
+            self._check_unfinished_creation(spec)
+
+    def _check_unfinished_creation(self, spec: FamilySpec) -> None:
+        """Accept a folder without run.json only if it is empty or holds what an
+        interrupted creation of this same spec leaves: its spec.toml, an empty
+        points/ folder and temporary files of our atomic writes."""
+        def ours(p: Path, in_points: bool) -> bool:
+            t = temp_target(p.name)
+            return t is not None and p.is_file() and (_ours_points(t) if in_points else _ours_top(t))
+
+        entries = list(self.path.iterdir())
+        if not entries:
+            return
+        strange = []
+        for p in entries:
+            if p.name == "spec.toml" and p.is_file():
+                continue
+            if p == self.points and p.is_dir() and not p.is_symlink():
+                strange += [q for q in p.iterdir() if not ours(q, True)]
+                continue
+            if not ours(p, False):
+                strange.append(p)
+        if strange:
             raise InputError("is not empty and holds no resum run; choose a new -o folder",
                              where=str(self.path))
+        saved = self.path / "spec.toml"
+        if saved.exists():
+            try:
+                same = spec_digest(tomllib.loads(saved.read_text(encoding="utf-8"))) == spec.digest
+            except (OSError, ValueError):   # unreadable, not UTF-8, not TOML
+                same = False
+            if not same:
+                raise InputError("holds only the spec.toml of an unfinished run of another spec; "
+                                 "choose a new -o folder", where=str(self.path))
 
     def _create(self, spec: FamilySpec) -> None:
         meta_path = self.path / "run.json"
         self.points.mkdir(parents=True, exist_ok=True)
-        for tmp in self.points.glob(".*.tmp"):
-            try:
-                tmp.unlink()
-            except OSError:
-                pass
-        if not meta_path.exists():
+        # temporary files left by atomic writes of a run that was killed
+        clean_temp_files(self.path, _ours_top)
+        clean_temp_files(self.points, _ours_points)
+        if not meta_path.exists() or not (self.path / "spec.toml").exists():
             atomic_write_text(self.path / "spec.toml", spec.text or "")
+        if not meta_path.exists():
             atomic_write_text(meta_path, _dump({
                 "format": RUN_FORMAT, "study": spec.name, "spec_digest": spec.digest,
                 "n_points": spec.n_points, "source": spec.source,

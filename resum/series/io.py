@@ -59,7 +59,7 @@ from .core import Coupling, Series
 from .expr import decimal_to_int, evaluate_expression, exact_to_text
 
 __all__ = ["read_series", "write_series", "series_from_dict", "series_to_dict",
-           "parse_coupling", "atomic_write_text", "clean_temp_files", "TEMP_NAME", "FORMAT_TAG",
+           "parse_coupling", "atomic_write_text", "clean_temp_files", "temp_target", "TEMP_NAME", "FORMAT_TAG",
            "MAX_TERMS"]
 
 FORMAT_TAG = "resum-series/1"
@@ -551,16 +551,29 @@ def _open_temp(folder: Path, name: str):
     raise FileExistsError(errno.EEXIST, "no free temporary file name", str(folder))
 
 
-def clean_temp_files(folder) -> int:
+def temp_target(name: str) -> Optional[str]:
+    """The file name an atomic write's temporary file ``name`` stood for, or None
+    when ``name`` is not of our pattern (``.<target>.<8 characters>.tmp``)."""
+    if not TEMP_NAME.match(name):
+        return None
+    return name[1:-len(".tmp")].rsplit(".", 1)[0]
+
+
+def clean_temp_files(folder, targets=None) -> int:
     """Remove leftover temporary files of interrupted atomic writes in ``folder``
-    (only names of our own pattern, see :func:`atomic_write_text`); returns how many."""
+    (only names of our own pattern, see :func:`atomic_write_text`; with
+    ``targets``, a function of the target file name, only those it accepts).
+    Returns how many were removed."""
     n = 0
     try:
         entries = list(Path(folder).iterdir())
     except OSError:
         return 0
     for p in entries:
-        if TEMP_NAME.match(p.name) and p.is_file() and not p.is_symlink():
+        target = temp_target(p.name)
+        if target is None or (targets is not None and not targets(target)):
+            continue
+        if p.is_file() and not p.is_symlink():
             try:
                 p.unlink()
                 n += 1

@@ -258,3 +258,58 @@ def test_cli_exit_codes(tmp_path, capsys):
     err = capsys.readouterr().err
     assert "tasks.nothing" in err and len(err.strip().splitlines()) == 1
     assert main([str(spec_path), "-o", str(tmp_path / "c"), "--retry-failed"]) == 2
+
+
+def test_a_creation_killed_between_spec_and_run_json_is_taken_up(tmp_path, monkeypatch):
+    import resum.batch.records as records_mod
+    spec = parse_spec(spec_text([1, 2]), path="spec.toml")
+    real = records_mod.atomic_write_text
+
+    def killed_at_run_json(path, text):
+        if Path(path).name == "run.json":
+            # the kill lands during run.json's atomic write: its temporary file stays
+            (Path(path).parent / ".run.json.k1ll3d00.tmp").write_text(text[:5])
+            raise KeyboardInterrupt
+        real(path, text)
+
+    monkeypatch.setattr(records_mod, "atomic_write_text", killed_at_run_json)
+    with pytest.raises(KeyboardInterrupt):
+        run_family(spec, tmp_path / "o", quiet=True, plots=False)
+    monkeypatch.setattr(records_mod, "atomic_write_text", real)
+    assert (tmp_path / "o" / "spec.toml").exists() and not (tmp_path / "o" / "run.json").exists()
+    (tmp_path / "o" / "points" / ".p00000.json.abcdefgh.tmp").write_text("{")
+    out = run_family(spec, tmp_path / "o", quiet=True, plots=False)
+    assert out.counts["ok"] == 4 and out.success
+    assert json.loads((tmp_path / "o" / "run.json").read_text())["spec_digest"] == spec.digest
+    left = sorted(p.name for p in (tmp_path / "o").rglob("*") if p.name.endswith(".tmp"))
+    assert left == []
+
+
+def test_a_folder_holding_another_specs_leftovers_is_refused(tmp_path):
+    spec = parse_spec(spec_text([1, 2]), path="spec.toml")
+    o = tmp_path / "o"
+    (o / "points").mkdir(parents=True)
+    (o / "spec.toml").write_text(spec_text([1, 3]))
+    with pytest.raises(InputError, match="another spec"):
+        run_family(spec, o, quiet=True, plots=False)
+    (o / "spec.toml").write_text(spec_text([1, 2]))
+    (o / "notes.txt").write_text("mine")
+    with pytest.raises(InputError, match="not empty"):
+        run_family(spec, o, quiet=True, plots=False)
+    assert sorted(p.name for p in o.iterdir()) == ["notes.txt", "points", "spec.toml"]
+
+
+def test_stale_temporary_files_are_removed_when_a_run_folder_is_opened(tmp_path):
+    spec = parse_spec(spec_text([1, 2]), path="spec.toml")
+    o = tmp_path / "o"
+    run_family(spec, o, quiet=True, plots=False)
+    stale = [o / ".summary.json.zz9plur1.tmp", o / ".run.json.a1b2c3d4.tmp",
+             o / "points" / ".p00001.json.q_w_e_r_.tmp"]
+    for p in stale:
+        p.write_text("partial")
+    theirs = [o / ".notes.abcdefgh.tmp", o / "points" / "keep.tmp"]
+    for p in theirs:
+        p.write_text("not ours")
+    run_family(spec, o, resume=True, quiet=True, plots=False)
+    assert not any(p.exists() for p in stale)
+    assert all(p.exists() for p in theirs)
