@@ -51,3 +51,24 @@ def test_spurious_pair_on_the_path_is_left_out():
         r = Rational(p, q, 1, 2)
         v = rational_integral(r, mpmath.mpf("0.6"), 40)
         assert v is not None and abs(v + mpmath.log(mpmath.mpf("0.4"))) < mpmath.mpf(10) ** -38
+
+
+def test_derivative_variant_beyond_the_radius():
+    # f = log(1+x) + sqrt(1+x/3), 60 Taylor coefficients (mpmath.taylor), cuts from -1 and -3:
+    # at x = 50 conformal-Padé of f itself gives ~14 digits, the derivative variant ~22
+    # (reference: mpmath at 80 digits)
+    from resum.context import Context
+    from resum.resummation import evaluate
+    from resum.series import Series
+    f = lambda x: mpmath.log(1 + x) + mpmath.sqrt(1 + x / 3)      # noqa: E731
+    with workdps(80):
+        c = mpmath.taylor(f, 0, 59)
+    r = evaluate(Series(c, digits=75), ["50"], Context(dps=30))
+    p = r.points[0]
+    assert p.method == "conformal-pade" and p.diagnostics["variant"] == "derivative"
+    with workdps(80):
+        truth = f(mpmath.mpf(50))
+        assert p.value.contains(truth)
+        err = abs(p.value.value - truth) / truth
+        assert err < mpmath.mpf(10) ** -20
+        assert p.value.error <= 1000 * abs(p.value.value - truth)
