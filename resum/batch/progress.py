@@ -4,13 +4,18 @@ On a terminal a one-line bar is redrawn in place::
 
     bes-angles [##########..........]  12/25 done, 1 failed, 2 running  0:41 elapsed, ~0:44 left
 
-When stderr is not a terminal (logs, CI) at most one plain line is written
-every ``log_every`` seconds and one at the end. ``quiet=True`` (``--json``)
-writes nothing at all.
+On a terminal the line is also redrawn every ``refresh`` seconds (default
+1) by a small timer thread, so the elapsed time moves during long points;
+the thread ends with :meth:`Progress.close`. When stderr is not a terminal
+(logs, CI) at most one plain line is written every ``log_every`` seconds
+and one at the end, and no thread is started. ``quiet=True`` (``--json``)
+writes nothing at all. After an interrupt (``close(stopped=True)``) the last
+line counts the points that were running as stopped.
 """
 from __future__ import annotations
 
 import sys
+import threading
 import time
 
 __all__ = ["Progress"]
@@ -32,7 +37,8 @@ class Progress:
     """
 
     def __init__(self, total: int, label: str = "", stream=None, quiet: bool = False,
-                 width: int = 24, log_every: float = 30.0, skipped: int = 0):
+                 width: int = 24, log_every: float = 30.0, skipped: int = 0,
+                 refresh: float = 1.0):
         self.total = total
         self.label = label
         self.stream = sys.stderr if stream is None else stream
@@ -46,10 +52,23 @@ class Progress:
         self.start = time.monotonic()
         self._last_log = self.start
         self._finished_here = 0
+        self.stopped = 0
+        self.closed = False
         try:
             self.tty = bool(self.stream.isatty())
         except (AttributeError, ValueError):
             self.tty = False
+        self._lock = threading.Lock()
+        self._halt = threading.Event()
+        self._ticker = None
+        if self.tty and not quiet and refresh and refresh > 0:
+            self._ticker = threading.Thread(target=self._tick, args=(float(refresh),),
+                                            name="resum-progress", daemon=True)
+            self._ticker.start()
+
+    def _tick(self, every: float) -> None:
+        while not self._halt.wait(every):
+            self._show()
 
     # counters ---------------------------------------------------------------
     def started(self, n: int = 1) -> None:
@@ -76,32 +95,49 @@ class Progress:
         bar = "#" * fill + "." * (self.width - fill)
         left = ""
         todo = self.total - self.done
-        if self._finished_here and todo > 0:
+        if self._finished_here and todo > 0 and not self.stopped:
             per = el / self._finished_here
             left = f", ~{_clock(per * todo)} left"
         head = f"{self.label} " if self.label else ""
+        now = f"{self.stopped} stopped" if self.stopped else f"{self.running} running"
         return (f"{head}[{bar}] {self.done}/{self.total} done, {self.failed} failed, "
-                f"{self.running} running  {_clock(el)} elapsed{left}")
+                f"{now}  {_clock(el)} elapsed{left}")
 
     def _show(self, force: bool = False) -> None:
         if self.quiet:
             return
-        now = time.monotonic()
-        if self.tty:
-            self.stream.write("\r" + self.line() + "\x1b[K")
-            self.stream.flush()
-        elif force or now - self._last_log >= self.log_every:
-            self._last_log = now
-            self.stream.write(self.line() + "\n")
-            self.stream.flush()
+        with self._lock:
+            if self.closed:
+                return
+            now = time.monotonic()
+            if self.tty:
+                self.stream.write("\r" + self.line() + "\x1b[K")
+                self.stream.flush()
+            elif force or now - self._last_log >= self.log_every:
+                self._last_log = now
+                self.stream.write(self.line() + "\n")
+                self.stream.flush()
 
-    def close(self, message: str = "") -> None:
-        if self.quiet:
-            return
-        if self.tty:
-            self.stream.write("\r" + self.line() + "\x1b[K\n")
-        else:
-            self.stream.write(self.line() + "\n")
-        if message:
-            self.stream.write(message + "\n")
-        self.stream.flush()
+    def close(self, message: str = "", stopped: bool = False) -> None:
+        """Write the last line (and ``message``) and stop the redraw thread.
+
+        ``stopped=True`` (the run was interrupted): the points still counted
+        as running were abandoned; the line says so."""
+        self._halt.set()
+        if self._ticker is not None and self._ticker is not threading.current_thread():
+            self._ticker.join()
+        with self._lock:
+            if self.closed:
+                return
+            self.closed = True
+            if stopped:
+                self.stopped, self.running = self.running, 0
+            if self.quiet:
+                return
+            if self.tty:
+                self.stream.write("\r" + self.line() + "\x1b[K\n")
+            else:
+                self.stream.write(self.line() + "\n")
+            if message:
+                self.stream.write(message + "\n")
+            self.stream.flush()

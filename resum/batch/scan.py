@@ -115,16 +115,17 @@ def run_family(spec: FamilySpec, outdir, runner=None, resume: bool = False,
         if on_record is not None:
             on_record(rec)
 
-    interrupted = False
+    interrupted = completed = False
     try:
         if todo:
             runner.run(spec, todo, started, record)
+        completed = True
     except KeyboardInterrupt:
         interrupted = True
-    finally:
+    finally:     # the runner has ended the points still running: the last line says stopped
         counts = folder.write_summary(spec)
         prog.close("interrupted: finished points are saved; rerun with --resume to go on"
-                   if interrupted else "")
+                   if interrupted else "", stopped=not completed)
     made = ()
     if plots and not interrupted:
         made = tuple(_plots(spec, folder))

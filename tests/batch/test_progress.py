@@ -47,3 +47,75 @@ def test_terminal_redraws_in_place():
     out = s.getvalue()
     assert out.count("\r") >= 3 and out.endswith("\n")
     assert "2/2 done" not in out.split("\r")[1]
+
+
+def _wait_for(cond, timeout=5.0):
+    import time
+    end = time.monotonic() + timeout
+    while time.monotonic() < end and not cond():
+        time.sleep(0.01)
+    return cond()
+
+
+def test_terminal_line_is_redrawn_while_points_run():
+    # the elapsed time moves on a terminal between a point's start and its end
+    import threading
+    import time
+    s = _Tty()
+    before = threading.active_count()
+    p = Progress(3, stream=s, refresh=0.05)
+    p.started()
+    n0 = s.getvalue().count("\r")
+    assert _wait_for(lambda: s.getvalue().count("\r") >= n0 + 3)
+    p.close()
+    assert _wait_for(lambda: threading.active_count() == before)
+    done = s.getvalue()
+    time.sleep(0.2)
+    assert s.getvalue() == done and done.endswith("\n")     # nothing drawn after the end
+
+
+def test_no_redraw_thread_off_a_terminal_or_when_quiet():
+    import threading
+    import time
+    before = threading.active_count()
+    for p, s in ((Progress(3, stream=io.StringIO(), refresh=0.01, log_every=3600), None),
+                 (Progress(3, stream=_Tty(), refresh=0.01, quiet=True), None)):
+        p.started()
+        assert threading.active_count() == before
+        time.sleep(0.05)
+        assert p.stream.getvalue().count("\n") == 0 and "\r" not in p.stream.getvalue()
+        p.close()
+
+
+def test_interrupted_points_are_counted_as_stopped():
+    s = io.StringIO()
+    p = Progress(5, stream=s, log_every=3600)
+    p.started(3)
+    p.finished(True, running=2)
+    p.close("interrupted", stopped=True)
+    last = s.getvalue().splitlines()[-2]
+    assert "1/5 done, 0 failed, 2 stopped" in last and "running" not in last, last
+
+
+def test_run_family_interrupted_says_stopped(tmp_path):
+    from resum.batch import parse_spec, run_family
+    from tests.batch.test_runs import spec_text
+
+    class Interrupted:
+        name = "fake"
+        jobs = 3
+
+        def run(self, spec, indices, on_start, on_record):
+            from resum.batch.worker import compute_point
+            for i in indices[:3]:
+                on_start(i)
+            on_record(compute_point(spec, indices[0], self.name))
+            raise KeyboardInterrupt
+
+    s = io.StringIO()
+    spec = parse_spec(spec_text([1, 2]), path="spec.toml")
+    out = run_family(spec, tmp_path / "o", runner=Interrupted(), stream=s, plots=False)
+    assert out.interrupted
+    lines = s.getvalue().splitlines()
+    assert "1/4 done, 0 failed, 2 stopped" in lines[-2] and "running" not in lines[-2], lines
+    assert lines[-1].startswith("interrupted")
