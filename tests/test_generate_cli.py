@@ -109,3 +109,9 @@ def test_parameter_limits_are_declared_for_every_integer_parameter():
         for p in spec.params:
             if p.type == "int" and not p.choices:
                 assert p.minimum is not None, (spec.name, p.name)
+
+
+def test_help_shows_the_limits(capsys):
+    assert main(["generate", "bes", "--help"]) == 0
+    out = " ".join(capsys.readouterr().out.split())
+    assert "1..400, default 60" in out and "5..5000" in out

@@ -51,7 +51,16 @@ def add_arguments(parser) -> None:
             kw = {"default": None, "metavar": p.name.upper()}
             if p.type == "int":
                 kw["type"] = _int_arg(p.name)
-            dflt = "" if p.default is None else f" (default {p.default})"
+            extra = []
+            if p.minimum is not None and p.maximum is not None:
+                extra.append(f"{p.minimum}..{p.maximum}")
+            elif p.minimum is not None:
+                extra.append(f"at least {p.minimum}")
+            elif p.maximum is not None:
+                extra.append(f"at most {p.maximum}")
+            if p.default is not None:
+                extra.append(f"default {p.default}")
+            dflt = f" ({', '.join(extra)})" if extra else ""
             if p.choices:
                 kw["choices"] = p.choices
             sp.add_argument(f"--{p.name}", help=p.help + dflt, **kw)
