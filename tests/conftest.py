@@ -9,8 +9,8 @@ import pytest
 
 @pytest.fixture(autouse=True)
 def _hang_guard():
-    """A test that hangs (for example a process pool waiting on a dead worker) dumps every
-    thread's stack and ends the run after 5 minutes instead of blocking CI."""
+    """A test that hangs dumps every thread's stack and ends the run after 5 minutes instead
+    of blocking CI."""
     faulthandler.dump_traceback_later(300, exit=True)
     yield
     faulthandler.cancel_dump_traceback_later()
@@ -20,10 +20,14 @@ _EXIT_GRACE = 60.0
 
 
 def pytest_sessionfinish(session, exitstatus):
-    # Leftover process-pool threads can block interpreter shutdown after every test has
-    # passed (seen once in six full runs on Python 3.11, not reproduced on its own). If
-    # exiting takes longer than a minute, dump every thread's stack to stderr, so the cause
-    # can be found, and leave with the session's own status instead of blocking CI.
+    # Safety net. Interpreter shutdown once hung after every test had passed: with the
+    # ProcessPoolExecutor the family runner used then, a worker's death raced the pool's
+    # teardown, an idle worker started meanwhile was never stopped and the pool's manager
+    # thread blocked exit joining it. The runner now starts one process per point and sees a
+    # death as the end of that process's pipe (resum/batch/runners.py, ProcessRunner), so
+    # no pool thread is left to wait on. Should anything else ever block exit for more than
+    # a minute, dump every thread's stack to stderr, so the cause can be found, and leave
+    # with the session's own status instead of blocking CI.
     import threading
 
     def _leave():
