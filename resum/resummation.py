@@ -494,6 +494,27 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
                  why=f"map: {chosen.describe()}")
 
 
+def _reexpansion_guard(plan, c, series, wd) -> int:
+    """Extra working digits for a conformal plan: the digits the re-expansion of the
+    coefficients in the disk variable loses to cancellation (estimated from the majorant
+    series, :func:`resum._kernels.reexpand.cancellation_digits`), but never more than the
+    input carries beyond ``wd`` (inexact coefficients cannot give more)."""
+    if plan.method != "conformal-pade" or plan.cmap is None:
+        return 0
+    from ._kernels.reexpand import cancellation_digits
+    import math
+    n = len(c)
+    try:
+        loss = cancellation_digits(c, plan.cmap.x_series(n, 30), n)
+    except (ValueError, TypeError, ArithmeticError):
+        return 0
+    loss = [d for d in loss if math.isfinite(d)]
+    extra = int(math.ceil(max(loss))) if loss else 0
+    if series.digits is not None:
+        extra = min(extra, max(0, int(series.digits) + 10 - wd))
+    return max(0, extra)
+
+
 def _alpha_for(cmap, alpha, large_x_power):
     if alpha is not None:
         return alpha
@@ -624,20 +645,33 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                      borel_b=borel_b, borel_map=borel_map, alpha=alpha, lateral=lateral,
                      large_x_power=large_x_power, use_analysis=use_analysis, warnings=warnings,
                      analysis=analysis)
+        extra = _reexpansion_guard(plan, c, series, wd) if work_dps is None else 0
+        if extra:
+            # precision plan of the conformal re-expansion: its sums cancel about `extra`
+            # digits, which the Padé step in the disk variable must not pay for
+            wd += extra
+            diag_plan = {"reexpansion_guard_digits": extra}
+            with _wd(wd):
+                c = series.dense(Context(dps=wd, guard=0))
+                xs = [mpmath.mpmathify(x) for x in xs]
+        else:
+            diag_plan = {}
         # the Padé systems need the long working precision; the Laplace integrals only the
         # reported digits plus guards (tanh-sinh converges fast there)
         qd = min(wd, ctx.work_dps + 5)
-        outs, diag = _run(plan, c, xs, wd, n_orders, qd, target=ctx.dps)
+        with _wd(wd):
+            outs, diag = _run(plan, c, xs, wd, n_orders, qd, target=ctx.dps)
         checks = [[] for _ in xs]
         if verify:
             hi = ctx.higher()
-            wd2 = hi.work_dps + series.n_terms // 2 if work_dps is None else work_dps + 15
+            wd2 = hi.work_dps + series.n_terms // 2 + extra if work_dps is None else work_dps + 15
             with _wd(wd2):
                 c2 = series.dense(Context(dps=wd2, guard=0))
                 c2 = _perturb(c2, series.digits)
                 o2, _ = _run(plan, c2, xs, wd2, n_orders, min(wd2, hi.work_dps + 5), target=hi.dps)
             nf = max(6, series.n_terms - max(4, series.n_terms // 10))
-            o3, _ = _run(plan, c[:nf], xs, wd, n_orders, qd, target=ctx.dps)
+            with _wd(wd):
+                o3, _ = _run(plan, c[:nf], xs, wd, n_orders, qd, target=ctx.dps)
             for j in range(len(xs)):
                 checks[j] = [("higher precision", o2[j]), (f"{nf} terms", o3[j])]
         baselines = []
@@ -730,7 +764,7 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
         "alpha": None if plan.alpha is None else str(plan.alpha), "lateral": plan.lateral,
         "n_orders": n_orders, "verify": verify}, n_terms=series.n_terms, dps=wd,
         input_hash=series.input_hash())
-    diag = dict(diag, why=plan.why, seconds=round(time.time() - t0, 3), reported_dps=ctx.dps)
+    diag = dict(diag, why=plan.why, seconds=round(time.time() - t0, 3), reported_dps=ctx.dps, **diag_plan)
     return EvaluationResult(tuple(pts), method, success, status, message, tuple(warnings),
                             series.variable, None if cpl is None else cpl.describe(series.variable),
                             diag, prov, series.variable if cpl is None else cpl.symbol)

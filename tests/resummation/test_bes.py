@@ -41,7 +41,8 @@ def test_zero_angle_conformal_beats_pade(zero_angle):
 
 def test_zero_angle_derivative_variant(zero_angle):
     # F = (2/pi^2) log cosh(2 pi g) has logarithmic branch points, so F' has poles: Padé of the
-    # mapped derivative, integrated, reaches ~16 digits at g = 5 where Padé of F itself gives ~10
+    # mapped derivative, integrated, reaches ~25 digits at g = 5 where Padé of F itself gives ~10;
+    # it needs the precision plan of the re-expansion (about 40 digits cancel in it)
     r = evaluate(zero_angle, ["5"], Context(dps=30), method="conformal-pade",
                  cmap=RayMap(mpmath.mpf(-1) / 16), verify=False)
     p = r.points[0]
@@ -51,8 +52,9 @@ def test_zero_angle_derivative_variant(zero_angle):
     with workdps(60):
         truth = zero_angle_closed_form("5", Context(dps=60))
         assert p.success and p.value.contains(truth)
-        assert _digits(p.value, truth) >= 14
+        assert _digits(p.value, truth) >= 22
         assert p.value.error <= 1000 * abs(p.value.value - truth)
+    assert r.diagnostics["reexpansion_guard_digits"] >= 30
 
 
 def test_zero_angle_auto_finds_the_cut(zero_angle):
