@@ -40,7 +40,7 @@ from ..results import Estimate
 from ..transforms._arb import acb_to_mp, arb_to_mp, flint_precision, to_acb, to_arb
 
 __all__ = ["Rational", "rational_fit", "rational_integral", "RationalIntegrator", "Candidate",
-           "band_from_candidates", "candidate_orders"]
+           "band_from_candidates", "candidate_orders", "fit_candidates"]
 
 
 @dataclass(frozen=True)
@@ -307,6 +307,19 @@ def _rational_fit_lu(c, L, M, dps):
             s += q[j] * cm[k - j]
         p.append(s)
     return Rational(tuple(p), tuple(q), L, M)
+
+
+def fit_candidates(c: Sequence, orders, dps: int):
+    """``[(i, Rational)]`` for the ``orders`` (``(n_used, L, M)``) whose approximant of
+    ``c[:n_used]`` could be built, and the number that could not."""
+    out, singular = [], 0
+    for i, (n, L, M) in enumerate(orders):
+        r = rational_fit(c[:n], L, M, dps)
+        if r is None:
+            singular += 1
+        else:
+            out.append((i, r))
+    return out, singular
 
 
 FAR_FRACTIONS = (0.05, 0.08, 0.12, 0.17, 0.24, 0.33, 0.45)

@@ -39,8 +39,8 @@ import mpmath
 
 from ..results import Estimate
 from ..transforms.conformal import ConformalMap, pull_back, rim_factor
-from .resum_band import (PointOutcome, RationalIntegrator, candidate_orders, outcomes_from_table,
-                         rational_fit)
+from .resum_band import (PointOutcome, RationalIntegrator, candidate_orders, fit_candidates,
+                         outcomes_from_table)
 from .resum_pade import pade_evaluate
 
 __all__ = ["conformal_evaluate", "derivative_evaluate", "mapped_coefficients"]
@@ -88,12 +88,8 @@ def derivative_evaluate(cw: Sequence, ws: Sequence, dps: int, *, gamma: int = 0,
         d = [sum(fac[k] * d[m - k] for k in range(m + 1)) for m in range(len(d))]
     orders = candidate_orders(len(d), n_orders, offsets)
     table = [[None] * len(orders) for _ in ws]
-    singular = 0
-    for i, (n, L, M) in enumerate(orders):
-        r = rational_fit(d[:n], L, M, dps)
-        if r is None:
-            singular += 1
-            continue
+    fits, singular = fit_candidates(d, orders, dps)
+    for i, r in fits:
         integ = RationalIntegrator(r, dps, rim=rim, gamma=gamma, pole_tol=pole_tol)
         if not integ.ok:
             continue

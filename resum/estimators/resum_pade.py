@@ -41,7 +41,7 @@ from typing import Callable, Optional, Sequence
 
 import mpmath
 
-from .resum_band import candidate_orders, outcomes_from_table, rational_fit
+from .resum_band import candidate_orders, fit_candidates, outcomes_from_table
 
 __all__ = ["pade_evaluate", "partial_sum_evaluate"]
 
@@ -72,12 +72,9 @@ def pade_evaluate(c: Sequence, zs: Sequence, dps: int, *, n_orders: int = 7,
     orders = candidate_orders(N, n_orders, offsets)
     table = [[None] * len(orders) for _ in zs]
     dropped = [[] for _ in zs]
-    singular = 0
-    for i, (n, L, M) in enumerate(orders):
-        r = rational_fit(c[:n], L, M, dps)
-        if r is None:
-            singular += 1
-            continue
+    fits, singular = fit_candidates(c, orders, dps)
+    for i, r in fits:
+        L, M = orders[i][1], orders[i][2]
         poles = r.poles(dps) if M > 0 else []
         for j, z in enumerate(zs):
             tol = pole_tol * max(abs(z), mpmath.mpf(10) ** -10)
