@@ -13,7 +13,6 @@ ambiguous (a lateral Borel sum has imaginary part ``pi e^{-1/x} / x``).
 """
 from __future__ import annotations
 
-import math
 from typing import Optional, Sequence
 
 import mpmath
@@ -36,7 +35,12 @@ def coefficients(orders: int, sign: int = -1) -> list:
         raise InputError(f"orders: expected a whole number >= 1, got {orders!r}")
     if sign not in (1, -1):
         raise InputError(f"sign: must be 1 or -1, got {sign!r}")
-    return [sign ** n * math.factorial(n) for n in range(orders)]
+    out, f = [], 1
+    for n in range(orders):           # running product: math.factorial per term is O(n^2) digits
+        if n:
+            f *= n
+        out.append(f if sign > 0 or n % 2 == 0 else -f)
+    return out
 
 
 def series(orders: int = 50, sign: int = -1) -> Series:
