@@ -23,6 +23,8 @@ from typing import List
 
 import mpmath
 
+from . import save_figure
+
 __all__ = ["plot_domb_sykes", "plot_extrapolation", "plot_complex_plane", "write_analysis_plots"]
 
 
@@ -194,7 +196,7 @@ def write_analysis_plots(result, series, outdir) -> List[str]:
         try:
             fn(result, ax=ax)
             path = os.path.join(str(outdir), f"{stem}_{name}.png")
-            fig.savefig(path, dpi=110, bbox_inches="tight")
+            save_figure(fig, path, dpi=110, bbox_inches="tight")
             out.append(path)
         finally:
             plt.close(fig)

@@ -12,6 +12,7 @@ from typing import Optional, Sequence
 import mpmath
 
 from ..context import Context, workdps
+from . import save_figure
 
 __all__ = ["plot_evaluation", "plot_digits", "plot_borel_plane", "write_evaluation_plots"]
 
@@ -157,7 +158,7 @@ def write_evaluation_plots(result, series, ctx, folder, reference=None) -> list:
         fn(ax)
         fig.tight_layout()
         path = os.path.join(folder, name)
-        fig.savefig(path, dpi=110)
+        save_figure(fig, path, dpi=110)
         plt.close(fig)
         out.append(path)
     method = result.provenance.method if result.provenance else ""
@@ -167,7 +168,7 @@ def write_evaluation_plots(result, series, ctx, folder, reference=None) -> list:
         plot_borel_plane(series, ctx, ax, b=mpmath.mpf(b), dps=result.provenance.dps)
         fig.tight_layout()
         path = os.path.join(folder, "borel_plane.png")
-        fig.savefig(path, dpi=110)
+        save_figure(fig, path, dpi=110)
         plt.close(fig)
         out.append(path)
     return out

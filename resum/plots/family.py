@@ -28,6 +28,8 @@ import re
 from pathlib import Path
 from typing import Callable, Optional
 
+from . import save_figure
+
 __all__ = ["plot_radius", "plot_band_digits", "plot_singularity_locations", "plot_exponents",
            "plot_borel", "plot_borel_exponent", "plot_values", "plot_value_errors", "plot_value_digits", "plot_strong", "write_family_plots",
            "family_x"]
@@ -599,7 +601,7 @@ def write_family_plots(records, outdir, x=None, title="") -> list:
             fig.tight_layout()
         for ext in ("png", "pdf"):
             p = outdir / f"{name}.{ext}"
-            fig.savefig(p, dpi=130)
+            save_figure(fig, p, dpi=130)
             paths.append(p)
         plt.close(fig)
 

@@ -74,3 +74,22 @@ def test_off_scale_baseline_is_counted_not_drawn():
     base = [lab for lab in labels if lab.startswith("optimal truncation")]
     assert base and "1 off scale" in base[0], labels
     plt.close("all")
+
+
+def test_save_figure_is_atomic(tmp_path):
+    import matplotlib
+    matplotlib.use("Agg", force=False)
+    import matplotlib.pyplot as plt
+    from resum.plots import save_figure
+    fig, ax = plt.subplots()
+    ax.plot([0, 1], [0, 1])
+    out = tmp_path / "line.png"
+    save_figure(fig, out, dpi=50)
+    assert out.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
+    save_figure(fig, tmp_path / "line.pdf")
+    assert (tmp_path / "line.pdf").read_bytes()[:5] == b"%PDF-"
+    # a failing save leaves neither the target nor a temporary file behind
+    with pytest.raises(ValueError):
+        save_figure(fig, tmp_path / "bad.nosuchformat")       # matplotlib knows no such format
+    plt.close(fig)
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["line.pdf", "line.png"]
