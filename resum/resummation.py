@@ -495,16 +495,21 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
 
 
 def _reexpansion_guard(plan, c, series, wd) -> int:
-    """Extra working digits for a conformal plan: the digits the re-expansion of the
-    coefficients in the disk variable loses to cancellation (estimated from the majorant
+    """Extra working digits for a conformal plan (of the series, or of its Borel transform):
+    the digits the re-expansion in the disk variable loses to cancellation (estimated from the majorant
     series, :func:`resum._kernels.reexpand.cancellation_digits`), but never more than the
     input carries beyond ``wd`` (inexact coefficients cannot give more)."""
-    if plan.method != "conformal-pade" or plan.cmap is None:
+    if plan.method not in ("conformal-pade", "borel-conformal-pade") or plan.cmap is None:
         return 0
     from ._kernels.reexpand import cancellation_digits
     import math
     n = len(c)
     try:
+        if plan.method == "borel-conformal-pade":
+            # the map acts on the Borel transform c_k / Gamma(k + 1 + b)
+            with _wd(30):
+                b = mpmath.mpmathify(plan.borel_b or 0)
+                c = [mpmath.mpmathify(v) / mpmath.gamma(k + 1 + b) for k, v in enumerate(c)]
         loss = cancellation_digits(c, plan.cmap.x_series(n, 30), n)
     except (ValueError, TypeError, ArithmeticError):
         return 0
