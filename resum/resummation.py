@@ -529,7 +529,7 @@ def _alpha_for(cmap, alpha, large_x_power):
     return 2 * p if isinstance(cmap, RayMap) else p
 
 
-def _run(plan: _Plan, c, xs, dps, n_orders, quad_dps=None, target=None):
+def _run(plan: _Plan, c, xs, dps, n_orders, quad_dps=None, target=None, variants="both"):
     from .estimators.resum_borel import borel_evaluate
     from .estimators.resum_conformal import conformal_evaluate
     from .estimators.resum_pade import pade_evaluate, partial_sum_evaluate
@@ -539,7 +539,8 @@ def _run(plan: _Plan, c, xs, dps, n_orders, quad_dps=None, target=None):
         return pade_evaluate(c, xs, dps, n_orders=7 if n_orders is None else n_orders)
     if plan.method == "conformal-pade":
         return conformal_evaluate(c, xs, plan.cmap, dps, alpha=plan.alpha,
-                                  n_orders=7 if n_orders is None else n_orders, target_digits=target)
+                                  n_orders=7 if n_orders is None else n_orders, target_digits=target,
+                                  variants=variants)
     return borel_evaluate(c, xs, dps, b=plan.borel_b, cmap=plan.cmap, alpha=plan.alpha,
                           n_orders=7 if n_orders is None else n_orders, lateral=plan.lateral,
                           quad_dps=quad_dps)
@@ -667,16 +668,19 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
         with _wd(wd):
             outs, diag = _run(plan, c, xs, wd, n_orders, qd, target=ctx.dps)
         checks = [[] for _ in xs]
+        # the reruns repeat the variant (conformal-Padé of f or of f') each point was given
+        same = [o.info.get("variant", "direct") for o in outs] if plan.method == "conformal-pade" else "both"
         if verify:
             hi = ctx.higher()
             wd2 = hi.work_dps + series.n_terms // 2 + extra if work_dps is None else work_dps + 15
             with _wd(wd2):
                 c2 = series.dense(Context(dps=wd2, guard=0))
                 c2 = _perturb(c2, series.digits)
-                o2, _ = _run(plan, c2, xs, wd2, n_orders, min(wd2, hi.work_dps + 5), target=hi.dps)
+                o2, _ = _run(plan, c2, xs, wd2, n_orders, min(wd2, hi.work_dps + 5), target=hi.dps,
+                             variants=same)
             nf = max(6, series.n_terms - max(4, series.n_terms // 10))
             with _wd(wd):
-                o3, _ = _run(plan, c[:nf], xs, wd, n_orders, qd, target=ctx.dps)
+                o3, _ = _run(plan, c[:nf], xs, wd, n_orders, qd, target=ctx.dps, variants=same)
             for j in range(len(xs)):
                 checks[j] = [("higher precision", o2[j]), (f"{nf} terms", o3[j])]
         baselines = []
