@@ -529,7 +529,7 @@ def _alpha_for(cmap, alpha, large_x_power):
     return 2 * p if isinstance(cmap, RayMap) else p
 
 
-def _run(plan: _Plan, c, xs, dps, n_orders, quad_dps=None, target=None, variants="both"):
+def _run(plan: _Plan, c, xs, dps, n_orders, quad_dps=None, target=None):
     from .estimators.resum_borel import borel_evaluate
     from .estimators.resum_conformal import conformal_evaluate
     from .estimators.resum_pade import pade_evaluate, partial_sum_evaluate
@@ -539,8 +539,7 @@ def _run(plan: _Plan, c, xs, dps, n_orders, quad_dps=None, target=None, variants
         return pade_evaluate(c, xs, dps, n_orders=7 if n_orders is None else n_orders)
     if plan.method == "conformal-pade":
         return conformal_evaluate(c, xs, plan.cmap, dps, alpha=plan.alpha,
-                                  n_orders=7 if n_orders is None else n_orders, target_digits=target,
-                                  variants=variants)
+                                  n_orders=7 if n_orders is None else n_orders, target_digits=target)
     return borel_evaluate(c, xs, dps, b=plan.borel_b, cmap=plan.cmap, alpha=plan.alpha,
                           n_orders=7 if n_orders is None else n_orders, lateral=plan.lateral,
                           quad_dps=quad_dps)
@@ -668,19 +667,16 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
         with _wd(wd):
             outs, diag = _run(plan, c, xs, wd, n_orders, qd, target=ctx.dps)
         checks = [[] for _ in xs]
-        # the reruns repeat the variant (conformal-Padé of f or of f') each point was given
-        same = [o.info.get("variant", "direct") for o in outs] if plan.method == "conformal-pade" else "both"
         if verify:
             hi = ctx.higher()
             wd2 = hi.work_dps + series.n_terms // 2 + extra if work_dps is None else work_dps + 15
             with _wd(wd2):
                 c2 = series.dense(Context(dps=wd2, guard=0))
                 c2 = _perturb(c2, series.digits)
-                o2, _ = _run(plan, c2, xs, wd2, n_orders, min(wd2, hi.work_dps + 5), target=hi.dps,
-                             variants=same)
+                o2, _ = _run(plan, c2, xs, wd2, n_orders, min(wd2, hi.work_dps + 5), target=hi.dps)
             nf = max(6, series.n_terms - max(4, series.n_terms // 10))
             with _wd(wd):
-                o3, _ = _run(plan, c[:nf], xs, wd, n_orders, qd, target=ctx.dps, variants=same)
+                o3, _ = _run(plan, c[:nf], xs, wd, n_orders, qd, target=ctx.dps)
             for j in range(len(xs)):
                 checks[j] = [("higher precision", o2[j]), (f"{nf} terms", o3[j])]
         baselines = []

@@ -141,11 +141,9 @@ def conformal_evaluate(c: Sequence, xs: Sequence, cmap: ConformalMap, dps: int, 
     """Conformal-map Padé values with bands at the points ``xs`` (expansion variable).
 
     ``variants``: "direct" (Padé of the mapped function), "derivative" (Padé
-    of its derivative, integrated from 0, see :func:`derivative_evaluate`),
+    of its derivative, integrated from 0, see :func:`derivative_evaluate`) or
     "both" (default: per point the one with the narrower band; when the two
-    bands do not overlap the band is widened to reach the other value), or a
-    list with "direct" or "derivative" for each point (reruns that must
-    repeat the variants a first run chose). With
+    bands do not overlap the band is widened to reach the other value). With
     ``target_digits``, "both" skips the derivative at points where the direct
     band already supports that many digits.
 
@@ -155,14 +153,7 @@ def conformal_evaluate(c: Sequence, xs: Sequence, cmap: ConformalMap, dps: int, 
     beyond the radius (studies/accuracy). Where the singularities are
     algebraic it gains or loses about a digit, and the narrower band decides.
     """
-    per_point = None
-    if not isinstance(variants, str):
-        # one fixed variant per point (verification reruns repeat the main run's choice)
-        per_point = list(variants)
-        if len(per_point) != len(xs) or any(v not in ("direct", "derivative") for v in per_point):
-            raise ValueError("variants per point must list 'direct' or 'derivative' for every point")
-        variants = "both"
-    elif variants not in ("both", "direct", "derivative"):
+    if variants not in ("both", "direct", "derivative"):
         raise ValueError(f"variants must be 'both', 'direct' or 'derivative', got {variants!r}")
     cw = mapped_coefficients(c, cmap, dps, alpha)
     ws, bad = [], []
@@ -185,9 +176,7 @@ def conformal_evaluate(c: Sequence, xs: Sequence, cmap: ConformalMap, dps: int, 
                                safety=safety)
     gamma = _derivative_gamma(alpha)
     need = [not bad[j] for j in range(len(ws))]
-    if per_point is not None:
-        need = [nd and v == "derivative" for nd, v in zip(need, per_point)]
-    elif variants == "both" and target_digits is not None:
+    if variants == "both" and target_digits is not None:
         need = [nd and not (o.ok and o.re is not None and o.re.error <= abs(o.re.value) * mpmath.mpf(10) ** (-target_digits))
                 for nd, o in zip(need, outs)]
     if variants != "direct" and gamma is not None and len(cw) >= 8 and any(need):
@@ -203,11 +192,6 @@ def conformal_evaluate(c: Sequence, xs: Sequence, cmap: ConformalMap, dps: int, 
             outs = [o if o is not None else PointOutcome(None, None, False, "not evaluated", {}) for o in dv]
             for o in outs:
                 o.info["variant"] = "derivative"
-        elif per_point is not None:
-            for j, o in enumerate(outs):
-                if dv[j] is not None:
-                    outs[j] = dv[j]
-                outs[j].info["variant"] = per_point[j]
         else:
             outs = _choose(outs, dv)
         diag = dict(diag, derivative=ddiag)

@@ -72,19 +72,3 @@ def test_derivative_variant_beyond_the_radius():
         err = abs(p.value.value - truth) / truth
         assert err < mpmath.mpf(10) ** -20
         assert p.value.error <= 1000 * abs(p.value.value - truth)
-
-
-def test_variants_fixed_per_point():
-    # log(1+x)/x from 40 terms, cut (-inf, -1]; each point gets the variant it is told to use
-    # (the verification reruns repeat the main run's choice); value against mpmath.log
-    from resum.estimators.resum_conformal import conformal_evaluate
-    from resum.transforms.conformal import RayMap
-    with workdps(50):
-        c = [mpmath.mpf(-1) ** n / (n + 1) for n in range(40)]
-        xs = [mpmath.mpf(3), mpmath.mpf(20)]
-        outs, _ = conformal_evaluate(c, xs, RayMap(-1), 50, variants=["derivative", "direct"])
-        assert [o.info["variant"] for o in outs] == ["derivative", "direct"]
-        for o, x in zip(outs, xs):
-            assert o.ok and o.re.contains(mpmath.log(1 + x) / x)
-        with pytest.raises(ValueError):
-            conformal_evaluate(c, xs, RayMap(-1), 50, variants=["direct"])
