@@ -137,7 +137,7 @@ def exponents_at(Q, K, zs, dps):
     return out
 
 
-def estimate_diffapprox(series, ctx=None, order=1, count=16, max_radius_factor=2.5):
+def estimate_diffapprox(series, ctx=None, order=1, count=16, max_radius_factor=2.5, _strip=False):
     """Singularities from an ensemble of inhomogeneous differential approximants.
 
     Parameters
@@ -163,10 +163,14 @@ def estimate_diffapprox(series, ctx=None, order=1, count=16, max_radius_factor=2
             return failed(method, Status.NOT_APPLICABLE, "coefficients decay faster than any power: "
                           "entire-like, no finite singular point", prep)
         K = order
-        # f = x^r g with g(0) != 0 has the singular points and exponents of g away from 0;
-        # leading zeros would make every approximant with a low-degree P singular
+        # f = x^r g with g(0) != 0 has the singular points and exponents of g away from 0.
+        # Leading zeros can make every approximant of f with a low-degree P singular; then
+        # (and only then: the approximants of f and of g differ, and those of f have served
+        # well elsewhere) the table of g is used
         r = next(i for i, v in enumerate(c) if v != 0)
-        c = c[r:]
+        if _strip:
+            c = c[r:]
+        retry = (not _strip and r > 0)
         D = _deriv_coeffs(c, K)
         N = len(c)
         if N > 100:
@@ -218,6 +222,8 @@ def estimate_diffapprox(series, ctx=None, order=1, count=16, max_radius_factor=2
                 ens.append({"L": L, "M": tuple(Ms), "poles": pts, "zeros": [], "spurious": [], "rel_err": err})
                 table.append({"L": L, "M": list(Ms), "roots": [z for z, _ in pts],
                               "exponents": [t for _, t in pts]})
+        if len(ens) < 3 and retry:
+            return estimate_diffapprox(series, ctx, order, count, max_radius_factor, _strip=True)
         if len(ens) < 3 and n_singular >= tried - len(ens) - 1:
             return failed(method, Status.NOT_APPLICABLE,
                           "every approximant is degenerate: the series seems to satisfy an equation of "

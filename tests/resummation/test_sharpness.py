@@ -40,10 +40,13 @@ def test_log_series_band_within_a_small_factor_of_the_error(x):
 def test_bes_zero_angle_band_within_stated_factor(g, max_ratio):
     # F_0 = (2/pi^2) log cosh(2 pi g) (closed form of the source at a = 0), mpmath; 100 loops,
     # the default method with verification as a user runs it. Measured band/error: 325 (g = 1),
-    # 196 (g = 2), 19 (g = 5), 14 (g = 20); before the band change 893, 377, 37, 35.
+    # 196 (g = 2), 19 (g = 5), 14 (g = 20) before the derivative variant of conformal-Padé; with
+    # it g = 1 and 2 are exact beyond the 30 digits asked (the band sits at that floor, which
+    # says nothing about sharpness) and g = 5, 20 measure about 2.
     s = weak_coupling_series("0", 100, Context(dps=150))
     p = evaluate(s, [g], Context(dps=30)).points[0]
     with workdps(60):
         truth = zero_angle_closed_form(g, Context(dps=60))
         assert p.success and p.value.contains(truth)
-        assert _ratio(p.value, truth) <= max_ratio
+        at_floor = p.value.error <= abs(truth) * mpmath.mpf(10) ** -29
+        assert at_floor or _ratio(p.value, truth) <= max_ratio
