@@ -658,7 +658,9 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
             diag_plan = {"reexpansion_guard_digits": extra}
             with _wd(wd):
                 c = series.dense(Context(dps=wd, guard=0))
-                xs = [mpmath.mpmathify(x) for x in xs]
+                at = parse_points(points, wd)
+                xs = [cpl.to_variable(a) if cpl is not None else a for a in at]
+                xs = [mpmath.re(x) if isinstance(x, mpmath.mpc) and x.imag == 0 else x for x in xs]
         else:
             diag_plan = {}
         # the Padé systems need the long working precision; the Laplace integrals only the

@@ -148,9 +148,9 @@ def conformal_evaluate(c: Sequence, xs: Sequence, cmap: ConformalMap, dps: int, 
     band already supports that many digits.
 
     Why the derivative: where ``f`` has logarithmic branch points, ``f'`` has
-    poles, which rational approximants represent exactly; for
-    ``log cosh``-type functions the derivative variant gains 6-20 digits
-    beyond the radius (studies/accuracy). Where the singularities are
+    poles, which rational approximants represent exactly; for a
+    ``log cosh``-type function it gains up to 15 digits beyond the radius
+    (studies/accuracy/README.md). Where the singularities are
     algebraic it gains or loses about a digit, and the narrower band decides.
     """
     if variants not in ("both", "direct", "derivative"):
