@@ -46,15 +46,18 @@ from .resum_pade import pade_evaluate
 __all__ = ["conformal_evaluate", "derivative_evaluate", "mapped_coefficients"]
 
 
+def _times_rim(cw: Sequence, alpha, rim) -> list:
+    """Coefficients of ``(1 - w/rim)^alpha`` times the series ``cw`` (same length)."""
+    if alpha is None or alpha == 0:
+        return list(cw)
+    fac = rim_factor(alpha, len(cw), rim)
+    return [sum(fac[k] * cw[m - k] for k in range(m + 1)) for m in range(len(cw))]
+
+
 def mapped_coefficients(c: Sequence, cmap: ConformalMap, dps: int, alpha=None) -> list:
     """Coefficients in ``w`` of ``(1 - w/w_inf)^alpha f(x(w))``."""
-    cw = pull_back(c, cmap, dps)
-    cw = [mpmath.mpmathify(v) for v in cw]
-    if alpha is not None and alpha != 0:
-        fac = rim_factor(alpha, len(cw), cmap.rim_point())
-        n = len(cw)
-        cw = [sum(fac[k] * cw[m - k] for k in range(m + 1)) for m in range(n)]
-    return cw
+    cw = [mpmath.mpmathify(v) for v in pull_back(c, cmap, dps)]
+    return _times_rim(cw, alpha, cmap.rim_point())
 
 
 def _derivative_gamma(alpha):
@@ -81,11 +84,7 @@ def derivative_evaluate(cw: Sequence, ws: Sequence, dps: int, *, gamma: int = 0,
     ``pole_tol * |w|`` of the path is dropped there; spurious pole-zero pairs
     next to the path, common in these tables, then cost nothing.
     """
-    N = len(cw)
-    d = [(k + 1) * cw[k + 1] for k in range(N - 1)]
-    if gamma:
-        fac = rim_factor(gamma, len(d), rim)
-        d = [sum(fac[k] * d[m - k] for k in range(m + 1)) for m in range(len(d))]
+    d = _times_rim([(k + 1) * cw[k + 1] for k in range(len(cw) - 1)], gamma, rim)
     orders = candidate_orders(len(d), n_orders, offsets)
     table = [[None] * len(orders) for _ in ws]
     fits, singular = fit_candidates(d, orders, dps)
@@ -155,7 +154,8 @@ def conformal_evaluate(c: Sequence, xs: Sequence, cmap: ConformalMap, dps: int, 
     """
     if variants not in ("both", "direct", "derivative"):
         raise ValueError(f"variants must be 'both', 'direct' or 'derivative', got {variants!r}")
-    cw = mapped_coefficients(c, cmap, dps, alpha)
+    cf = mapped_coefficients(c, cmap, dps)          # f(x(w)), re-expanded once
+    cw = _times_rim(cf, alpha, cmap.rim_point())     # with the rim factor, for the direct variant
     ws, bad = [], []
     for x in xs:
         w = cmap.w_of_x(x)
@@ -180,8 +180,7 @@ def conformal_evaluate(c: Sequence, xs: Sequence, cmap: ConformalMap, dps: int, 
         need = [nd and not (o.ok and o.re is not None and o.re.error <= abs(o.re.value) * mpmath.mpf(10) ** (-target_digits))
                 for nd, o in zip(need, outs)]
     if variants != "direct" and gamma is not None and len(cw) >= 8 and any(need):
-        # the derivative of f itself (no rim factor in the coefficients): undo alpha first
-        cf = cw if not alpha else mapped_coefficients(c, cmap, dps, None)
+        # the derivative of f itself (its rim factor is gamma, applied inside)
         idx = [j for j in range(len(ws)) if need[j]]
         dsub, ddiag = derivative_evaluate(cf, [ws[j] for j in idx], dps, gamma=gamma, rim=rim,
                                           n_orders=n_orders, offsets=offsets, safety=safety)
