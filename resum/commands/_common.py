@@ -11,7 +11,7 @@ from ..series.core import Series
 from ..series.io import atomic_write_text, least_precise_location, read_series
 
 __all__ = ["add_common_options", "load_series", "context_for", "emit_json", "atomic_write",
-           "fail", "log", "prepare_plot_dir", "require_power_series", "at_file"]
+           "fail", "log", "prepare_plot_dir", "require_power_series", "at_file", "write_figures"]
 
 atomic_write = atomic_write_text
 
@@ -102,6 +102,19 @@ def prepare_plot_dir(folder: str) -> str:
         raise InputError(f"cannot write figures there ({e.strerror or e}); choose another folder",
                          where=where) from None
     return folder
+
+
+def write_figures(folder: str, writer) -> list:
+    """Run ``writer()`` (which returns the paths it wrote), log each path, and turn a
+    failure to write into a one-line input error naming ``--plot``."""
+    try:
+        paths = writer()
+    except OSError as e:
+        raise InputError(f"cannot write figures ({e.strerror or e}); choose another folder",
+                         where=f"--plot {folder}") from None
+    for p in paths:
+        log(f"wrote {p}")
+    return paths
 
 
 def emit_json(obj) -> None:

@@ -6,7 +6,8 @@ import os
 from ..analysis import analyze, default_context
 from ..errors import InputError
 from ..estimators import METHODS, validate_methods
-from ._common import add_common_options, at_file, emit_json, load_series, log, prepare_plot_dir
+from ._common import (add_common_options, at_file, emit_json, load_series, log, prepare_plot_dir,
+                      write_figures)
 
 HELP = "radius of convergence, singularities and growth of a series, with error bands"
 DESCRIPTION = (HELP + ". Runs the ratio, Padé, Dlog-Padé and differential-approximant estimators, "
@@ -47,12 +48,7 @@ def run(args) -> int:
     except InputError as exc:
         raise at_file(exc, args.file) from None
     if args.plot is not None:
-        try:
-            for p in write_analysis_plots(result, series, args.plot):
-                log(f"wrote {p}")
-        except OSError as exc:
-            raise InputError(f"cannot write figures ({exc.strerror or exc}); choose another folder",
-                             where=f"--plot {args.plot}") from None
+        write_figures(args.plot, lambda: write_analysis_plots(result, series, args.plot))
     if args.json:
         emit_json(result.contract_dict())
     else:

@@ -19,7 +19,7 @@ import sys
 
 from ..errors import InputError
 from ._common import (add_common_options, at_file, emit_json, load_series, log, prepare_plot_dir,
-                      require_power_series)
+                      require_power_series, write_figures)
 
 MIN_TERMS = 6       # resum.resummation.evaluate refuses fewer terms
 
@@ -123,13 +123,7 @@ def run(args) -> int:
     except InputError as exc:
         raise at_file(exc, args.file) from None
     if args.plot is not None:
-        try:
-            paths = write_evaluation_plots(result, series, ctx, args.plot, reference)
-        except OSError as exc:
-            raise InputError(f"cannot write figures ({exc.strerror or exc}); choose another folder",
-                             where=f"--plot {args.plot}") from None
-        for p in paths:
-            log(f"wrote {p}")
+        write_figures(args.plot, lambda: write_evaluation_plots(result, series, ctx, args.plot, reference))
     if args.json:
         emit_json(result.contract_dict())
     else:

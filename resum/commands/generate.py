@@ -85,14 +85,11 @@ def _values(spec, args, dps_for_parse: int) -> dict:
                 val = evaluate_expression(text, dps=dps_for_parse)
             except InputError as exc:
                 raise exc.at(f"--{p.name}") from None
-            if not isinstance(val.value, str):
-                p.check(val.value, f"--{p.name}")
+            p.check(val.value, f"--{p.name}")
             # keep the text for sources that re-evaluate it at their own precision
             kw[p.name] = text if not val.exact else val.value
-        elif p.type == "int":
-            kw[p.name] = p.check(v, f"--{p.name}")
         else:
-            kw[p.name] = v
+            kw[p.name] = v          # whole numbers were checked by run() before the precision was set
     return kw
 
 
