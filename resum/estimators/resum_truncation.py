@@ -56,8 +56,9 @@ def optimal_truncation(c: Sequence, x, dps: int) -> dict:
     Notes
     -----
     The band is the modulus of the smallest term (common practice, no
-    source); a term that vanishes (odd terms of an even function) takes the
-    size of its neighbour.
+    source); a term that vanishes (odd terms of an even function, leading
+    zeros, the gaps of a series in x^m) takes the size of the next non-zero
+    term, the one a stop there leaves out.
     """
     x = mpmath.mpmathify(x)
     terms = []
@@ -67,9 +68,23 @@ def optimal_truncation(c: Sequence, x, dps: int) -> dict:
         xp *= x
     mods = [abs(t) for t in terms]
     n = len(terms)
-    # a vanishing term (odd terms of an even function) takes its neighbour's size
-    sm = [mods[k] if mods[k] != 0 else (mods[k + 1] if k + 1 < n else mods[k - 1] if k else 0)
-          for k in range(n)]
+    # stopping before a vanishing term (odd terms of an even function, the leading zeros of a
+    # series that starts at x^2, the gaps of a series in x^3) leaves out the next non-zero
+    # term, so the vanishing term takes that term's size; zeros at the very end take the size
+    # of the last non-zero term before them
+    sm = list(mods)
+    nxt = None
+    for k in range(n - 1, -1, -1):
+        if mods[k] != 0:
+            nxt = mods[k]
+        elif nxt is not None:
+            sm[k] = nxt
+    prev = None
+    for k in range(n):
+        if mods[k] != 0:
+            prev = mods[k]
+        elif sm[k] == 0 and prev is not None:
+            sm[k] = prev
     kmin = min(range(n), key=lambda k: (sm[k], -k))      # ties: the later term
     reached = kmin < n - 2
     if not reached:
