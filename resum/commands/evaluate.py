@@ -124,12 +124,30 @@ def run(args) -> int:
         raise at_file(exc, args.file) from None
     if args.plot is not None:
         write_figures(args.plot, lambda: write_evaluation_plots(result, series, ctx, args.plot, reference))
+    failed = _failure_notes(result)
     if args.json:
-        emit_json(result.contract_dict())
+        doc = result.contract_dict()
+        doc["warnings"] = list(doc["warnings"]) + failed
+        emit_json(doc)
     else:
         from ..report.evaluation_text import render_evaluation
         sys.stdout.write(render_evaluation(result, title=series.name or os.path.basename(args.file),
                                            reference=reference))
-    for w in result.warnings:
+    for w in list(result.warnings) + failed:
         log(f"warning: {w}")
     return 0 if result.success else 1
+
+
+def _failure_notes(result) -> list:
+    """Why each failed point failed, as warnings (``at X: reason``), unless a warning of the
+    result already says it: a point printed as "nan" in the JSON document must not be left
+    without its reason."""
+    import mpmath
+    notes = []
+    for p in result.points:
+        if p.success or not p.message:
+            continue
+        if any(w.endswith(p.message) for w in result.warnings):
+            continue
+        notes.append(f"at {mpmath.nstr(p.at, 12)}: {p.message}")
+    return notes

@@ -134,3 +134,26 @@ def test_too_few_terms_for_methods(tmp_path, capsys):
     if code == 1:
         doc = json.loads(cap.out)
         assert any("term" in w for w in doc["warnings"])
+
+
+def test_evaluate_json_says_why_a_point_failed(tmp_path, capsys):
+    # (1 + x)^(-1/3) has its branch point at x = -1 and its cut along x < -1 (common practice,
+    # no source): x = -2 lies on it and cannot be given one value. The failed point is "nan" in
+    # the JSON document; the reason must be in its warnings (and on stderr), not only in the
+    # text report.
+    c, b = [], Fraction(1)
+    for k in range(30):
+        c.append(b)
+        b = b * (Fraction(-1, 3) - k) / (k + 1)
+    p = write_series(Series(c, name="cube-root"), tmp_path / "cbrt.json")
+    code = main(["evaluate", str(p), "--at", "-2", "--at", "1", "--json", "--no-verify"])
+    cap = capsys.readouterr()
+    doc = json.loads(cap.out)
+    assert code == 1
+    bad, good = doc["values"]
+    assert bad["value"] == "nan"
+    assert any(w.startswith("at -2") and "cut" in w for w in doc["warnings"])
+    assert "cut" in cap.err
+    with workdps(40):
+        truth = mpmath.mpf(2) ** (-mpmath.mpf(1) / 3)          # mpmath reference
+        assert mpmath.mpf(good["lo"]) <= truth <= mpmath.mpf(good["hi"])
