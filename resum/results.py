@@ -109,7 +109,8 @@ def format_value_error(value, lower, upper, max_digits: int = 60) -> str:
     (or two, if its first digit is 1) significant figures; the value is
     rounded to the same decimal place: ``0.250000(1)``. A zero-width band
     prints ``max_digits`` digits. A band wider than the value prints the
-    value with one digit and the band explicitly.
+    value with one digit and the band explicitly, and so does a zero whose band
+    is narrower than 1e-5: ``0 [-1.2e-49, 1.2e-49]``.
     """
     value, lower, upper = mpf(value), mpf(lower), mpf(upper)
     err = max(abs(upper - value), abs(value - lower))
@@ -125,6 +126,10 @@ def format_value_error(value, lower, upper, max_digits: int = 60) -> str:
     place = e10 - ndig_err + 1            # decimal exponent of last printed digit
     if value != 0 and abs(value) < err:
         return f"{mpmath.nstr(value, 2)} [{mpmath.nstr(lower, 2)}, {mpmath.nstr(upper, 2)}]"
+    if value == 0 and err < mpf(10) ** -5:
+        # a zero with a tiny band (the real part of a point on the imaginary axis) would
+        # otherwise print as 0.000...0(12) with as many zeros as the band is small
+        return f"0 [{mpmath.nstr(lower, 2)}, {mpmath.nstr(upper, 2)}]"
     err_units = int(mpmath.ceil(err / mpf(10) ** place))
     if place >= 0:
         v = int(mpmath.nint(value / mpf(10) ** place)) * 10 ** place

@@ -1,0 +1,23 @@
+"""Printing an estimate whose value is zero and whose band is tiny (the real part of a
+singularity on the imaginary axis, for example atan(x)/x at x = +-i)."""
+import mpmath
+
+from resum.context import workdps
+from resum.results import Estimate
+
+
+def test_zero_with_a_tiny_band_prints_the_band_not_fifty_zeros():
+    # the band's ends must still be read back from the text (common practice, no source)
+    with workdps(60):
+        e = Estimate(0, -mpmath.mpf("1.2e-49"), mpmath.mpf("3.5e-49"))
+        text = str(e)
+        assert len(text) < 30, text
+        assert text.startswith("0 [")
+        lo, hi = (mpmath.mpf(t) for t in text[3:-1].split(","))
+        assert lo <= -mpmath.mpf("1.1e-49") and hi >= mpmath.mpf("3.4e-49")
+
+
+def test_zero_with_a_band_above_1e_5_keeps_value_error_form():
+    # 0.000(3) is short and readable: the value(error) form stays (common practice, no source)
+    with workdps(30):
+        assert str(Estimate(0, -mpmath.mpf("0.0003"), mpmath.mpf("0.0003"))) == "0.0000(3)"
