@@ -331,6 +331,20 @@ def _drop_inside_growth_radius(combined, ok, warnings):
 LONE_INNER_MARGIN = mpmath.mpf("0.01")
 
 
+#: with a sharp growth-rate radius, a lone point whose centre lies this far inside is dropped
+LONE_CENTRE_MARGIN = mpmath.mpf("0.02")
+
+
+def _growth_sharp(ok) -> bool:
+    """Whether a growth-rate radius band (ratio or root test) is narrower than 1 % of it."""
+    for k in ("ratio", "root-test"):
+        r = ok.get(k)
+        if r is not None and r.radius is not None and mpmath.isfinite(r.radius.upper) \
+                and r.radius.value > 0 and r.radius.error < mpmath.mpf("0.01") * r.radius.value:
+            return True
+    return False
+
+
 def _growth_floor(ok):
     """Largest lower end of the growth-rate radius bands (root test, ratio), or None."""
     bounds = [ok[k].radius.lower for k in ("root-test", "ratio")
@@ -351,8 +365,14 @@ def _screen_lone_inner_points(sings, ok, warnings):
     floor = _growth_floor(ok)
     if floor is None:
         return sings
+    sharp = _growth_sharp(ok)
     floor = floor * (1 - LONE_INNER_MARGIN)
-    inner = [s for s in sings if abs(s.location) + _err(s) < floor]
+    # a scattered ensemble gives a wide band that can reach out to the radius: when the
+    # growth rate pins the radius to better than 1 %, the point itself (not its band's far
+    # end) must lie inside by LONE_CENTRE_MARGIN (with 79 terms, a point 2 % inside would
+    # make the coefficients grow 5 times faster than the ratios show)
+    inner = [s for s in sings if abs(s.location) + _err(s) < floor
+             or (sharp and abs(s.location) < floor * (1 - LONE_CENTRE_MARGIN))]
     drop = []
     for s in inner:
         confirmed = any(o.method != s.method and abs(o.location - s.location) <= max(
