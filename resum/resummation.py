@@ -48,6 +48,7 @@ widened to cover the reruns. It is an estimate of the error, not a proof.
 """
 from __future__ import annotations
 
+import math
 import time
 from dataclasses import dataclass, field
 from typing import Any, Optional
@@ -183,8 +184,11 @@ class EvaluationResult:
     def contract_dict(self) -> dict:
         """The small, stable JSON document: values with bands as decimal strings.
 
-        ``{"values": [{"at", "value", "lo", "hi", "method"} (+ "im", "im_lo", "im_hi")],
-        "warnings": [...]}``; a failed point has ``value``/``lo``/``hi`` = ``"nan"``.
+        ``{"values": [{"at", "value", "lo", "hi", "method", "digits"} (+ "im", "im_lo", "im_hi",
+        "terms_needed")], "warnings": [...]}``; a failed point has ``value``/``lo``/``hi`` =
+        ``"nan"``. ``digits``: the significant digits the band supports; ``terms_needed`` (only
+        where the band falls short of the digits asked): the projected number of terms for them
+        (see ``_reach``).
         """
         with _wd((self.provenance.dps if self.provenance else 50) + 10):
             return self._contract()
@@ -202,6 +206,11 @@ class EvaluationResult:
                 if p.imag is not None:
                     i = p.imag.to_dict()
                     row.update({"im": i["value"], "im_lo": i["lo"], "im_hi": i["hi"]})
+                d = p.value.digits()
+                row["digits"] = "inf" if not math.isfinite(d) else f"{d:.1f}"
+                reach = p.diagnostics.get("reach")
+                if reach and reach.get("terms_needed"):
+                    row["terms_needed"] = str(reach["terms_needed"])
             vals.append(row)
         return {"values": vals, "warnings": list(self.warnings)}
 
@@ -754,6 +763,9 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                     re = Estimate(re.value, min(re.lower, re.value - fl), max(re.upper, re.value + fl))
                     parts["digits floor"] = mpmath.nstr(re.error, 5)
                 pdiag["band_steps"] = parts
+                reach = _reach(o.info, re, d_rep, series.n_terms)
+                if reach is not None:
+                    pdiag["reach"] = reach
                 if im is not None:
                     fli = max(abs(im.value), abs(re.value)) * mpmath.mpf(10) ** (-d_rep)
                     if im.error < fli:
@@ -775,6 +787,30 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
     return EvaluationResult(tuple(pts), method, success, status, message, tuple(warnings),
                             series.variable, None if cpl is None else cpl.describe(series.variable),
                             diag, prov, series.variable if cpl is None else cpl.symbol)
+
+
+def _reach(info: dict, est: Estimate, asked: int, n_terms: int) -> Optional[dict]:
+    """How far more terms would take a point whose band falls short of the digits asked.
+
+    A projection, not a promise: the approximants at this point approached their value
+    at ``rate`` digits per added term (the slope of the fit in
+    :func:`~resum.estimators.resum_band.band_from_candidates`); carried on linearly, the
+    digits asked would need about ``(asked - digits) / rate`` more terms, each carrying
+    at least that many digits. None when the band already supports the digits asked or
+    the approximants did not converge steadily; ``terms_needed`` is None beyond 3 x the
+    terms at hand."""
+    rate = info.get("decay_digits_per_term")
+    if rate is None or not info.get("converging", False):
+        return None
+    rate = float(mpmath.mpf(rate))
+    have = est.digits()
+    if rate < 0.002 or not math.isfinite(have) or have >= asked - 0.5:
+        return None
+    need = n_terms + math.ceil((asked - have) / rate)
+    # beyond 3 x the terms at hand a straight line says little: no number then
+    return {"digits": round(have, 1), "digits_per_term": round(rate, 4), "asked_digits": asked,
+            "terms_now": n_terms, "terms_needed": need if need <= 3 * n_terms else None,
+            "terms_per_digit": math.ceil(1 / rate)}
 
 
 def _wd(d):

@@ -78,6 +78,21 @@ def _render(result, title, reference):
                      "approximants resum f' in the mapped variable and integrate it from 0 (exactly, by partial "
                      "fractions); chosen because its band was narrower than that of the approximants to f itself, "
                      "and widened to reach their value if the two bands did not overlap.")
+    short = [p for p in result.points if p.diagnostics.get("reach")]
+    if short:
+        lines.append("")
+        lines.append("Where the band falls short of the digits asked (a projection from how fast the approximants "
+                     "converged at each point, carried on linearly; not a promise):")
+        for p in short:
+            r = p.diagnostics["reach"]
+            head = (f"  {mpmath.nstr(p.at, 12)}: {r['digits']} digits; about {r['digits_per_term']} digits per "
+                    f"added term ({r['terms_per_digit']} terms per digit); ")
+            if r.get("terms_needed"):
+                lines.append(head + f"{r['asked_digits']} digits would need about {r['terms_needed']} terms "
+                             "(coefficients carrying at least as many digits)")
+            else:
+                lines.append(head + f"{r['asked_digits']} digits would need more than 3 x the "
+                             f"{r['terms_now']} terms at hand, too far for this projection")
     lat = [p for p in result.points if p.imag is not None]
     if lat:
         lines.append("")
