@@ -49,9 +49,23 @@ def context_for(series: Optional[Series], dps: Optional[int], where: str = "") -
         return Context(dps=max(5, d))
     if carried is not None and carried < dps:
         loc = least_precise_location(series) or where or "input"
-        raise InputError(f"coefficient carries only {carried} digits but --dps {dps} was asked; "
-                         f"lower --dps to at most {carried} or give more digits", where=loc)
+        lower = f"lower --dps to at most {carried}, " if carried >= 5 else ""
+        raise InputError(f"coefficient carries only {carried} digits but --dps {dps} was "
+                         f"asked; {lower}write it with more digits, or declare 'digits: N' or "
+                         "'exact: true' in the file if its decimals are known better", where=loc)
     return Context(dps=dps)
+
+
+def note_limited_precision(series: Series) -> None:
+    """Say on stderr when a short decimal literal (``0.5``, ``1.0``) caps the default precision:
+    every band then reflects the digits it carries, which surprises anyone who meant it exactly."""
+    loc = least_precise_location(series)
+    if loc is None or series.digits is None or series.digits >= DEFAULT.dps:
+        return
+    n = series.digits
+    log(f"note: {loc}: the least precise coefficient carries only {n} significant "
+        f"digit{'' if n == 1 else 's'}, which limits every result; declare 'digits: N' or "
+        "'exact: true' in the file if its decimals are known better")
 
 
 def load_series(path: str, dps: Optional[int] = None) -> Tuple[Series, Context]:
@@ -64,6 +78,8 @@ def load_series(path: str, dps: Optional[int] = None) -> Tuple[Series, Context]:
     ctx = context_for(s, dps, where=str(path))
     if ctx.work_dps > probe.work_dps:
         s = read_series(path, ctx)
+    if dps is None:
+        note_limited_precision(s)
     return s, ctx
 
 

@@ -157,3 +157,29 @@ def test_evaluate_json_says_why_a_point_failed(tmp_path, capsys):
     with workdps(40):
         truth = mpmath.mpf(2) ** (-mpmath.mpf(1) / 3)          # mpmath reference
         assert mpmath.mpf(good["lo"]) <= truth <= mpmath.mpf(good["hi"])
+
+
+def test_short_decimals_cap_precision_and_say_so(tmp_path, capsys):
+    # 1/sqrt(1 + x) written with short decimals ("-0.5" carries one significant digit): the
+    # default run must say which coefficient caps its precision and how to declare it exact;
+    # with exact: true the value at x = 2 reaches the default 30 digits (mpmath reference)
+    with workdps(40):
+        coeffs = [mpmath.nstr(mpmath.binomial(-0.5, k), 40) for k in range(40)]
+        truth = 1 / mpmath.sqrt(3)
+    p = tmp_path / "short.json"
+    p.write_text(json.dumps({"variable": "x", "coefficients": coeffs}))
+    code = main(["evaluate", str(p), "--at", "2", "--json", "--no-verify"])
+    err = capsys.readouterr().err
+    assert code in (0, 1)
+    assert "coefficients[1]" in err and "1 significant digit" in err and "exact" in err
+    assert main(["analyze", str(p), "--dps", "20"]) == 2
+    err = capsys.readouterr().err
+    assert "--dps to at most" not in err                  # 1 digit: below the smallest --dps
+    assert "exact: true" in err and len(err.strip().splitlines()) == 1
+    q = tmp_path / "exact.json"
+    q.write_text(json.dumps({"variable": "x", "coefficients": coeffs, "exact": True}))
+    code, doc = run_json(["evaluate", str(q), "--at", "2", "--json", "--no-verify"], capsys)
+    v = doc["values"][0]
+    with workdps(40):
+        assert mpmath.mpf(v["lo"]) <= truth <= mpmath.mpf(v["hi"])
+        assert mpmath.mpf(v["hi"]) - mpmath.mpf(v["lo"]) < mpmath.mpf(10) ** -25
