@@ -26,12 +26,26 @@ def _ax(ax):
     return ax
 
 
+def _real_points(result):
+    """Points with a value at real arguments, in increasing order: the line joining them must
+    follow the axis, not the order in which the points were asked for."""
+    pts = [p for p in result.points if p.value is not None and not isinstance(p.at, mpmath.mpc)]
+    return sorted(pts, key=lambda p: p.at)
+
+
+def _x_scale(ax, xs):
+    """A logarithmic axis when the positive points span two decades or more (1, 10, 10^6
+    would otherwise crowd all but the last point against the left edge)."""
+    if xs and min(xs) > 0 and max(xs) >= 100 * min(xs):
+        ax.set_xscale("log")
+
+
 def plot_evaluation(result, ax=None, reference: Optional[Sequence] = None):
     """Resummed value against the point, with its band, the optimal-truncation
     baseline (band +- smallest term) and any reference values."""
     ax = _ax(ax)
     with workdps((result.provenance.dps if result.provenance else 50) + 10):
-        pts = [p for p in result.points if p.value is not None and not isinstance(p.at, mpmath.mpc)]
+        pts = _real_points(result)
         xs = [float(p.at) for p in pts]
         ys = [float(p.value.value) for p in pts]
         lo = [float(p.value.value - p.value.lower) for p in pts]
@@ -58,6 +72,7 @@ def plot_evaluation(result, ax=None, reference: Optional[Sequence] = None):
         if reference:
             ax.plot([float(a) for a, _, _ in reference], [float(v) for _, v, _ in reference], "x", ms=7,
                     label="reference")
+    _x_scale(ax, xs)
     ax.set_xlabel(result.at_symbol)
     ax.set_ylabel("f")
     ax.set_title("Resummed function with band")
@@ -69,7 +84,7 @@ def plot_digits(result, ax=None, reference: Optional[Sequence] = None):
     """Digits supported by each band (and, with references, digits actually agreeing)."""
     ax = _ax(ax)
     with workdps((result.provenance.dps if result.provenance else 50) + 10):
-        pts = [p for p in result.points if p.value is not None and not isinstance(p.at, mpmath.mpc)]
+        pts = _real_points(result)
         ax.plot([float(p.at) for p in pts], [min(p.value.digits(), 200) for p in pts], "o-", label="band")
         if reference:
             xs, ds = [], []
@@ -81,6 +96,7 @@ def plot_digits(result, ax=None, reference: Optional[Sequence] = None):
                     ds.append(float(-mpmath.log10(err / abs(v))) if err else 200.0)
             if xs:
                 ax.plot(xs, ds, "x", ms=7, label="agreeing with reference")
+    _x_scale(ax, [float(p.at) for p in pts])
     ax.set_xlabel(result.at_symbol)
     ax.set_ylabel("significant digits")
     ax.set_title("Digits supported by the band")

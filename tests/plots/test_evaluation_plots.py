@@ -93,3 +93,30 @@ def test_save_figure_is_atomic(tmp_path):
         save_figure(fig, tmp_path / "bad.nosuchformat")       # matplotlib knows no such format
     plt.close(fig)
     assert sorted(p.name for p in tmp_path.iterdir()) == ["line.pdf", "line.png"]
+
+
+def test_points_joined_in_order_of_the_axis():
+    """Points asked for as 1000, 1, 10 are joined from left to right (a line in the order asked
+    would zigzag and draw a shape the function does not have), on a logarithmic axis because they
+    span three decades; each drawn value is log(1 + x)/x to the digits of its band (mpmath
+    reference; series sum (-1)^k x^k/(k+1), common practice, no source)."""
+    import matplotlib.pyplot as plt
+    from fractions import Fraction
+    from resum.plots.evaluation import plot_digits, plot_evaluation
+    from resum.resummation import evaluate
+    from resum.series import Series
+    s = Series([Fraction((-1) ** k, k + 1) for k in range(30)])
+    r = evaluate(s, ["1000", "1", "10"], Context(dps=15), verify=False)
+    ax = plot_evaluation(r)
+    line = ax.containers[0].lines[0]
+    xs, ys = list(line.get_xdata()), list(line.get_ydata())
+    assert xs == [1.0, 10.0, 1000.0]
+    for x, y in zip(xs, ys):
+        truth = float(mpmath.log1p(x) / x)
+        band = next(float(p.value.error) for p in r.points if float(p.at) == x)
+        assert abs(y - truth) <= band + 1e-15 * truth
+    assert ax.get_xscale() == "log"
+    ax2 = plot_digits(r)
+    assert list(ax2.get_lines()[0].get_xdata()) == [1.0, 10.0, 1000.0]
+    assert ax2.get_xscale() == "log"
+    plt.close("all")
