@@ -699,6 +699,11 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
         n_fail = 0
         for j, (a, x, o) in enumerate(zip(at, xs, outs)):
             pdiag = dict(o.info)
+            if o.info.get("rim_layer"):
+                rl = o.info["rim_layer"]
+                warnings.append(f"at {mpmath.nstr(a, 10)}: the point lies closer to the rim of the mapped disk "
+                                f"than 1/(terms) ((1 - |w|) x terms = {rl['layer']}), where the approximants' "
+                                f"spread understates the error; band widened {rl['factor']} x")
             parts = {}      # half-width of the band after each widening step (diagnostics)
             status, success, msg = Status.CONVERGED, True, ""
             re, im = o.re, o.im

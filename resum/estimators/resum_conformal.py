@@ -134,6 +134,33 @@ def _choose(direct, deriv):
     return out
 
 
+def _widen_in_rim_layer(o: PointOutcome, w, n_terms: int) -> None:
+    """Widen the band of a point closer to the rim ``|w| = 1`` than ``1/n_terms``.
+
+    Approximants built from ``n`` coefficients in ``w`` resolve the function only to a
+    distance of about ``1/n`` from the rim, where its singularities sit; inside that layer
+    the spread and trend of the approximants understate the error. Measured (40 and 80
+    terms of (1+x)^(-1/3), log(1+x)/x, (1+x)^(-2/3) + (1+x/4)^(-1/2), x up to 1e7, map from
+    x0 = -1): with ``layer = (1 - |w|) n`` the band/error ratio fell from 1.5 at layer 0.8
+    to 0.48 at layer 0.025 (truth outside the band below about 0.25); widening by
+    ``1/layer`` restores at least a factor 2 in every case measured (largest ratio 68).
+    An empirical rule, recorded in ``info["rim_layer"]``."""
+    if not o.ok or o.re is None:
+        return
+    layer = (1 - abs(w)) * n_terms
+    if layer >= 1:
+        return
+    fac = 1 / max(layer, mpmath.mpf(10) ** -6)
+
+    def wide(e):
+        if e is None:
+            return None
+        h = e.error * fac
+        return Estimate(e.value, min(e.lower, e.value - h), max(e.upper, e.value + h))
+    o.re, o.im = wide(o.re), wide(o.im)
+    o.info["rim_layer"] = {"layer": mpmath.nstr(layer, 3), "factor": mpmath.nstr(fac, 3)}
+
+
 def conformal_evaluate(c: Sequence, xs: Sequence, cmap: ConformalMap, dps: int, *, alpha=None,
                        n_orders: int = 7, offsets: Sequence[int] = (0,), safety=4,
                        variants: str = "both", target_digits=None):
@@ -173,7 +200,7 @@ def conformal_evaluate(c: Sequence, xs: Sequence, cmap: ConformalMap, dps: int, 
         return v / (1 - ws[j] / rim) ** alpha
 
     outs, diag = pade_evaluate(cw, ws, dps, n_orders=n_orders, offsets=offsets, post=post,
-                               safety=safety)
+                               safety=safety, keep_poles_beyond=1 - mpmath.mpf(10) ** -8)
     gamma = _derivative_gamma(alpha)
     need = [not bad[j] for j in range(len(ws))]
     if variants == "both" and target_digits is not None:
@@ -198,6 +225,8 @@ def conformal_evaluate(c: Sequence, xs: Sequence, cmap: ConformalMap, dps: int, 
         for o in outs:
             o.info["variant"] = "direct"
     for j, o in enumerate(outs):
+        if not bad[j]:
+            _widen_in_rim_layer(o, ws[j], len(cw))
         if bad[j]:
             outs[j] = PointOutcome(None, None, False,
                                    f"x = {mpmath.nstr(xs[j], 10)} lies on the cut of the map "

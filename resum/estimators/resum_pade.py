@@ -48,7 +48,7 @@ __all__ = ["pade_evaluate", "partial_sum_evaluate"]
 
 def pade_evaluate(c: Sequence, zs: Sequence, dps: int, *, n_orders: int = 7,
                   offsets: Sequence[int] = (0,), pole_tol=mpmath.mpf("0.01"),
-                  post: Optional[Callable] = None, safety=4):
+                  post: Optional[Callable] = None, safety=4, keep_poles_beyond=None):
     """Padé values with bands at the points ``zs`` (in the variable of ``c``).
 
     Parameters
@@ -62,6 +62,10 @@ def pade_evaluate(c: Sequence, zs: Sequence, dps: int, *, n_orders: int = 7,
     pole_tol : an approximant is dropped at ``z`` if a pole lies within ``pole_tol * |z|``
     post : optional ``post(j, value)`` applied to each candidate value at point ``j``
         (used to undo a prefactor), before the band is formed
+    keep_poles_beyond : optional radius; poles at or beyond it never cause a rejection
+        (the disk variable of a conformal map: the function may have genuine poles on the
+        rim, e.g. ``sqrt(1 + x)`` at ``w = 1``, and a point near the rim must not lose every
+        approximant to them)
 
     Returns
     -------
@@ -78,7 +82,8 @@ def pade_evaluate(c: Sequence, zs: Sequence, dps: int, *, n_orders: int = 7,
         poles = r.poles(dps) if M > 0 else []
         for j, z in enumerate(zs):
             tol = pole_tol * max(abs(z), mpmath.mpf(10) ** -10)
-            near = [p for p in poles if abs(p - z) < tol]
+            near = [p for p in poles if abs(p - z) < tol
+                    and not (keep_poles_beyond is not None and abs(p) >= keep_poles_beyond)]
             if near:
                 dropped[j].append(f"[{L}/{M}]: pole at {mpmath.nstr(near[0], 8)}")
                 continue
