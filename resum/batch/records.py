@@ -228,6 +228,10 @@ def _values_fields(prefix, values, row):
         at = v["at"]
         _est(f"{prefix}@{at}", {"value": v.get("value"), **({"lo": v["lo"], "hi": v["hi"]}
                                                              if "lo" in v else {})}, row)
+        if "im" in v:
+            # lateral Borel sums value +- i im: the ambiguity belongs in the table too
+            _est(f"{prefix}_im@{at}", {"value": v["im"], **({"lo": v["im_lo"], "hi": v["im_hi"]}
+                                                             if "im_lo" in v else {})}, row)
 
 
 def flatten_record(rec: dict, n_sing: int = 2) -> dict:

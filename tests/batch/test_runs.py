@@ -313,3 +313,37 @@ def test_stale_temporary_files_are_removed_when_a_run_folder_is_opened(tmp_path)
     run_family(spec, o, resume=True, quiet=True, plots=False)
     assert not any(p.exists() for p in stale)
     assert all(p.exists() for p in theirs)
+
+
+def test_summary_keeps_the_lateral_sum_ambiguity(tmp_path):
+    # Euler's series sum n! x^n (sign +1) is not Borel summable on the positive axis: the
+    # lateral Borel sums are e^(-1/x)/x (Ei(1/x) -+ i pi) (the principal value of
+    # integral_0^inf e^(-t)/(1 - x t) dt and half the residue; Ei through mpmath; common
+    # practice, no source), so the ambiguity is pi e^(-1/x)/x. The summary table must carry
+    # it beside the real part.
+    text = """
+[study]
+name = "lateral"
+source = "euler"
+dps = 20
+[fixed]
+orders = 30
+[axes]
+sign = { values = [1] }
+[tasks.evaluate]
+at = ["0.1"]
+verify = false
+"""
+    spec = parse_spec(text, path="spec.toml")
+    run_family(spec, tmp_path / "o", runner=SerialRunner(), quiet=True, plots=False)
+    rows = json.loads((tmp_path / "o" / "summary.json").read_text())["rows"]
+    row = rows[0]
+    with mpmath.workdps(30):
+        x = mpmath.mpf("0.1")
+        amb = mpmath.pi * mpmath.exp(-1 / x) / x
+        re = mpmath.exp(-1 / x) / x * mpmath.ei(1 / x)
+        assert mpmath.mpf(row["value@0.1_lo"]) <= re <= mpmath.mpf(row["value@0.1_hi"])
+        lo, hi = sorted(abs(mpmath.mpf(row[f"value_im@0.1_{k}"])) for k in ("lo", "hi"))
+        assert lo <= amb <= hi
+    csv = (tmp_path / "o" / "summary.csv").read_text().splitlines()
+    assert "value_im@0.1" in csv[0].split(",")
