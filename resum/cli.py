@@ -7,6 +7,7 @@ from __future__ import annotations
 
 import argparse
 import importlib
+import re
 import sys
 from typing import List, Optional
 
@@ -24,9 +25,29 @@ COMMANDS = {
 }
 
 
+def _negative_value_pattern():
+    """What a negative number or expression given as an option value looks like: '-' then a
+    digit, '(', '.', or a name the coefficient parser knows (``-1/2``, ``-(1/3)``, ``-.5``,
+    ``-sqrt(2)``, ``-pi/4``). argparse alone takes only plain negative numbers (``-2``,
+    ``-0.5``) for values and reads the rest as unknown options."""
+    from .series.expr import NAMES
+    names = "|".join(re.escape(n) for n in sorted(NAMES, key=len, reverse=True))
+    return re.compile(rf"-(?:[0-9(.]|(?:{names})(?![A-Za-z0-9_]))")
+
+
+_NEGATIVE_VALUE = _negative_value_pattern()
+
+
 class _Parser(argparse.ArgumentParser):
     def error(self, message):  # one line, exit 2
         self.exit(2, f"{self.prog}: error: {message} (see '{self.prog} --help')\n")
+
+    def _parse_optional(self, arg_string):
+        # a negative number or expression is a value, never an option (no option of ours
+        # starts with '-' and a digit, '(', '.' or a function/constant name)
+        if _NEGATIVE_VALUE.match(arg_string):
+            return None
+        return super()._parse_optional(arg_string)
 
 
 def build_parser() -> argparse.ArgumentParser:

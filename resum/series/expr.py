@@ -64,6 +64,8 @@ _FUNCTIONS = {
     "zeta": mpmath.zeta, "log": mpmath.log, "sqrt": mpmath.sqrt, "exp": mpmath.exp,
     "sin": mpmath.sin, "cos": mpmath.cos, "gamma": mpmath.gamma,
 }
+# every name an expression may use (constants and functions)
+NAMES = frozenset(_CONSTANTS) | frozenset(_FUNCTIONS)
 
 
 @dataclass(frozen=True)
