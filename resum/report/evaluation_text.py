@@ -15,7 +15,7 @@ import mpmath
 from ..context import workdps
 from ..results import format_value_error
 
-__all__ = ["render_evaluation", "BAND_MEANING"]
+__all__ = ["render_evaluation", "describe_map", "BAND_MEANING"]
 
 BAND_MEANING = (
     "What the band means: the value is the median of the three highest-order approximants; the band is "
@@ -25,6 +25,26 @@ BAND_MEANING = (
     "terms must reach the value within its own band. For a conformal map, a point closer to the rim of "
     "the disk than 1/(terms) has its band widened by 1/((1 - |w|) x terms). It is an estimate, not a "
     "proof. Optimal truncation sums up to the smallest term; its band is +- that term.")
+
+
+def describe_map(m: dict, variable: str = "x") -> str:
+    """A conformal map recorded in provenance (``{"kind": "ray", "x0": "-1.0"}``) in words, its
+    branch points to 12 significant digits (the map's own precision is in the JSON document).
+
+    >>> describe_map({"kind": "ray", "x0": "-1.00002309505835963665553700021"})
+    'one cut from x0 = -1.00002309506 radially to infinity'
+    """
+    def num(key):
+        try:
+            return mpmath.nstr(mpmath.mpmathify(m[key]), 12)
+        except (KeyError, ValueError, TypeError):
+            return str(m.get(key, "?"))
+    kind = m.get("kind")
+    if kind == "ray":
+        return f"one cut from {variable}0 = {num('x0')} radially to infinity"
+    if kind == "arc":
+        return f"one cut joining {num('s1')} and {num('s2')} through the far side"
+    return ", ".join(f"{k} = {v}" for k, v in m.items())
 
 
 def _fmt(e) -> str:
@@ -55,8 +75,10 @@ def _render(result, title, reference):
         lines.append(f"method: {prov.method} ({prov.options.get('why', '')}); {prov.n_terms} terms; "
                      f"working digits {prov.dps}")
         if prov.options.get("map"):
-            m = prov.options["map"]
-            lines.append(f"conformal map: {m}")
+            borel = prov.method.startswith("borel")
+            text = describe_map(prov.options["map"], "t" if borel else "x")
+            if text not in prov.options.get("why", ""):       # not said on the method line already
+                lines.append(f"conformal map{' of the Borel plane' if borel else ''}: {text}")
     if result.coupling:
         lines.append(f"points are values of the coupling ({result.coupling})")
     lines.append("")
