@@ -709,6 +709,8 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
             re, im = o.re, o.im
             if not o.ok or re is None:
                 status, success, msg = Status.NOT_CONVERGED, False, o.reason or "no stable approximants"
+                if plan.method == "conformal-pade" and plan.cmap is not None and _on_cut(plan.cmap, x):
+                    msg += _ON_CUT_ADVICE
                 n_fail += 1
             else:
                 agree = {}
@@ -792,6 +794,17 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
     return EvaluationResult(tuple(pts), method, success, status, message, tuple(warnings),
                             series.variable, None if cpl is None else cpl.describe(series.variable),
                             diag, prov, series.variable if cpl is None else cpl.symbol)
+
+
+_ON_CUT_ADVICE = ("; to pick a side of the cut, give the point a small imaginary part (for example add "
+                  "1e-6*I), or, if the function has no cut there, choose another method with --method")
+
+
+def _on_cut(cmap, x) -> bool:
+    try:
+        return cmap.on_cut(x)
+    except (ValueError, ZeroDivisionError, ArithmeticError):
+        return False
 
 
 def _reach(info: dict, est: Estimate, asked: int, n_terms: int) -> Optional[dict]:

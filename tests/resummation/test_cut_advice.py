@@ -1,0 +1,41 @@
+"""A point on the cut of the conformal map: the message says what to do, and doing it works.
+
+(1 + x)^(-1/3) = sum binom(-1/3, k) x^k has its cut on (-inf, -1] (common practice, no
+source); truths from mpmath's principal power at 50 digits.
+"""
+from fractions import Fraction
+
+import mpmath
+
+from resum.context import Context, workdps
+from resum.resummation import evaluate
+from resum.series import Series
+
+
+def _binomial(p, n):
+    c = [Fraction(1)]
+    for k in range(1, n):
+        c.append(c[-1] * (p - (k - 1)) / k)
+    return Series(c)
+
+
+def test_point_on_the_cut_gets_advice_on_one_line():
+    res = evaluate(_binomial(Fraction(-1, 3), 30), ["-2", "1"], Context(dps=20), method="conformal-pade",
+                   singularities=[-1], verify=False)
+    bad, good = res.points
+    assert not bad.success and good.success
+    assert "lies on the cut of the map" in bad.message
+    assert "small imaginary part" in bad.message and "--method" in bad.message
+    assert "\n" not in bad.message
+    assert "imaginary part" not in good.message
+
+
+def test_following_the_advice_gives_the_side_of_the_cut():
+    res = evaluate(_binomial(Fraction(-1, 3), 30), ["-2+1e-6*I"], Context(dps=20),
+                   method="conformal-pade", singularities=[-1], verify=False)
+    p = res.points[0]
+    assert p.success
+    with workdps(50):
+        truth = mpmath.power(1 + mpmath.mpc(-2, mpmath.mpf("1e-6")), -mpmath.mpf(1) / 3)
+        assert p.value.contains(truth.real) and p.imag.contains(truth.imag)
+        assert abs(p.value.value - truth.real) < 1e-5      # the upper side: 1/2 - i sqrt(3)/2
