@@ -16,12 +16,19 @@ __all__ = ["add_common_options", "load_series", "context_for", "emit_json", "ato
 atomic_write = atomic_write_text
 
 
-def add_common_options(parser, json_flag: bool = True, dps: bool = True) -> None:
-    """``--dps N`` (digits to report) and ``--json`` (stdout holds one JSON document)."""
+# what --dps defaults to in evaluate and strong (context_for below)
+DPS_DEFAULT_HELP = (f"default {DEFAULT.dps}, fewer (at least 5) when the least precise decimal "
+                    "coefficient carries fewer digits")
+
+
+def add_common_options(parser, json_flag: bool = True, dps: bool = True,
+                       dps_default: str = DPS_DEFAULT_HELP) -> None:
+    """``--dps N`` (digits to report) and ``--json`` (stdout holds one JSON document).
+    ``dps_default`` says in words what the command does without ``--dps``."""
     if dps:
         parser.add_argument("--dps", type=_positive_int, default=None, metavar="N",
-                            help="decimal digits to work to (default: what the input supports, "
-                                 f"at most {DEFAULT.dps})")
+                            help=f"decimal digits the results are computed to, guard digits "
+                                 f"come on top ({dps_default})")
     if json_flag:
         parser.add_argument("--json", action="store_true",
                             help="print one JSON document on stdout and nothing else")

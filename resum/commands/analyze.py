@@ -4,6 +4,7 @@ from __future__ import annotations
 import os
 
 from ..analysis import analyze, default_context
+from ..context import DEFAULT
 from ..errors import InputError
 from ..estimators import METHODS, validate_methods
 from ._common import (add_common_options, at_file, emit_json, load_series, log, prepare_plot_dir,
@@ -15,9 +16,17 @@ DESCRIPTION = (HELP + ". Runs the ratio, Padé, Dlog-Padé and differential-appr
                "more digits. The bands are estimates from the spread of stable approximations, not proofs.")
 
 
+# what resum.analysis.default_context does without --dps; a coefficient with a constant or a
+# function (pi, sqrt(2)) is computed to the reading precision, DEFAULT.work_dps digits
+DPS_DEFAULT_HELP = (f"default: for exact coefficients {DEFAULT.dps}, or terms/2 + 10 if more; for "
+                    "decimals the digits the least precise one carries, kept between 10 and "
+                    f"2 x terms + 30; coefficients with constants or functions such as pi or sqrt(2) "
+                    f"carry {DEFAULT.work_dps}")
+
+
 def add_arguments(parser) -> None:
     parser.add_argument("file", metavar="FILE", help="series file (JSON, CSV or text)")
-    add_common_options(parser)
+    add_common_options(parser, dps_default=DPS_DEFAULT_HELP)
     parser.add_argument("--methods", default=None, metavar="M1,M2",
                         help=f"comma-separated estimators (default all): {', '.join(METHODS)}")
     parser.add_argument("--plot", default=None, metavar="DIR",
