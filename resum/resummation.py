@@ -49,6 +49,7 @@ widened to cover the reruns. It is an estimate of the error, not a proof.
 from __future__ import annotations
 
 import math
+import re as _re
 import time
 from dataclasses import dataclass, field
 from typing import Any, Optional
@@ -197,11 +198,11 @@ class EvaluationResult:
         vals = []
         for p in self.points:
             if p.value is None:
-                row = {"at": num_to_str(p.at, 30), "value": "nan", "lo": "nan", "hi": "nan",
+                row = {"at": _at_text(p.at), "value": "nan", "lo": "nan", "hi": "nan",
                        "method": p.method}
             else:
                 e = p.value.to_dict()
-                row = {"at": num_to_str(p.at, 30), "value": e["value"], "lo": e["lo"], "hi": e["hi"],
+                row = {"at": _at_text(p.at), "value": e["value"], "lo": e["lo"], "hi": e["hi"],
                        "method": p.method}
                 if p.imag is not None:
                     i = p.imag.to_dict()
@@ -213,6 +214,15 @@ class EvaluationResult:
                     row["terms_needed"] = str(reach["terms_needed"])
             vals.append(row)
         return {"values": vals, "warnings": list(self.warnings)}
+
+
+def _at_text(at) -> str:
+    """A point as the JSON contract echoes it: a whole number as written (``"3"``, not ``"3.0"``),
+    any other number as a decimal string with its digits (:func:`num_to_str`)."""
+    text = num_to_str(at, 30)
+    if isinstance(at, mpmath.mpf) and mpmath.isint(at):
+        text = _re.sub(r"\.0(?=e|$)", "", text)       # "3.0" -> "3", "1.0e+40" -> "1e+40"
+    return text
 
 
 def _strings(obj):

@@ -183,3 +183,22 @@ def test_short_decimals_cap_precision_and_say_so(tmp_path, capsys):
     with workdps(40):
         assert mpmath.mpf(v["lo"]) <= truth <= mpmath.mpf(v["hi"])
         assert mpmath.mpf(v["hi"]) - mpmath.mpf(v["lo"]) < mpmath.mpf(10) ** -25
+
+
+def test_evaluate_echoes_whole_numbers_as_given(tmp_path, capsys):
+    # 1/(1 + x) = sum (-x)^k (geometric series, common practice, no source); Padé is exact here
+    p = tmp_path / "geo.txt"
+    p.write_text("\n".join(str((-1) ** k) for k in range(20)) + "\n")
+    pts = ["3", "-2/4", "1e6", "sqrt(2)", "7/7"]
+    argv = ["evaluate", str(p), "--method", "pade", "--json", "--no-verify"]
+    for t in pts:
+        argv += ["--at", t]
+    code, doc = run_json(argv, capsys)
+    ats = [v["at"] for v in doc["values"]]
+    assert ats[0] == "3" and ats[2] == "1000000" and ats[4] == "1"
+    assert ats[1] == "-0.5"
+    with workdps(50):
+        assert abs(mpmath.mpf(ats[3]) - mpmath.sqrt(2)) < mpmath.mpf(10) ** -28   # 30 digits kept (mpmath)
+        for v, x in zip(doc["values"], (3, -0.5, 10 ** 6, mpmath.sqrt(2), 1)):
+            truth = 1 / (1 + mpmath.mpf(x))
+            assert mpmath.mpf(v["lo"]) <= truth <= mpmath.mpf(v["hi"])
