@@ -787,6 +787,14 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                     fli = max(abs(im.value), abs(re.value)) * mpmath.mpf(10) ** (-d_rep)
                     if im.error < fli:
                         im = Estimate(im.value, min(im.lower, im.value - fli), max(im.upper, im.value + fli))
+                if success and _supports_no_digit(re, im):
+                    # a band wider than a tenth of the value is no result, however stable the
+                    # approximants looked (Padé at (1+x)^(-1/3), x = 1e6: -99 [-500, 300])
+                    status, success = Status.NOT_CONVERGED, False
+                    msg = (f"the band [{mpmath.nstr(re.lower, 2)}, {mpmath.nstr(re.upper, 2)}] supports no "
+                           "significant digit; more terms or another method (--method) may help")
+                    n_fail += 1
+                    warnings.append(f"at {mpmath.nstr(a, 10)}: {msg}")
             pts.append(PointResult(a, x, re, im, plan.method, success, status, msg, baselines[j], pdiag))
     if n_fail == 0:
         status, success, message = Status.CONVERGED, True, f"{len(pts)} point(s) evaluated"
@@ -804,6 +812,15 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
     return EvaluationResult(tuple(pts), method, success, status, message, tuple(warnings),
                             series.variable, None if cpl is None else cpl.describe(series.variable),
                             diag, prov, series.variable if cpl is None else cpl.symbol)
+
+
+def _supports_no_digit(re: Estimate, im: Optional[Estimate]) -> bool:
+    """True when the band supports less than one significant digit of the value (relative to
+    its modulus, so that a value with a tiny real part and a large imaginary part is judged as
+    the complex number it is). An exact zero with any band is left alone."""
+    size = abs(re.value) if im is None else mpmath.hypot(re.value, im.value)
+    err = re.error if im is None else max(re.error, im.error)
+    return size != 0 and err * 10 > size
 
 
 _ON_CUT_ADVICE = ("; to pick a side of the cut, give the point a small imaginary part (for example add "
