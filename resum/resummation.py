@@ -792,7 +792,8 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                     # approximants looked (Padé at (1+x)^(-1/3), x = 1e6: -99 [-500, 300])
                     status, success = Status.NOT_CONVERGED, False
                     msg = (f"the band [{mpmath.nstr(re.lower, 2)}, {mpmath.nstr(re.upper, 2)}] supports no "
-                           "significant digit; more terms or another method (--method) may help")
+                           "significant digit (more terms or another method, --method, may help; if the "
+                           "function vanishes near this point, the band is still an absolute error estimate)")
                     n_fail += 1
                     warnings.append(f"at {mpmath.nstr(a, 10)}: {msg}")
             pts.append(PointResult(a, x, re, im, plan.method, success, status, msg, baselines[j], pdiag))

@@ -221,11 +221,21 @@ def _sing_fields(prefix, s, row):
         row[f"{prefix}_kind"] = s["kind"]
 
 
+def _at_label(at) -> str:
+    """Column label of a point: records written before whole-number points were echoed as
+    given hold "3.0"; both spellings must land in one column ("3")."""
+    text = str(at)
+    if re.fullmatch(r"-?\d+\.0+", text):
+        return text.split(".")[0]
+    m = re.fullmatch(r"(-?\d+)\.0+(e[-+]?\d+)", text)
+    return m.group(1) + m.group(2) if m else text
+
+
 def _values_fields(prefix, values, row):
     for v in values or []:
         if not isinstance(v, dict) or "at" not in v:
             continue
-        at = v["at"]
+        at = _at_label(v["at"])
         _est(f"{prefix}@{at}", {"value": v.get("value"), **({"lo": v["lo"], "hi": v["hi"]}
                                                              if "lo" in v else {})}, row)
         if "im" in v:

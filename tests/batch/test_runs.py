@@ -347,3 +347,16 @@ verify = false
         assert lo <= amb <= hi
     csv = (tmp_path / "o" / "summary.csv").read_text().splitlines()
     assert "value_im@0.1" in csv[0].split(",")
+
+
+def test_summary_columns_of_old_and_new_point_spellings_agree():
+    # records written before whole-number points were echoed as given hold "3.0"; a resumed
+    # run mixes them with "3": both must fill the column value@3 (plumbing, no numbers)
+    from resum.batch.records import summary_rows
+    old = {"key": "a", "index": 0, "tasks": {"evaluate": {"values": [
+        {"at": "3.0", "value": "1.5", "lo": "1.4", "hi": "1.6"}]}}}
+    new = {"key": "b", "index": 1, "tasks": {"evaluate": {"values": [
+        {"at": "3", "value": "2.5", "lo": "2.4", "hi": "2.6"}]}}}
+    rows = summary_rows([old, new])
+    assert [r.get("value@3") for r in rows] == ["1.5", "2.5"]
+    assert not any("value@3.0" in r for r in rows)
