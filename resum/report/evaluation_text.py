@@ -53,6 +53,16 @@ def _fmt(e) -> str:
     return format_value_error(e.value, e.lower, e.upper)
 
 
+def _complex_point(p) -> bool:
+    return isinstance(p.at, mpmath.mpc) and p.at.imag != 0
+
+
+def _abs_est(e):
+    """The band of -v as that of v when v < 0 (for printing "- i*|v|")."""
+    from ..results import Estimate
+    return e if e.value >= 0 else Estimate(-e.value, -e.upper, -e.lower)
+
+
 def render_evaluation(result, title: str = "", reference: Optional[Sequence] = None) -> str:
     """The report as text.
 
@@ -88,7 +98,12 @@ def _render(result, title, reference):
         if p.baseline is not None:
             base = f"{_fmt(p.baseline.value)} ({p.baseline.n_terms}{'' if p.baseline.reached else ', not reached'})"
         dig = "-" if p.value is None else (f"{p.value.digits():.1f}" if p.value.error != 0 else "all")
-        rows.append((mpmath.nstr(p.at, 12), _fmt(p.value), dig, base, p.status.value))
+        val = _fmt(p.value)
+        if _complex_point(p) and p.imag is not None and p.value is not None:
+            # at a complex point the imaginary part is part of the value, not an ambiguity
+            val = f"{val} {'-' if p.imag.value < 0 else '+'} i*{_fmt(_abs_est(p.imag))}"
+            dig = f"{min(p.value.digits(), p.imag.digits()):.1f}" if p.value.error and p.imag.error else dig
+        rows.append((mpmath.nstr(p.at, 12), val, dig, base, p.status.value))
     widths = [max(len(r[i]) for r in rows) for i in range(len(rows[0]))]
     for k, r in enumerate(rows):
         lines.append("  ".join(c.ljust(w) for c, w in zip(r, widths)).rstrip())
@@ -116,7 +131,7 @@ def _render(result, title, reference):
             else:
                 lines.append(head + f"{r['asked_digits']} digits would need more than 3 x the "
                              f"{r['terms_now']} terms at hand, too far for this projection")
-    lat = [p for p in result.points if p.imag is not None]
+    lat = [p for p in result.points if p.imag is not None and not _complex_point(p)]
     if lat:
         lines.append("")
         lines.append("Imaginary parts (lateral Borel sums S+- = value +- i*imag; imag is the ambiguity):")

@@ -48,3 +48,19 @@ def test_borel_plane_map_is_named_as_such():
     text = render_evaluation(res)
     assert "conformal map of the Borel plane: one cut from t0 = -1.0 radially to infinity" in text
     assert "{'kind'" not in text
+
+
+def test_complex_point_shows_its_imaginary_part_in_the_value():
+    # log(1 + z)/z at z = 3 + 2i (mpmath.log, principal branch; the cut of the series is
+    # (-inf, -1]): the imaginary part belongs to the value, not to a lateral-sum ambiguity
+    s = Series([Fraction((-1) ** k, k + 1) for k in range(40)])
+    res = evaluate(s, ["3+2*I"], Context(dps=20))
+    p = res.points[0]
+    with mpmath.workdps(40):
+        z = mpmath.mpc(3, 2)
+        truth = mpmath.log(1 + z) / z
+        assert p.value.contains(truth.real) and p.imag.contains(truth.imag)
+    text = render_evaluation(res)
+    row = next(line for line in text.splitlines() if line.startswith("(3.0 + 2.0j)"))
+    assert " - i*0.1234453420424" in row            # Im = -0.12344534204242866498...
+    assert "lateral" not in text
