@@ -7,18 +7,10 @@ from fractions import Fraction
 import mpmath
 import pytest
 
-from resum import Series
 from resum.cli import build_parser, main
 from resum.context import workdps
 from resum.series.io import write_series
-
-
-def _binomial(p, n):
-    # (1 + x)^p = sum binom(p, k) x^k, radius 1 (common practice, no source)
-    c = [Fraction(1)]
-    for k in range(1, n):
-        c.append(c[-1] * (p - (k - 1)) / k)
-    return Series(c, name="binomial")
+from tests.known_series import binomial_series
 
 
 @pytest.mark.parametrize("text", ["-1/2", "-(1/3)", "-.5", "-sqrt(2)/4", "-pi/8", "-log(2)/2",
@@ -38,14 +30,14 @@ def test_negative_values_of_other_options():
 @pytest.mark.parametrize("argv", [["--at", "1", "--foo"], ["--at", "--foo"], ["--at", "-pizza"],
                                   ["--at", "1", "-x"]])
 def test_unknown_options_stay_errors(tmp_path, capsys, argv):
-    f = write_series(_binomial(Fraction(-1, 3), 30), tmp_path / "b.json")
+    f = write_series(binomial_series(Fraction(-1, 3), 30), tmp_path / "b.json")
     assert main(["evaluate", str(f)] + argv) == 2
     err = capsys.readouterr().err
     assert len(err.strip().splitlines()) == 1 and "Traceback" not in err
 
 
 def test_evaluate_at_negative_expressions(tmp_path, capsys):
-    f = write_series(_binomial(Fraction(-1, 3), 30), tmp_path / "b.json")
+    f = write_series(binomial_series(Fraction(-1, 3), 30), tmp_path / "b.json")
     code = main(["evaluate", str(f), "--at", "-1/2", "--at", "-sqrt(2)/4", "--large-power", "-1/3",
                  "--json", "--no-verify"])
     doc = json.loads(capsys.readouterr().out)

@@ -8,6 +8,7 @@ from resum import Series
 from resum.context import Context
 from resum.report.evaluation_text import describe_map, render_evaluation
 from resum.resummation import evaluate
+from tests.known_series import binomial_series
 
 
 def test_ray_map_in_words_with_twelve_digits():
@@ -23,16 +24,8 @@ def test_arc_map_in_words():
     assert text == "one cut joining 0.25 and -1.5 through the far side"
 
 
-def _binomial(p, n):
-    # (1 + x)^p = sum binom(p, k) x^k, one cut (-inf, -1] (common practice, no source)
-    c = [Fraction(1)]
-    for k in range(1, n):
-        c.append(c[-1] * (p - (k - 1)) / k)
-    return Series(c, name="binomial")
-
-
 def test_report_has_no_raw_map_dict():
-    res = evaluate(_binomial(Fraction(-1, 3), 30), ["2"], Context(dps=20), method="conformal-pade",
+    res = evaluate(binomial_series(Fraction(-1, 3), 30), ["2"], Context(dps=20), method="conformal-pade",
                    verify=False, singularities=[mpmath.mpf("-1.0000000000001")])
     text = render_evaluation(res)
     assert "{'kind'" not in text and "'x0'" not in text

@@ -9,18 +9,11 @@ import mpmath
 
 from resum.context import Context, workdps
 from resum.resummation import evaluate
-from resum.series import Series
-
-
-def _binomial(p, n):
-    c = [Fraction(1)]
-    for k in range(1, n):
-        c.append(c[-1] * (p - (k - 1)) / k)
-    return Series(c)
+from tests.known_series import binomial_series
 
 
 def test_point_on_the_cut_gets_advice_on_one_line():
-    res = evaluate(_binomial(Fraction(-1, 3), 30), ["-2", "1"], Context(dps=20), method="conformal-pade",
+    res = evaluate(binomial_series(Fraction(-1, 3), 30), ["-2", "1"], Context(dps=20), method="conformal-pade",
                    singularities=[-1], verify=False)
     bad, good = res.points
     assert not bad.success and good.success
@@ -31,7 +24,7 @@ def test_point_on_the_cut_gets_advice_on_one_line():
 
 
 def test_following_the_advice_gives_the_side_of_the_cut():
-    res = evaluate(_binomial(Fraction(-1, 3), 30), ["-2+1e-6*I"], Context(dps=20),
+    res = evaluate(binomial_series(Fraction(-1, 3), 30), ["-2+1e-6*I"], Context(dps=20),
                    method="conformal-pade", singularities=[-1], verify=False)
     p = res.points[0]
     assert p.success

@@ -11,18 +11,12 @@ from resum.context import Context, workdps
 from resum.resummation import evaluate
 from resum.results import Status
 from resum.series import Series
-
-
-def _binomial(p, n):
-    c = [Fraction(1)]
-    for k in range(1, n):
-        c.append(c[-1] * (p - (k - 1)) / k)
-    return Series(c)
+from tests.known_series import binomial_series
 
 
 def test_pade_far_away_is_not_converged():
     # plain Padé of (1+x)^(-1/3) from 40 terms at x = 1e6 gave -99 [-500, 300], "converged"
-    res = evaluate(_binomial(Fraction(-1, 3), 40), ["1/2", "1e6"], Context(dps=30), method="pade")
+    res = evaluate(binomial_series(Fraction(-1, 3), 40), ["1/2", "1e6"], Context(dps=30), method="pade")
     near, far = res.points
     with workdps(50):
         for p in (near, far):
