@@ -842,7 +842,8 @@ def _reach(info: dict, est: Estimate, asked: int, n_terms: int) -> Optional[dict
     at ``rate`` digits per added term (the slope of the fit in
     :func:`~resum.estimators.resum_band.band_from_candidates`); carried on linearly, the
     digits asked would need about ``(asked - digits) / rate`` more terms, each carrying
-    at least that many digits. None when the band already supports the digits asked or
+    at least that many digits; if the same fit in ``sqrt(n)`` (sub-geometric convergence)
+    projects more terms, that larger number is given. None when the band already supports the digits asked or
     the approximants did not converge steadily; ``terms_needed`` is None beyond 3 x the
     terms at hand."""
     rate = info.get("decay_digits_per_term")
@@ -853,6 +854,12 @@ def _reach(info: dict, est: Estimate, asked: int, n_terms: int) -> Optional[dict
     if rate < 0.002 or not math.isfinite(have) or have >= asked - 0.5:
         return None
     need = n_terms + math.ceil((asked - have) / rate)
+    rate2 = info.get("decay_digits_per_sqrt_term")
+    if rate2 is not None and float(mpmath.mpf(rate2)) > 0:
+        # approximants of functions with cuts often converge like exp(-c sqrt(n)): the same
+        # fit in sqrt(n) gives the slower (larger) projection, which is the one kept
+        r2 = float(mpmath.mpf(rate2))
+        need = max(need, math.ceil((math.sqrt(n_terms) + (asked - have) / r2) ** 2))
     # beyond 3 x the terms at hand a straight line says little: no number then
     return {"digits": round(have, 1), "digits_per_term": round(rate, 4), "asked_digits": asked,
             "terms_now": n_terms, "terms_needed": need if need <= 3 * n_terms else None,

@@ -471,6 +471,8 @@ def band_from_candidates(vals: Sequence, n_used: Sequence[int], *, floor=0, safe
             # 2.7x the actual error everywhere, the largest ratio fell from 893 to ~300
             extrap *= mpmath.mpf(10) ** ((mpmath.mpf(3) / 2 if nearest_far else mpmath.mpf(1) / 2) * rms)
             info["decay_digits_per_term"] = mpmath.nstr(-b, 4)
+            if fit2 is not None and fit2[1] < 0:
+                info["decay_digits_per_sqrt_term"] = mpmath.nstr(-fit2[1], 4)
             info["fit_scatter_decades"] = mpmath.nstr(rms, 3)
         else:
             converging = False
