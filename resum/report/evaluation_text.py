@@ -120,7 +120,7 @@ def _render(result, title, reference):
     if short:
         lines.append("")
         lines.append("Where the band falls short of the digits asked (a projection from how fast the approximants "
-                     "converged at each point, carried on linearly; not a promise):")
+                     "converged at each point, extrapolated in n and in sqrt(n), the larger count kept; not a promise):")
         for p in short:
             r = p.diagnostics["reach"]
             head = (f"  {mpmath.nstr(p.at, 12)}: {r['digits']} digits; about {r['digits_per_term']} digits per "
