@@ -332,17 +332,16 @@ LONE_INNER_MARGIN = mpmath.mpf("0.01")
 
 
 #: with a sharp growth-rate radius, a lone point whose centre lies this far inside is dropped
-LONE_CENTRE_MARGIN = mpmath.mpf("0.02")
+#: (or 3 x the growth band's relative half-width, if larger)
+LONE_CENTRE_MARGIN = mpmath.mpf("0.005")
 
 
-def _growth_sharp(ok) -> bool:
-    """Whether a growth-rate radius band (ratio or root test) is narrower than 1 % of it."""
-    for k in ("ratio", "root-test"):
-        r = ok.get(k)
-        if r is not None and r.radius is not None and mpmath.isfinite(r.radius.upper) \
-                and r.radius.value > 0 and r.radius.error < mpmath.mpf("0.01") * r.radius.value:
-            return True
-    return False
+def _growth_sharpness(ok):
+    """Smallest relative half-width of the growth-rate radius bands (ratio, root test), or None."""
+    rels = [ok[k].radius.error / ok[k].radius.value for k in ("ratio", "root-test")
+            if k in ok and ok[k].radius is not None and mpmath.isfinite(ok[k].radius.upper)
+            and ok[k].radius.value > 0]
+    return min(rels) if rels else None
 
 
 def _growth_floor(ok):
@@ -365,14 +364,19 @@ def _screen_lone_inner_points(sings, ok, warnings):
     floor = _growth_floor(ok)
     if floor is None:
         return sings
-    sharp = _growth_sharp(ok)
+    rel = _growth_sharpness(ok)
+    centre = None
+    if rel is not None and rel < mpmath.mpf("0.01"):
+        # a scattered ensemble gives a wide band that can reach out to the radius: when the
+        # growth rate pins the radius to better than 1 %, the point itself (not its band's far
+        # end) must lie inside by LONE_CENTRE_MARGIN (measured: with 79 terms of
+        # log(1+x)/x/sqrt(1+x/3) a pair 3.4 % inside, with 80 terms of
+        # sqrt(1+x) + (1+x/2)^(-1/3) a pair 1 % inside, each from differential approximants
+        # alone while the ratios pinned the radius to 1e-10; the map was lost both times)
+        centre = floor * (1 - max(LONE_CENTRE_MARGIN, 3 * rel))
     floor = floor * (1 - LONE_INNER_MARGIN)
-    # a scattered ensemble gives a wide band that can reach out to the radius: when the
-    # growth rate pins the radius to better than 1 %, the point itself (not its band's far
-    # end) must lie inside by LONE_CENTRE_MARGIN (with 79 terms, a point 2 % inside would
-    # make the coefficients grow 5 times faster than the ratios show)
     inner = [s for s in sings if abs(s.location) + _err(s) < floor
-             or (sharp and abs(s.location) < floor * (1 - LONE_CENTRE_MARGIN))]
+             or (centre is not None and abs(s.location) < centre)]
     drop = []
     for s in inner:
         confirmed = any(o.method != s.method and abs(o.location - s.location) <= max(
