@@ -561,7 +561,7 @@ def _run(plan: _Plan, c, xs, dps, n_orders, quad_dps=None, target=None):
                                   n_orders=7 if n_orders is None else n_orders, target_digits=target)
     return borel_evaluate(c, xs, dps, b=plan.borel_b, cmap=plan.cmap, alpha=plan.alpha,
                           n_orders=7 if n_orders is None else n_orders, lateral=plan.lateral,
-                          quad_dps=quad_dps)
+                          quad_dps=quad_dps, target_digits=target)
 
 
 def _perturb(c, digits):

@@ -232,14 +232,34 @@ def poly_roots(p, dps: int):
         return _newton_polish(p, dps)
 
 
-def _newton_polish(p, dps, steps=60):
+def _double_roots(pm):
+    """Companion-matrix roots in double precision after the exact rescaling ``z -> 2^e z``
+    that balances the lowest non-zero and the highest coefficient (a polynomial whose
+    coefficients span hundreds of decades still fits in doubles); None when it does not."""
     import numpy as np
+    k0 = next((i for i, v in enumerate(pm) if v != 0), len(pm) - 1)
+    n = len(pm) - 1
+    with workdps(20):
+        e = 0
+        if n > k0:
+            e = int(mpmath.nint(mpmath.log(abs(pm[k0]) / abs(pm[n]), 2) / (n - k0)))
+        scaled = [mpmath.mpc(v) * mpmath.ldexp(1, e * k) for k, v in enumerate(pm)]
+        big = max(abs(v) for v in scaled)
+        try:
+            arr = np.array([complex(v / big) for v in reversed(scaled)], dtype=complex)
+            guess = np.roots(arr)
+        except (ValueError, np.linalg.LinAlgError, OverflowError):
+            return None
+    if not np.all(np.isfinite(guess)):
+        return None
+    return [complex(g) * 2.0 ** e for g in guess]
+
+
+def _newton_polish(p, dps, steps=60):
     with workdps(dps + 10):
         pm = [mpmath.mpmathify(c) for c in p]
-        lead = pm[-1]
-        try:
-            guess = np.roots([complex(c / lead) for c in reversed(pm)])
-        except (ValueError, np.linalg.LinAlgError, OverflowError):
+        guess = _double_roots(pm)
+        if guess is None:
             return None
         dp = polyder(pm)
         out = []

@@ -56,8 +56,8 @@ from typing import Optional, Sequence
 import mpmath
 
 from ..transforms.borel import borel_coefficients, laplace
-from ..transforms.conformal import ConformalMap
-from .resum_band import PointOutcome, band_from_candidates, candidate_orders, rational_fit
+from ..transforms.conformal import ConformalMap, RayMap
+from .resum_band import PointOutcome, band_from_candidates, candidate_orders, fast_evaluator, rational_fit
 from .resum_conformal import mapped_coefficients
 
 __all__ = ["borel_evaluate", "borel_plane_poles"]
@@ -85,9 +85,30 @@ def borel_plane_poles(r, dps: int, cmap: Optional[ConformalMap] = None):
     return out
 
 
+def _fast_w_of_x(cmap: ConformalMap, dps: int):
+    """``cmap.w_of_x`` with the map's constants converted once (at ``dps`` digits, at least
+    the precision of the Laplace integrals); a ray map then costs one square root per call.
+    Other maps are returned as they are."""
+    if not isinstance(cmap, RayMap):
+        return cmap.w_of_x
+    with mpmath.workdps(dps):
+        inv = 1 / mpmath.mpmathify(cmap.x0)
+        sg = cmap._sign()
+    real = not isinstance(inv, mpmath.mpc) and sg in (1, -1)
+
+    def w(t):
+        s = mpmath.sqrt(1 - t * inv)
+        v = sg * (s - 1) / (s + 1)
+        if real and isinstance(v, mpmath.mpc) and v.imag == 0:
+            return v.real
+        return v
+    return w
+
+
 def borel_evaluate(c: Sequence, xs: Sequence, dps: int, *, b=0, cmap: Optional[ConformalMap] = None,
                    alpha=None, n_orders: int = 7, offsets: Sequence[int] = (0,), lateral="auto",
-                   path_tol=mpmath.mpf("0.002"), safety=4, quad_dps: Optional[int] = None):
+                   path_tol=mpmath.mpf("0.002"), safety=4, quad_dps: Optional[int] = None,
+                   target_digits: Optional[int] = None):
     """Borel(-Le Roy)-Padé sums with bands at the points ``xs``.
 
     Parameters
@@ -101,6 +122,12 @@ def borel_evaluate(c: Sequence, xs: Sequence, dps: int, *, b=0, cmap: Optional[C
     lateral : ``"auto"`` (lateral sums when a stable pole sits on the ray),
         ``"always"`` or ``"never"``
     quad_dps : digits for the Laplace integrals (default ``dps``)
+    target_digits : digits the caller reports; a pole of an approximant counts (on the
+        integration path, on the ray, for the Borel scale) only if its residue exceeds
+        ``10^-(target_digits + 10)`` of the transform's size (default: ``10^-quad_dps``).
+        Without it, a rerun at higher precision lost every approximant of a degenerate
+        table (a rational Borel transform, 1/(1+t)^3) to pole-zero pairs with residues near
+        1e-50 on the path, and the point was marked unstable.
 
     Returns
     -------
@@ -126,7 +153,7 @@ def borel_evaluate(c: Sequence, xs: Sequence, dps: int, *, b=0, cmap: Optional[C
         return [fail for _ in xs], {"orders": [list(o) for o in orders]}
     polelists = [borel_plane_poles(r, dps) if r is not None and r.M > 0 else [] for r in fits]
     scale_ref = abs(mpmath.mpmathify(fits[0].p[0])) + 1 if fits[0] is not None else 1
-    tiny = mpmath.mpf(10) ** (-qd) * scale_ref
+    tiny = mpmath.mpf(10) ** (-(qd if target_digits is None else min(qd, int(target_digits) + 10))) * scale_ref
 
     def to_t(p):
         return cmap.x_of_w(p) if cmap is not None else p
@@ -140,14 +167,17 @@ def borel_evaluate(c: Sequence, xs: Sequence, dps: int, *, b=0, cmap: Optional[C
 
     rim = cmap.rim_point() if cmap is not None else None
 
+    w_of_t = _fast_w_of_x(cmap, dps) if cmap is not None else None
+
     def make_F(r):
+        r = fast_evaluator(r)
         if cmap is None:
             return r
         if alpha is None or alpha == 0:
-            return lambda t: r(cmap.w_of_x(t))
+            return lambda t: r(w_of_t(t))
 
         def F(t):
-            w = cmap.w_of_x(t)
+            w = w_of_t(t)
             return r(w) / (1 - w / rim) ** alpha
         return F
 

@@ -82,3 +82,22 @@ def test_roots_of_a_polynomial_with_a_multiple_root():
     assert len(rts) == 7
     for r in [-1] * 5 + [3, mpmath.mpc(0, "0.5")]:
         assert min(abs(z - r) for z in rts) < 1e-2
+
+
+def test_rational_borel_transform_verifies_at_higher_precision():
+    # sum (-1)^n (n+2)!/2 x^n: its Borel transform is 1/(1+t)^3, so the Padé tables of the
+    # (mapped) transform are degenerate. The sum is the Stieltjes integral
+    # int_0^inf e^(-t) t^2/2 /(1 + x t) dt (mpmath.quad; common practice, no source). The
+    # rerun at higher precision used to lose every approximant to pole-zero pairs on the
+    # path whose residues, computed at roots good to 1e-16 only, looked large: the points were
+    # marked unstable although correct to 21 digits.
+    c = [Fraction(1)]
+    for k in range(1, 40):
+        c.append(c[-1] * -(k + 2))
+    res = evaluate(Series(c), ["0.3", "1"], Context(dps=20))
+    with workdps(40):
+        for p in res.points:
+            x = p.x
+            truth = mpmath.quad(lambda t: mpmath.exp(-t) * t ** 2 / 2 / (1 + x * t), [0, 1, 10, mpmath.inf])
+            assert p.success, p.message
+            assert p.value.contains(truth) and _digits(p.value.value, truth) >= 18
