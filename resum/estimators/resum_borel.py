@@ -56,7 +56,7 @@ from typing import Optional, Sequence
 import mpmath
 
 from ..transforms.borel import borel_coefficients, laplace
-from ..transforms.conformal import ConformalMap, RayMap
+from ..transforms.conformal import ConformalMap
 from .resum_band import PointOutcome, band_from_candidates, candidate_orders, fast_evaluator, rational_fit
 from .resum_conformal import mapped_coefficients
 
@@ -83,26 +83,6 @@ def borel_plane_poles(r, dps: int, cmap: Optional[ConformalMap] = None):
         res = num / d if d != 0 else mpmath.inf
         out.append((p, res))
     return out
-
-
-def _fast_w_of_x(cmap: ConformalMap, dps: int):
-    """``cmap.w_of_x`` with the map's constants converted once (at ``dps`` digits, at least
-    the precision of the Laplace integrals); a ray map then costs one square root per call.
-    Other maps are returned as they are."""
-    if not isinstance(cmap, RayMap):
-        return cmap.w_of_x
-    with mpmath.workdps(dps):
-        inv = 1 / mpmath.mpmathify(cmap.x0)
-        sg = cmap._sign()
-    real = not isinstance(inv, mpmath.mpc) and sg in (1, -1)
-
-    def w(t):
-        s = mpmath.sqrt(1 - t * inv)
-        v = sg * (s - 1) / (s + 1)
-        if real and isinstance(v, mpmath.mpc) and v.imag == 0:
-            return v.real
-        return v
-    return w
 
 
 def borel_evaluate(c: Sequence, xs: Sequence, dps: int, *, b=0, cmap: Optional[ConformalMap] = None,
@@ -167,7 +147,7 @@ def borel_evaluate(c: Sequence, xs: Sequence, dps: int, *, b=0, cmap: Optional[C
 
     rim = cmap.rim_point() if cmap is not None else None
 
-    w_of_t = _fast_w_of_x(cmap, dps) if cmap is not None else None
+    w_of_t = cmap.w_of_x_at(dps) if cmap is not None else None
 
     def make_F(r):
         r = fast_evaluator(r)

@@ -225,13 +225,12 @@ def conformal_evaluate(c: Sequence, xs: Sequence, cmap: ConformalMap, dps: int, 
         for o in outs:
             o.info["variant"] = "direct"
     for j, o in enumerate(outs):
-        if not bad[j]:
-            _widen_in_rim_layer(o, ws[j], len(cw))
         if bad[j]:
             outs[j] = PointOutcome(None, None, False,
                                    f"x = {mpmath.nstr(xs[j], 10)} lies on the cut of the map "
                                    f"({cmap.describe()})", {})
         else:
+            _widen_in_rim_layer(o, ws[j], len(cw))
             o.info["w"] = mpmath.nstr(ws[j], 20)
     diag = dict(diag, map=cmap.to_dict(), alpha=None if alpha is None else str(alpha))
     return outs, diag
