@@ -54,7 +54,7 @@ import mpmath
 
 from ._arb import compose_series, rational_series
 
-__all__ = ["ConformalMap", "RayMap", "ArcMap", "choose_map", "pull_back", "rim_factor"]
+__all__ = ["ConformalMap", "RayMap", "ArcMap", "PairMap", "choose_map", "pull_back", "rim_factor"]
 
 
 def _phase(d):
@@ -118,6 +118,8 @@ class ConformalMap:
             return RayMap(mpmath.mpmathify(d["x0"]))
         if d["kind"] == "arc":
             return ArcMap(mpmath.mpmathify(d["s1"]), mpmath.mpmathify(d["s2"]))
+        if d["kind"] == "pair":
+            return PairMap(mpmath.mpmathify(d["s"]))
         raise ValueError(f"unknown map kind {d['kind']!r}")
 
 
@@ -246,6 +248,84 @@ class ArcMap(ConformalMap):
         return {"kind": "arc", "s1": num_to_str(_mp(self.s1), 30), "s2": num_to_str(_mp(self.s2), 30)}
 
 
+@dataclass(frozen=True)
+class PairMap(ConformalMap):
+    """A complex-conjugate pair ``s, conj(s)`` with cuts running to infinity.
+
+    The cuts lie on the vertical line ``Re x = Re s``: from ``s`` up to ``+i infinity`` and
+    from ``conj(s)`` down to ``-i infinity``; together with ``x = infinity`` they form one arc,
+    the circle through ``s``, ``conj(s)`` and infinity. The real axis crosses the line in the
+    gap between the pair, so every real point lies inside the disk, and ``x = infinity`` is a
+    rim point: the map suits functions singular at infinity (powers, logarithms), which
+    :class:`ArcMap` with a pair off the imaginary axis does not. Construction::
+
+        y = (x - s)/(x - conj(s)),  r = sqrt(-y) (Re r > 0),  w = c (r - r0)/(r + conj(r0))
+
+    with ``r0 = r(0)`` and ``c`` the phase that makes ``dx/dw`` at 0 positive. ``x(w)`` is
+    rational (quadratic over quadratic), so the re-expansion is exact in the arithmetic used.
+    The coefficients in ``w`` of a real series are complex.
+    """
+
+    s: object
+    kind = "pair"
+
+    def __post_init__(self):
+        s = mpmath.mpmathify(self.s)
+        if not isinstance(s, mpmath.mpc) or s.imag == 0:
+            raise ValueError("a pair map needs a complex branch point off the real axis")
+
+    def _parts(self):
+        s = mpmath.mpc(_mp(self.s))
+        if s.imag < 0:
+            s = mpmath.conj(s)
+        y0 = s / mpmath.conj(s)
+        r0 = mpmath.sqrt(-y0)
+        c = _phase(-4j * s.imag / (1 + r0 ** 2))
+        return s, r0, c
+
+    def w_of_x(self, x):
+        s, r0, c = self._parts()
+        x = mpmath.mpmathify(x)
+        r = mpmath.sqrt(-(x - s) / (x - mpmath.conj(s)))
+        w = c * (r - r0) / (r + mpmath.conj(r0))
+        # real x gives real w (the map is symmetric under conjugation): drop the rounding
+        return _real_if_close(w, mpmath.mp.dps - 3) if not isinstance(x, mpmath.mpc) else w
+
+    def x_of_w(self, w):
+        s, r0, c = self._parts()
+        u = mpmath.mpmathify(w) / c
+        r = (r0 + mpmath.conj(r0) * u) / (1 - u)
+        x = (s + r ** 2 * mpmath.conj(s)) / (1 + r ** 2)
+        return _real_if_close(x, mpmath.mp.dps - 3) if not isinstance(mpmath.mpmathify(w), mpmath.mpc) else x
+
+    def x_series(self, n: int, dps: int) -> list:
+        s, r0, c = self._parts()
+        rb = mpmath.conj(r0)
+        num = [mpmath.mpc(0), -4j * s.imag / c, (s - mpmath.conj(s) ** 2 / s) / c ** 2]
+        den = [1 + r0 ** 2, mpmath.mpc(0), (1 + rb ** 2) / c ** 2]
+        out = rational_series(num, den, n, dps)
+        out[0] = mpmath.mpf(0)
+        return [_real_if_close(v, dps - 3) for v in out]     # real: the map is conjugation-symmetric
+
+    def branch_points(self) -> tuple:
+        s = mpmath.mpc(_mp(self.s))
+        return (s, mpmath.conj(s))
+
+    def rim_point(self):
+        """``w`` for ``x = infinity`` (on the unit circle; 1 with the chosen phase)."""
+        s, r0, c = self._parts()
+        return _real_if_close(c * (1j - r0) / (1j + mpmath.conj(r0)), mpmath.mp.dps - 3)
+
+    def describe(self) -> str:
+        s = mpmath.mpc(_mp(self.s))
+        return (f"two cuts from {mpmath.nstr(s, 12)} and its conjugate along Re x = "
+                f"{mpmath.nstr(s.real, 12)} to infinity")
+
+    def to_dict(self) -> dict:
+        from ..results import num_to_str
+        return {"kind": "pair", "s": num_to_str(mpmath.mpc(_mp(self.s)), 30)}
+
+
 def pull_back(coeffs: Sequence, cmap: ConformalMap, dps: int, n: int | None = None) -> list:
     """Coefficients in ``w`` of ``f(x(w))`` from the coefficients of ``f`` in ``x``.
 
@@ -277,14 +357,14 @@ def choose_map(singularities, *, rel_tol=0.05) -> ConformalMap | None:
 
     ``singularities``: :class:`resum.results.Singularity` objects or numbers
     (locations in the expansion variable). Rules (common practice, no source):
-    a complex-conjugate nearest pair -> :class:`ArcMap` joining the pair; a real
-    nearest singularity with a real one of the opposite sign no farther than
-    three times away -> :class:`ArcMap` with the two real cuts; otherwise a
-    :class:`RayMap` from the nearest. A complex pair off the imaginary axis
-    gives ``None`` (no map): the arc joining it does not pass through
-    infinity, so ``x = infinity`` would land inside the disk and a function
-    singular there would gain a singularity inside. Returns ``None`` for an
-    empty list too.
+    a complex-conjugate nearest pair on the imaginary axis -> :class:`ArcMap`
+    joining the pair through infinity; a pair off the imaginary axis ->
+    :class:`PairMap` (cuts from the pair to infinity along ``Re x = Re s``: the
+    arc of :class:`ArcMap` would not pass through infinity, which would then land
+    inside the disk); a real nearest singularity with a real one of the opposite
+    sign no farther than three times away -> :class:`ArcMap` with the two real
+    cuts; otherwise a :class:`RayMap` from the nearest. Returns ``None`` for an
+    empty list.
     """
     locs = []
     for s in singularities:
@@ -300,7 +380,7 @@ def choose_map(singularities, *, rel_tol=0.05) -> ConformalMap | None:
     if abs(z.imag) > rel_tol * r:
         if abs(z.real) <= rel_tol * r:
             return ArcMap(z, mpmath.conj(z))     # imaginary pair: the arc passes through infinity
-        return None                              # the arc would put x = infinity inside the disk
+        return PairMap(z if z.imag > 0 else mpmath.conj(z))   # cuts to infinity on Re x = Re z
     xr = z.real
     for u in locs[1:]:
         if abs(u.imag) <= rel_tol * abs(u) and u.real * xr < 0 and abs(u) <= 3 * r:

@@ -6,7 +6,7 @@ import pytest
 
 from resum.context import workdps
 from resum.transforms.borel import borel_coefficients, laplace
-from resum.transforms.conformal import ArcMap, RayMap, choose_map, pull_back
+from resum.transforms.conformal import ArcMap, PairMap, RayMap, choose_map, pull_back
 
 
 @pytest.mark.parametrize("cmap", [RayMap(mpmath.mpf(-1) / 16), RayMap(mpmath.mpc(1, 2)),
@@ -36,7 +36,9 @@ def test_pull_back_exact_log():
 def test_choose_map():
     assert isinstance(choose_map([mpmath.mpf(-1) / 16]), RayMap)
     assert isinstance(choose_map([mpmath.mpc(0, 1), mpmath.mpc(0, -1)]), ArcMap)
-    assert choose_map([mpmath.mpc(-1, 1), mpmath.mpc(-1, -1)]) is None    # infinity would land inside
+    # a pair off the imaginary axis: cuts to infinity along Re x = -1 (an arc joining the pair
+    # through the far side would put x = infinity inside the disk)
+    assert isinstance(choose_map([mpmath.mpc(-1, 1), mpmath.mpc(-1, -1)]), PairMap)
     assert isinstance(choose_map([mpmath.mpf(1), mpmath.mpf(-2)]), ArcMap)
     assert choose_map([]) is None
 
@@ -52,3 +54,22 @@ def test_borel_laplace_stieltjes():
         # Borel-Le Roy b = 1/2 with the Gamma(n + 3/2) weights, same function
         d2 = borel_coefficients([(-1) ** n * mpmath.factorial(n) for n in range(3)], mpmath.mpf(1) / 2)
         assert abs(d2[1] + 1 / mpmath.gamma(mpmath.mpf(5) / 2)) < mpmath.mpf(10) ** -35
+
+
+@pytest.mark.parametrize("s", [mpmath.mpc("0.5", "0.8660254037844386467637231707529"), mpmath.mpc(-1, 2)])
+def test_pair_map_geometry(s):
+    # w(x) maps the plane cut along Re x = Re s (|Im x| >= Im s) onto the unit disk; checked
+    # against its own inverse, and its Taylor series against mpmath's numerical derivatives
+    # of x(w) (mpmath.taylor; common practice, no source)
+    with workdps(30):
+        m = PairMap(s)
+        assert m.w_of_x(0) == 0 and abs(m.rim_point() - 1) < 1e-25       # x = infinity -> w = 1
+        for x in [mpmath.mpf("0.3"), mpmath.mpf(7), mpmath.mpf(-4), mpmath.mpc(1, "0.5")]:
+            w = m.w_of_x(x)
+            assert abs(w) < 1 and abs(m.x_of_w(w) - x) < mpmath.mpf(10) ** -25
+        for b in m.branch_points():                                       # the pair sits on the rim
+            assert abs(abs(m.w_of_x(b + mpmath.mpf(10) ** -20 * (b - s.real))) - 1) < 1e-9
+        assert isinstance(m.w_of_x(mpmath.mpf(2)), mpmath.mpf)           # real points stay real
+        ser = m.x_series(8, 30)
+        ref = mpmath.taylor(lambda w: m.x_of_w(w), 0, 7)
+        assert all(abs(a - b) < mpmath.mpf(10) ** -15 for a, b in zip(ser, ref))
