@@ -44,6 +44,12 @@ def describe_map(m: dict, variable: str = "x") -> str:
         return f"one cut from {variable}0 = {num('x0')} radially to infinity"
     if kind == "arc":
         return f"one cut joining {num('s1')} and {num('s2')} through the far side"
+    if kind == "pair":
+        try:
+            re_s = mpmath.nstr(mpmath.re(mpmath.mpmathify(m["s"])), 12)
+        except (KeyError, ValueError, TypeError):
+            re_s = "?"
+        return f"two cuts from {num('s')} and its conjugate along Re {variable} = {re_s} to infinity"
     return ", ".join(f"{k} = {v}" for k, v in m.items())
 
 

@@ -57,3 +57,13 @@ def test_complex_point_shows_its_imaginary_part_in_the_value():
     row = next(line for line in text.splitlines() if line.startswith("(3.0 + 2.0j)"))
     assert " - i*0.1234453420424" in row            # Im = -0.12344534204242866498...
     assert "lateral" not in text
+
+
+def test_pair_map_in_words():
+    # the words of the report match the map's own description (PairMap.describe)
+    from resum.transforms.conformal import ConformalMap, PairMap
+    m = PairMap(mpmath.mpc("0.5", "0.8660254037844386467637231707529"))
+    d = m.to_dict()
+    assert ConformalMap.from_dict(d) == PairMap(mpmath.mpmathify(d["s"]))
+    assert describe_map(d) == m.describe()
+    assert describe_map(d).endswith("along Re x = 0.5 to infinity")
