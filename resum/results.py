@@ -25,6 +25,7 @@ from __future__ import annotations
 
 import enum
 import math
+import re
 from dataclasses import dataclass, field
 from typing import Any, Optional
 
@@ -43,6 +44,15 @@ __all__ = [
 # ----------------------------------------------------------------------------
 # numbers <-> decimal strings
 # ----------------------------------------------------------------------------
+
+def point_label(text: str) -> str:
+    """A point as written in JSON documents and summary columns: a whole number without its
+    ``.0`` (``"3.0"`` -> ``"3"``, ``"1.0e+40"`` -> ``"1e+40"``), anything else unchanged (so
+    records written before whole numbers were echoed this way land in the same column)."""
+    text = str(text)
+    m = re.fullmatch(r"(-?\d+)\.0+((?:e[-+]?\d+)?)", text)
+    return m.group(1) + m.group(2) if m else text
+
 
 def num_to_str(x, dps: Optional[int] = None) -> str:
     """Decimal string of a number without losing digits.

@@ -49,7 +49,6 @@ widened to cover the reruns. It is an estimate of the error, not a proof.
 from __future__ import annotations
 
 import math
-import re as _re
 import time
 from dataclasses import dataclass, field
 from typing import Any, Optional
@@ -58,7 +57,7 @@ import mpmath
 
 from .context import DEFAULT, Context
 from .errors import InputError
-from .results import Estimate, Provenance, Status, num_to_str, jsonable
+from .results import Estimate, Provenance, Status, num_to_str, jsonable, point_label
 from .series.core import Series
 from .estimators.resum_band import rational_fit
 from .estimators.resum_truncation import optimal_truncation
@@ -198,11 +197,11 @@ class EvaluationResult:
         vals = []
         for p in self.points:
             if p.value is None:
-                row = {"at": _at_text(p.at), "value": "nan", "lo": "nan", "hi": "nan",
+                row = {"at": point_label(num_to_str(p.at, 30)), "value": "nan", "lo": "nan", "hi": "nan",
                        "method": p.method}
             else:
                 e = p.value.to_dict()
-                row = {"at": _at_text(p.at), "value": e["value"], "lo": e["lo"], "hi": e["hi"],
+                row = {"at": point_label(num_to_str(p.at, 30)), "value": e["value"], "lo": e["lo"], "hi": e["hi"],
                        "method": p.method}
                 if p.imag is not None:
                     i = p.imag.to_dict()
@@ -214,15 +213,6 @@ class EvaluationResult:
                     row["terms_needed"] = str(reach["terms_needed"])
             vals.append(row)
         return {"values": vals, "warnings": list(self.warnings)}
-
-
-def _at_text(at) -> str:
-    """A point as the JSON contract echoes it: a whole number as written (``"3"``, not ``"3.0"``),
-    any other number as a decimal string with its digits (:func:`num_to_str`)."""
-    text = num_to_str(at, 30)
-    if isinstance(at, mpmath.mpf) and mpmath.isint(at):
-        text = _re.sub(r"\.0(?=e|$)", "", text)       # "3.0" -> "3", "1.0e+40" -> "1e+40"
-    return text
 
 
 def _strings(obj):
@@ -719,8 +709,6 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
             re, im = o.re, o.im
             if not o.ok or re is None:
                 status, success, msg = Status.NOT_CONVERGED, False, o.reason or "no stable approximants"
-                if plan.method == "conformal-pade" and plan.cmap is not None and _on_cut(plan.cmap, x):
-                    msg += _ON_CUT_ADVICE
                 n_fail += 1
             else:
                 agree = {}
@@ -822,17 +810,6 @@ def _supports_no_digit(re: Estimate, im: Optional[Estimate]) -> bool:
     size = abs(re.value) if im is None else mpmath.hypot(re.value, im.value)
     err = re.error if im is None else max(re.error, im.error)
     return size != 0 and err * 10 > size
-
-
-_ON_CUT_ADVICE = ("; to pick a side of the cut, give the point a small imaginary part (for example add "
-                  "1e-6*I), or, if the function has no cut there, choose another method with --method")
-
-
-def _on_cut(cmap, x) -> bool:
-    try:
-        return cmap.on_cut(x)
-    except (ValueError, ZeroDivisionError, ArithmeticError):
-        return False
 
 
 def _reach(info: dict, est: Estimate, asked: int, n_terms: int) -> Optional[dict]:

@@ -30,6 +30,7 @@ from pathlib import Path
 from typing import Iterable, Optional
 
 from ..errors import InputError
+from ..results import point_label
 from ..series.io import atomic_write_text, clean_temp_files, temp_target
 from .spec import FamilySpec, spec_digest, tomllib
 
@@ -221,21 +222,11 @@ def _sing_fields(prefix, s, row):
         row[f"{prefix}_kind"] = s["kind"]
 
 
-def _at_label(at) -> str:
-    """Column label of a point: records written before whole-number points were echoed as
-    given hold "3.0"; both spellings must land in one column ("3")."""
-    text = str(at)
-    if re.fullmatch(r"-?\d+\.0+", text):
-        return text.split(".")[0]
-    m = re.fullmatch(r"(-?\d+)\.0+(e[-+]?\d+)", text)
-    return m.group(1) + m.group(2) if m else text
-
-
 def _values_fields(prefix, values, row):
     for v in values or []:
         if not isinstance(v, dict) or "at" not in v:
             continue
-        at = _at_label(v["at"])
+        at = point_label(v["at"])
         _est(f"{prefix}@{at}", {"value": v.get("value"), **({"lo": v["lo"], "hi": v["hi"]}
                                                              if "lo" in v else {})}, row)
         if "im" in v:

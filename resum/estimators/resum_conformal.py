@@ -46,6 +46,11 @@ from .resum_pade import pade_evaluate
 __all__ = ["conformal_evaluate", "derivative_evaluate", "mapped_coefficients"]
 
 
+#: what to do about a point on the cut, appended to the refusal (one line)
+ON_CUT_ADVICE = ("; to pick a side of the cut, give the point a small imaginary part (for example add "
+                 "1e-6*I), or, if the function has no cut there, choose another method with --method")
+
+
 def _times_rim(cw: Sequence, alpha, rim) -> list:
     """Coefficients of ``(1 - w/rim)^alpha`` times the series ``cw`` (same length)."""
     if alpha is None or alpha == 0:
@@ -228,7 +233,7 @@ def conformal_evaluate(c: Sequence, xs: Sequence, cmap: ConformalMap, dps: int, 
         if bad[j]:
             outs[j] = PointOutcome(None, None, False,
                                    f"x = {mpmath.nstr(xs[j], 10)} lies on the cut of the map "
-                                   f"({cmap.describe()})", {})
+                                   f"({cmap.describe()}){ON_CUT_ADVICE}", {})
         else:
             _widen_in_rim_layer(o, ws[j], len(cw))
             o.info["w"] = mpmath.nstr(ws[j], 20)
