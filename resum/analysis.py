@@ -428,7 +428,10 @@ def _reconcile(series, results, warnings):
     rmin = min(abs(s.location) for s, _ in combined)
     lead = [(s, f) for s, f in combined if abs(s.location) <= rmin * 1.1 + _err(s)]
     nearest_methods = max((len(f) for s, f in lead), default=0)
-    rest = [(s, f) for s, f in combined if (s, f) not in lead and len(f) >= 2]
+    # a differential approximant that reproduces every coefficient given (the series obeys its
+    # equation exactly) locates its points without a second method's confirmation
+    exact = {k for k, r in ok.items() if (r.diagnostics or {}).get("exact_equation")}
+    rest = [(s, f) for s, f in combined if (s, f) not in lead and (len(f) >= 2 or exact.intersection(f))]
     chosen = lead + rest
     if len(chosen) > 1:
         # a point seen only by a method that cannot locate it well (plain Padé at a branch

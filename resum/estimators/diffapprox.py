@@ -123,6 +123,98 @@ def diffapprox_orders(N, K, count=16, Ls=(0, 1, 2, 4, 6)):
     return out
 
 
+def _residual_ok(D, K, L, Q, tol):
+    """Does the equation ``sum_j Q_j f^(j) + P = 0`` (P of degree L) hold for every
+    coefficient the series gives, not only those it was fitted to? ``tol`` relative to
+    the size of the terms in each equation."""
+    for n in range(L + 1, len(D[K])):
+        tot, size = 0, 0
+        for j in range(K + 1):
+            for i, q in enumerate(Q[j]):
+                if q != 0 and n - i >= 0 and n - i < len(D[j]):
+                    t = q * D[j][n - i]
+                    tot += t
+                    size += abs(t)
+        if abs(tot) > tol * size:
+            return False
+    return True
+
+
+def exact_equation(D, K, dps, tol, Ls=(0, 1, 2, 3, 4)):
+    """Approximants of the lowest order that satisfy the whole series.
+
+    A series that obeys a linear ODE ``sum_j Q_j f^(j) + P = 0`` with polynomials
+    of low degree exactly (products and powers of algebraic functions, D-finite
+    functions) makes every larger approximant singular: the table is degenerate.
+    The ODE itself is the approximant of the smallest degrees ``(L; M, ..., M)``
+    whose system is regular *and* whose equation holds for every coefficient
+    given, beyond the ones it was fitted to (residual below ``tol``). Returned:
+    that approximant for each ``L`` in ``Ls`` that passes (they share ``Q`` up to
+    rounding), as ``[(L, Ms, Q, rel_err)]``, or ``[]``. Common practice, no
+    source (the degree reduction of a degenerate Padé table carried over).
+    """
+    n = len(D[K])
+    for M in range(1, n):
+        Ms = [M] * (K + 1)
+        S = (K + 1) * (M + 1) - 1
+        if 2 * (Ls[0] + S + 1) > n:        # at least half the coefficients must check it
+            return []
+        out = []
+        for L in Ls:
+            if L + S + 1 + 4 > n:
+                break
+            fit = fit_diffapprox(D, K, L, Ms, dps)
+            # (the fit's err is per entry, large for an exactly-zero top coefficient: the
+            # residual over all coefficients is the test)
+            if fit is not None and _residual_ok(D, K, L, fit[0], tol):
+                out.append((L, Ms, fit[0], fit[1]))
+            elif L == Ls[0]:
+                break
+        if out:
+            return out
+    return []
+
+
+def exact_exponents(Q, K, roots, dps):
+    """``[(x_c, theta)]`` at the zeros of ``Q_K`` of an equation the series obeys exactly.
+
+    Roots closer than ``10^(-dps/4)`` (relative) are one multiple zero. A simple zero:
+    :func:`exponents_at`. A double zero of ``Q_2`` with a simple zero of ``Q_1`` there is
+    a regular singular point: the exponents solve the indicial equation
+    ``a rho (rho - 1) + b rho + c = 0`` with ``a = Q_2''(x_c)/2``, ``b = Q_1'(x_c)``,
+    ``c = Q_0(x_c)``, and the smaller one (it dominates the growth of the coefficients)
+    is returned (common practice, no source: Frobenius' method). Other multiple
+    zeros (irregular points) are left out."""
+    tol = mpmath.mpf(10) ** (-dps // 4)
+    groups = []
+    for z in roots:
+        for g in groups:
+            if abs(z - g[0]) <= tol * max(1, abs(g[0])):
+                g.append(z)
+                break
+        else:
+            groups.append([z])
+    out = []
+    for g in groups:
+        z = sum(g) / len(g)
+        if len(g) == 1:
+            th = exponents_at(Q, K, [z], dps)[0]
+        elif len(g) == 2 and K == 2:
+            a = polyval_many(polyder(polyder(Q[2])), [z], dps)[0] / 2
+            b = polyval_many(polyder(Q[1]), [z], dps)[0]
+            c0 = polyval_many(Q[0], [z], dps)[0]
+            if a == 0:
+                continue
+            disc = mpmath.sqrt((b - a) ** 2 - 4 * a * c0)
+            rhos = [((a - b) + disc) / (2 * a), ((a - b) - disc) / (2 * a)]
+            th = min(rhos, key=lambda r: mpmath.re(r))
+        else:
+            continue
+        if th is not None and mpmath.isfinite(th):
+            out.append((z, th))
+    return out
+
+
 def exponents_at(Q, K, zs, dps):
     """Critical exponents of the approximant at simple zeros ``zs`` of ``Q_K``
     (``None`` where ``Q_K'`` vanishes); polynomials evaluated in flint."""
@@ -222,6 +314,21 @@ def estimate_diffapprox(series, ctx=None, order=1, count=16, max_radius_factor=2
                 ens.append({"L": L, "M": tuple(Ms), "poles": pts, "zeros": [], "spurious": [], "rel_err": err})
                 table.append({"L": L, "M": list(Ms), "roots": [z for z, _ in pts],
                               "exponents": [t for _, t in pts]})
+        exact_eq = None
+        if len(ens) < 3:
+            # degenerate table: look for the equation the series satisfies exactly
+            exact_eq = exact_equation(D, K, prep.dps, 10.0 ** -max(10, prep.digits / 2))
+            if exact_eq:
+                ens, table = [], []
+                for L, Ms, Q, err in exact_eq:
+                    pts = exact_exponents(Q, K, poly_roots(Q[K], prep.dps), prep.dps)
+                    if pts:
+                        ens.append({"L": L, "M": tuple(Ms), "poles": pts, "zeros": [], "spurious": [],
+                                    "rel_err": err})
+                        table.append({"L": L, "M": list(Ms), "roots": [z for z, _ in pts],
+                                      "exponents": [t for _, t in pts]})
+                if len(ens) < 3:
+                    exact_eq = None
         if len(ens) < 3 and retry:
             return estimate_diffapprox(series, ctx, order, count, max_radius_factor, _strip=True)
         if len(ens) < 3 and n_singular >= tried - len(ens) - 1:
@@ -236,13 +343,23 @@ def estimate_diffapprox(series, ctx=None, order=1, count=16, max_radius_factor=2
                           prep, {"skipped": skipped})
         sings, info = clusters_to_singularities(ens, method, prep.eps, residue_is_exponent=True,
                                                 real_series=not prep.is_complex,
-                                                radius_factor=max_radius_factor, detect_cuts=False)
+                                                radius_factor=max_radius_factor if not exact_eq
+                                                else max(max_radius_factor, 10), detect_cuts=False)
         how = (f"{len(ens)} inhomogeneous differential approximants of order {K} (L in 0..6, degrees of the "
                "Q_j within 1 of each other, from the highest total order down, skipping orders whose system is "
                "singular or keeps fewer than 10 digits); zeros of Q_K found in at "
                f"least half of them clustered; band = {SAFETY} x spread of locations and exponents.")
+        if exact_eq:
+            L0, Ms0 = exact_eq[0][0], exact_eq[0][1]
+            how = (f"the series satisfies an order-{K} linear equation with polynomial coefficients of "
+                   f"degree {Ms0[0]} exactly: every larger approximant is singular, and this one, fitted "
+                   f"with L = {', '.join(str(e[0]) for e in exact_eq)}, reproduces all {N} coefficients "
+                   "given; its singular points are the zeros of Q_K; band = "
+                   f"{SAFETY} x spread over the {len(ens)} fits (rounding only)")
         diag = {"how": how, "order": K, "approximants": table, "skipped": skipped, **info}
-        if probed and ens:
+        if exact_eq:
+            diag["exact_equation"] = True
+        if probed and ens and not exact_eq:
             diag["note"] = ("the highest orders are ill-conditioned at this precision; lower orders were used "
                             "(more digits would use more terms)")
         if K == 2:

@@ -362,7 +362,7 @@ def choose_map(singularities, *, rel_tol=0.05) -> ConformalMap | None:
     :class:`PairMap` (cuts from the pair to infinity along ``Re x = Re s``: the
     arc of :class:`ArcMap` would not pass through infinity, which would then land
     inside the disk); a real nearest singularity with a real one of the opposite
-    sign no farther than three times away -> :class:`ArcMap` with the two real
+    sign no farther than three times away (within ``rel_tol``) -> :class:`ArcMap` with the two real
     cuts; otherwise a :class:`RayMap` from the nearest. Returns ``None`` for an
     empty list.
     """
@@ -383,6 +383,6 @@ def choose_map(singularities, *, rel_tol=0.05) -> ConformalMap | None:
         return PairMap(z if z.imag > 0 else mpmath.conj(z))   # cuts to infinity on Re x = Re z
     xr = z.real
     for u in locs[1:]:
-        if abs(u.imag) <= rel_tol * abs(u) and u.real * xr < 0 and abs(u) <= 3 * r:
+        if abs(u.imag) <= rel_tol * abs(u) and u.real * xr < 0 and abs(u) <= 3 * r * (1 + rel_tol):
             return ArcMap(xr, u.real)
     return RayMap(xr)

@@ -117,11 +117,51 @@ def test_diffapprox_confluent_correction():
     _check(s.exponent, Fraction(-1, 3), 0.05)
 
 
-def test_diffapprox_degenerate_table_is_refused():
-    # the same function satisfies a second-order equation exactly: every large second-order
-    # approximant is singular, and the method says so instead of using tiny ones
+def test_diffapprox_degenerate_table_finds_the_exact_equation():
+    # the same function, (1-x)^(-1/3) + (1-x)^(1/6), satisfies a second-order equation with
+    # quadratic coefficients exactly: every large second-order approximant is singular. The
+    # method finds that equation (it reproduces all 60 coefficients); x = 1 is a double zero
+    # of Q_2, a regular singular point whose indicial exponents are -1/3 and 1/6, and the
+    # smaller is reported (closed form; Frobenius' method, common practice, no source)
     r = estimate_diffapprox(Series(confluent(60)), Context(dps=80), order=2)
-    assert not r.success and "degenerate" in r.message
+    assert r.success, r.message
+    assert r.diagnostics.get("exact_equation")
+    s = _near(r.singularities, 1)
+    # (a double zero is located to about half the digits by each fit; 80 asked)
+    _check(s.re, 1, 1e-25)
+    _check(s.exponent, Fraction(-1, 3), 1e-25)
+    assert len(r.singularities) == 1
+
+
+def test_diffapprox_exact_equation_two_cuts():
+    # (1-x)^(-1/2) (1+x/3)^(1/3) obeys Q_1 f' + Q_0 f = 0 with Q_1 = (1-x)(1+x/3): every
+    # large first-order approximant is singular. The exact equation gives both branch points
+    # (1 and -3, three times farther) with their exponents -1/2 and 1/3 (closed form, common
+    # practice, no source); the opposite-side point must reach the analysis, which hands
+    # both to the two-cut conformal map
+    c = _product_series(Fraction(-1, 2), -1, Fraction(1, 3), 3, 60)
+    r = estimate_diffapprox(Series(c), Context(dps=45), order=1)
+    assert r.success and r.diagnostics.get("exact_equation"), r.message
+    s1, s2 = _near(r.singularities, 1), _near(r.singularities, -3)
+    _check(s1.re, 1, 1e-30)
+    _check(s1.exponent, Fraction(-1, 2), 1e-30)
+    _check(s2.re, -3, 1e-30)
+    _check(s2.exponent, Fraction(1, 3), 1e-30)
+    from resum.analysis import analyze
+    a = analyze(Series(c), Context(dps=30), verify=False)
+    locs = sorted(float(mpmath.re(s.location)) for s in a.singularities)
+    assert len(locs) == 2 and abs(locs[0] + 3) < 1e-20 and abs(locs[1] - 1) < 1e-20, locs
+
+
+def _product_series(p1, s1, p2, s2, n):
+    """Coefficients of (1 + x/s1)^p1 (1 + x/s2)^p2, exact."""
+    def binom(p, sc):
+        c = [Fraction(1)]
+        for k in range(1, n):
+            c.append(c[-1] * (p - (k - 1)) / k / Fraction(sc))
+        return c
+    a, b = binom(p1, s1), binom(p2, s2)
+    return [sum(a[i] * b[k - i] for i in range(k + 1)) for k in range(n)]
 
 
 def test_diffapprox_saw_square_lattice():

@@ -126,3 +126,21 @@ def test_complex_pair_off_the_axis_gets_a_map(b1, p, x, want):
         truth = (1 + b1 * X + X * X) ** (mpmath.mpf(p.numerator) / p.denominator)
     assert pt.imag is None and pt.value.contains(truth)
     assert _digits(pt.value.value, truth) >= want
+
+
+def test_second_cut_on_the_other_side_is_mapped():
+    # (1-x)^(-1/2) (1+x/3)^(1/3): cuts [1, inf) and (-inf, -3]. Plain Padé alone saw the far
+    # branch point, so only the near cut was mapped and x = -2.9 (next to the far one) got 7
+    # digits; the exact differential equation now confirms -3 and the two-cut map gives 12+
+    # (measured 13.7 true, 11.9 claimed, 60 terms, 30 digits asked)
+    n = 60
+    a = binomial_series(Fraction(-1, 2), n, scale=-1).coefficients
+    b = binomial_series(Fraction(1, 3), n, scale=3).coefficients
+    s = Series([sum(a[i] * b[k - i] for i in range(k + 1)) for k in range(n)])
+    r = evaluate(s, ["-2.9"], Context(dps=30))
+    assert r.diagnostics["map"]["kind"] == "arc", r.diagnostics["map"]
+    p = r.points[0]
+    with workdps(50):
+        t = (1 - mpmath.mpf("-2.9")) ** (-mpmath.mpf(1) / 2) * (1 + mpmath.mpf("-2.9") / 3) ** (mpmath.mpf(1) / 3)
+        assert p.value.contains(t), (p.value, t)
+        assert _digits(p.value.value, t) > 11 and p.value.digits() > 10
