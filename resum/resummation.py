@@ -775,7 +775,18 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                     fli = max(abs(im.value), abs(re.value)) * mpmath.mpf(10) ** (-d_rep)
                     if im.error < fli:
                         im = Estimate(im.value, min(im.lower, im.value - fli), max(im.upper, im.value + fli))
-                if success and _supports_no_digit(re, im):
+                zero_scale = _first_term_scale(c, x)
+                if success and _supports_no_digit(re, im) and _zero_within(re, im, zero_scale):
+                    # the function vanishes here (to the band): no relative digit, but an
+                    # absolute statement as good as the band; not a failure
+                    err = re.error if im is None else max(re.error, im.error)
+                    pdiag["absolute"] = {"bound": mpmath.nstr(err, 5), "scale": mpmath.nstr(zero_scale, 5)}
+                    pdiag.pop("reach", None)     # a count of terms for relative digits means nothing here
+                    warnings.append(f"at {mpmath.nstr(a, 10)}: the value is zero to within "
+                                    f"{mpmath.nstr(err, 3)} (absolute; the first term of the series there is "
+                                    f"{mpmath.nstr(zero_scale, 3)}): the band is an absolute error, it supports "
+                                    "no relative digit")
+                elif success and _supports_no_digit(re, im):
                     # a band wider than a tenth of the value is no result, however stable the
                     # approximants looked (Padé at (1+x)^(-1/3), x = 1e6: -99 [-500, 300])
                     status, success = Status.NOT_CONVERGED, False
@@ -801,6 +812,26 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
     return EvaluationResult(tuple(pts), method, success, status, message, tuple(warnings),
                             series.variable, None if cpl is None else cpl.describe(series.variable),
                             diag, prov, series.variable if cpl is None else cpl.symbol)
+
+
+#: a band that contains 0 and is this much smaller than the first term of the series at the
+#: point says the function vanishes there (common practice, no source)
+ZERO_FRACTION = mpmath.mpf("1e-3")
+
+
+def _first_term_scale(c, x):
+    """|c_k x^k| for the first non-zero coefficient: the natural size of the function at x."""
+    for k, v in enumerate(c):
+        if v != 0:
+            return abs(v) * abs(mpmath.mpmathify(x)) ** k
+    return mpmath.mpf(0)
+
+
+def _zero_within(re: Estimate, im: Optional[Estimate], scale) -> bool:
+    """The band contains 0 (both parts) and is narrower than ``ZERO_FRACTION * scale``."""
+    err = re.error if im is None else max(re.error, im.error)
+    inside = re.contains(0) and (im is None or im.contains(0))
+    return bool(inside and scale > 0 and err <= ZERO_FRACTION * scale)
 
 
 def _supports_no_digit(re: Estimate, im: Optional[Estimate]) -> bool:

@@ -144,3 +144,23 @@ def test_second_cut_on_the_other_side_is_mapped():
         t = (1 - mpmath.mpf("-2.9")) ** (-mpmath.mpf(1) / 2) * (1 + mpmath.mpf("-2.9") / 3) ** (mpmath.mpf(1) / 3)
         assert p.value.contains(t), (p.value, t)
         assert _digits(p.value.value, t) > 11 and p.value.digits() > 10
+
+
+def test_function_vanishing_at_the_point_is_an_absolute_result():
+    # (1+x)^(1/3) - 2 vanishes at x = 7 (outside the disk); from 45-digit decimals the
+    # resummed value is ~1e-24 with a band around 0: no relative digit, but the band is an
+    # absolute statement ("zero to 1e-23"), which used to be reported as not converged.
+    # Closed form, common practice, no source
+    n = 40
+    c = list(binomial_series(Fraction(1, 3), n).coefficients)
+    c[0] -= 2
+    with workdps(45):
+        cm = [mpmath.mpf(v.numerator) / v.denominator for v in c]
+    r = evaluate(Series(cm, digits=45), ["7", "6"], Context(dps=30))
+    zero, other = r.points
+    assert zero.success and zero.value.contains(0) and zero.value.error < 1e-15
+    assert "absolute" in zero.diagnostics and any("zero to within" in w for w in r.warnings)
+    assert "reach" not in zero.diagnostics
+    with workdps(50):
+        t = mpmath.cbrt(7) - 2
+        assert other.success and other.value.contains(t) and "absolute" not in other.diagnostics
