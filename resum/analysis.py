@@ -250,10 +250,20 @@ def _confirm(e: Estimate, width_next) -> Estimate:
     return Estimate(e.value, min(e.lower, e.value - w), max(e.upper, e.value + w))
 
 
-def _combine_group(g, warnings):
+def _combine_group(g, warnings, exact=frozenset()):
     rel = [s for s in g if _location_reliable(s)] or g
     best = min(rel, key=_err)
     re, im = best.re, best.im
+    ex = [s for s in g if s.method in exact]
+    if ex:
+        # an equation the series obeys exactly, checked on every coefficient given beyond those
+        # it was fitted to: its point and exponent need no confirmation, and approximate methods
+        # that miss its band are biased (confluent terms, background), not evidence against it
+        e = min(ex, key=_err)
+        kind = classify_kind(e.exponent) if e.exponent is not None else e.kind
+        note = (f"location and exponent from {e.method} (an equation the series obeys exactly); "
+                f"found by {', '.join(s.method for s in g)}")
+        return Singularity(e.re, e.im, kind, e.exponent, e.method, note), [s.method for s in g]
     # a resolution band (Dlog-Padé poles lining up on a cut) cannot confirm or refute sharpness
     others = sorted(_err(s) for s in rel if s is not best and _exponent_reliable(s))
     if others:
@@ -419,8 +429,11 @@ def _reconcile(series, results, warnings):
     sings = _screen_lone_inner_points(sings, ok, warnings)
     groups = _group(sings)
     combined = []
+    # a differential approximant that reproduces every coefficient given (the series obeys its
+    # equation exactly) locates its points without a second method's confirmation
+    exact = {k for k, r in ok.items() if (r.diagnostics or {}).get("exact_equation")}
     for g in groups:
-        s, found_by = _combine_group(g, warnings)
+        s, found_by = _combine_group(g, warnings, exact)
         combined.append((s, found_by))
     combined = _drop_inside_growth_radius(combined, ok, warnings)
     # leading singularities: those within 10 % of the nearest (both members of a pair,
@@ -428,9 +441,6 @@ def _reconcile(series, results, warnings):
     rmin = min(abs(s.location) for s, _ in combined)
     lead = [(s, f) for s, f in combined if abs(s.location) <= rmin * 1.1 + _err(s)]
     nearest_methods = max((len(f) for s, f in lead), default=0)
-    # a differential approximant that reproduces every coefficient given (the series obeys its
-    # equation exactly) locates its points without a second method's confirmation
-    exact = {k for k, r in ok.items() if (r.diagnostics or {}).get("exact_equation")}
     rest = [(s, f) for s, f in combined if (s, f) not in lead and (len(f) >= 2 or exact.intersection(f))]
     chosen = lead + rest
     if len(chosen) > 1:

@@ -178,14 +178,16 @@ def exact_equation(D, K, dps, tol, Ls=(0, 1, 2, 3, 4)):
 def exact_exponents(Q, K, roots, dps):
     """``[(x_c, theta)]`` at the zeros of ``Q_K`` of an equation the series obeys exactly.
 
-    Roots closer than ``10^(-dps/4)`` (relative) are one multiple zero. A simple zero:
+    Roots closer than ``10^-min(dps/4, 12)`` (relative) are one multiple zero (a double zero
+    splits by about the square root of the fit's error, which can be far above the
+    working precision's). A simple zero:
     :func:`exponents_at`. A double zero of ``Q_2`` with a simple zero of ``Q_1`` there is
     a regular singular point: the exponents solve the indicial equation
     ``a rho (rho - 1) + b rho + c = 0`` with ``a = Q_2''(x_c)/2``, ``b = Q_1'(x_c)``,
     ``c = Q_0(x_c)``, and the smaller one (it dominates the growth of the coefficients)
     is returned (common practice, no source: Frobenius' method). Other multiple
     zeros (irregular points) are left out."""
-    tol = mpmath.mpf(10) ** (-dps // 4)
+    tol = mpmath.mpf(10) ** (-min(dps // 4, 12))
     groups = []
     for z in roots:
         for g in groups:
