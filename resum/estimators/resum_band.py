@@ -59,9 +59,7 @@ class Rational:
         return _horner(self.q, z)
 
     def poles(self, dps: int) -> list:
-        """Roots of ``Q`` (complex mpmath numbers); [] when ``M = 0``. They are
-        only isolated, good to about 1e-9: enough to tell how close a pole is to
-        a point (:func:`rational_integral` refines its own)."""
+        """Roots of ``Q`` (complex mpmath numbers) to about ``dps`` digits; [] when ``M = 0``."""
         q = list(self.q)
         while len(q) > 1 and q[-1] == 0:
             q.pop()
@@ -109,25 +107,13 @@ def _horner(cs, z):
 
 
 def _roots(cs, dps):
-    with flint_precision(dps):
-        if any(isinstance(c, mpmath.mpc) for c in cs):
-            poly = flint.acb_poly([to_acb(c) for c in cs])
-        else:
-            poly = flint.acb_poly([flint.acb(to_arb(c)) for c in cs])
-        try:
-            rts = poly.roots()
-        except Exception:  # noqa: BLE001 - flint gives up on badly conditioned input
-            rts = None
-    if rts is not None:
-        return [acb_to_mp(r) for r in rts]
-    # FLINT cannot isolate (near-)multiple roots, common in the degenerate tables of a
-    # rational function (((1-w)/(1+w))^5: the mapped (1+x)^(-5/2)). Double-precision roots of
-    # the balanced polynomial, polished by Newton steps at the working precision: the residues
-    # computed at these poles must be right for the pole-zero pairs of such tables to show
-    # their tiny residues. The former fallback, mpmath.polyroots, took 6 s per denominator of
-    # degree 40 there
-    from ._num import _newton_polish
-    rts = _newton_polish(list(cs), dps)
+    """Roots of the polynomial ``cs`` (low to high) to about ``dps`` digits: the estimators'
+    one root finder (:func:`resum.estimators._num.poly_roots`: FLINT isolation refined to
+    ``10^-dps``, double-precision roots polished by Newton steps where isolation fails at
+    numerically multiple roots), then mpmath.polyroots as the last resort. (Isolation alone,
+    used here before, left poles next to a Padé cut wrong by up to 1e-5.)"""
+    from ._num import poly_roots
+    rts = poly_roots(list(cs), dps)
     if rts is not None:
         return rts
     try:
