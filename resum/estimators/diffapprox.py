@@ -74,26 +74,31 @@ def _deriv_coeffs(c, K):
     return out
 
 
-def fit_diffapprox(D, K, L, Ms, dps):
+def fit_diffapprox(D, K, L, Ms, dps, lead=0):
     """Polynomials ``Q_0..Q_K`` of the approximant ``(L; Ms)`` (P eliminated).
 
     Uses the equations for the coefficients of ``x^n``, ``n = L+1 .. L+S``
-    with ``S = sum(M_j + 1) - 1`` unknowns. Returns ``(Q, rel_err)`` or None.
+    with ``S = sum(M_j + 1) - 1 - lead`` unknowns. ``Q_K`` is normalised by
+    ``Q_K(x) = x^lead + ...`` (``lead > 0``: the equation has a regular singular
+    point at the origin, as for generating functions ``(1 - sqrt(...))/x``).
+    Returns ``(Q, rel_err)`` or None.
     """
-    S = sum(M + 1 for M in Ms) - 1
-    unknowns = [(j, i) for j in range(K + 1) for i in range(Ms[j] + 1) if not (j == K and i == 0)]
+    S = sum(M + 1 for M in Ms) - 1 - lead
+    if lead > Ms[K]:
+        return None
+    unknowns = [(j, i) for j in range(K + 1) for i in range(Ms[j] + 1) if not (j == K and i <= lead)]
     rows, rhs = [], []
     for n in range(L + 1, L + S + 1):
         if n > len(D[K]) - 1:
             return None
         rows.append([D[j][n - i] if n - i >= 0 else 0 for j, i in unknowns])
-        rhs.append(-D[K][n])
+        rhs.append(-D[K][n - lead] if n - lead >= 0 else 0)
     sol = solve(rows, rhs, dps)
     if sol is None:
         return None
     x, err = sol
     Q = [[mpmath.mpf(0)] * (M + 1) for M in Ms]
-    Q[K][0] = mpmath.mpf(1)
+    Q[K][lead] = mpmath.mpf(1)
     for (j, i), v in zip(unknowns, x):
         Q[j][i] = v
     return Q, err
@@ -141,6 +146,17 @@ def _residual_ok(D, K, L, Q, tol):
 
 
 def exact_equation(D, K, dps, tol, Ls=(0, 1, 2, 3, 4)):
+    """The equation the series obeys exactly, normalised by ``Q_K(0) = 1`` or, failing
+    that, with a zero of ``Q_K`` at the origin (``Q_K = x + ...`` or ``x^2 + ...``): see
+    :func:`_exact_equation` (which returns ``[(L, Ms, Q, rel_err)]``)."""
+    for lead in (0, 1, 2):
+        out = _exact_equation(D, K, dps, tol, Ls, lead)
+        if out:
+            return out
+    return []
+
+
+def _exact_equation(D, K, dps, tol, Ls=(0, 1, 2, 3, 4), lead=0):
     """Approximants of the lowest order that satisfy the whole series.
 
     A series that obeys a linear ODE ``sum_j Q_j f^(j) + P = 0`` with polynomials
@@ -156,14 +172,16 @@ def exact_equation(D, K, dps, tol, Ls=(0, 1, 2, 3, 4)):
     n = len(D[K])
     for M in range(1, n):
         Ms = [M] * (K + 1)
-        S = (K + 1) * (M + 1) - 1
+        if lead > M:
+            continue
+        S = (K + 1) * (M + 1) - 1 - lead
         if 2 * (Ls[0] + S + 1) > n:        # at least half the coefficients must check it
             return []
         out = []
         for L in Ls:
             if L + S + 1 + 4 > n:
                 break
-            fit = fit_diffapprox(D, K, L, Ms, dps)
+            fit = fit_diffapprox(D, K, L, Ms, dps, lead)
             # (the fit's err is per entry, large for an exactly-zero top coefficient: the
             # residual over all coefficients is the test)
             if fit is not None and _residual_ok(D, K, L, fit[0], tol):
@@ -190,6 +208,8 @@ def exact_exponents(Q, K, roots, dps):
     tol = mpmath.mpf(10) ** (-min(dps // 4, 12))
     groups = []
     for z in roots:
+        if z == 0:
+            continue        # the origin (normalisation Q_K = x^lead + ...): the series is analytic there
         for g in groups:
             if abs(z - g[0]) <= tol * max(1, abs(g[0])):
                 g.append(z)

@@ -1,5 +1,6 @@
 """Padé-table, Dlog-Padé and differential-approximant estimators against closed forms,
 published series and the published BES kernel family."""
+import math
 from fractions import Fraction
 
 import mpmath
@@ -207,3 +208,26 @@ def test_diffapprox_ising_susceptibility():
     s = _near(r.singularities, vc)
     _check(s.re, vc, 1e-3)
     _check(s.exponent, Fraction(-7, 4), 0.05)
+
+
+@pytest.mark.parametrize("name", ["catalan", "motzkin"])
+def test_exact_equation_with_a_regular_singular_point_at_the_origin(name):
+    # Catalan (1 - sqrt(1-4x))/(2x) and Motzkin (1 - x - sqrt(1-2x-3x^2))/(2x^2) generating
+    # functions: their first-order equations have Q_1 = x (1 - 4x) and a multiple of
+    # x (1-3x)(1+x), so Q_1(0) = 0 and the usual normalisation cannot find them. Branch points
+    # 1/4; 1/3 and -1, all with exponent 1/2 (closed forms, common practice, no source; Motzkin
+    # numbers by their recursion, OEIS A001006, from memory)
+    if name == "catalan":
+        c, pts = [Fraction(math.comb(2 * n, n), n + 1) for n in range(60)], [Fraction(1, 4)]
+    else:
+        c = [1, 1]
+        for n in range(2, 60):
+            c.append(((2 * n + 1) * c[-1] + (3 * n - 3) * c[-2]) // (n + 2))
+        pts = [Fraction(1, 3), -1]
+    r = estimate_diffapprox(Series(c), Context(dps=60), order=1)
+    assert r.success and r.diagnostics.get("exact_equation"), r.message
+    assert len(r.singularities) == len(pts)
+    for p in pts:
+        s = _near(r.singularities, p)
+        _check(s.re, p, 1e-40)
+        _check(s.exponent, Fraction(1, 2), 1e-40)
