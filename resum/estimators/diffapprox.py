@@ -193,7 +193,23 @@ def _exact_equation(D, K, dps, tol, Ls=(0, 1, 2, 3, 4), lead=0):
     return []
 
 
-def exact_exponents(Q, K, roots, dps):
+def _is_homogeneous(D, K, L, Q, tol):
+    """Is the inhomogeneous term ``P = -(sum_j Q_j f^(j))`` truncated to degree ``L`` zero (to
+    ``tol`` relative to the terms that form it)?"""
+    for n in range(L + 1):
+        tot, size = 0, 0
+        for j in range(K + 1):
+            for i, q in enumerate(Q[j]):
+                if q != 0 and 0 <= n - i < len(D[j]):
+                    t = q * D[j][n - i]
+                    tot += t
+                    size += abs(t)
+        if abs(tot) > tol * size:
+            return False
+    return True
+
+
+def exact_exponents(Q, K, roots, dps, homogeneous=False):
     """``[(x_c, theta)]`` at the zeros of ``Q_K`` of an equation the series obeys exactly.
 
     Roots closer than ``10^-min(dps/4, 12)`` (relative) are one multiple zero (a double zero
@@ -204,7 +220,10 @@ def exact_exponents(Q, K, roots, dps):
     ``a rho (rho - 1) + b rho + c = 0`` with ``a = Q_2''(x_c)/2``, ``b = Q_1'(x_c)``,
     ``c = Q_0(x_c)``, and the smaller one (it dominates the growth of the coefficients)
     is returned (common practice, no source: Frobenius' method). Other multiple
-    zeros (irregular points) are left out."""
+    zeros (irregular points) are left out. With ``homogeneous`` (no inhomogeneous term) and
+    ``K = 1``, a simple zero with a non-negative integer exponent is an apparent singular point:
+    the solution is ``(x - x_c)^n`` times an analytic function there, and it is left out
+    (``(1 + x/2) (1 - x)^(-1/2)`` gives ``Q_1 = (1 + x/2)(1 - x)`` with exponent 1 at -2)."""
     tol = mpmath.mpf(10) ** (-min(dps // 4, 12))
     groups = []
     for z in roots:
@@ -221,6 +240,9 @@ def exact_exponents(Q, K, roots, dps):
         z = sum(g) / len(g)
         if len(g) == 1:
             th = exponents_at(Q, K, [z], dps)[0]
+            if (homogeneous and K == 1 and th is not None and mpmath.re(th) > -0.5
+                    and abs(th - mpmath.nint(mpmath.re(th))) <= mpmath.mpf(10) ** (-min(dps // 4, 12))):
+                continue
         elif len(g) == 2 and K == 2:
             a = polyval_many(polyder(polyder(Q[2])), [z], dps)[0] / 2
             b = polyval_many(polyder(Q[1]), [z], dps)[0]
@@ -343,7 +365,9 @@ def estimate_diffapprox(series, ctx=None, order=1, count=16, max_radius_factor=2
             if exact_eq:
                 ens, table = [], []
                 for L, Ms, Q, err in exact_eq:
-                    pts = exact_exponents(Q, K, poly_roots(Q[K], prep.dps), prep.dps)
+                    tol_eq = 10.0 ** -max(10, prep.digits / 2)
+                    pts = exact_exponents(Q, K, poly_roots(Q[K], prep.dps), prep.dps,
+                                          homogeneous=_is_homogeneous(D, K, L, Q, tol_eq))
                     if pts:
                         ens.append({"L": L, "M": tuple(Ms), "poles": pts, "zeros": [], "spurious": [],
                                     "rel_err": err})

@@ -231,3 +231,23 @@ def test_exact_equation_with_a_regular_singular_point_at_the_origin(name):
         s = _near(r.singularities, p)
         _check(s.re, p, 1e-40)
         _check(s.exponent, Fraction(1, 2), 1e-40)
+
+
+def test_exact_equation_drops_an_apparent_singular_point():
+    # (1 + x/2) (1 - x)^(-1/2) obeys (1 + x/2)(1 - x) f' = (1 + x/2 + ... ) f with no
+    # inhomogeneous term; Q_1 vanishes at -2 with exponent 1, where f is analytic (an
+    # apparent singular point of the equation). Only x = 1 (exponent -1/2) is singular
+    # (closed form, common practice, no source); -log(1-x), whose equation has an
+    # inhomogeneous term, keeps its exponent-0 point (a logarithm)
+    c = _product_series(1, 2, Fraction(-1, 2), -1, 60)
+    r = estimate_diffapprox(Series(c), Context(dps=60), order=1)
+    assert r.success and r.diagnostics.get("exact_equation"), r.message
+    assert len(r.singularities) == 1
+    _check(r.singularities[0].re, 1, 1e-40)
+    _check(r.singularities[0].exponent, Fraction(-1, 2), 1e-40)
+    c = [Fraction(0)] + [Fraction(1, k) for k in range(1, 60)]
+    r = estimate_diffapprox(Series(c), Context(dps=60), order=1)
+    assert r.success and r.diagnostics.get("exact_equation"), r.message
+    (s,) = r.singularities
+    _check(s.re, 1, 1e-40)
+    assert s.kind == "log" and s.exponent.contains(0)
