@@ -156,7 +156,7 @@ def exact_equation(D, K, dps, tol, Ls=(0, 1, 2, 3, 4)):
     return []
 
 
-def _exact_equation(D, K, dps, tol, Ls=(0, 1, 2, 3, 4), lead=0):
+def _exact_equation(D, K, dps, tol, Ls=(0, 1, 2, 3, 4, 5, 6), lead=0):
     """Approximants of the lowest order that satisfy the whole series.
 
     A series that obeys a linear ODE ``sum_j Q_j f^(j) + P = 0`` with polynomials
@@ -164,9 +164,11 @@ def _exact_equation(D, K, dps, tol, Ls=(0, 1, 2, 3, 4), lead=0):
     functions) makes every larger approximant singular: the table is degenerate.
     The ODE itself is the approximant of the smallest degrees ``(L; M, ..., M)``
     whose system is regular *and* whose equation holds for every coefficient
-    given, beyond the ones it was fitted to (residual below ``tol``). Returned:
-    that approximant for each ``L`` in ``Ls`` that passes (they share ``Q`` up to
-    rounding), as ``[(L, Ms, Q, rel_err)]``, or ``[]``. Common practice, no
+    given, beyond the ones it was fitted to (residual below ``tol``). Each ``M`` is
+    tried once with the largest ``L`` (it holds for any ``P`` of degree up to ``L``);
+    when it passes, the fits for every ``L`` in ``Ls`` that also pass are returned
+    (they share ``Q`` up to rounding) as ``[(L, Ms, Q, rel_err)]``; ``[]`` if none.
+    Equations with more than 64 unknowns are not searched. Common practice, no
     source (the degree reduction of a degenerate Padé table carried over).
     """
     n = len(D[K])
@@ -175,22 +177,41 @@ def _exact_equation(D, K, dps, tol, Ls=(0, 1, 2, 3, 4), lead=0):
         if lead > M:
             continue
         S = (K + 1) * (M + 1) - 1 - lead
-        if 2 * (Ls[0] + S + 1) > n:        # at least half the coefficients must check it
+        if 2 * (S + 1) > n or S > 64:      # at least half the coefficients must check it
             return []
-        out = []
+        Ltop = min(Ls[-1], n - S - 5)       # at least 4 coefficients beyond the fit
+        if Ltop < Ls[0]:
+            return []
+        fit = fit_diffapprox(D, K, Ltop, Ms, dps, lead)
+        # (the fit's err is per entry, large for an exactly-zero top coefficient: the residual
+        # over all coefficients is the test)
+        if fit is None or not _residual_ok(D, K, Ltop, fit[0], tol):
+            continue
+        out = [(Ltop, Ms, fit[0], fit[1])]
         for L in Ls:
-            if L + S + 1 + 4 > n:
+            if L >= Ltop:
                 break
-            fit = fit_diffapprox(D, K, L, Ms, dps, lead)
-            # (the fit's err is per entry, large for an exactly-zero top coefficient: the
-            # residual over all coefficients is the test)
-            if fit is not None and _residual_ok(D, K, L, fit[0], tol):
-                out.append((L, Ms, fit[0], fit[1]))
-            elif L == Ls[0]:
-                break
-        if out:
-            return out
+            f2 = fit_diffapprox(D, K, L, Ms, dps, lead)
+            if f2 is not None and _residual_ok(D, K, L, f2[0], tol):
+                out.append((L, Ms, f2[0], f2[1]))
+        return sorted(out, key=lambda t: t[0])
     return []
+
+
+def _exact_ensemble(D, K, prep):
+    """(ensemble, table, equations) from :func:`exact_equation`, or None when the series obeys
+    no such equation (or fewer than 3 fits of it have singular points)."""
+    tol = 10.0 ** -max(10, prep.digits / 2)
+    eqs = exact_equation(D, K, prep.dps, tol)
+    ens, table = [], []
+    for L, Ms, Q, err in eqs:
+        pts = exact_exponents(Q, K, poly_roots(Q[K], prep.dps), prep.dps,
+                              homogeneous=_is_homogeneous(D, K, L, Q, tol))
+        if pts:
+            ens.append({"L": L, "M": tuple(Ms), "poles": pts, "zeros": [], "spurious": [], "rel_err": err})
+            table.append({"L": L, "M": list(Ms), "roots": [z for z, _ in pts],
+                          "exponents": [t for _, t in pts]})
+    return (ens, table, eqs) if len(ens) >= 3 else None
 
 
 def _is_homogeneous(D, K, L, Q, tol):
@@ -321,6 +342,14 @@ def estimate_diffapprox(series, ctx=None, order=1, count=16, max_radius_factor=2
         # down to there belongs to a series satisfying a low-order equation exactly, where
         # near-degenerate approximants give biased exponents
         levels = list(range(N, 4 * (K + 1) + 1, -step))
+        # exact input often obeys a low-order equation exactly (algebraic and D-finite
+        # generating functions); when it does, that equation beats any ensemble of approximants
+        exact_eq = None
+        if series.is_exact:
+            found = _exact_ensemble(D, K, prep)
+            if found is not None:
+                ens, table, exact_eq = found
+                levels = []
         floor_level = max(N // 2, 4 * (K + 1) + 1)
         probed = False
         tried = 0
@@ -358,23 +387,11 @@ def estimate_diffapprox(series, ctx=None, order=1, count=16, max_radius_factor=2
                 ens.append({"L": L, "M": tuple(Ms), "poles": pts, "zeros": [], "spurious": [], "rel_err": err})
                 table.append({"L": L, "M": list(Ms), "roots": [z for z, _ in pts],
                               "exponents": [t for _, t in pts]})
-        exact_eq = None
-        if len(ens) < 3:
+        if len(ens) < 3 and exact_eq is None:
             # degenerate table: look for the equation the series satisfies exactly
-            exact_eq = exact_equation(D, K, prep.dps, 10.0 ** -max(10, prep.digits / 2))
-            if exact_eq:
-                ens, table = [], []
-                for L, Ms, Q, err in exact_eq:
-                    tol_eq = 10.0 ** -max(10, prep.digits / 2)
-                    pts = exact_exponents(Q, K, poly_roots(Q[K], prep.dps), prep.dps,
-                                          homogeneous=_is_homogeneous(D, K, L, Q, tol_eq))
-                    if pts:
-                        ens.append({"L": L, "M": tuple(Ms), "poles": pts, "zeros": [], "spurious": [],
-                                    "rel_err": err})
-                        table.append({"L": L, "M": list(Ms), "roots": [z for z, _ in pts],
-                                      "exponents": [t for _, t in pts]})
-                if len(ens) < 3:
-                    exact_eq = None
+            found = _exact_ensemble(D, K, prep)
+            if found is not None:
+                ens, table, exact_eq = found
         if len(ens) < 3 and retry:
             return estimate_diffapprox(series, ctx, order, count, max_radius_factor, _strip=True)
         if len(ens) < 3 and n_singular >= tried - len(ens) - 1:
