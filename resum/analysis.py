@@ -23,7 +23,9 @@ narrowest band is kept, widened to at least a tenth of the next narrowest
 band (one method's approximants can share one bias, so most of the claimed
 sharpness must be confirmed by a second method) and until it touches the band
 of every other method that found the same point (a warning says so when
-they did not overlap). Verification then reruns the contributing methods with
+they did not overlap). A point from a differential equation the series obeys
+exactly (verified on every coefficient beyond those it was fitted to) is taken
+as that equation gives it. Verification then reruns the contributing methods with
 about 10 % fewer terms and at higher working precision (for inexact input:
 with the coefficients perturbed at the level of their last digit); the
 band is widened to cover 3 times the fewer-terms change and 2 times the
@@ -644,7 +646,9 @@ def _analyze(series, ctx, names, verify, prep):
         warnings.append(f"only {prep.n_terms} terms: estimates are rough")
     how = ("Each method's band: safety factor " f"{SAFETY}" " x spread of its stable estimates across orders "
            "(see each method's 'how'). Combined: the narrowest band among methods finding the same point, "
-           f"widened to at least 1/{CONFIRM_RATIO} of the next narrowest and to touch every other method's band. ")
+           f"widened to at least 1/{CONFIRM_RATIO} of the next narrowest and to touch every other method's band "
+           "(a point from a differential equation the series obeys exactly, checked on every coefficient "
+           "beyond those fitted, is taken as that equation gives it). ")
     if verification:
         how += ("Verification: reran with fewer terms"
                 + (" and at higher precision" if series.digits is None else " and with input perturbed in the last digit")
