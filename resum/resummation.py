@@ -61,7 +61,7 @@ from .results import Estimate, Provenance, Status, num_to_str, jsonable, point_l
 from .series.core import Series
 from .estimators.resum_band import rational_fit
 from .estimators.resum_truncation import optimal_truncation
-from .transforms.conformal import ConformalMap, RayMap, choose_map
+from .transforms.conformal import ConformalMap, PairMap, RayMap, choose_map
 
 __all__ = ["METHODS", "evaluate", "EvaluationResult", "PointResult", "Baseline",
            "probe_strong_coupling", "parse_points", "polynomial_degree"]
@@ -427,6 +427,7 @@ class _Plan:
     alpha: Any = None
     lateral: str = "auto"
     why: str = ""
+    singularities: tuple = ()      # the points the map was chosen from (conformal plans)
 
 
 def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map, alpha,
@@ -494,13 +495,55 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
             return _Plan("partial-sum", why=f"all points inside a quarter of the radius {mpmath.nstr(radius, 8)}")
         if chosen is not None:
             return _Plan("conformal-pade", chosen, alpha=_alpha_for(chosen, alpha, large_x_power),
-                         why=f"finite radius; map: {chosen.describe()}")
+                         why=f"finite radius; map: {chosen.describe()}", singularities=_locations(sings))
         return _Plan("pade", why="finite radius; no map could be chosen")
     if chosen is None:
         raise InputError("conformal-pade needs singularities to build a map and none were found; "
                          "give singularities=[...] or a map", where="method")
     return _Plan("conformal-pade", chosen, alpha=_alpha_for(chosen, alpha, large_x_power),
-                 why=f"map: {chosen.describe()}")
+                 why=f"map: {chosen.describe()}", singularities=_locations(sings))
+
+
+def _locations(sings) -> tuple:
+    """Locations (mpc) of singularity objects or numbers."""
+    out = []
+    for z in sings or ():
+        out.append(mpmath.mpc(z.location if hasattr(z, "location") else mpmath.mpmathify(z)))
+    return tuple(out)
+
+
+def branch_note(cmap, singularities, x) -> Optional[str]:
+    """Why the value at ``x`` may lie on another branch than the continuation along the
+    straight line from 0 (the principal branch of functions with radial cuts), or None.
+
+    Two causes (common practice, no source): the straight line crosses a cut of the map itself
+    (only :class:`PairMap`, whose cuts are vertical lines: the value is then the continuation
+    around the branch point); or ``x`` lies farther out than a complex singular point the map
+    does not remove, on its side of the origin, so that the approximants' own cut through that
+    point (which need not be radial) may separate ``x`` from the straight line. (Unmapped real
+    points are left alone: the approximants of a real series cut along the real axis.)"""
+    x = mpmath.mpc(x)
+    if isinstance(cmap, PairMap):
+        s = mpmath.mpc(cmap.branch_points()[0])
+        s = s if s.imag > 0 else mpmath.conj(s)
+        if x.real != 0:
+            t = s.real / x.real
+            if 0 < t <= 1 and abs(t * x.imag) >= s.imag:
+                return (f"the straight line from 0 to {mpmath.nstr(x, 8)} crosses a cut of the map (from "
+                        f"{mpmath.nstr(s if x.imag > 0 else mpmath.conj(s), 8)} along Re = {mpmath.nstr(s.real, 8)}): "
+                        "the value is the continuation around that branch point, another branch than along "
+                        "the straight line")
+    mapped = [mpmath.mpc(b) for b in cmap.branch_points()] if cmap is not None else []
+    for z in singularities:
+        if any(abs(z - b) <= mpmath.mpf(10) ** -6 * abs(b) for b in mapped):
+            continue
+        if abs(z.imag) <= mpmath.mpf(10) ** -6 * abs(z):
+            continue    # a real point: the approximants of a real series cut along the real axis
+        if abs(z) < abs(x) and mpmath.re(x * mpmath.conj(z)) > 0:
+            return (f"{mpmath.nstr(x, 8)} lies beyond {mpmath.nstr(z, 8)}, a singular point the map does not "
+                    "remove: the approximants draw their own cut from it, and the value may belong to "
+                    "another branch than the continuation along the straight line from 0")
+    return None
 
 
 def _reexpansion_guard(plan, c, series, wd) -> int:
@@ -795,6 +838,11 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                            "function vanishes near this point, the band is still an absolute error estimate)")
                     n_fail += 1
                     warnings.append(f"at {mpmath.nstr(a, 10)}: {msg}")
+            if re is not None and plan.method == "conformal-pade":
+                note = branch_note(plan.cmap, plan.singularities, x)
+                if note:
+                    pdiag["branch"] = note
+                    warnings.append(f"at {mpmath.nstr(a, 10)}: {note}")
             pts.append(PointResult(a, x, re, im, plan.method, success, status, msg, baselines[j], pdiag))
     if n_fail == 0:
         status, success, message = Status.CONVERGED, True, f"{len(pts)} point(s) evaluated"

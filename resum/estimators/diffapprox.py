@@ -128,18 +128,25 @@ def diffapprox_orders(N, K, count=16, Ls=(0, 1, 2, 4, 6)):
     return out
 
 
+def _equation_at(D, K, Q, n):
+    """Coefficient of ``x^n`` in ``sum_j Q_j f^(j)`` and the sum of the absolute values of the
+    terms that form it."""
+    tot, size = 0, 0
+    for j in range(K + 1):
+        for i, q in enumerate(Q[j]):
+            if q != 0 and 0 <= n - i < len(D[j]):
+                t = q * D[j][n - i]
+                tot += t
+                size += abs(t)
+    return tot, size
+
+
 def _residual_ok(D, K, L, Q, tol):
     """Does the equation ``sum_j Q_j f^(j) + P = 0`` (P of degree L) hold for every
     coefficient the series gives, not only those it was fitted to? ``tol`` relative to
     the size of the terms in each equation."""
     for n in range(L + 1, len(D[K])):
-        tot, size = 0, 0
-        for j in range(K + 1):
-            for i, q in enumerate(Q[j]):
-                if q != 0 and n - i >= 0 and n - i < len(D[j]):
-                    t = q * D[j][n - i]
-                    tot += t
-                    size += abs(t)
+        tot, size = _equation_at(D, K, Q, n)
         if abs(tot) > tol * size:
             return False
     return True
@@ -218,13 +225,7 @@ def _is_homogeneous(D, K, L, Q, tol):
     """Is the inhomogeneous term ``P = -(sum_j Q_j f^(j))`` truncated to degree ``L`` zero (to
     ``tol`` relative to the terms that form it)?"""
     for n in range(L + 1):
-        tot, size = 0, 0
-        for j in range(K + 1):
-            for i, q in enumerate(Q[j]):
-                if q != 0 and 0 <= n - i < len(D[j]):
-                    t = q * D[j][n - i]
-                    tot += t
-                    size += abs(t)
+        tot, size = _equation_at(D, K, Q, n)
         if abs(tot) > tol * size:
             return False
     return True

@@ -13,7 +13,7 @@ from resum.context import Context, workdps
 from resum.estimators.resum_band import _roots
 from resum.resummation import PLAN_METHODS, evaluate
 from resum.series import Series
-from tests.known_series import binomial_series
+from tests.known_series import binomial_series, quadratic_series
 
 
 def _two_points(n):
@@ -104,12 +104,8 @@ def test_rational_borel_transform_verifies_at_higher_precision():
 
 
 def _power_of_quadratic(b1, b2, p, n):
-    # (1 + b1 x + b2 x^2)^p by J. C. P. Miller's recurrence, exact (common practice, no source)
-    a = [Fraction(1), Fraction(b1), Fraction(b2)] + [Fraction(0)] * n
-    c = [Fraction(1)]
-    for k in range(1, n):
-        c.append(sum((p * j - (k - j)) * a[j] * c[k - j] for j in range(1, k + 1)) / k)
-    return Series(c)
+    # (1 + b1 x + b2 x^2)^p, exact (tests/known_series.py)
+    return Series(quadratic_series(p, Fraction(b1), Fraction(b2), n))
 
 
 @pytest.mark.parametrize("b1,p,x,want", [(-1, Fraction(-1, 3), "2", 8), (1, Fraction(-1, 2), "3", 8)])
@@ -164,3 +160,44 @@ def test_function_vanishing_at_the_point_is_an_absolute_result():
     with workdps(50):
         t = mpmath.cbrt(7) - 2
         assert other.success and other.value.contains(t) and "absolute" not in other.diagnostics
+
+
+def test_point_beyond_a_vertical_cut_of_the_pair_map_is_flagged():
+    # (1 - 3x/2 + 9 x^2)^(1/3) = ((1 - x/s)(1 - x/conj(s)))^(1/3), s = (1 + i sqrt(15))/12
+    # (closed form, common practice, no source). The pair map cuts along Re x = 1/12, where
+    # the quadratic is negative: its value is the principal power of the quadratic. The
+    # continuation along the straight line from 0 is (1 - x/s)^(1/3) (1 - x/conj(s))^(1/3)
+    # (each factor's cut radial), and at 0.18 + 0.98 i, beyond the vertical cut, the two differ
+    # by a cube root of unity: the point must say so. x = 2 (real) crosses nothing
+    c = quadratic_series(Fraction(1, 3), Fraction(-3, 2), 9, 60)
+    r = evaluate(Series(c), ["0.1834148615 + 0.9830355988*I", "2"], Context(dps=20))
+    assert r.diagnostics["map"]["kind"] == "pair"
+    far, real = r.points
+    assert "branch" in far.diagnostics and "crosses a cut" in far.diagnostics["branch"]
+    assert "branch" not in real.diagnostics
+    with workdps(50):
+        x = mpmath.mpc("0.1834148615", "0.9830355988")
+        z = (1 + 1j * mpmath.sqrt(15)) / 12
+        third = mpmath.mpf(1) / 3
+        straight = (1 - x / z) ** third * (1 - x / mpmath.conj(z)) ** third
+        quad = (1 - 3 * x / 2 + 9 * x ** 2) ** third
+        v = mpmath.mpc(far.value.value, far.imag.value)
+        assert abs(v / quad - 1) < 1e-6                       # the map's branch
+        ratio = v / straight
+        assert abs(ratio ** 3 - 1) < 1e-6 and abs(ratio - 1) > 0.5   # not the straight-line one
+
+
+def test_point_beyond_an_unmapped_complex_pair_is_flagged():
+    # (1 + 3x/2 + x^2)^(1/2) (1 + 3x)^(2/5) (1 + 4x)^(3/2): the map takes the cut from -1/4;
+    # the pair -3/4 +- i sqrt(7)/4 stays to the approximants, which cut it their own way: at
+    # -2.32 + 0.92 i the value came out as minus the principal one, with no word (closed form,
+    # common practice, no source). The point is now flagged; x = 1 (opposite side) is not
+    n = 60
+    c = quadratic_series(Fraction(1, 2), Fraction(3, 2), 1, n)
+    for p, s in ((Fraction(2, 5), Fraction(-1, 3)), (Fraction(3, 2), Fraction(-1, 4))):
+        b = binomial_series(p, n, scale=-s).coefficients
+        c = [sum(c[i] * b[k - i] for i in range(k + 1)) for k in range(n)]
+    r = evaluate(Series(c), ["-2.323549565 + 0.922560252*I", "1"], Context(dps=20))
+    far, near = r.points
+    assert "beyond" in far.diagnostics.get("branch", ""), far.diagnostics.get("branch")
+    assert "branch" not in near.diagnostics
