@@ -61,7 +61,7 @@ from .results import Estimate, Provenance, Status, num_to_str, jsonable, point_l
 from .series.core import Series
 from .estimators.resum_band import rational_fit
 from .estimators.resum_truncation import optimal_truncation
-from .transforms.conformal import ConformalMap, PairMap, RayMap, choose_map
+from .transforms.conformal import ConformalMap, PairMap, RayMap, StarMap, choose_map, crosses_pair_cut
 
 __all__ = ["METHODS", "evaluate", "EvaluationResult", "PointResult", "Baseline",
            "probe_strong_coupling", "parse_points", "polynomial_degree"]
@@ -523,16 +523,13 @@ def branch_note(cmap, singularities, x) -> Optional[str]:
     point (which need not be radial) may separate ``x`` from the straight line. (Unmapped real
     points are left alone: the approximants of a real series cut along the real axis.)"""
     x = mpmath.mpc(x)
-    if isinstance(cmap, PairMap):
+    if crosses_pair_cut(cmap, x):
         s = mpmath.mpc(cmap.branch_points()[0])
         s = s if s.imag > 0 else mpmath.conj(s)
-        if x.real != 0:
-            t = s.real / x.real
-            if 0 < t <= 1 and abs(t * x.imag) >= s.imag:
-                return (f"the straight line from 0 to {mpmath.nstr(x, 8)} crosses a cut of the map (from "
-                        f"{mpmath.nstr(s if x.imag > 0 else mpmath.conj(s), 8)} along Re = {mpmath.nstr(s.real, 8)}): "
-                        "the value is the continuation around that branch point, another branch than along "
-                        "the straight line")
+        return (f"the straight line from 0 to {mpmath.nstr(x, 8)} crosses a cut of the map (from "
+                f"{mpmath.nstr(s if x.imag > 0 else mpmath.conj(s), 8)} along Re = {mpmath.nstr(s.real, 8)}): "
+                "the value is the continuation around that branch point, another branch than along "
+                "the straight line")
     mapped = [mpmath.mpc(b) for b in cmap.branch_points()] if cmap is not None else []
     for z in singularities:
         if any(abs(z - b) <= mpmath.mpf(10) ** -6 * abs(b) for b in mapped):
@@ -578,6 +575,8 @@ def _alpha_for(cmap, alpha, large_x_power):
     if large_x_power is None:
         return None
     p = mpmath.mpmathify(large_x_power)
+    if isinstance(cmap, StarMap):
+        return cmap.large_x_exponent() * p
     return 2 * p if isinstance(cmap, RayMap) else p
 
 
@@ -590,8 +589,43 @@ def _run(plan: _Plan, c, xs, dps, n_orders, quad_dps=None, target=None):
     if plan.method == "pade":
         return pade_evaluate(c, xs, dps, n_orders=7 if n_orders is None else n_orders)
     if plan.method == "conformal-pade":
-        return conformal_evaluate(c, xs, plan.cmap, dps, alpha=plan.alpha,
-                                  n_orders=7 if n_orders is None else n_orders, target_digits=target)
+        star, cross = _star_points(plan.cmap, xs)
+        if not cross:
+            return conformal_evaluate(c, xs, plan.cmap, dps, alpha=plan.alpha,
+                                      n_orders=7 if n_orders is None else n_orders, target_digits=target)
+        # points beyond a vertical cut of the pair map: the star map's radial cuts give them the
+        # continuation along the straight line from 0; the others keep the pair map (nearer rim)
+        rest = [j for j in range(len(xs)) if j not in cross]
+        outs = [None] * len(xs)
+        diag = {}
+        if rest:
+            o1, diag = conformal_evaluate(c, [xs[j] for j in rest], plan.cmap, dps, alpha=plan.alpha,
+                                          n_orders=7 if n_orders is None else n_orders, target_digits=target)
+            for j, o in zip(rest, o1):
+                outs[j] = o
+        a_star = None if plan.alpha is None else star.large_x_exponent() * plan.alpha
+        o2, d2 = conformal_evaluate(c, [xs[j] for j in cross], star, dps, alpha=a_star,
+                                    n_orders=7 if n_orders is None else n_orders, target_digits=target)
+        for j, o in zip(cross, o2):
+            o.info["map"] = star.to_dict()
+            outs[j] = o
+        return outs, (diag if rest else dict(d2, map=plan.cmap.to_dict()))
+    return borel_evaluate(c, xs, dps, b=plan.borel_b, cmap=plan.cmap, alpha=plan.alpha,
+                          n_orders=7 if n_orders is None else n_orders, lateral=plan.lateral,
+                          quad_dps=quad_dps, target_digits=target)
+
+
+def _star_points(cmap, xs):
+    """(StarMap, indices) of the points whose straight line from 0 crosses a vertical cut of a
+    pair map and which the star map of the same pair reaches (inside its disk)."""
+    if not isinstance(cmap, PairMap):
+        return None, []
+    idx = [j for j, x in enumerate(xs) if crosses_pair_cut(cmap, x)]
+    if not idx:
+        return None, []
+    star = StarMap(cmap.s)
+    idx = [j for j in idx if abs(star.w_of_x(xs[j])) < 1 - mpmath.mpf(10) ** -12]
+    return star, idx
     return borel_evaluate(c, xs, dps, b=plan.borel_b, cmap=plan.cmap, alpha=plan.alpha,
                           n_orders=7 if n_orders is None else n_orders, lateral=plan.lateral,
                           quad_dps=quad_dps, target_digits=target)
@@ -839,7 +873,14 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                     n_fail += 1
                     warnings.append(f"at {mpmath.nstr(a, 10)}: {msg}")
             if re is not None and plan.method == "conformal-pade":
-                note = branch_note(plan.cmap, plan.singularities, x)
+                used = plan.cmap
+                if o.info.get("map", {}).get("kind") == "star":
+                    used = StarMap(plan.cmap.s)
+                    pdiag["map"] = o.info["map"]
+                    warnings.append(f"at {mpmath.nstr(a, 10)}: evaluated with radial cuts from the pair "
+                                    f"({used.describe()}): the straight line from 0 crosses the pair map's "
+                                    "vertical cut, and this is the continuation along that line")
+                note = branch_note(used, plan.singularities, x)
                 if note:
                     pdiag["branch"] = note
                     warnings.append(f"at {mpmath.nstr(a, 10)}: {note}")

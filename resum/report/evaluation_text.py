@@ -50,6 +50,8 @@ def describe_map(m: dict, variable: str = "x") -> str:
         except (KeyError, ValueError, TypeError):
             re_s = "?"
         return f"two cuts from {num('s')} and its conjugate along Re {variable} = {re_s} to infinity"
+    if kind == "star":
+        return f"two cuts from {num('s')} and its conjugate radially to infinity"
     return ", ".join(f"{k} = {v}" for k, v in m.items())
 
 

@@ -6,7 +6,7 @@ import pytest
 
 from resum.context import workdps
 from resum.transforms.borel import borel_coefficients, laplace
-from resum.transforms.conformal import ArcMap, PairMap, RayMap, choose_map, pull_back
+from resum.transforms.conformal import ArcMap, PairMap, RayMap, StarMap, choose_map, pull_back
 
 
 @pytest.mark.parametrize("cmap", [RayMap(mpmath.mpf(-1) / 16), RayMap(mpmath.mpc(1, 2)),
@@ -73,3 +73,28 @@ def test_pair_map_geometry(s):
         ser = m.x_series(8, 30)
         ref = mpmath.taylor(lambda w: m.x_of_w(w), 0, 7)
         assert all(abs(a - b) < mpmath.mpf(10) ** -15 for a, b in zip(ser, ref))
+
+
+@pytest.mark.parametrize("s", [mpmath.mpc("0.5", "0.8660254037844386467637231707529"), mpmath.mpc(-3, 1),
+                               mpmath.mpc(0, 2)])
+def test_star_map_geometry(s):
+    # x(w) = w / (C (1-w)^a (1+w)^(2-a)), a = 2 arg(s)/pi, maps the unit disk onto the plane cut
+    # radially from s and conj(s) (a Schwarz-Christoffel map of a V-shaped slit, common practice,
+    # no source). Checked: the slit tips exp(+-i beta), cos beta = 1 - a, land on the pair; a
+    # point just off a radial cut lands on the rim; x(w(x)) = x; real points stay real; the
+    # Taylor series against mpmath's numerical derivatives (mpmath.taylor)
+    with workdps(30):
+        m = StarMap(s)
+        a = m.large_x_exponent()
+        tip = m.x_of_w(mpmath.expj(mpmath.acos(1 - a)))
+        assert abs(tip - s) < mpmath.mpf(10) ** -25 or abs(tip - mpmath.conj(s)) < mpmath.mpf(10) ** -25
+        for x in [mpmath.mpf("0.3"), mpmath.mpf(7), mpmath.mpf(-4), mpmath.mpc(1, "0.5"), 3 * s + 1e-3]:
+            w = m.w_of_x(x)
+            assert abs(w) < 1 and abs(m.x_of_w(w) - x) < mpmath.mpf(10) ** -25 * abs(x)
+        assert m.on_cut(2 * s) and m.on_cut(5 * mpmath.conj(s)) and not m.on_cut(s / 2)
+        assert 1 - abs(m.w_of_x(2 * s * (1 + mpmath.mpc(0, 1) * mpmath.mpf(10) ** -6))) < 1e-2
+        assert isinstance(m.w_of_x(mpmath.mpf(2)), mpmath.mpf)
+        ser = m.x_series(8, 30)
+        ref = mpmath.taylor(lambda w: m.x_of_w(w), 0, 7)
+        assert all(abs(A - B) < mpmath.mpf(10) ** -15 for A, B in zip(ser, ref))
+        assert all(isinstance(v, mpmath.mpf) for v in ser)
