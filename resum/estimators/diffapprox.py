@@ -221,6 +221,45 @@ def _exact_ensemble(D, K, prep):
     return (ens, table, eqs) if len(ens) >= 3 else None
 
 
+def _coefficient_text(v, dps):
+    """A coefficient of the exact equation: the rational it equals to the working digits
+    (denominator up to 10^6), else a decimal with 12 digits."""
+    from fractions import Fraction
+    v = mpmath.re(v) if isinstance(v, mpmath.mpc) and abs(mpmath.im(v)) <= abs(v) * mpmath.mpf(10) ** (-dps // 2) else v
+    if isinstance(v, mpmath.mpf):
+        fr = Fraction(float(v)).limit_denominator(10 ** 6) if abs(v) < 1e15 else None
+        if fr is not None and abs(v - mpmath.mpf(fr.numerator) / fr.denominator) <= mpmath.mpf(10) ** (-dps // 2) * max(1, abs(v)):
+            return str(fr)
+    return mpmath.nstr(v, 12)
+
+
+def equation_text(Q, P, var="x", dps=30) -> str:
+    """``sum_j Q_j f^(j) + P = 0`` as text, polynomials low to high."""
+    def poly(cs):
+        terms = []
+        for k, c in enumerate(cs):
+            t = _coefficient_text(c, dps)
+            if c == 0 or t in ("0", "-0"):
+                continue
+            mono = "" if k == 0 else (var if k == 1 else f"{var}^{k}")
+            if not mono:
+                terms.append(t)
+            elif t in ("1", "-1"):
+                terms.append(mono if t == "1" else f"-{mono}")
+            else:
+                terms.append(f"{t} {mono}" if "/" not in t and "e" not in t else f"({t}) {mono}")
+        return " + ".join(terms).replace("+ -", "- ") if terms else "0"
+    parts = []
+    for j in range(len(Q) - 1, -1, -1):
+        if all(c == 0 for c in Q[j]):
+            continue
+        d = "f" + "'" * j
+        parts.append(f"[{poly(Q[j])}] {d}")
+    if any(c != 0 for c in P):
+        parts.append(f"[{poly(P)}]")
+    return " + ".join(parts) + " = 0"
+
+
 def _is_homogeneous(D, K, L, Q, tol):
     """Is the inhomogeneous term ``P = -(sum_j Q_j f^(j))`` truncated to degree ``L`` zero (to
     ``tol`` relative to the terms that form it)?"""
@@ -423,6 +462,14 @@ def estimate_diffapprox(series, ctx=None, order=1, count=16, max_radius_factor=2
         diag = {"how": how, "order": K, "approximants": table, "skipped": skipped, **info}
         if exact_eq:
             diag["exact_equation"] = True
+            L0, _, Q0, _ = exact_eq[0]
+            P0 = [-_equation_at(D, K, Q0, n)[0] for n in range(L0 + 1)]
+            while len(P0) > 1 and abs(P0[-1]) <= mpmath.mpf(10) ** (-prep.dps // 2) * max(
+                    [abs(v) for v in P0] + [mpmath.mpf(1)]):
+                P0.pop()
+            if len(P0) == 1 and abs(P0[0]) <= mpmath.mpf(10) ** (-prep.dps // 2):
+                P0 = [mpmath.mpf(0)]
+            diag["equation"] = equation_text(Q0, P0, "x", prep.digits)
         if probed and ens and not exact_eq:
             diag["note"] = ("the highest orders are ill-conditioned at this precision; lower orders were used "
                             "(more digits would use more terms)")

@@ -93,6 +93,15 @@ def _render(r, title):
             lines.append(f"  {name:15s} ok      {what}")
         else:
             lines.append(f"  {name:15s} {m.status.value}: {m.message}")
+    for name, m in r.methods.items():
+        eq = (m.diagnostics or {}).get("equation") if m.success else None
+        if eq:
+            lines.append("")
+            lines.append(f"the series obeys exactly ({name}, checked on every coefficient beyond those fitted; "
+                         f"f = the series in x, coefficients as rationals where they match to the working "
+                         "digits):")
+            lines.append(f"  {eq}")
+            break
     ver = d.get("verification") or {}
     if ver:
         lines.append("")

@@ -227,6 +227,9 @@ def test_exact_equation_with_a_regular_singular_point_at_the_origin(name):
     r = estimate_diffapprox(Series(c), Context(dps=60), order=1)
     assert r.success and r.diagnostics.get("exact_equation"), r.message
     assert len(r.singularities) == len(pts)
+    if name == "catalan":
+        # x (1 - 4x) C' + (1 - 2x) C - 1 = 0, from C = (1 - sqrt(1-4x))/(2x) (common practice)
+        assert r.diagnostics["equation"] == "[x - 4 x^2] f' + [1 - 2 x] f + [-1] = 0"
     for p in pts:
         s = _near(r.singularities, p)
         _check(s.re, p, 1e-40)
