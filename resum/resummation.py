@@ -20,6 +20,11 @@ Methods (exact registry keys, see :data:`METHODS`):
 ``borel-conformal-pade``
     Borel transform, conformal map of the Borel plane cut from its nearest
     singularity, Padé in the disk variable, Laplace integral;
+``ode``
+    the linear differential equation with polynomial coefficients that the series
+    obeys exactly (order 1 or 2, checked on every coefficient beyond those fitted),
+    followed by Taylor steps along the straight line from 0 (exact-equation series only;
+    :mod:`resum.estimators.resum_ode`);
 ``auto``
     factorial growth -> Borel methods (conformal when the nearest Borel
     singularity is off the positive axis), finite radius -> conformal-Padé
@@ -66,7 +71,7 @@ from .transforms.conformal import ConformalMap, PairMap, RayMap, StarMap, choose
 __all__ = ["METHODS", "evaluate", "EvaluationResult", "PointResult", "Baseline",
            "probe_strong_coupling", "parse_points", "polynomial_degree"]
 
-METHODS = ("auto", "partial-sum", "pade", "conformal-pade", "borel-pade", "borel-conformal-pade")
+METHODS = ("auto", "partial-sum", "pade", "conformal-pade", "borel-pade", "borel-conformal-pade", "ode")
 
 
 # ---------------------------------------------------------------------------- results
@@ -476,6 +481,9 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
     # convergent family
     if method == "partial-sum":
         return _Plan("partial-sum", why="requested")
+    if method == "ode":
+        return _Plan("ode", why="requested: the differential equation the series obeys exactly, continued "
+                                "along the straight line from 0")
     if method == "pade":
         return _Plan("pade", why="requested")
     radius = None
@@ -588,6 +596,9 @@ def _run(plan: _Plan, c, xs, dps, n_orders, quad_dps=None, target=None):
         return partial_sum_evaluate(c, xs, dps, n_orders=7 if n_orders is None else n_orders)
     if plan.method == "pade":
         return pade_evaluate(c, xs, dps, n_orders=7 if n_orders is None else n_orders)
+    if plan.method == "ode":
+        from .estimators.resum_ode import ode_evaluate
+        return ode_evaluate(c, xs, dps, digits=target)
     if plan.method == "conformal-pade":
         star, cross = _star_points(plan.cmap, xs)
         if not cross:

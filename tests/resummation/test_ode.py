@@ -1,0 +1,73 @@
+"""The ``ode`` method: continuation of the differential equation a series obeys exactly.
+
+Truths are closed forms evaluated by mpmath at 50 digits (common practice, no source): the
+continuation along the straight line from 0 is the product of the principal powers of
+factors with radial cuts.
+"""
+import math
+from fractions import Fraction
+
+import mpmath
+import pytest
+
+from resum.context import Context, workdps
+from resum.errors import InputError
+from resum.resummation import evaluate
+from resum.series import Series
+from tests.known_series import binomial_series
+
+
+def _two_cuts(n):
+    # (1 - x)^(-1/2) (1 + x/3)^(1/3): branch points 1 and -3
+    a = binomial_series(Fraction(-1, 2), n, scale=-1).coefficients
+    b = binomial_series(Fraction(1, 3), n, scale=3).coefficients
+    return Series([sum(a[i] * b[k - i] for i in range(k + 1)) for k in range(n)])
+
+
+def test_ode_values_beyond_both_cuts_and_off_axis():
+    r = evaluate(_two_cuts(40), ["-2.9", "2+1*I", "-5"], Context(dps=30), method="ode")
+    assert r.method == "ode" and "f'" in r.diagnostics["equation"]
+    near, off, on_cut = r.points
+    with workdps(50):
+        for p in (near, off):
+            x = mpmath.mpc(p.x)
+            t = (1 - x) ** (-mpmath.mpf(1) / 2) * (1 + x / 3) ** (mpmath.mpf(1) / 3)
+            assert p.success and p.value.contains(t.real), (p.value, t)
+            if p.imag is not None:
+                assert p.imag.contains(t.imag)
+            v = mpmath.mpc(p.value.value, p.imag.value if p.imag is not None else 0)
+            assert abs(v - t) / abs(t) < 1e-28 and p.value.digits() >= 28
+    assert not on_cut.success and "passes through a zero" in on_cut.message
+
+
+def test_ode_catalan_with_a_singular_point_of_the_equation_at_the_origin():
+    # C = (1 - sqrt(1 - 4x))/(2x): x (1 - 4x) C' + (1 - 2x) C - 1 = 0 (common practice); the
+    # continuation starts off the origin and reaches x = -3 and the side 0.3 + 1e-6 i of the cut
+    c = [Fraction(math.comb(2 * n, n), n + 1) for n in range(50)]
+    r = evaluate(Series(c), ["-3", "0.3+1e-6*I"], Context(dps=30), method="ode")
+    with workdps(50):
+        for p in r.points:
+            x = mpmath.mpc(p.x)
+            t = (1 - mpmath.sqrt(1 - 4 * x)) / (2 * x)
+            v = mpmath.mpc(p.value.value, p.imag.value if p.imag is not None else 0)
+            assert p.success and abs(v - t) / abs(t) < 1e-28, (v, t)
+            assert p.value.contains(t.real)
+
+
+def test_ode_refuses_a_divergent_series_and_a_series_with_no_equation():
+    # sum (-1)^n n! x^n obeys x^2 f' + (1 + x) f - 1 = 0, irregular at the origin (Euler's
+    # series; common practice, no source): refused with a pointer to the Borel methods
+    euler = Series([(-1) ** n * math.factorial(n) for n in range(30)])
+    r = evaluate(euler, ["1"], Context(dps=20), method="ode")
+    assert not r.points[0].success and "Borel" in r.points[0].message
+    # coefficients (k^2 + 1)^(-1/3): no linear equation with polynomial coefficients of order
+    # 1 or 2 and at most 64 unknowns reproduces them (they are not holonomic; common practice)
+    with workdps(40):
+        c = [1 / mpmath.cbrt(k * k + 1) for k in range(40)]
+    r = evaluate(Series(c, digits=40), ["2"], Context(dps=20), method="ode")
+    assert not r.points[0].success and "obeys no linear differential equation" in r.points[0].message
+
+
+def test_unknown_method_lists_ode():
+    with pytest.raises(InputError, match="ode"):
+        evaluate(_two_cuts(20), ["1"], method="odes")
