@@ -171,7 +171,7 @@ def exact_equation(D, K, dps, tol, Ls=(0, 1, 2, 3, 4)):
     return []
 
 
-def _exact_equation(D, K, dps, tol, Ls=(0, 1, 2, 3, 4, 5, 6), lead=0):
+def _exact_equation(D, K, dps, tol, Ls=(0, 1, 2, 3, 4), lead=0):
     """Approximants of the lowest order that satisfy the whole series.
 
     A series that obeys a linear ODE ``sum_j Q_j f^(j) + P = 0`` with polynomials
