@@ -66,6 +66,7 @@ from .results import Estimate, Provenance, Status, num_to_str, jsonable, point_l
 from .series.core import Series
 from .estimators.resum_band import rational_fit
 from .estimators.resum_truncation import optimal_truncation
+from .estimators._common import first_term_scale
 from .transforms.conformal import ConformalMap, PairMap, RayMap, StarMap, choose_map, crosses_pair_cut
 
 __all__ = ["METHODS", "evaluate", "EvaluationResult", "PointResult", "Baseline",
@@ -863,7 +864,7 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                     fli = max(abs(im.value), abs(re.value)) * mpmath.mpf(10) ** (-d_rep)
                     if im.error < fli:
                         im = Estimate(im.value, min(im.lower, im.value - fli), max(im.upper, im.value + fli))
-                zero_scale = _first_term_scale(c, x)
+                zero_scale = first_term_scale(c, x)
                 if success and _supports_no_digit(re, im) and _zero_within(re, im, zero_scale):
                     # the function vanishes here (to the band): no relative digit, but an
                     # absolute statement as good as the band; not a failure
@@ -917,14 +918,6 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
 #: a band that contains 0 and is this much smaller than the first term of the series at the
 #: point says the function vanishes there (common practice, no source)
 ZERO_FRACTION = mpmath.mpf("1e-3")
-
-
-def _first_term_scale(c, x):
-    """|c_k x^k| for the first non-zero coefficient: the natural size of the function at x."""
-    for k, v in enumerate(c):
-        if v != 0:
-            return abs(v) * abs(mpmath.mpmathify(x)) ** k
-    return mpmath.mpf(0)
 
 
 def _zero_within(re: Estimate, im: Optional[Estimate], scale) -> bool:

@@ -211,3 +211,12 @@ def finish(method: str, prep: Prepared, sings_u, growth: str = "finite radius", 
                         message=message, radius=radius, singularities=sings, growth=growth,
                         borel_singularity=borel, borel_exponent=borel_b, diagnostics=diag,
                         provenance=provenance(method, prep, **options))
+
+
+def first_term_scale(c, x):
+    """|c_k x^k| for the first non-zero coefficient: the natural size of the function at x
+    (the scale of an absolute statement where the value itself vanishes)."""
+    for k, v in enumerate(c):
+        if v != 0:
+            return abs(v) * abs(mpmath.mpmathify(x)) ** k
+    return mpmath.mpf(0)

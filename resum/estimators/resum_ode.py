@@ -25,6 +25,7 @@ from __future__ import annotations
 import mpmath
 
 from ..results import Estimate
+from ._common import first_term_scale
 from ._num import poly_roots
 from .diffapprox import _deriv_coeffs, _equation_at, exact_equation, exact_tolerance
 from .resum_band import PointOutcome
@@ -184,8 +185,7 @@ def ode_evaluate(c, xs, dps: int, digits: int | None = None):
         v3, _ = _continue(Q, P, K, roots, cm, x, dps + 10, max(K + 2, n - 5))
         with mpmath.workdps(dps + 10):
             # the natural size of f at x (its first term there), for a value that vanishes
-            k0 = next((k for k, v in enumerate(cm) if v != 0), 0)
-            scale = max(abs(v1), abs(cm[k0]) * abs(mpmath.mpmathify(x)) ** k0)
+            scale = max(abs(v1), first_term_scale(cm, x))
             dev = max(abs(v1 - v2), abs(v1 - v3) if v3 is not None else abs(v1) * mpmath.mpf(10) ** -5)
             err = SAFETY * dev + scale * mpmath.mpf(10) ** (-(digits + 5))
             vr, vi = mpmath.re(v1), mpmath.im(v1)
