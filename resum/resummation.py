@@ -434,6 +434,8 @@ class _Plan:
     lateral: str = "auto"
     why: str = ""
     singularities: tuple = ()      # the points the map was chosen from (conformal plans)
+    fallback: Optional["_Plan"] = None   # for points this plan cannot reach (ode)
+    input_digits: Optional[int] = None   # digits the inexact coefficients carry (ode's equation test)
 
 
 def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map, alpha,
@@ -446,7 +448,8 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
         return _Plan("partial-sum", why=f"exact polynomial of degree {deg} in {series.variable}: "
                                         f"the coefficients vanish from the next power through the last term given")
     g = _growth(c)
-    if method == "auto" and use_analysis:
+    if use_analysis and (method == "auto" or (method == "conformal-pade" and cmap is None and not singularities)):
+        # (conformal-Padé asked for without a map: the map comes from the analysis, as for auto)
         an = analysis if analysis is not None else _analysis(series, ctx)
     factorial = g["factorial"]
     if an is not None and getattr(an, "growth", ""):
@@ -484,7 +487,7 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
         return _Plan("partial-sum", why="requested")
     if method == "ode":
         return _Plan("ode", why="requested: the differential equation the series obeys exactly, continued "
-                                "along the straight line from 0")
+                                "along the straight line from 0", input_digits=series.digits)
     if method == "pade":
         return _Plan("pade", why="requested")
     radius = None
@@ -503,14 +506,30 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
         if radius is not None and all(abs(x) < radius / 4 for x in xs):
             return _Plan("partial-sum", why=f"all points inside a quarter of the radius {mpmath.nstr(radius, 8)}")
         if chosen is not None:
-            return _Plan("conformal-pade", chosen, alpha=_alpha_for(chosen, alpha, large_x_power),
-                         why=f"finite radius; map: {chosen.describe()}", singularities=_locations(sings))
-        return _Plan("pade", why="finite radius; no map could be chosen")
+            other = _Plan("conformal-pade", chosen, alpha=_alpha_for(chosen, alpha, large_x_power),
+                          why=f"finite radius; map: {chosen.describe()}", singularities=_locations(sings))
+        else:
+            other = _Plan("pade", why="finite radius; no map could be chosen")
+        if _obeys_equation(an):
+            # the series obeys a linear differential equation exactly: following it is exact up to
+            # rounding, where approximants only converge; points it cannot reach (a zero of the
+            # leading coefficient on the line) get the other plan
+            return _Plan("ode", why="the series obeys a linear differential equation exactly (found by the "
+                                    "analysis); followed along the straight line from 0; points it cannot "
+                                    f"reach: {other.method} ({other.why})",
+                         fallback=other, input_digits=series.digits)
+        return other
     if chosen is None:
         raise InputError("conformal-pade needs singularities to build a map and none were found; "
                          "give singularities=[...] or a map", where="method")
     return _Plan("conformal-pade", chosen, alpha=_alpha_for(chosen, alpha, large_x_power),
                  why=f"map: {chosen.describe()}", singularities=_locations(sings))
+
+
+def _obeys_equation(an) -> bool:
+    """The analysis found that the series obeys a differential equation exactly."""
+    m = getattr(an, "methods", {}).get("diff-approx") if an is not None else None
+    return bool(m is not None and (getattr(m, "diagnostics", None) or {}).get("exact_equation"))
 
 
 def _locations(sings) -> tuple:
@@ -557,6 +576,8 @@ def _reexpansion_guard(plan, c, series, wd) -> int:
     the digits the re-expansion in the disk variable loses to cancellation (estimated from the majorant
     series, :func:`resum._kernels.reexpand.cancellation_digits`), but never more than the
     input carries beyond ``wd`` (inexact coefficients cannot give more)."""
+    if plan.fallback is not None:
+        plan = plan.fallback          # the points an ode plan cannot reach are re-expanded
     if plan.method not in ("conformal-pade", "borel-conformal-pade") or plan.cmap is None:
         return 0
     from ._kernels.reexpand import cancellation_digits
@@ -599,7 +620,23 @@ def _run(plan: _Plan, c, xs, dps, n_orders, quad_dps=None, target=None):
         return pade_evaluate(c, xs, dps, n_orders=7 if n_orders is None else n_orders)
     if plan.method == "ode":
         from .estimators.resum_ode import ode_evaluate
-        return ode_evaluate(c, xs, dps, digits=target)
+        digits = target if plan.input_digits is None or target is None else min(target, plan.input_digits)
+        outs, diag = ode_evaluate(c, xs, dps, digits=digits)
+        miss = [j for j, o in enumerate(outs) if not o.ok]
+        if plan.fallback is None or not miss:
+            return outs, diag
+        # the points the equation cannot reach, by the fallback plan
+        o2, d2 = _run(plan.fallback, c, [xs[j] for j in miss], dps, n_orders, quad_dps, target)
+        merged = dict(d2)
+        if diag.get("equation"):
+            merged.update(diag)
+        else:
+            merged["ode_refused"] = outs[miss[0]].reason
+        for j, o in zip(miss, o2):
+            o.info["method"] = plan.fallback.method
+            o.info["ode_refused"] = outs[j].reason
+            outs[j] = o
+        return outs, merged
     if plan.method == "conformal-pade":
         star, cross = _star_points(plan.cmap, xs)
         if not cross:
@@ -638,9 +675,6 @@ def _star_points(cmap, xs):
     star = StarMap(cmap.s)
     idx = [j for j in idx if abs(star.w_of_x(xs[j])) < 1 - mpmath.mpf(10) ** -12]
     return star, idx
-    return borel_evaluate(c, xs, dps, b=plan.borel_b, cmap=plan.cmap, alpha=plan.alpha,
-                          n_orders=7 if n_orders is None else n_orders, lateral=plan.lateral,
-                          quad_dps=quad_dps, target_digits=target)
 
 
 def _perturb(c, digits):
@@ -710,7 +744,8 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
     analysis : AnalysisResult, optional
         A singularity analysis of this same series (from
         :func:`resum.analysis.analyze`) to plan the method and map from; by
-        default ``method="auto"`` runs one (without its verification reruns).
+        default ``method="auto"`` runs one (without its verification reruns), and so
+        does ``"conformal-pade"`` when neither ``cmap`` nor ``singularities`` is given.
 
     Returns
     -------
@@ -788,6 +823,7 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
         n_fail = 0
         for j, (a, x, o) in enumerate(zip(at, xs, outs)):
             pdiag = dict(o.info)
+            pdiag.pop("method", None)        # a fallback point's method: PointResult.method
             if o.info.get("rim_layer"):
                 rl = o.info["rim_layer"]
                 warnings.append(f"at {mpmath.nstr(a, 10)}: the point lies closer to the rim of the mapped disk "
@@ -884,19 +920,24 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                            "function vanishes near this point, the band is still an absolute error estimate)")
                     n_fail += 1
                     warnings.append(f"at {mpmath.nstr(a, 10)}: {msg}")
-            if re is not None and plan.method == "conformal-pade":
-                used = plan.cmap
+            p_method = o.info.get("method", plan.method)
+            p_plan = plan.fallback if p_method != plan.method else plan
+            if re is not None and p_method == "conformal-pade":
+                used = p_plan.cmap
                 if o.info.get("map", {}).get("kind") == "star":
-                    used = StarMap(plan.cmap.s)
+                    used = StarMap(p_plan.cmap.s)
                     pdiag["map"] = o.info["map"]
                     warnings.append(f"at {mpmath.nstr(a, 10)}: evaluated with radial cuts from the pair "
                                     f"({used.describe()}): the straight line from 0 crosses the pair map's "
                                     "vertical cut, and this is the continuation along that line")
-                note = branch_note(used, plan.singularities, x)
+                note = branch_note(used, p_plan.singularities, x)
                 if note:
                     pdiag["branch"] = note
                     warnings.append(f"at {mpmath.nstr(a, 10)}: {note}")
-            pts.append(PointResult(a, x, re, im, plan.method, success, status, msg, baselines[j], pdiag))
+            if o.info.get("ode_refused") and plan.method == "ode":
+                warnings.append(f"at {mpmath.nstr(a, 10)}: the differential equation was not followed "
+                                f"({o.info['ode_refused']}); {p_method} instead")
+            pts.append(PointResult(a, x, re, im, p_method, success, status, msg, baselines[j], pdiag))
     if n_fail == 0:
         status, success, message = Status.CONVERGED, True, f"{len(pts)} point(s) evaluated"
     else:

@@ -202,6 +202,11 @@ def _exact_equation(D, K, dps, tol, Ls=(0, 1, 2, 3, 4), lead=0):
         # over all coefficients is the test)
         if fit is None or not _residual_ok(D, K, Ltop, fit[0], tol):
             continue
+        if _normalisation_vanishes(fit[0], dps):
+            # Q_K has a zero of higher order at 0 than this normalisation says: the solution is
+            # the true equation times a huge factor plus rounding (measured: log(1+x)/x with
+            # Q_1 = 1 - 5e113 (x + x^2) at 116 digits); the next ``lead`` finds it
+            return []
         out = [(Ltop, Ms, fit[0], fit[1])]
         for L in Ls:
             if L >= Ltop:
@@ -211,6 +216,13 @@ def _exact_equation(D, K, dps, tol, Ls=(0, 1, 2, 3, 4), lead=0):
                 out.append((L, Ms, f2[0], f2[1]))
         return sorted(out, key=lambda t: t[0])
     return []
+
+
+def _normalisation_vanishes(Q, dps) -> bool:
+    """The fitted coefficients dwarf the normalising one (which is 1) by more than a third of the
+    working digits: the normalisation fixes a coefficient that is zero."""
+    big = max((abs(v) for q in Q for v in q), default=0)
+    return big > mpmath.mpf(10) ** (dps / 3)
 
 
 def exact_tolerance(digits) -> float:

@@ -113,6 +113,9 @@ def _render(result, title, reference):
         lines.append(f"points are values of the coupling ({result.coupling})")
     lines.append("")
     rows = [(at_name, "resummed value(band)", "digits", "optimal truncation (terms)", "status")]
+    mixed = len({getattr(p, "method", "") for p in result.points}) > 1     # ode with fallback points
+    if mixed:
+        rows[0] = rows[0] + ("method",)
     for p in result.points:
         base = "-"
         if p.baseline is not None:
@@ -123,7 +126,7 @@ def _render(result, title, reference):
             # at a complex point the imaginary part is part of the value, not an ambiguity
             val = f"{val} {'-' if p.imag.value < 0 else '+'} i*{_fmt(_abs_est(p.imag))}"
             dig = f"{min(p.value.digits(), p.imag.digits()):.1f}" if p.value.error and p.imag.error else dig
-        rows.append((mpmath.nstr(p.at, 12), val, dig, base, p.status.value))
+        rows.append((mpmath.nstr(p.at, 12), val, dig, base, p.status.value) + ((p.method,) if mixed else ()))
     widths = [max(len(r[i]) for r in rows) for i in range(len(rows[0]))]
     for k, r in enumerate(rows):
         lines.append("  ".join(c.ljust(w) for c, w in zip(r, widths)).rstrip())
@@ -187,5 +190,11 @@ def _render(result, title, reference):
             if not any(w.endswith(p.message) for p in fails if p.message):
                 lines.append(f"  {w}")
     lines.append("")
-    lines.append(BAND_MEANING_ODE if getattr(result, "method", "") == "ode" else BAND_MEANING)
+    methods = {getattr(p, "method", "") for p in result.points}
+    if "ode" in methods or getattr(result, "method", "") == "ode":
+        lines.append(BAND_MEANING_ODE)
+    if methods - {"ode"}:
+        if "ode" in methods:
+            lines.append("")
+        lines.append(BAND_MEANING)
     return "\n".join(lines) + "\n"

@@ -71,3 +71,44 @@ def test_ode_refuses_a_divergent_series_and_a_series_with_no_equation():
 def test_unknown_method_lists_ode():
     with pytest.raises(InputError, match="ode"):
         evaluate(_two_cuts(20), ["1"], method="odes")
+
+
+def test_auto_follows_the_equation_and_falls_back_off_its_reach():
+    # the same two-cut product, as exact rationals and as 50-digit decimals: method auto finds
+    # that the series obeys an equation (the analysis) and follows it; -5 lies on the cut from -3,
+    # where the equation cannot be followed: that point goes to conformal-Padé, which refuses it
+    # (on the cut) as well. Truth: the closed form, mpmath at 50 digits (common practice, no source)
+    exact = _two_cuts(40)
+    with workdps(50):
+        dec = Series([mpmath.mpf(v.numerator) / v.denominator for v in exact.coefficients], digits=50)
+    for s in (exact, dec):
+        r = evaluate(s, ["-2.9", "2+1*I", "0.9", "-5"], Context(dps=30))
+        assert r.provenance.method == "ode" and "conformal-pade" in r.provenance.options["why"]
+        *good, on_cut = r.points
+        with workdps(50):
+            for p in good:
+                x = mpmath.mpc(p.x)
+                t = (1 - x) ** (-mpmath.mpf(1) / 2) * (1 + x / 3) ** (mpmath.mpf(1) / 3)
+                v = mpmath.mpc(p.value.value, p.imag.value if p.imag is not None else 0)
+                assert p.method == "ode" and p.success and p.value.contains(t.real)
+                assert abs(v - t) / abs(t) < 1e-29 and p.value.digits() >= 29
+        assert on_cut.method == "conformal-pade" and not on_cut.success
+        assert any("equation was not followed" in w for w in r.warnings)
+
+
+def test_equation_with_a_zero_of_the_leading_coefficient_at_the_origin_is_normalised_there():
+    # log(1+x)/x obeys (x + x^2) f' + (1 + x) f - 1 = 0 (common practice, no source); normalising
+    # Q_1(0) = 1 used to return that equation times 1e113 plus rounding, whose leading
+    # coefficient had a spurious zero near 0 that blocked every path
+    from resum.estimators.resum_ode import find_equation
+    with workdps(120):
+        c = [mpmath.mpf((-1) ** k) / (k + 1) for k in range(60)]
+        K, Q, P = find_equation(c, 120, 100)
+        assert K == 1 and Q[1][0] == 0
+        q = Q[1]
+        assert abs(q[2] / q[1] - 1) < 1e-60 and all(abs(v) < 1e-60 * abs(q[1]) for v in q[3:])
+    r = evaluate(Series([Fraction((-1) ** k, k + 1) for k in range(60)]), ["10"], Context(dps=30))
+    with workdps(50):
+        t = mpmath.log(11) / 10
+    p = r.points[0]
+    assert p.method == "ode" and p.value.contains(t) and abs(p.value.value - t) < 1e-30

@@ -114,7 +114,7 @@ def test_complex_pair_off_the_axis_gets_a_map(b1, p, x, want):
     # both singular at infinity too. Before, such a pair got no conformal map and plain Padé
     # reached 2.6 digits at x = 2 from 40 terms; the pair map gives 9.2. Truth: mpmath's
     # principal power (the quadratic is positive on the real axis).
-    res = evaluate(_power_of_quadratic(b1, 1, p, 40), [x], Context(dps=20))
+    res = evaluate(_power_of_quadratic(b1, 1, p, 40), [x], Context(dps=20), method="conformal-pade")
     pt = res.points[0]
     assert pt.method == "conformal-pade" and res.provenance.options["map"]["kind"] == "pair"
     with workdps(50):
@@ -133,7 +133,7 @@ def test_second_cut_on_the_other_side_is_mapped():
     a = binomial_series(Fraction(-1, 2), n, scale=-1).coefficients
     b = binomial_series(Fraction(1, 3), n, scale=3).coefficients
     s = Series([sum(a[i] * b[k - i] for i in range(k + 1)) for k in range(n)])
-    r = evaluate(s, ["-2.9"], Context(dps=30))
+    r = evaluate(s, ["-2.9"], Context(dps=30), method="conformal-pade")
     assert r.diagnostics["map"]["kind"] == "arc", r.diagnostics["map"]
     p = r.points[0]
     with workdps(50):
@@ -171,7 +171,7 @@ def test_point_beyond_a_vertical_cut_of_the_pair_map_gets_radial_cuts():
     # value came out on the other branch with no word. A point beyond a vertical cut now gets
     # the star map (radial cuts) and the straight-line value; x = 2 keeps the pair map
     c = quadratic_series(Fraction(1, 3), Fraction(-3, 2), 9, 60)
-    r = evaluate(Series(c), ["0.1834148615 + 0.9830355988*I", "2"], Context(dps=20))
+    r = evaluate(Series(c), ["0.1834148615 + 0.9830355988*I", "2"], Context(dps=20), method="conformal-pade")
     assert r.diagnostics["map"]["kind"] == "pair"
     far, real = r.points
     assert far.diagnostics["map"]["kind"] == "star" and "map" not in real.diagnostics
@@ -198,7 +198,21 @@ def test_point_beyond_an_unmapped_complex_pair_is_flagged():
     for p, s in ((Fraction(2, 5), Fraction(-1, 3)), (Fraction(3, 2), Fraction(-1, 4))):
         b = binomial_series(p, n, scale=-s).coefficients
         c = [sum(c[i] * b[k - i] for i in range(k + 1)) for k in range(n)]
-    r = evaluate(Series(c), ["-2.323549565 + 0.922560252*I", "1"], Context(dps=20))
+    r = evaluate(Series(c), ["-2.323549565 + 0.922560252*I", "1"], Context(dps=20), method="conformal-pade")
     far, near = r.points
     assert "beyond" in far.diagnostics.get("branch", ""), far.diagnostics.get("branch")
     assert "branch" not in near.diagnostics
+    # method auto follows the differential equation the product obeys, along the straight line,
+    # so the same point gets the straight-line value itself (closed form at 50 digits)
+    far = evaluate(Series(c), ["-2.323549565 + 0.922560252*I"], Context(dps=20)).points[0]
+    assert far.method == "ode"
+    with workdps(50):
+        x = mpmath.mpc("-2.323549565", "0.922560252")
+        t = ((1 + 3 * x / 2 + x * x) ** (mpmath.mpf(1) / 2) * (1 + 3 * x) ** (mpmath.mpf(2) / 5)
+             * (1 + 4 * x) ** (mpmath.mpf(3) / 2))
+        u = (mpmath.sqrt(1 - x / mpmath.mpc(-0.75, mpmath.sqrt(7) / 4))
+             * mpmath.sqrt(1 - x / mpmath.mpc(-0.75, -mpmath.sqrt(7) / 4))
+             * (1 + 3 * x) ** (mpmath.mpf(2) / 5) * (1 + 4 * x) ** (mpmath.mpf(3) / 2))
+        v = mpmath.mpc(far.value.value, far.imag.value)
+        assert abs(v / u - 1) < 1e-18 and far.value.contains(u.real) and far.imag.contains(u.imag)
+        assert abs(t / u - 1) < 1e-40      # here also the principal power of the whole product
