@@ -22,8 +22,12 @@ band is 10 times the larger change (an estimate, not a proof). Common practice
 """
 from __future__ import annotations
 
+import math
+
+import flint
 import mpmath
 
+from .._kernels.flint_bridge import acb_to_mpc, flint_prec, to_acb
 from ..results import Estimate
 from ._common import first_term_scale
 from ._num import poly_roots
@@ -77,43 +81,55 @@ def _step(Q, P, K, z, init, h, eps):
     """Values ``f^(j)(z + h)``, ``j < K``, from ``init = [f^(j)(z)]`` by the local Taylor series
     of the equation's solution at ``z``. Scaled coefficients ``b_n = a_n h^n`` (``|h|`` is at
     most half the local radius, so ``|b_n|`` falls like ``2^-n``); summed until five in a row
-    are below ``eps`` times the largest."""
+    are below ``eps`` times the largest.
+
+    The recurrence runs on FLINT complex numbers at the current mpmath precision plus 20 bits,
+    midpoints only (the ball radii are dropped at every step: the rounding is measured by the
+    rerun at higher precision instead); about 15 times faster than mpmath numbers."""
     q = [_shift(qj, z) for qj in Q]
     p = _shift(P, z)
-    top = max(len(qj) for qj in q) + K + 2
-    hp = [mpmath.mpf(1)]
-    for _ in range(max(top, len(p) + K + 1)):
-        hp.append(hp[-1] * h)
-    # the terms of the recurrence, (q value, j, i) with the power of h they carry
-    terms = [(qv * hp[i + K - j], j, i) for j in range(K + 1) for i, qv in enumerate(q[j])
-             if qv != 0 and not (j == K and i == 0)]
-    lead = q[K][0]
-    b = [init[j] * hp[j] / mpmath.factorial(j) for j in range(K)]
-    big = max([abs(v) for v in b] + [mpmath.mpf(0)])
-    small = 0
-    m = 0
-    while small < 5 and m < 20000:
-        # coefficient of u^m: sum_j sum_i q_j[i] a_{m-i+j} (m-i+j)!/(m-i)! + p[m] = 0, scaled by h^(m+K)
-        acc = p[m] * hp[m + K] if m < len(p) else 0
-        for qh, j, i in terms:
-            n = m - i + j
-            if m - i < 0:
-                continue
-            f = 1 if j == 0 else (n if j == 1 else n * (n - 1))
-            acc += qh * b[n] * f
-        fk = (m + 1) if K == 1 else (m + 2) * (m + 1)
-        new = -acc / (lead * fk)
-        b.append(new)
-        big = max(big, abs(new))
-        small = small + 1 if abs(new) <= eps * big else 0
-        m += 1
-    out = []
-    for j in range(K):
-        s = 0
-        for n in range(j, len(b)):
-            s += b[n] * (1 if j == 0 else n)
-        out.append(s / hp[j])
-    return out
+    with flint_prec(mpmath.mp.prec + 20):
+        A = flint.acb
+        hA = to_acb(h)
+        top = max(max(len(qj) for qj in q) + K + 2, len(p) + K + 1)
+        hp = [A(1)]
+        for _ in range(top):
+            hp.append((hp[-1] * hA).mid())
+        # the terms of the recurrence, (q value, j, i) with the power of h they carry
+        terms = [((to_acb(qv) * hp[i + K - j]).mid(), j, i) for j in range(K + 1)
+                 for i, qv in enumerate(q[j]) if qv != 0 and not (j == K and i == 0)]
+        pt = [(to_acb(pv) * hp[m + K]).mid() for m, pv in enumerate(p)]
+        lead = to_acb(q[K][0])
+        b = [(to_acb(init[j]) * hp[j] / math.factorial(j)).mid() for j in range(K)]
+        big = max([abs(v).mid() for v in b] + [flint.arb(0)])
+        epsA = to_acb(eps).real
+        small = 0
+        m = 0
+        while small < 5 and m < 20000:
+            # coefficient of u^m: sum_j sum_i q_j[i] a_{m-i+j} (m-i+j)!/(m-i)! + p[m] = 0, scaled
+            # by h^(m+K)
+            acc = pt[m] if m < len(pt) else A(0)
+            for qh, j, i in terms:
+                if m - i < 0:
+                    continue
+                n = m - i + j
+                f = 1 if j == 0 else (n if j == 1 else n * (n - 1))
+                acc += qh * b[n] * f
+            fk = (m + 1) if K == 1 else (m + 2) * (m + 1)
+            new = (-acc / (lead * fk)).mid()
+            b.append(new)
+            mag = abs(new).mid()
+            if mag > big:
+                big = mag
+            small = small + 1 if mag <= epsA * big else 0
+            m += 1
+        out = []
+        for j in range(K):
+            acc = A(0)
+            for n in range(j, len(b)):
+                acc += b[n] * (1 if j == 0 else n)
+            out.append(acb_to_mpc((acc / hp[j]).mid()))
+    return [mpmath.mpf(v.real) if v.imag == 0 else v for v in out]
 
 
 def _continue(Q, P, K, roots, c, x, dps, n_terms):

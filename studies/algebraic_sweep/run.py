@@ -113,7 +113,7 @@ def evaluate_case(c, truth, rng, dps):
     """Resummed values at three random points (0.5 to 10 times the radius, any direction)
     against the continuation along the straight line from 0 (the product of the principal
     powers of the factors, each cut radially). Returns (lines, n_points, n_miss, n_flagged_miss,
-    n_no_value)."""
+    n_no_value, {method: [digits correct of each value]})."""
     from resum.resummation import evaluate
     with workdps(60):
         rmin = min(abs(z) for z in truth)
@@ -121,6 +121,7 @@ def evaluate_case(c, truth, rng, dps):
                for _ in range(3)]
     r = evaluate(Series(c), [mpmath.nstr(p, 25) for p in pts], Context(dps=dps))
     lines, n, miss, flagged, none = [], 0, 0, 0, 0
+    digits = {}
     with workdps(60):
         for p in r.points:
             x = mpmath.mpc(p.x)
@@ -132,16 +133,18 @@ def evaluate_case(c, truth, rng, dps):
                 lines.append(f"{mpmath.nstr(x, 6)}: no value ({p.status.value})")
                 continue
             n += 1
+            v = mpmath.mpc(p.value.value, p.imag.value if p.imag is not None else 0)
+            err = abs(v - f) / abs(f)
+            digits.setdefault(p.method, []).append(float(-mpmath.log10(err)) if err else 60.0)
             ok = p.value.contains(f.real) and (p.imag.contains(f.imag) if p.imag is not None
                                                else abs(f.imag) <= mpmath.mpf(10) ** -30 * abs(f))
             if not ok:
                 miss += 1
                 note = "branch" in p.diagnostics
                 flagged += note
-                v = mpmath.mpc(p.value.value, p.imag.value if p.imag is not None else 0)
                 lines.append(f"{mpmath.nstr(x, 6)}: MISS {mpmath.nstr(v, 10)} vs {mpmath.nstr(f, 10)} (claimed "
                              f"{p.value.digits():.1f} digits{'; flagged: may be another branch' if note else ''})")
-    return lines, n, miss, flagged, none
+    return lines, n, miss, flagged, none, digits
 
 
 def main(argv=None):
@@ -160,10 +163,13 @@ def main(argv=None):
     t0 = time.time()
     if args.evaluate:
         tot = [0, 0, 0, 0]
+        by_method = {}
         for i in range(args.cases):
             desc, c, truth = make_case(rng)
             t = time.time()
-            lines, n, miss, flagged, none = evaluate_case(c, truth, rng, 20)
+            lines, n, miss, flagged, none, digits = evaluate_case(c, truth, rng, 20)
+            for m, ds in digits.items():
+                by_method.setdefault(m, []).extend(ds)
             for k, v in enumerate((n, miss, flagged, none)):
                 tot[k] += v
             print(f"{i:3d} {len(c):3d} terms {time.time() - t:5.1f}s {desc}: "
@@ -171,6 +177,9 @@ def main(argv=None):
         print(f"\n{tot[0]} values, {tot[0] - tot[1]} inside their band; {tot[1]} misses, of which {tot[2]} "
               f"flagged as possibly another branch; {tot[3]} points without a value; "
               f"{time.time() - t0:.0f} s")
+        for m, ds in sorted(by_method.items()):
+            ds.sort()
+            print(f"  {m}: {len(ds)} values, digits correct min {ds[0]:.1f}, median {ds[len(ds) // 2]:.1f}")
         return 0
 
     n_bad, n_exact = 0, 0
