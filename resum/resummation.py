@@ -436,6 +436,7 @@ class _Plan:
     singularities: tuple = ()      # the points the map was chosen from (conformal plans)
     fallback: Optional["_Plan"] = None   # for points this plan cannot reach (ode)
     input_digits: Optional[int] = None   # digits the inexact coefficients carry (ode's equation test)
+    coefficients_at: Any = None          # exact input: d -> coefficients at d digits (ode's refit)
 
 
 def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map, alpha,
@@ -487,7 +488,8 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
         return _Plan("partial-sum", why="requested")
     if method == "ode":
         return _Plan("ode", why="requested: the differential equation the series obeys exactly, continued "
-                                "along the straight line from 0", input_digits=series.digits)
+                                "along the straight line from 0", input_digits=series.digits,
+                     coefficients_at=_exact_source(series))
     if method == "pade":
         return _Plan("pade", why="requested")
     radius = None
@@ -510,14 +512,14 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
                           why=f"finite radius; map: {chosen.describe()}", singularities=_locations(sings))
         else:
             other = _Plan("pade", why="finite radius; no map could be chosen")
-        if _obeys_equation(an):
+        if _obeys_equation(an) or (series.is_exact and _exact_second_order(c, ctx)):
             # the series obeys a linear differential equation exactly: following it is exact up to
             # rounding, where approximants only converge; points it cannot reach (a zero of the
             # leading coefficient on the line) get the other plan
             return _Plan("ode", why="the series obeys a linear differential equation exactly (found by the "
                                     "analysis); followed along the straight line from 0; points it cannot "
                                     f"reach: {other.method} ({other.why})",
-                         fallback=other, input_digits=series.digits)
+                         fallback=other, input_digits=series.digits, coefficients_at=_exact_source(series))
         return other
     if chosen is None:
         raise InputError("conformal-pade needs singularities to build a map and none were found; "
@@ -530,6 +532,26 @@ def _obeys_equation(an) -> bool:
     """The analysis found that the series obeys a differential equation exactly."""
     m = getattr(an, "methods", {}).get("diff-approx") if an is not None else None
     return bool(m is not None and (getattr(m, "diagnostics", None) or {}).get("exact_equation"))
+
+
+def _exact_source(series):
+    """For exact coefficients, a function giving them at any number of digits."""
+    if not series.is_exact:
+        return None
+    return lambda d: series.dense(Context(dps=d, guard=0))
+
+
+def _exact_second_order(c, ctx) -> bool:
+    """Exact coefficients obey a linear differential equation of order 1 or 2 exactly (the plan's
+    analysis only searches order 1). About a second for a long series that obeys none."""
+    from .estimators.resum_ode import find_equation
+    d = max(ctx.work_dps, mpmath.mp.dps) + 10       # the evaluation's working digits (long series)
+    with _wd(d):
+        cm = [mpmath.mpmathify(v) for v in c]
+        try:
+            return find_equation(cm, d, d - 10) is not None
+        except (ValueError, ZeroDivisionError, ArithmeticError):
+            return False
 
 
 def _locations(sings) -> tuple:
@@ -621,7 +643,9 @@ def _run(plan: _Plan, c, xs, dps, n_orders, quad_dps=None, target=None):
     if plan.method == "ode":
         from .estimators.resum_ode import ode_evaluate
         digits = target if plan.input_digits is None or target is None else min(target, plan.input_digits)
-        outs, diag = ode_evaluate(c, xs, dps, digits=digits)
+        at = plan.coefficients_at
+        outs, diag = ode_evaluate(c, xs, dps, digits=digits,
+                                  coefficients_at=None if at is None else (lambda d: at(d)[:len(c)]))
         miss = [j for j, o in enumerate(outs) if not o.ok]
         if plan.fallback is None or not miss:
             return outs, diag
@@ -863,7 +887,10 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                     # the precision rerun widens the band; the fewer-terms rerun only checks it
                     # (its own band must reach the full-order value), and widens when it fails to
                     prec = [oc for name, oc in checks[j] if name == "higher precision" and oc is not None and oc.ok]
-                    few = [oc for name, oc in checks[j] if name != "higher precision" and oc is not None and oc.ok]
+                    # (a rerun that used another method than this point, e.g. ode against its
+                    # conformal fallback, checks nothing about this point's band)
+                    few = [oc for name, oc in checks[j] if name != "higher precision" and oc is not None and oc.ok
+                           and oc.info.get("method", plan.method) == o.info.get("method", plan.method)]
                     re = _widen(re, [oc.re for oc in prec])
                     parts["precision rerun"] = mpmath.nstr(re.error, 5)
                     if im is not None:

@@ -10,9 +10,13 @@ the Taylor coefficients of the solution at the current centre follow from the
 equation by a recurrence, and the step is at most half the distance to the nearest
 zero of ``Q_K`` (where solutions can be singular), so each local series converges
 at least like ``2^-n``. The value is thus the continuation along the straight line
-from 0 (for radial cuts, the principal branch). A point whose line passes within
-``1e-8 |x|`` of a zero of ``Q_K`` is refused (it lies on a cut, or beside an apparent
-singular point of the equation). A series whose equation has an irregular singular
+from 0 (for radial cuts, the principal branch). A zero of ``Q_K`` within ``1e-8 |x|`` of
+the line is gone round by two half circles, one on each side: if both arrive at the same
+values, the function is single-valued there (a pole, or an apparent singular point of the
+equation) and the walk goes on; if not, the point lies beyond a branch point on its line
+and is refused. For exact input a small gap (below 1e-8) is taken for an apparent point
+seen through an equation fitted at too few digits, and the point is retried once with the
+equation fitted at twice the digits. A series whose equation has an irregular singular
 point at the origin (a divergent series such as ``sum (-1)^n n! x^n``) is refused.
 
 The band: the whole continuation is run twice, at the working precision and with
@@ -132,8 +136,62 @@ def _step(Q, P, K, z, init, h, eps):
     return [mpmath.mpf(v.real) if v.imag == 0 else v for v in out]
 
 
-def _continue(Q, P, K, roots, c, x, dps, n_terms):
-    """``f(x)`` by continuation along the straight line from 0 (None and a reason if refused)."""
+#: a zero of Q_K closer than this (relative to |x|) to the straight line lies on the path
+ON_PATH = mpmath.mpf(10) ** -8
+
+#: chords of each half circle around a zero on the path (each 2 sin(pi/16) = 0.39 of the radius,
+#: below the half-radius step limit)
+ARC_CHORDS = 8
+
+
+def _walk(Q, P, K, roots, z, target, vals, eps):
+    """Taylor steps along the segment from ``z`` to ``target`` (which stays off the zeros of
+    ``Q_K``), each at most half the distance to the nearest zero."""
+    while True:
+        rem = abs(target - z)
+        if rem <= eps * max(1, abs(target)):
+            return vals
+        near = min((abs(z - r) for r in roots), default=mpmath.inf)
+        h = (target - z) / rem * min(rem, near / 2)
+        vals = _step(Q, P, K, z, vals, h, eps)
+        z = z + h
+
+
+def _clusters(roots, tol):
+    """Roots closer than ``tol`` (relative) merged into their mean."""
+    out = []
+    for r in roots:
+        for k, (m, n) in enumerate(out):
+            if abs(r - m / n) <= tol * max(1, abs(r)):
+                out[k] = (m + r, n + 1)
+                break
+        else:
+            out.append((r, 1))
+    return [m / n for m, n in out]
+
+
+def _path_zeros(roots, z0, x):
+    """Zeros of Q_K on the open segment (z0, x), ordered along it: (parameter t, zero)."""
+    d = x - z0
+    out = []
+    for r in roots:
+        t = mpmath.re((r - z0) * mpmath.conj(d)) / abs(d) ** 2
+        if 0 < t < 1 and abs(z0 + t * d - r) <= ON_PATH * max(1, abs(x)):
+            out.append((t, r))
+    return sorted(out, key=lambda tr: tr[0])
+
+
+def _continue(Q, P, K, roots, c, x, dps, n_terms, digits):
+    """``f(x)`` by continuation along the straight line from 0 (None and a reason if refused).
+
+    A zero ``r`` of ``Q_K`` on the line is passed by two half circles, one on each side; if the
+    two arrive at the same values (to the working precision), ``f`` is single-valued around ``r``
+    (an apparent singular point of the equation, or a pole of ``f``) and the walk goes on with
+    their mean; otherwise ``r`` is a branch point of ``f`` on the path and the point is refused.
+    "The same" is to ``digits`` relative digits. At an apparent point the fitted equation's own
+    error opens a small gap (2e-31 measured for sqrt(1 + x) + (1 + x/2)^(-1/3) from 80 terms at 90
+    digits), which the solutions that grow along the rest of the path may amplify (to 1e-5 at
+    x = 100 there): ``digits`` must be close to the precision of the equation's coefficients."""
     with mpmath.workdps(dps):
         x = mpmath.mpmathify(x)
         eps = mpmath.mpf(10) ** (-dps)
@@ -149,64 +207,132 @@ def _continue(Q, P, K, roots, c, x, dps, n_terms):
         cs = list(c[:n_terms])
         vals = [sum(cs[n] * mpmath.ff(n, j) * z ** (n - j) for n in range(j, len(cs))) for j in range(K)]
         if z == x:
-            return vals[0], ""
+            return vals[0], "", None
+        if min((abs(x - r) for r in roots), default=mpmath.inf) <= ON_PATH * max(1, abs(x)):
+            return None, (f"{mpmath.nstr(x, 10)} is a zero of the equation's leading coefficient (a singular "
+                          "point of the equation): no value there"), None
         direction = (x - z) / abs(x - z)
-        for _ in range(100000):
-            rem = abs(x - z)
-            if rem <= eps * abs(x):
-                break           # at the point to the working precision
-            near = min((abs(z - r) for r in roots), default=mpmath.inf)
-            if near <= mpmath.mpf(10) ** -8 * max(1, abs(x)):
+        tol = mpmath.mpf(10) ** (-digits)
+        # a multiple zero comes out of the root finder as a tight cluster: one point to go round
+        centres = _clusters(roots, mpmath.mpf(10) ** (-dps / 4))
+        for _, r in _path_zeros(centres, z, x):
+            others = [abs(r - q) for q in centres if q != r] + [abs(r), abs(x - r)]
+            rad = min(others) / 2
+            z1 = r - direction * rad
+            vals = _walk(Q, P, K, roots, z, z1, vals, eps)
+            ends = []
+            for side in (1, -1):
+                v, w = vals, z1
+                for k in range(1, ARC_CHORDS + 1):
+                    w2 = r - direction * rad * mpmath.expj(side * mpmath.pi * k / ARC_CHORDS)
+                    v = _walk(Q, P, K, roots, w, w2, v, eps)
+                    w = w2
+                ends.append(v)
+            (up, down) = ends
+            scale = max([abs(a) for a in up + down] + [eps])
+            gap = max(abs(a - b) for a, b in zip(up, down)) / scale
+            if gap > tol:
+                rr = mpmath.re(r) if abs(mpmath.im(r)) <= tol * abs(r) else r
                 return None, (f"the straight line from 0 to {mpmath.nstr(x, 10)} passes through a zero of the "
-                              "equation's leading coefficient (a branch point on the path, or an apparent "
-                              "singular point of the equation); to pick a side of a cut, give the point a "
-                              "small imaginary part (for example add 1e-6*I)")
-            h = direction * min(rem, near / 2)
-            vals = _step(Q, P, K, z, vals, h, eps)
-            z = z + h
-        return vals[0], ""
+                              f"equation's leading coefficient at {mpmath.nstr(rr, 10)}, and going round it on "
+                              "either side gives different values (a branch point of the function, or an "
+                              "equation not known accurately enough there); to pick a side of a cut, give the "
+                              "point a small imaginary part (for example add 1e-6*I)"), gap
+            vals = [(a + b) / 2 for a, b in zip(up, down)]
+            z = r + direction * rad
+        vals = _walk(Q, P, K, roots, z, x, vals, eps)
+        return vals[0], "", None
 
 
-def ode_evaluate(c, xs, dps: int, digits: int | None = None):
-    """Values at ``xs`` from the exact equation of ``c`` (see the module docstring).
+#: a gap below this (relative) when going round a zero of Q_K on the path means an apparent
+#: singular point seen through an inexact equation, worth one refit at twice the digits
+REFIT_GAP = mpmath.mpf(10) ** -8
 
-    Returns ``(outcomes, diagnostics)`` like the other evaluators."""
-    digits = dps if digits is None else digits
+
+def _prepare(c, dps, digits):
+    """(K, Q, P, roots, None) of the equation of ``c`` fitted at ``dps + 10`` digits, or
+    (None, ..., reason) when there is none or the origin is irregular."""
     with mpmath.workdps(dps + 10):
         cm = [mpmath.mpmathify(v) for v in c]
         eq = find_equation(cm, dps + 10, digits)
     if eq is None:
-        why = ("the series obeys no linear differential equation of order 1 or 2 with polynomial "
-               "coefficients (up to 64 unknowns) exactly: use another method")
-        return [PointOutcome(None, None, False, why, {}) for _ in xs], {"equation": None}
+        return None, None, None, None, ("the series obeys no linear differential equation of order 1 or 2 with "
+                                        "polynomial coefficients (up to 64 unknowns) exactly: use another method")
     K, Q, P = eq
     if not _regular_at_origin(Q, K):
-        why = ("the origin is an irregular singular point of the equation the series obeys (the series "
-               "diverges, or its sum is not fixed by it there): use a Borel method")
-        return [PointOutcome(None, None, False, why, {}) for _ in xs], {"equation": None}
+        return None, None, None, None, ("the origin is an irregular singular point of the equation the series "
+                                        "obeys (the series diverges, or its sum is not fixed by it there): use a "
+                                        "Borel method")
     with mpmath.workdps(dps + 10):
         roots = [r for r in poly_roots(Q[K], dps + 10) if r != 0] + (
             [mpmath.mpf(0)] if Q[K][0] == 0 else [])
+    return K, Q, P, roots, None
+
+
+def _value(eq, cm, x, dps, digits):
+    """(Estimate re, Estimate im or None, info) at ``x``, or (None, reason, gap)."""
+    K, Q, P, roots = eq
+    n = len(cm)
+    # going round a zero of Q_K must give the same values to the digits the equation was fitted
+    # with (less 20 for the fit's conditioning), whatever the precision of the walk
+    same = max(digits, dps - 10)
+    v1, why, gap = _continue(Q, P, K, roots, cm, x, dps + 10, n, same)
+    if v1 is None:
+        return None, why, gap
+    v2, why2, _ = _continue(Q, P, K, roots, cm, x, dps + 30, n, same)
+    v3, why3, _ = _continue(Q, P, K, roots, cm, x, dps + 10, max(K + 2, n - 5), same)
+    if v2 is None or v3 is None:
+        return None, "the reruns could not follow the path: " + (why2 or why3), None
+    with mpmath.workdps(dps + 10):
+        # the natural size of f at x (its first term there), for a value that vanishes
+        scale = max(abs(v1), first_term_scale(cm, x))
+        dev = max(abs(v1 - v2), abs(v1 - v3))
+        err = SAFETY * dev + scale * mpmath.mpf(10) ** (-(digits + 5))
+        vr, vi = mpmath.re(v1), mpmath.im(v1)
+        re = Estimate(vr, vr - err, vr + err)
+        im = Estimate(vi, vi - err, vi + err) if (isinstance(mpmath.mpmathify(x), mpmath.mpc) or vi != 0) else None
+    return re, im, {"how": "continuation of the exact equation along the straight line from 0",
+                    "rerun_change": mpmath.nstr(dev, 5)}
+
+
+def ode_evaluate(c, xs, dps: int, digits: int | None = None, coefficients_at=None):
+    """Values at ``xs`` from the exact equation of ``c`` (see the module docstring).
+
+    ``coefficients_at(d)``, if given, returns the coefficients at ``d`` digits (exact input): a
+    point refused because going round an apparent singular point of the equation left a small
+    gap is retried once with the equation fitted at twice the digits.
+
+    Returns ``(outcomes, diagnostics)`` like the other evaluators."""
+    digits = dps if digits is None else digits
+    K, Q, P, roots, why = _prepare(c, dps, digits)
+    if why:
+        return [PointOutcome(None, None, False, why, {}) for _ in xs], {"equation": None}
     from .diffapprox import equation_text
     diag = {"equation": equation_text(Q, P, "x", digits), "order": K,
             "singular_points": [mpmath.nstr(r, 15) for r in roots]}
+    with mpmath.workdps(dps + 10):
+        cm = [mpmath.mpmathify(v) for v in c]
     outs = []
-    n = len(c)
+    fine = None
     for x in xs:
-        v1, why = _continue(Q, P, K, roots, cm, x, dps + 10, n)
-        if v1 is None:
-            outs.append(PointOutcome(None, None, False, why, {}))
+        re, im, info = _value((K, Q, P, roots), cm, x, dps, digits)
+        if re is None and info is not None and info < REFIT_GAP and coefficients_at is not None:
+            if fine is None:
+                d2 = 2 * dps + 20
+                c2 = coefficients_at(d2 + 10)
+                K2, Q2, P2, roots2, why2 = _prepare(c2, d2, d2 - 10)
+                with mpmath.workdps(d2 + 10):
+                    fine = (None if why2 else ((K2, Q2, P2, roots2), [mpmath.mpmathify(v) for v in c2], d2))
+                if fine is None:
+                    fine = False
+            if fine:
+                eq2, cm2, d2 = fine
+                re2, im2, info2 = _value(eq2, cm2, x, d2, digits)
+                if re2 is not None:
+                    re, im, info = re2, im2, dict(info2, refit_digits=d2)
+                    diag["refit_digits"] = d2
+        if re is None:
+            outs.append(PointOutcome(None, None, False, im, {}))
             continue
-        v2, _ = _continue(Q, P, K, roots, cm, x, dps + 30, n)
-        v3, _ = _continue(Q, P, K, roots, cm, x, dps + 10, max(K + 2, n - 5))
-        with mpmath.workdps(dps + 10):
-            # the natural size of f at x (its first term there), for a value that vanishes
-            scale = max(abs(v1), first_term_scale(cm, x))
-            dev = max(abs(v1 - v2), abs(v1 - v3) if v3 is not None else abs(v1) * mpmath.mpf(10) ** -5)
-            err = SAFETY * dev + scale * mpmath.mpf(10) ** (-(digits + 5))
-            vr, vi = mpmath.re(v1), mpmath.im(v1)
-            re = Estimate(vr, vr - err, vr + err)
-            im = Estimate(vi, vi - err, vi + err) if (isinstance(mpmath.mpmathify(x), mpmath.mpc) or vi != 0) else None
-        outs.append(PointOutcome(re, im, True, "", {"how": "continuation of the exact equation along the straight "
-                                                         "line from 0", "rerun_change": mpmath.nstr(dev, 5)}))
+        outs.append(PointOutcome(re, im, True, "", info))
     return outs, diag

@@ -112,3 +112,51 @@ def test_equation_with_a_zero_of_the_leading_coefficient_at_the_origin_is_normal
         t = mpmath.log(11) / 10
     p = r.points[0]
     assert p.method == "ode" and p.value.contains(t) and abs(p.value.value - t) < 1e-30
+
+
+def test_auto_finds_a_second_order_equation_for_exact_input():
+    # log(1+x)^2 obeys (1+x)^2 f'' + (1+x) f' - 2 = 0 and sqrt(1+x) + (1+x/2)^(-1/3) a
+    # second-order equation too (common practice, no source); the plan's analysis only looks
+    # for first-order ones, so for exact input auto searches order 2 itself. Truth: mpmath at
+    # 50 digits
+    n = 40
+    lg = [Fraction(0)] + [Fraction((-1) ** (k + 1), k) for k in range(1, n)]
+    sq = [sum(lg[i] * lg[k - i] for i in range(k + 1)) for k in range(n)]
+    a = binomial_series(Fraction(1, 2), n).coefficients
+    b = binomial_series(Fraction(-1, 3), n, scale=2).coefficients
+    sm = [a[k] + b[k] for k in range(n)]
+    cases = ((sq, lambda x: mpmath.log(1 + x) ** 2),
+             (sm, lambda x: mpmath.sqrt(1 + x) + (1 + x / 2) ** (-mpmath.mpf(1) / 3)))
+    for c, f in cases:
+        r = evaluate(Series(c), ["1000"], Context(dps=30))
+        p = r.points[0]
+        assert p.method == "ode" and "f''" in r.diagnostics["equation"]
+        with workdps(50):
+            t = f(mpmath.mpf(1000))
+            assert p.value.contains(t) and abs(p.value.value - t) / t < 1e-30
+
+
+def test_a_pole_and_an_apparent_point_on_the_path_are_gone_round():
+    # (1+x)^(-1/2) + 1/(1 - x/3): a pole at 3 on the line to 10, a double zero of the equation's
+    # leading coefficient; going round it on either side gives the same values, so the walk
+    # goes on. sqrt(1+x) + (1+x/2)^(-1/3) from 80 terms: the second-order equation has an
+    # apparent singular point near 0.87 on the line to 100; fitted at the working digits it
+    # leaves a gap of 2e-31 there, the refit at twice the digits closes it. Truth: the closed
+    # forms, mpmath at 50 digits (common practice, no source)
+    n = 40
+    a = binomial_series(Fraction(-1, 2), n).coefficients
+    pole = Series([a[k] + Fraction(1, 3 ** k) for k in range(n)])
+    n = 80
+    a = binomial_series(Fraction(1, 2), n).coefficients
+    b = binomial_series(Fraction(-1, 3), n, scale=2).coefficients
+    apparent = Series([a[k] + b[k] for k in range(n)])
+    cases = ((pole, "10", 30, lambda x: (1 + x) ** (-mpmath.mpf(1) / 2) + 1 / (1 - x / 3)),
+             (apparent, "100", 20, lambda x: mpmath.sqrt(1 + x) + (1 + x / 2) ** (-mpmath.mpf(1) / 3)))
+    for s, at, dps, f in cases:
+        r = evaluate(s, [at], Context(dps=dps))
+        p = r.points[0]
+        assert p.method == "ode" and p.success, r.warnings
+        with workdps(50):
+            t = f(mpmath.mpf(at))
+            assert p.value.contains(t) and abs(p.value.value - t) / abs(t) < mpmath.mpf(10) ** -dps
+    assert "refit_digits" in p.diagnostics      # (at 30 digits asked the first fit is close enough)
