@@ -144,8 +144,9 @@ def _equation_at(D, K, Q, n):
 def _residual_ok(D, K, L, Q, tol):
     """Does the equation ``sum_j Q_j f^(j) + P = 0`` (P of degree L) hold for every
     coefficient the series gives, not only those it was fitted to? ``tol`` relative to
-    the size of the terms in each equation."""
-    for n in range(L + 1, len(D[K])):
+    the size of the terms in each equation. Checked from the highest coefficient down: the
+    fit holds the lowest ones by construction, so a failing equation fails at once."""
+    for n in range(len(D[K]) - 1, L, -1):
         tot, size = _equation_at(D, K, Q, n)
         if abs(tot) > tol * size:
             return False
