@@ -160,3 +160,43 @@ def test_a_pole_and_an_apparent_point_on_the_path_are_gone_round():
             t = f(mpmath.mpf(at))
             assert p.value.contains(t) and abs(p.value.value - t) / abs(t) < mpmath.mpf(10) ** -dps
     assert "refit_digits" in p.diagnostics      # (at 30 digits asked the first fit is close enough)
+
+
+def test_auto_does_not_follow_a_stand_in_equation_of_a_function_with_infinitely_many_poles():
+    # sum x^k / zeta(k+2) = sum_n mu(n)/n^2 / (1 - x/n) (Moebius inversion, common practice,
+    # no source): poles at every square-free integer. At 30 digits from 60 terms (and 60 from
+    # 100) a first-order equation with 19 (37) unknowns reproduces every coefficient, a rational
+    # stand-in for the first poles; following it past x = -3 would give a confident wrong value.
+    # x/(e^x - 1) (exact Bernoulli numbers; poles at 2 pi i k) likewise. auto keeps conformal-Padé
+    for digits, n in ((30, 60), (60, 100)):
+        with workdps(digits + 20):
+            c = [1 / mpmath.zeta(k + 2) for k in range(n)]
+        with workdps(digits):
+            c = [+v for v in c]
+        r = evaluate(Series(c, digits=digits), ["-3"], Context(dps=20))
+        assert r.provenance.method == "conformal-pade"
+    bern = [Fraction(int(p), int(q)) / math.factorial(k)
+            for k, (p, q) in enumerate(mpmath.bernfrac(k) for k in range(40))]
+    r = evaluate(Series(bern), ["10"], Context(dps=20))
+    assert r.provenance.method == "conformal-pade"
+    with workdps(50):
+        assert r.points[0].value.contains(10 / (mpmath.exp(10) - 1))
+
+
+def test_a_stand_in_equation_with_too_many_unknowns_is_not_followed_even_if_flagged():
+    # the same zeta series at 60 digits from 100 terms: an exact-equation search does find a
+    # first-order equation (37 unknowns, a rational stand-in); were the analysis to flag it, the
+    # plan still refuses it: fewer than 4 coefficients per unknown for inexact input
+    from types import SimpleNamespace
+    from resum.estimators.resum_ode import find_equation
+    from resum.resummation import _follow_equation, _unknowns
+    with workdps(80):
+        c = [1 / mpmath.zeta(k + 2) for k in range(100)]
+    with workdps(60):
+        c = [+v for v in c]
+    with workdps(100):
+        eq = find_equation(c, 100, 60)
+        assert eq is not None and _unknowns(eq) > 25
+    flagged = SimpleNamespace(methods={"diff-approx": SimpleNamespace(diagnostics={"exact_equation": True})})
+    with workdps(90):
+        assert not _follow_equation(Series(c, digits=60), c, Context(dps=30), flagged)
