@@ -516,8 +516,8 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
             # the series obeys a linear differential equation exactly: following it is exact up to
             # rounding, where approximants only converge; points it cannot reach (a zero of the
             # leading coefficient on the line) get the other plan
-            return _Plan("ode", why="the series obeys a linear differential equation exactly (found by the "
-                                    "analysis); followed along the straight line from 0; points it cannot "
+            return _Plan("ode", why="the series obeys a linear differential equation exactly (checked on every "
+                                    "coefficient); followed along the straight line from 0; points it cannot "
                                     f"reach: {other.method} ({other.why})",
                          fallback=other, input_digits=series.digits, coefficients_at=_exact_source(series))
         return other
