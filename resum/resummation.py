@@ -72,7 +72,8 @@ from .transforms.conformal import ConformalMap, PairMap, RayMap, StarMap, choose
 __all__ = ["METHODS", "evaluate", "EvaluationResult", "PointResult", "Baseline",
            "probe_strong_coupling", "parse_points", "polynomial_degree"]
 
-METHODS = ("auto", "partial-sum", "pade", "conformal-pade", "borel-pade", "borel-conformal-pade", "ode")
+METHODS = ("auto", "partial-sum", "pade", "conformal-pade", "borel-pade", "borel-conformal-pade", "ode",
+           "borel-ode")
 
 
 # ---------------------------------------------------------------------------- results
@@ -456,6 +457,10 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
     if an is not None and getattr(an, "growth", ""):
         factorial = an.growth == "factorial"
     b = borel_b
+    if method == "borel-ode":
+        return _Plan("borel-ode", why="requested: the differential equation the Borel transform obeys exactly, "
+                                      "followed along the Laplace ray", input_digits=series.digits,
+                     coefficients_at=_exact_source(series))
     if method in ("borel-pade", "borel-conformal-pade") or (method == "auto" and factorial):
         if b is None:
             # b = 0 by default: with a conformal map of the Borel plane the exponent of the Borel
@@ -482,7 +487,15 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
             tm = None
         why = ("factorial growth" if factorial else "requested") + (
             f"; nearest Borel singularity t = {mpmath.nstr(A, 10)}" if A is not None else "")
-        return _Plan(m, tm, b, alpha, lateral, why)
+        plan = _Plan(m, tm, b, alpha, lateral, why)
+        if method == "auto" and (b is None or b == 0) and lateral != "never" and _follow_borel_equation(series, c, ctx):
+            # the Borel transform obeys a linear differential equation exactly: follow it along the
+            # Laplace ray (exact up to rounding and quadrature) instead of approximating it
+            return _Plan("borel-ode", why="factorial growth; the Borel transform obeys a linear differential "
+                                          "equation exactly (checked on every coefficient), followed along the "
+                                          f"Laplace ray; points it cannot reach: {m} ({why})", fallback=plan,
+                         input_digits=series.digits, coefficients_at=_exact_source(series))
+        return plan
     # convergent family
     if method == "partial-sum":
         return _Plan("partial-sum", why="requested")
@@ -532,6 +545,29 @@ def _obeys_equation(an) -> bool:
     """The analysis found that the series obeys a differential equation exactly."""
     m = getattr(an, "methods", {}).get("diff-approx") if an is not None else None
     return bool(m is not None and (getattr(m, "diagnostics", None) or {}).get("exact_equation"))
+
+
+def _follow_borel_equation(series, c, ctx) -> bool:
+    """Should ``auto`` sum a factorially divergent series through the exact equation of its Borel
+    transform (method borel-ode)? Exact input only, with the same checks as
+    :func:`_follow_equation` (found again, of the same shape, at twice the digits; at least 3
+    coefficients per unknown), and a regular singular point (or none) at the origin."""
+    if not series.is_exact:
+        return False
+    from .estimators.resum_ode import _regular_at_origin
+    n = len(c)
+    d = max(ctx.work_dps, mpmath.mp.dps) + 10
+    with _wd(d):
+        B = [mpmath.mpmathify(v) / mpmath.factorial(k) for k, v in enumerate(c)]
+    eq = _find(B, d, d - 10)
+    if eq is None or n < COEFFS_PER_UNKNOWN_EXACT * _unknowns(eq) or not _regular_at_origin(eq[1], eq[0]):
+        return False
+    d2 = 2 * d + 20
+    with _wd(d2 + 10):
+        B2 = [mpmath.mpmathify(v) / mpmath.factorial(k)
+              for k, v in enumerate(series.dense(Context(dps=d2, guard=0)))]
+    eq2 = _find(B2, d2, d2 - 10)
+    return eq2 is not None and _shape(eq2) == _shape(eq)
 
 
 def _exact_source(series):
@@ -680,11 +716,14 @@ def _run(plan: _Plan, c, xs, dps, n_orders, quad_dps=None, target=None):
         return partial_sum_evaluate(c, xs, dps, n_orders=7 if n_orders is None else n_orders)
     if plan.method == "pade":
         return pade_evaluate(c, xs, dps, n_orders=7 if n_orders is None else n_orders)
-    if plan.method == "ode":
-        from .estimators.resum_ode import ode_evaluate
+    if plan.method in ("ode", "borel-ode"):
+        if plan.method == "ode":
+            from .estimators.resum_ode import ode_evaluate as run_equation
+        else:
+            from .estimators.resum_borel_ode import borel_ode_evaluate as run_equation
         digits = target if plan.input_digits is None or target is None else min(target, plan.input_digits)
         at = plan.coefficients_at
-        outs, diag = ode_evaluate(c, xs, dps, digits=digits,
+        outs, diag = run_equation(c, xs, dps, digits=digits,
                                   coefficients_at=None if at is None else (lambda d: at(d)[:len(c)]))
         miss = [j for j, o in enumerate(outs) if not o.ok]
         if plan.fallback is None or not miss:
@@ -1001,7 +1040,7 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                 if note:
                     pdiag["branch"] = note
                     warnings.append(f"at {mpmath.nstr(a, 10)}: {note}")
-            if o.info.get("ode_refused") and plan.method == "ode":
+            if o.info.get("ode_refused") and plan.method in ("ode", "borel-ode"):
                 warnings.append(f"at {mpmath.nstr(a, 10)}: the differential equation was not followed "
                                 f"({o.info['ode_refused']}); {p_method} instead")
             pts.append(PointResult(a, x, re, im, p_method, success, status, msg, baselines[j], pdiag))

@@ -25,9 +25,11 @@ MIN_TERMS = 6       # resum.resummation.evaluate refuses fewer terms
 
 HELP = "resummed values at given points (beyond the radius, strong coupling), with error bands"
 DESCRIPTION = (
-    HELP + ". Methods: partial-sum, pade, conformal-pade, borel-pade, borel-conformal-pade, auto "
-    "(default: chosen from the growth of the coefficients and their singularities). Each value comes "
-    "with a band from the spread and convergence of stable approximants, checked (unless --no-verify) "
+    HELP + ". Methods: partial-sum, pade, conformal-pade, borel-pade, borel-conformal-pade, ode, borel-ode, "
+    "auto (default: chosen from the growth of the coefficients and their singularities; ode or borel-ode "
+    "when the series, or its Borel transform, obeys a linear differential equation exactly). Each value "
+    "comes with a band from the spread and convergence of stable approximants (or from reruns of the "
+    "equation's continuation), checked (unless --no-verify) "
     "by reruns at higher precision and with fewer terms; optimal truncation is shown beside it. "
     "Exit code 0 when every point converged, 1 when some failed, 2 for an input error.")
 

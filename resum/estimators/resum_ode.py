@@ -46,9 +46,11 @@ SAFETY = 10
 
 def find_equation(c, dps: int, digits: int):
     """``(K, Q, P)`` of the lowest-order equation the coefficients ``c`` obey exactly (order
-    1, then 2), or None."""
+    1, then 2), or None. A rational function (``Q_0 f + P = 0``, order 0: it also obeys a family
+    of first-order equations, whose fit is then singular) is returned as the first-order
+    equation ``Q_0 f' + Q_0' f + P' = 0``."""
     tol = exact_tolerance(digits)
-    for K in (1, 2):
+    for K in (0, 1, 2):
         D = _deriv_coeffs(c, K)
         eqs = exact_equation(D, K, dps, tol)
         if eqs:
@@ -56,6 +58,11 @@ def find_equation(c, dps: int, digits: int):
             P = [-_equation_at(D, K, Q, n)[0] for n in range(L + 1)]
             scale = max([abs(v) for q in Q for v in q] + [mpmath.mpf(1)])
             P = [v if abs(v) > mpmath.mpf(10) ** (-dps // 2) * scale else mpmath.mpf(0) for v in P]
+            if K == 0:
+                q = Q[0]
+                dq = [k * q[k] for k in range(1, len(q))] or [mpmath.mpf(0)]
+                dp = [k * P[k] for k in range(1, len(P))] or [mpmath.mpf(0)]
+                return 1, [dq, list(q)], dp
             return K, Q, P
     return None
 
@@ -81,7 +88,7 @@ def _shift(p, z):
     return out
 
 
-def _step(Q, P, K, z, init, h, eps):
+def _step(Q, P, K, z, init, h, eps, coefficients=False):
     """Values ``f^(j)(z + h)``, ``j < K``, from ``init = [f^(j)(z)]`` by the local Taylor series
     of the equation's solution at ``z``. Scaled coefficients ``b_n = a_n h^n`` (``|h|`` is at
     most half the local radius, so ``|b_n|`` falls like ``2^-n``); summed until five in a row
@@ -89,7 +96,9 @@ def _step(Q, P, K, z, init, h, eps):
 
     The recurrence runs on FLINT complex numbers at the current mpmath precision plus 20 bits,
     midpoints only (the ball radii are dropped at every step: the rounding is measured by the
-    rerun at higher precision instead); about 15 times faster than mpmath numbers."""
+    rerun at higher precision instead); about 15 times faster than mpmath numbers. With
+    ``coefficients``, also returns the scaled local coefficients ``b_n`` (FLINT numbers):
+    ``f(z + tau h) = sum b_n tau^n`` for ``0 <= tau <= 1``."""
     q = [_shift(qj, z) for qj in Q]
     p = _shift(P, z)
     with flint_prec(mpmath.mp.prec + 20):
@@ -133,7 +142,8 @@ def _step(Q, P, K, z, init, h, eps):
             for n in range(j, len(b)):
                 acc += b[n] * (1 if j == 0 else n)
             out.append(acb_to_mpc((acc / hp[j]).mid()))
-    return [mpmath.mpf(v.real) if v.imag == 0 else v for v in out]
+    out = [mpmath.mpf(v.real) if v.imag == 0 else v for v in out]
+    return (out, b) if coefficients else out
 
 
 #: a zero of Q_K closer than this (relative to |x|) to the straight line lies on the path
