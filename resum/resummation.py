@@ -488,7 +488,7 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
         why = ("factorial growth" if factorial else "requested") + (
             f"; nearest Borel singularity t = {mpmath.nstr(A, 10)}" if A is not None else "")
         plan = _Plan(m, tm, b, alpha, lateral, why)
-        if method == "auto" and (b is None or b == 0) and lateral != "never" and _follow_borel_equation(series, c, ctx):
+        if method == "auto" and (b is None or b == 0) and lateral == "auto" and _follow_borel_equation(series, c, ctx):
             # the Borel transform obeys a linear differential equation exactly: follow it along the
             # Laplace ray (exact up to rounding and quadrature) instead of approximating it
             return _Plan("borel-ode", why="factorial growth; the Borel transform obeys a linear differential "
