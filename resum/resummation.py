@@ -549,25 +549,12 @@ def _obeys_equation(an) -> bool:
 
 def _follow_borel_equation(series, c, ctx) -> bool:
     """Should ``auto`` sum a factorially divergent series through the exact equation of its Borel
-    transform (method borel-ode)? Exact input only, with the same checks as
-    :func:`_follow_equation` (found again, of the same shape, at twice the digits; at least 3
-    coefficients per unknown), and a regular singular point (or none) at the origin."""
-    if not series.is_exact:
-        return False
+    transform (method borel-ode)? Exact input only, with the checks of :func:`_stable_equation`,
+    and a regular singular point (or none) at the origin."""
     from .estimators.resum_ode import _regular_at_origin
-    n = len(c)
-    d = max(ctx.work_dps, mpmath.mp.dps) + 10
-    with _wd(d):
-        B = [mpmath.mpmathify(v) / mpmath.factorial(k) for k, v in enumerate(c)]
-    eq = _find(B, d, d - 10)
-    if eq is None or n < COEFFS_PER_UNKNOWN_EXACT * _unknowns(eq) or not _regular_at_origin(eq[1], eq[0]):
-        return False
-    d2 = 2 * d + 20
-    with _wd(d2 + 10):
-        B2 = [mpmath.mpmathify(v) / mpmath.factorial(k)
-              for k, v in enumerate(series.dense(Context(dps=d2, guard=0)))]
-    eq2 = _find(B2, d2, d2 - 10)
-    return eq2 is not None and _shape(eq2) == _shape(eq)
+    from .transforms.borel import borel_coefficients
+    return series.is_exact and _stable_equation(series, c, ctx, borel_coefficients,
+                                                 lambda eq: _regular_at_origin(eq[1], eq[0]))
 
 
 def _exact_source(series):
@@ -605,29 +592,37 @@ def _find(c, d, digits):
             return None
 
 
+def _stable_equation(series, c, ctx, transform=list, accept=None) -> bool:
+    """The exact coefficients ``c`` (after ``transform``) obey an equation of order 0 to 2 found at
+    the working digits, with at least 3 coefficients per unknown, ``accept``-ed, and found again,
+    of the same shape, from the coefficients at twice the digits (an equation that only fits to
+    the working precision, such as a high-degree rational stand-in for a function with infinitely
+    many poles, changes)."""
+    d = max(ctx.work_dps, mpmath.mp.dps) + 10       # the evaluation's working digits (long series)
+    with _wd(d):
+        eq = _find(transform(c), d, d - 10)
+    if eq is None or len(c) < COEFFS_PER_UNKNOWN_EXACT * _unknowns(eq) or (accept and not accept(eq)):
+        return False
+    d2 = 2 * d + 20
+    with _wd(d2 + 10):
+        eq2 = _find(transform(series.dense(Context(dps=d2, guard=0))), d2, d2 - 10)
+    return eq2 is not None and _shape(eq2) == _shape(eq)
+
+
 def _follow_equation(series, c, ctx, an) -> bool:
     """Should ``auto`` follow the differential equation the series obeys (method ode)?
 
-    Exact input: an equation of order 1 or 2 (the plan's analysis searches order 1 only) found at
-    the working digits is found again, of the same shape, from the coefficients at twice the digits
-    (an equation that only fits to the working precision, such as a high-degree rational stand-in
-    for a function with infinitely many poles, changes), with at least 3 coefficients per unknown.
-    Inexact input: the analysis found the equation, the coefficients carry 30 digits or more, and
-    there are at least 4 coefficients per unknown. About a second for a long exact series that obeys
-    no equation."""
-    n = len(c)
-    d = max(ctx.work_dps, mpmath.mp.dps) + 10       # the evaluation's working digits (long series)
+    Exact input: :func:`_stable_equation` (the plan's analysis searches order 1 only; this
+    searches orders 0 to 2). Inexact input: the analysis found the equation, the coefficients
+    carry 30 digits or more, and there are at least 4 coefficients per unknown. About a second
+    for a long exact series that obeys no equation."""
     if series.is_exact:
-        eq = _find(c, d, d - 10)
-        if eq is None or n < COEFFS_PER_UNKNOWN_EXACT * _unknowns(eq):
-            return False
-        d2 = 2 * d + 20
-        eq2 = _find(series.dense(Context(dps=d2, guard=0)), d2, d2 - 10)
-        return eq2 is not None and _shape(eq2) == _shape(eq)
+        return _stable_equation(series, c, ctx)
     if not _obeys_equation(an) or series.digits is None or series.digits < 30:
         return False
+    d = max(ctx.work_dps, mpmath.mp.dps) + 10
     eq = _find(c, d, min(series.digits, d - 10))
-    return eq is not None and n >= COEFFS_PER_UNKNOWN_INEXACT * _unknowns(eq)
+    return eq is not None and len(c) >= COEFFS_PER_UNKNOWN_INEXACT * _unknowns(eq)
 
 
 def _locations(sings) -> tuple:

@@ -32,7 +32,7 @@ import mpmath
 
 from .._kernels.flint_bridge import acb_to_mpc, flint_prec, to_acb
 from ..results import Estimate
-from ..transforms.borel import laplace
+from ..transforms.borel import borel_coefficients, laplace
 from .resum_band import PointOutcome
 from .resum_ode import SAFETY, _prepare, _step
 
@@ -106,7 +106,7 @@ def borel_ode_evaluate(c, xs, dps: int, digits=None, coefficients_at=None):
     Returns ``(outcomes, diagnostics)`` like the other evaluators."""
     digits = dps if digits is None else digits
     with mpmath.workdps(dps + 10):
-        B = [mpmath.mpmathify(v) / mpmath.factorial(k) for k, v in enumerate(c)]
+        B = borel_coefficients(c)
     K, Q, P, roots, why = _prepare(B, dps, digits)
     if why:
         why = why.replace("the series obeys", "the Borel transform obeys").replace(
