@@ -34,7 +34,7 @@ from .._kernels.flint_bridge import acb_to_mpc, flint_prec, to_acb
 from ..results import Estimate
 from ..transforms.borel import borel_coefficients, laplace
 from .resum_band import PointOutcome
-from .resum_ode import SAFETY, _prepare, _step
+from .resum_ode import SAFETY, _prepare, _start, _walk
 
 __all__ = ["borel_ode_evaluate"]
 
@@ -52,28 +52,15 @@ class _RayFunction:
         self.bits = mpmath.mp.prec
         with mpmath.workdps(dps):
             end = mpmath.mpmathify(end)
-            eps = mpmath.mpf(10) ** (-dps)
-            dist0 = min((abs(r) for r in roots if r != 0), default=abs(end))
-            rho = min(mpmath.mpf(1) / 2, mpmath.mpf(10) ** (-(dps + 10) / max(n_terms, 1)))
-            self.r0 = r0 = min(dist0 * rho, abs(end))
-            self.d = d = end / abs(end)
             self.c = [mpmath.mpmathify(v) for v in c[:n_terms]]
-            z = d * r0
-            vals = [sum(self.c[n] * mpmath.ff(n, j) * z ** (n - j) for n in range(j, len(self.c)))
-                    for j in range(K)]
-            self.starts, self.lengths, self.polys = [], [], []
-            for _ in range(100000):
-                rem = abs(end - z)
-                if rem <= eps * max(1, abs(end)):
-                    break
-                near = min((abs(z - r) for r in roots), default=mpmath.inf)
-                h = d * min(rem, near / 2)
-                vals, b = _step(Q, P, K, z, vals, h, eps, coefficients=True)
-                self.starts.append(abs(z))
-                self.lengths.append(abs(h))
-                with flint_prec(self.bits + 20):
-                    self.polys.append(flint.acb_poly(b))
-                z = z + h
+            z, vals = _start(roots, self.c, K, end, dps, n_terms)
+            self.r0 = abs(z)
+            steps = []
+            _walk(Q, P, K, roots, z, end, vals, mpmath.mpf(10) ** (-dps), record=steps)
+            self.starts = [abs(zi) for zi, _, _ in steps]
+            self.lengths = [abs(h) for _, h, _ in steps]
+            with flint_prec(self.bits + 20):
+                self.polys = [flint.acb_poly(b) for _, _, b in steps]
 
     def __call__(self, t):
         r = abs(t)

@@ -154,17 +154,37 @@ ON_PATH = mpmath.mpf(10) ** -8
 ARC_CHORDS = 8
 
 
-def _walk(Q, P, K, roots, z, target, vals, eps):
+def _walk(Q, P, K, roots, z, target, vals, eps, record=None):
     """Taylor steps along the segment from ``z`` to ``target`` (which stays off the zeros of
-    ``Q_K``), each at most half the distance to the nearest zero."""
+    ``Q_K``), each at most half the distance to the nearest zero. With a list ``record``, each
+    step appends ``(z, h, b)``: its centre, length and scaled local coefficients."""
     while True:
         rem = abs(target - z)
         if rem <= eps * max(1, abs(target)):
             return vals
         near = min((abs(z - r) for r in roots), default=mpmath.inf)
         h = (target - z) / rem * min(rem, near / 2)
-        vals = _step(Q, P, K, z, vals, h, eps)
+        if record is None:
+            vals = _step(Q, P, K, z, vals, h, eps)
+        else:
+            vals, b = _step(Q, P, K, z, vals, h, eps, coefficients=True)
+            record.append((z, h, b))
         z = z + h
+
+
+def _start(roots, c, K, end, dps, n_terms):
+    """``(z0, [f^(j)(z0)])``: the start of a walk towards ``end``, inside the disk where the
+    series (``n_terms`` of it) is accurate to ``10^-dps``. The origin may be a (regular) singular
+    point of the equation, where the series is analytic all the same: the radius uses the
+    nearest other zero."""
+    dist0 = min((abs(r) for r in roots if r != 0), default=mpmath.inf)
+    if not mpmath.isfinite(dist0):
+        dist0 = abs(end)
+    rho = min(mpmath.mpf(1) / 2, mpmath.mpf(10) ** (-(dps + 10) / max(n_terms, 1)))
+    r0 = min(dist0 * rho, abs(end))
+    z = end / abs(end) * r0 if end != 0 else mpmath.mpf(0)
+    cs = list(c[:n_terms])
+    return z, [sum(cs[n] * mpmath.ff(n, j) * z ** (n - j) for n in range(j, len(cs))) for j in range(K)]
 
 
 def _clusters(roots, tol):
@@ -205,17 +225,7 @@ def _continue(Q, P, K, roots, c, x, dps, n_terms, digits):
     with mpmath.workdps(dps):
         x = mpmath.mpmathify(x)
         eps = mpmath.mpf(10) ** (-dps)
-        # the origin may be a (regular) singular point of the equation, where the series is
-        # analytic all the same: the start uses the nearest other zero
-        dist0 = min((abs(r) for r in roots if r != 0), default=mpmath.inf)
-        if not mpmath.isfinite(dist0):
-            dist0 = abs(x)
-        # start inside the disk, where the series (n_terms of it) is accurate to eps
-        rho = min(mpmath.mpf(1) / 2, mpmath.mpf(10) ** (-(dps + 10) / max(n_terms, 1)))
-        r0 = min(dist0 * rho, abs(x))
-        z = x / abs(x) * r0 if x != 0 else mpmath.mpf(0)
-        cs = list(c[:n_terms])
-        vals = [sum(cs[n] * mpmath.ff(n, j) * z ** (n - j) for n in range(j, len(cs))) for j in range(K)]
+        z, vals = _start(roots, c, K, x, dps, n_terms)
         if z == x:
             return vals[0], "", None
         if min((abs(x - r) for r in roots), default=mpmath.inf) <= ON_PATH * max(1, abs(x)):
