@@ -14,6 +14,10 @@ Methods (exact registry keys, see :data:`METHODS`):
     conformal map of the cut plane onto the disk, re-expansion, Padé in the
     disk variable (map from the given singularities, the analysis, or the
     approximants' poles);
+``conformal-quadratic``
+    the same map and re-expansion, then quadratic (Hermite-Padé) approximants
+    ``P + Q f + R f^2 = 0`` in the disk variable
+    (:mod:`resum.estimators.resum_quadratic`); never chosen by ``auto``;
 ``borel-pade``
     Borel(-Le Roy) transform, Padé in the Borel plane, Laplace integral;
     lateral sums when a singularity sits on the integration ray;
@@ -72,8 +76,10 @@ from .transforms.conformal import ConformalMap, PairMap, RayMap, StarMap, choose
 __all__ = ["METHODS", "evaluate", "EvaluationResult", "PointResult", "Baseline",
            "probe_strong_coupling", "parse_points", "polynomial_degree"]
 
-METHODS = ("auto", "partial-sum", "pade", "conformal-pade", "borel-pade", "borel-conformal-pade", "ode",
-           "borel-ode")
+METHODS = ("auto", "partial-sum", "pade", "conformal-pade", "conformal-quadratic", "borel-pade",
+           "borel-conformal-pade", "ode", "borel-ode")
+#: the methods that map the cut plane onto a disk (same plan, different approximants there)
+_CONFORMAL = ("conformal-pade", "conformal-quadratic")
 
 
 # ---------------------------------------------------------------------------- results
@@ -450,7 +456,7 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
         return _Plan("partial-sum", why=f"exact polynomial of degree {deg} in {series.variable}: "
                                         f"the coefficients vanish from the next power through the last term given")
     g = _growth(c)
-    if use_analysis and (method == "auto" or (method == "conformal-pade" and cmap is None and not singularities)):
+    if use_analysis and (method == "auto" or (method in _CONFORMAL and cmap is None and not singularities)):
         # (conformal-Padé asked for without a map: the map comes from the analysis, as for auto)
         an = analysis if analysis is not None else _analysis(series, ctx)
     factorial = g["factorial"]
@@ -511,7 +517,7 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
         sings = list(an.singularities)
     if an is not None and getattr(an, "radius", None) is not None:
         radius = an.radius.value
-    if cmap is None and sings is None and method in ("auto", "conformal-pade"):
+    if cmap is None and sings is None and method in ("auto",) + _CONFORMAL:
         sings = _series_singularities(c)
     if radius is None and sings:
         z = sings[0]
@@ -535,9 +541,9 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
                          fallback=other, input_digits=series.digits, coefficients_at=_exact_source(series))
         return other
     if chosen is None:
-        raise InputError("conformal-pade needs singularities to build a map and none were found; "
+        raise InputError(f"{method} needs singularities to build a map and none were found; "
                          "give singularities=[...] or a map", where="method")
-    return _Plan("conformal-pade", chosen, alpha=_alpha_for(chosen, alpha, large_x_power),
+    return _Plan(method, chosen, alpha=_alpha_for(chosen, alpha, large_x_power),
                  why=f"map: {chosen.describe()}", singularities=_locations(sings))
 
 
@@ -671,7 +677,7 @@ def _reexpansion_guard(plan, c, series, wd) -> int:
     input carries beyond ``wd`` (inexact coefficients cannot give more)."""
     if plan.fallback is not None:
         plan = plan.fallback          # the points an ode plan cannot reach are re-expanded
-    if plan.method not in ("conformal-pade", "borel-conformal-pade") or plan.cmap is None:
+    if plan.method not in _CONFORMAL + ("borel-conformal-pade",) or plan.cmap is None:
         return 0
     from ._kernels.reexpand import cancellation_digits
     import math
@@ -735,11 +741,12 @@ def _run(plan: _Plan, c, xs, dps, n_orders, quad_dps=None, target=None):
             o.info["ode_refused"] = outs[j].reason
             outs[j] = o
         return outs, merged
-    if plan.method == "conformal-pade":
+    if plan.method in _CONFORMAL:
+        kw = {"variants": "quadratic" if plan.method == "conformal-quadratic" else "both"}
         star, cross = _star_points(plan.cmap, xs)
         if not cross:
             return conformal_evaluate(c, xs, plan.cmap, dps, alpha=plan.alpha,
-                                      n_orders=7 if n_orders is None else n_orders, target_digits=target)
+                                      n_orders=7 if n_orders is None else n_orders, target_digits=target, **kw)
         # points beyond a vertical cut of the pair map: the star map's radial cuts give them the
         # continuation along the straight line from 0; the others keep the pair map (nearer rim)
         rest = [j for j in range(len(xs)) if j not in cross]
@@ -747,12 +754,12 @@ def _run(plan: _Plan, c, xs, dps, n_orders, quad_dps=None, target=None):
         diag = {}
         if rest:
             o1, diag = conformal_evaluate(c, [xs[j] for j in rest], plan.cmap, dps, alpha=plan.alpha,
-                                          n_orders=7 if n_orders is None else n_orders, target_digits=target)
+                                          n_orders=7 if n_orders is None else n_orders, target_digits=target, **kw)
             for j, o in zip(rest, o1):
                 outs[j] = o
         a_star = None if plan.alpha is None else star.large_x_exponent() * plan.alpha
         o2, d2 = conformal_evaluate(c, [xs[j] for j in cross], star, dps, alpha=a_star,
-                                    n_orders=7 if n_orders is None else n_orders, target_digits=target)
+                                    n_orders=7 if n_orders is None else n_orders, target_digits=target, **kw)
         for j, o in zip(cross, o2):
             o.info["map"] = star.to_dict()
             outs[j] = o
@@ -1023,7 +1030,7 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                     warnings.append(f"at {mpmath.nstr(a, 10)}: {msg}")
             p_method = o.info.get("method", plan.method)
             p_plan = plan.fallback if p_method != plan.method else plan
-            if re is not None and p_method == "conformal-pade":
+            if re is not None and p_method in _CONFORMAL:
                 used = p_plan.cmap
                 if o.info.get("map", {}).get("kind") == "star":
                     used = StarMap(p_plan.cmap.s)

@@ -25,7 +25,8 @@ MIN_TERMS = 6       # resum.resummation.evaluate refuses fewer terms
 
 HELP = "resummed values at given points (beyond the radius, strong coupling), with error bands"
 DESCRIPTION = (
-    HELP + ". Methods: partial-sum, pade, conformal-pade, borel-pade, borel-conformal-pade, ode, borel-ode, "
+    HELP + ". Methods: partial-sum, pade, conformal-pade, conformal-quadratic, borel-pade, borel-conformal-pade, "
+    "ode, borel-ode, "
     "auto (default: chosen from the growth of the coefficients and their singularities; ode or borel-ode "
     "when the series, or its Borel transform, obeys a linear differential equation exactly). Each value "
     "comes with a band from the spread and convergence of stable approximants (or from reruns of the "

@@ -42,6 +42,7 @@ from ..transforms.conformal import ConformalMap, pull_back, rim_factor
 from .resum_band import (PointOutcome, RationalIntegrator, candidate_orders, fit_candidates,
                          outcomes_from_table)
 from .resum_pade import pade_evaluate
+from .resum_quadratic import quadratic_evaluate
 
 __all__ = ["conformal_evaluate", "derivative_evaluate", "mapped_coefficients"]
 
@@ -109,31 +110,37 @@ def derivative_evaluate(cw: Sequence, ws: Sequence, dps: int, *, gamma: int = 0,
     return outs, {"n_singular_systems": singular, "orders": [list(o) for o in orders]}
 
 
-def _choose(direct, deriv):
-    """Per point: the variant with the narrower band, widened to meet the other's value
-    when the two bands do not overlap."""
+def _choose(variants):
+    """Per point: of the variants ``[(name, outcomes)]`` (an outcome may be None where a
+    variant was not run), the one with the narrowest band (the first on a tie), widened to
+    meet the value of every other variant whose band does not overlap it."""
     out = []
-    for o, od in zip(direct, deriv):
-        if od is None or not od.ok or od.re is None:
-            o.info["variant"] = "direct"
-            out.append(o)
+    for j in range(len(variants[0][1])):
+        good = [(n, o[j]) for n, o in variants
+                if o is not None and o[j] is not None and o[j].ok and o[j].re is not None]
+        if not good:
+            first = variants[0][1][j]
+            first.info["variant"] = variants[0][0]
+            out.append(first)
             continue
-        if not o.ok or o.re is None or od.re.error < o.re.error:
-            pick, other, name = od, o, "derivative"
-        else:
-            pick, other, name = o, od, "direct"
-        if other.ok and other.re is not None:
-            re, im = pick.re, pick.im
+        name, pick = min(good, key=lambda t: t[1].re.error)
+        re, im = pick.re, pick.im
+        others = {}
+        for n, other in good:
+            if other is pick:
+                continue
+            others[n] = mpmath.nstr(other.re.error, 5)
             dv = abs(other.re.value - re.value)
             if dv > re.error + other.re.error:
                 re = Estimate(re.value, min(re.lower, re.value - dv), max(re.upper, re.value + dv))
-                pick.info["variants_disagree"] = mpmath.nstr(dv, 5)
+                pick.info.setdefault("variants_disagree", {})[n] = mpmath.nstr(dv, 5)
             if im is not None and other.im is not None:
                 di = abs(other.im.value - im.value)
                 if di > im.error + other.im.error:
                     im = Estimate(im.value, min(im.lower, im.value - di), max(im.upper, im.value + di))
-            pick = PointOutcome(re, im, pick.ok, pick.reason, pick.info)
-            pick.info["other_variant_band"] = mpmath.nstr(other.re.error, 5)
+        pick = PointOutcome(re, im, pick.ok, pick.reason, pick.info)
+        if others:
+            pick.info["other_variant_bands"] = others
         pick.info["variant"] = name
         out.append(pick)
     return out
@@ -172,20 +179,29 @@ def conformal_evaluate(c: Sequence, xs: Sequence, cmap: ConformalMap, dps: int, 
     """Conformal-map Padé values with bands at the points ``xs`` (expansion variable).
 
     ``variants``: "direct" (Padé of the mapped function), "derivative" (Padé
-    of its derivative, integrated from 0, see :func:`derivative_evaluate`) or
-    "both" (default: per point the one with the narrower band; when the two
-    bands do not overlap the band is widened to reach the other value). With
-    ``target_digits``, "both" skips the derivative at points where the direct
-    band already supports that many digits.
+    of its derivative, integrated from 0, see :func:`derivative_evaluate`),
+    "quadratic" (quadratic Hermite-Padé approximants of the mapped function,
+    :mod:`resum.estimators.resum_quadratic`; method ``conformal-quadratic``),
+    "both" (default: direct and derivative, per point the one with the
+    narrower band; where the two bands do not overlap the band is widened to
+    reach the other value) or "all" (the three, the same way). With
+    ``target_digits``, "both" and "all" run the others only at points where
+    the direct band falls short of that many digits.
 
     Why the derivative: where ``f`` has logarithmic branch points, ``f'`` has
     poles, which rational approximants represent exactly; for a
     ``log cosh``-type function it gains up to 15 digits beyond the radius
     (studies/accuracy/README.md). Where the singularities are
     algebraic it gains or loses about a digit, and the narrower band decides.
+    Why the quadratic one: at strong coupling of the angle-deformed BES family
+    (branch points accumulating at the image of infinity) it gains up to about
+    two digits (studies/accuracy/README.md); it is not in the default because
+    elsewhere its narrower bands were not always honest (tests/resummation:
+    log(1+x)/x near the rim of the disk).
     """
-    if variants not in ("both", "direct", "derivative"):
-        raise ValueError(f"variants must be 'both', 'direct' or 'derivative', got {variants!r}")
+    if variants not in ("both", "all", "direct", "derivative", "quadratic"):
+        raise ValueError(f"variants must be 'both', 'all', 'direct', 'derivative' or 'quadratic', "
+                         f"got {variants!r}")
     cf = mapped_coefficients(c, cmap, dps)          # f(x(w)), re-expanded once
     cw = _times_rim(cf, alpha, cmap.rim_point())     # with the rim factor, for the direct variant
     ws, bad = [], []
@@ -204,31 +220,42 @@ def conformal_evaluate(c: Sequence, xs: Sequence, cmap: ConformalMap, dps: int, 
             return v
         return v / (1 - ws[j] / rim) ** alpha
 
-    outs, diag = pade_evaluate(cw, ws, dps, n_orders=n_orders, offsets=offsets, post=post,
-                               safety=safety, keep_poles_beyond=1 - mpmath.mpf(10) ** -8)
+    if variants in ("both", "all", "direct"):
+        outs, diag = pade_evaluate(cw, ws, dps, n_orders=n_orders, offsets=offsets, post=post,
+                                   safety=safety, keep_poles_beyond=1 - mpmath.mpf(10) ** -8)
+    else:
+        outs, diag = [None] * len(ws), {}
     gamma = _derivative_gamma(alpha)
     need = [not bad[j] for j in range(len(ws))]
-    if variants == "both" and target_digits is not None:
+    if variants in ("both", "all") and target_digits is not None:
         need = [nd and not (o.ok and o.re is not None and o.re.error <= abs(o.re.value) * mpmath.mpf(10) ** (-target_digits))
                 for nd, o in zip(need, outs)]
-    if variants != "direct" and gamma is not None and len(cw) >= 8 and any(need):
+    idx = [j for j in range(len(ws)) if need[j]]
+
+    def spread(sub):
+        full = [None] * len(ws)
+        for j, o in zip(idx, sub):
+            full[j] = o
+        return full
+    named = [("direct", outs if variants in ("both", "all", "direct") else None)]
+    if variants in ("both", "all", "derivative") and gamma is not None and len(cw) >= 8 and idx:
         # the derivative of f itself (its rim factor is gamma, applied inside)
-        idx = [j for j in range(len(ws)) if need[j]]
         dsub, ddiag = derivative_evaluate(cf, [ws[j] for j in idx], dps, gamma=gamma, rim=rim,
                                           n_orders=n_orders, offsets=offsets, safety=safety)
-        dv = [None] * len(ws)
-        for j, o in zip(idx, dsub):
-            dv[j] = o
-        if variants == "derivative":
-            outs = [o if o is not None else PointOutcome(None, None, False, "not evaluated", {}) for o in dv]
-            for o in outs:
-                o.info["variant"] = "derivative"
-        else:
-            outs = _choose(outs, dv)
+        named.append(("derivative", spread(dsub)))
         diag = dict(diag, derivative=ddiag)
-    else:
-        for o in outs:
-            o.info["variant"] = "direct"
+    if variants in ("all", "quadratic") and len(cw) >= 12 and idx:
+        qsub, qdiag = quadratic_evaluate(cw, [ws[j] for j in idx], dps, n_orders=n_orders,
+                                         post=lambda i, v: post(idx[i], v), safety=safety)
+        named.append(("quadratic", spread(qsub)))
+        diag = dict(diag, quadratic=qdiag)
+    if variants in ("derivative", "quadratic"):
+        named = [(n, o) for n, o in named if n == variants] or [(variants, [None] * len(ws))]
+        why = (f"the {variants} variant needs at least {12 if variants == 'quadratic' else 8} terms"
+               if len(cw) < (12 if variants == "quadratic" else 8) else "not evaluated")
+        named = [(variants, [o if o is not None else PointOutcome(None, None, False, why, {})
+                             for o in named[0][1]])]
+    outs = _choose(named)
     for j, o in enumerate(outs):
         if bad[j]:
             outs[j] = PointOutcome(None, None, False,

@@ -118,6 +118,9 @@ def main(argv=None):
     ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     ap.add_argument("--quick", action="store_true", help="fewer cases")
     ap.add_argument("--no-verify", action="store_true", help="skip the verification reruns")
+    ap.add_argument("--quadratic", action="store_true",
+                    help="also BES rows by method conformal-quadratic with the strong-coupling power given")
+    ap.add_argument("--bes-only", action="store_true", help="only the BES family rows")
     args = ap.parse_args(argv)
     verify = not args.no_verify
     cache = _cache()
@@ -134,16 +137,16 @@ def main(argv=None):
         print("  ".join(str(c) for c in rows[-1]), f"({time.time() - t0:.0f}s)", file=sys.stderr, flush=True)
 
     from resum.sources import oscillator, phi4
-    for n in ((100,) if args.quick else (100, 200)):
+    for n in (() if args.bes_only else (100,) if args.quick else (100, 200)):
         s = oscillator.series(0, n)
         for g in ("0.1", "1", "10"):
             tv = truth(cache, f"osc:{g}", lambda: t_oscillator(g))
             run("oscillator", s, n, g, tv, "borel-pade" if n == 100 else None)
     s = phi4.series(60)
-    for g in ("0.5", "2"):
+    for g in (() if args.bes_only else ("0.5", "2")):
         run("phi4", s, 60, g, truth(cache, f"phi4:{g}", lambda: t_phi4(g)), "borel-pade")
     s = Series([(-1) ** k * math.factorial(k) for k in range(40)])
-    for x in ("0.1", "1"):
+    for x in (() if args.bes_only else ("0.1", "1")):
         run("euler", s, 40, x, truth(cache, f"euler:{x}", lambda: t_euler(x)), "borel-pade")
     from resum.sources.bes import weak_coupling_series
     angles = ("0", "pi/4") if args.quick else ("0", "pi/8", "pi/4", "3*pi/8")
@@ -154,6 +157,9 @@ def main(argv=None):
             td = 50 if a == "0" else TRUTH_DPS[g] - 2
             run(f"bes a={a}", s, 100, g, tv, "pade", td)
             run(f"bes a={a} p=1/2", s, 100, g, tv, None, td, large_x_power=mpmath.mpf(1) / 2)
+            if args.quadratic:
+                run(f"bes a={a} p=1/2 quad", s, 100, g, tv, None, td, large_x_power=mpmath.mpf(1) / 2,
+                    method="conformal-quadratic")
     head = ["case", "terms", "at", "method", "digits", "claimed", "band/err", "inside", "plain digits"]
     w = [max(len(str(r[i])) for r in rows + [head]) for i in range(len(head))]
     print("  ".join(h.ljust(k) for h, k in zip(head, w)))

@@ -1,0 +1,227 @@
+"""Quadratic (Hermite-Padé) approximants: values beyond the disk from ``P + Q f + R f^2 = 0``.
+
+For a series ``f = c_0 + c_1 w + ...`` the quadratic approximant of degrees
+``(l, m, k)`` is the triple of polynomials ``P, Q, R`` (``deg P <= l``,
+``deg Q <= m``, ``deg R <= k``, ``Q(0) = 1``) with
+``P + Q f + R f^2 = O(w^(l+m+k+2))``; the approximant is the root of
+``R y^2 + Q y + P = 0`` that equals ``c_0`` at ``w = 0``, continued along the
+segment from ``0`` to ``w``. A rational (linear Padé) approximant can only
+put poles along a cut; a quadratic one has square-root branch points of its
+own and represents an accumulation of branch points on the rim of the disk
+better. Measured on the 100-loop angle-deformed BES series (studies/accuracy):
+in the disk variable of the cut plane it gains 0.5-1.5 digits over the best
+linear Padé at ``g = 5`` and ``g = 20``.
+
+>>> import mpmath
+>>> from resum.context import workdps
+>>> with workdps(40):
+...     c = [mpmath.binomial(mpmath.mpf(1) / 2, n) for n in range(12)]   # sqrt(1 + w) - 1
+...     c[0] = 0
+...     r = quadratic_fit(c, 1, 1, 1, 40)
+...     v = r(mpmath.mpf(8))                      # y^2 + 2 y - w = 0 exactly: y(8) = 2
+>>> mpmath.almosteq(v, 2, 1e-30), mpmath.almosteq(r.R[0] / r.Q[0], mpmath.mpf(1) / 2, 1e-30)
+(True, True)
+
+Notes
+-----
+The linear system for ``Q`` and ``R`` (``P`` follows from the first
+coefficients) is solved by a ball LU (python-flint ``arb_mat``/``acb_mat``),
+at a precision raised until the solution carries the requested digits for
+the input as given, as for the Padé kernel. A candidate is refused at a point
+when its two roots come close along the path (a branch point of the
+approximant on or next to the segment: the branch is ambiguous there) or when
+a real series gives a complex value at a real point. The band comes, as for
+every Padé-type method here, from the spread of the approximants of the
+highest orders and the trend of lower ones (an estimate, not a bound).
+
+References
+----------
+.. [1] R. E. Shafer, "On quadratic approximation", SIAM J. Numer. Anal. 11
+   (1974) 447-460.
+.. [2] G. A. Baker Jr. and P. Graves-Morris, *Padé Approximants*, 2nd ed.,
+   Cambridge University Press (1996), ch. 8 (algebraic and Hermite-Padé
+   approximants).
+"""
+from __future__ import annotations
+
+from typing import Callable, Optional, Sequence
+
+import flint
+import mpmath
+
+from .._kernels.pade import _rel_digits
+from ..transforms._arb import acb_to_mp, arb_to_mp, flint_precision, to_acb, to_arb
+from .resum_band import _horner, candidate_orders, outcomes_from_table
+
+__all__ = ["QuadraticApprox", "quadratic_fit", "quadratic_degrees", "quadratic_evaluate"]
+
+#: digits of the low-precision continuation that picks the branch
+_TRACK_DPS = 30
+#: steps along the segment from 0 to w (halved where the branch is hard to follow)
+_STEPS = 48
+
+
+def quadratic_degrees(n_used: int):
+    """Degrees ``(l, m, k)`` using ``n_used`` coefficients (``l + m + k + 2 = n_used``),
+    as equal as possible, the extra ones to ``P`` then ``Q``; None below 5 terms."""
+    if n_used < 5:
+        return None
+    m, r = divmod(n_used - 2, 3)
+    return m + (r > 0), m + (r > 1), m
+
+
+def _square(c, n):
+    return [mpmath.fsum(c[i] * c[k - i] for i in range(k + 1)) for k in range(n)]
+
+
+class QuadraticApprox:
+    """``P + Q y + R y^2 = 0`` with coefficient lists (low to high); ``y(0) = c0``."""
+
+    def __init__(self, P, Q, R, c0, digits):
+        self.P, self.Q, self.R = list(P), list(Q), list(R)
+        self.c0 = c0
+        self.digits = digits
+        self.real = not any(isinstance(v, mpmath.mpc) for v in self.P + self.Q + self.R + [c0])
+
+    def _roots(self, z):
+        p, q, r = _horner(self.P, z), _horner(self.Q, z), _horner(self.R, z)
+        if r == 0:
+            return (-p / q, None) if q != 0 else (None, None)
+        s = mpmath.sqrt(q * q - 4 * p * r)
+        if mpmath.re(mpmath.conj(q) * s) < 0:
+            s = -s
+        h = -(q + s) / 2
+        if h == 0:
+            return None, None
+        return p / h, h / r          # the root of small size first (no cancellation)
+
+    def _track(self, w):
+        """The branch value at ``w`` at low precision, or None where it is ambiguous."""
+        y, prev = mpmath.mpmathify(self.c0), None
+        t, dt = mpmath.mpf(0), mpmath.mpf(1) / _STEPS
+        while t < 1:
+            step = min(dt, 1 - t)
+            pred = y if prev is None else y + (y - prev) * (step / last)
+            a, b = self._roots(w * (t + step))
+            cands = [v for v in (a, b) if v is not None and mpmath.isfinite(abs(v))]
+            if not cands:
+                return None
+            pick = min(cands, key=lambda v: abs(v - pred))
+            other = [v for v in cands if v is not pick]
+            sep = abs(other[0] - pick) if other else mpmath.inf
+            if abs(pick - pred) * 8 > sep:
+                if step < mpmath.mpf(1) / (_STEPS * 64):
+                    return None          # the two roots meet near the path
+                dt = step / 2
+                continue
+            prev, y, last, t = y, pick, step, t + step
+            dt = min(mpmath.mpf(1) / _STEPS, 2 * step)
+        return y
+
+    def __call__(self, w):
+        """Value at ``w`` (working precision), or None where the branch is ambiguous."""
+        w = mpmath.mpmathify(w)
+        with mpmath.workdps(_TRACK_DPS):
+            y = self._track(w)
+        if y is None:
+            return None
+        a, b = self._roots(w)
+        cands = [v for v in (a, b) if v is not None and mpmath.isfinite(abs(v))]
+        if not cands:
+            return None
+        pick = min(cands, key=lambda v: abs(v - y))
+        if len(cands) == 2 and abs(cands[0] - cands[1]) < 8 * abs(pick - y):
+            return None
+        if self.real and isinstance(w, mpmath.mpf) and isinstance(pick, mpmath.mpc):
+            if abs(pick.imag) > abs(pick) * mpmath.mpf(10) ** (5 - mpmath.mp.dps):
+                return None          # a branch cut of the approximant crosses the real axis
+            pick = pick.real
+        return pick
+
+
+def quadratic_fit(c: Sequence, l: int, m: int, k: int, dps: int,
+                  max_dps: Optional[int] = None) -> Optional[QuadraticApprox]:
+    """The quadratic approximant of degrees ``(l, m, k)`` (needs ``l + m + k + 2`` terms).
+
+    ``Q(0) = 1``; the unknowns ``Q_1..Q_m, R_0..R_k`` solve the equations of
+    orders ``l + 1 .. l + m + k + 1`` by ball LU, at a precision raised until
+    they carry ``dps`` digits (normwise, for the input as given) or ``max_dps``
+    (default ``4 dps + 60``) is reached; ``P`` then follows from orders
+    ``0 .. l``. None when the system is singular at the cap."""
+    n = l + m + k + 2
+    if len(c) < n:
+        raise ValueError(f"quadratic approximant ({l}, {m}, {k}) needs {n} terms, got {len(c)}")
+    cplx = any(isinstance(v, (mpmath.mpc, complex)) for v in c[:n])
+    conv, back = (to_acb, acb_to_mp) if cplx else (to_arb, arb_to_mp)
+    Mat = flint.acb_mat if cplx else flint.arb_mat
+    cap = max_dps or 4 * int(dps) + 60
+    prec_dps = int(dps) + 2 * (m + k) + 20
+    while True:
+        with mpmath.workdps(prec_dps + 10):
+            c2 = _square([mpmath.mpmathify(v) for v in c[:n]], n)
+        with flint_precision(prec_dps):
+            f = [conv(v) for v in c[:n]]
+            f2 = [conv(v) for v in c2]
+            rows, rhs = [], []
+            for i in range(l + 1, n):
+                row = [f[i - j] if i - j >= 0 else 0 for j in range(1, m + 1)]
+                row += [f2[i - j] if i - j >= 0 else 0 for j in range(k + 1)]
+                rows.append(row)
+                rhs.append([-f[i]])
+            try:
+                sol = Mat(rows).solve(Mat(rhs))
+                ok = True
+            except (ZeroDivisionError, ValueError):
+                ok = False
+            if ok:
+                x = [sol[i, 0] for i in range(m + k + 1)]
+                got = min(_rel_digits(x), float(prec_dps)) if x else float(prec_dps)
+                if got >= dps or prec_dps >= cap:
+                    Q = [conv(1)] + x[:m]
+                    R = x[m:]
+                    P = [-(sum((Q[j] * f[i - j] for j in range(0, min(i, m) + 1)), conv(0))
+                           + sum((R[j] * f2[i - j] for j in range(0, min(i, k) + 1)), conv(0)))
+                         for i in range(l + 1)]
+                    with mpmath.workdps(prec_dps):
+                        out = [[back(v) for v in part] for part in (P, Q, R)]
+                    if got < dps / 2:
+                        return None
+                    return QuadraticApprox(out[0], out[1], out[2], mpmath.mpmathify(c[0]), got)
+        if prec_dps >= cap:
+            return None
+        prec_dps = min(cap, 2 * prec_dps)
+
+
+def quadratic_evaluate(c: Sequence, zs: Sequence, dps: int, *, n_orders: int = 7,
+                       post: Optional[Callable] = None, safety=4):
+    """Quadratic-approximant values with bands at the points ``zs`` (variable of ``c``).
+
+    Candidates: one approximant per term count of
+    :func:`~resum.estimators.resum_band.candidate_orders` (degrees from
+    :func:`quadratic_degrees`); ``post(j, value)`` as in
+    :func:`~resum.estimators.resum_pade.pade_evaluate`. Returns (outcomes, diagnostics).
+    """
+    N = len(c)
+    orders = [o for o in candidate_orders(N, n_orders) if quadratic_degrees(o[0])]
+    table = [[None] * len(orders) for _ in zs]
+    refused = [[] for _ in zs]
+    singular = 0
+    for i, (n, _, _) in enumerate(orders):
+        l, m, k = quadratic_degrees(n)
+        r = quadratic_fit(c, l, m, k, dps)
+        if r is None:
+            singular += 1
+            continue
+        for j, z in enumerate(zs):
+            v = r(z)
+            if v is None:
+                refused[j].append(f"({l},{m},{k}): branch ambiguous on the path")
+                continue
+            table[j][i] = post(j, v) if post else v
+    ns = [o[0] for o in orders]
+    outs = outcomes_from_table(table, ns, safety=safety)
+    for j, o in enumerate(outs):
+        o.info["refused"] = refused[j]
+        o.info["orders"] = ["(%d,%d,%d)" % quadratic_degrees(n) for n in ns]
+        o.info["values"] = [None if v is None else mpmath.nstr(v, 45) for v in table[j]]
+    return outs, {"n_singular_systems": singular, "orders": [list(quadratic_degrees(n)) for n in ns]}
