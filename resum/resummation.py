@@ -71,6 +71,7 @@ from .series.core import Series
 from .estimators.resum_band import rational_fit
 from .estimators.resum_truncation import optimal_truncation
 from .estimators._common import first_term_scale
+from .estimators.resum_ode import equation_shape
 from .transforms.conformal import ConformalMap, PairMap, RayMap, StarMap, choose_map, crosses_pair_cut
 
 __all__ = ["METHODS", "evaluate", "EvaluationResult", "PointResult", "Baseline",
@@ -444,6 +445,7 @@ class _Plan:
     fallback: Optional["_Plan"] = None   # for points this plan cannot reach (ode)
     input_digits: Optional[int] = None   # digits the inexact coefficients carry (ode's equation test)
     coefficients_at: Any = None          # exact input: d -> coefficients at d digits (ode's refit)
+    equation_shape: Any = None           # the equation's shape as the plan found it (ode, borel-ode)
 
 
 def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map, alpha,
@@ -494,13 +496,16 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
         why = ("factorial growth" if factorial else "requested") + (
             f"; nearest Borel singularity t = {mpmath.nstr(A, 10)}" if A is not None else "")
         plan = _Plan(m, tm, b, alpha, lateral, why)
-        if method == "auto" and (b is None or b == 0) and lateral == "auto" and _follow_borel_equation(series, c, ctx):
+        eq = (_follow_borel_equation(series, c, ctx)
+              if method == "auto" and (b is None or b == 0) and lateral == "auto" else None)
+        if eq is not None:
             # the Borel transform obeys a linear differential equation exactly: follow it along the
             # Laplace ray (exact up to rounding and quadrature) instead of approximating it
             return _Plan("borel-ode", why="factorial growth; the Borel transform obeys a linear differential "
                                           "equation exactly (checked on every coefficient), followed along the "
                                           f"Laplace ray; points it cannot reach: {m} ({why})", fallback=plan,
-                         input_digits=series.digits, coefficients_at=_exact_source(series))
+                         input_digits=series.digits, coefficients_at=_exact_source(series),
+                         equation_shape=equation_shape(eq))
         return plan
     # convergent family
     if method == "partial-sum":
@@ -531,14 +536,16 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
                           why=f"finite radius; map: {chosen.describe()}", singularities=_locations(sings))
         else:
             other = _Plan("pade", why="finite radius; no map could be chosen")
-        if _follow_equation(series, c, ctx, an):
+        eq = _follow_equation(series, c, ctx, an)
+        if eq is not None:
             # the series obeys a linear differential equation exactly: following it is exact up to
             # rounding, where approximants only converge; points it cannot reach (a zero of the
             # leading coefficient on the line) get the other plan
             return _Plan("ode", why="the series obeys a linear differential equation exactly (checked on every "
                                     "coefficient); followed along the straight line from 0; points it cannot "
                                     f"reach: {other.method} ({other.why})",
-                         fallback=other, input_digits=series.digits, coefficients_at=_exact_source(series))
+                         fallback=other, input_digits=series.digits, coefficients_at=_exact_source(series),
+                         equation_shape=equation_shape(eq))
         return other
     if chosen is None:
         raise InputError(f"{method} needs singularities to build a map and none were found; "
@@ -553,14 +560,15 @@ def _obeys_equation(an) -> bool:
     return bool(m is not None and (getattr(m, "diagnostics", None) or {}).get("exact_equation"))
 
 
-def _follow_borel_equation(series, c, ctx) -> bool:
+def _follow_borel_equation(series, c, ctx):
     """Should ``auto`` sum a factorially divergent series through the exact equation of its Borel
     transform (method borel-ode)? Exact input only, with the checks of :func:`_stable_equation`,
-    and a regular singular point (or none) at the origin."""
+    and a regular singular point (or none) at the origin. The equation, or None."""
     from .estimators.resum_ode import _regular_at_origin
     from .transforms.borel import borel_coefficients
-    return series.is_exact and _stable_equation(series, c, ctx, borel_coefficients,
-                                                 lambda eq: _regular_at_origin(eq[1], eq[0]))
+    if not series.is_exact:
+        return None
+    return _stable_equation(series, c, ctx, borel_coefficients, lambda eq: _regular_at_origin(eq[1], eq[0]))
 
 
 def _exact_source(series):
@@ -598,25 +606,26 @@ def _find(c, d, digits):
             return None
 
 
-def _stable_equation(series, c, ctx, transform=list, accept=None) -> bool:
-    """The exact coefficients ``c`` (after ``transform``) obey an equation of order 0 to 2 found at
-    the working digits, with at least 3 coefficients per unknown, ``accept``-ed, and found again,
-    of the same shape, from the coefficients at twice the digits (an equation that only fits to
-    the working precision, such as a high-degree rational stand-in for a function with infinitely
-    many poles, changes)."""
+def _stable_equation(series, c, ctx, transform=list, accept=None):
+    """The equation (or None) that the exact coefficients ``c`` (after ``transform``) obey, of
+    order 0 to 2, found at the working digits, with at least 3 coefficients per unknown,
+    ``accept``-ed, and found again, of the same shape, by a full search from the coefficients at
+    twice the digits (an equation that only fits to the working precision, such as a
+    high-degree rational stand-in for a function with infinitely many poles, changes)."""
     d = max(ctx.work_dps, mpmath.mp.dps) + 10       # the evaluation's working digits (long series)
     with _wd(d):
         eq = _find(transform(c), d, d - 10)
     if eq is None or len(c) < COEFFS_PER_UNKNOWN_EXACT * _unknowns(eq) or (accept and not accept(eq)):
-        return False
+        return None
     d2 = 2 * d + 20
     with _wd(d2 + 10):
         eq2 = _find(transform(series.dense(Context(dps=d2, guard=0))), d2, d2 - 10)
-    return eq2 is not None and _shape(eq2) == _shape(eq)
+    return eq if eq2 is not None and _shape(eq2) == _shape(eq) else None
 
 
-def _follow_equation(series, c, ctx, an) -> bool:
-    """Should ``auto`` follow the differential equation the series obeys (method ode)?
+def _follow_equation(series, c, ctx, an):
+    """Should ``auto`` follow the differential equation the series obeys (method ode)? The
+    equation, or None.
 
     Exact input: :func:`_stable_equation` (the plan's analysis searches order 1 only; this
     searches orders 0 to 2). Inexact input: the analysis found the equation, the coefficients
@@ -625,10 +634,10 @@ def _follow_equation(series, c, ctx, an) -> bool:
     if series.is_exact:
         return _stable_equation(series, c, ctx)
     if not _obeys_equation(an) or series.digits is None or series.digits < 30:
-        return False
+        return None
     d = max(ctx.work_dps, mpmath.mp.dps) + 10
     eq = _find(c, d, min(series.digits, d - 10))
-    return eq is not None and len(c) >= COEFFS_PER_UNKNOWN_INEXACT * _unknowns(eq)
+    return eq if eq is not None and len(c) >= COEFFS_PER_UNKNOWN_INEXACT * _unknowns(eq) else None
 
 
 def _locations(sings) -> tuple:
@@ -724,7 +733,7 @@ def _run(plan: _Plan, c, xs, dps, n_orders, quad_dps=None, target=None):
             from .estimators.resum_borel_ode import borel_ode_evaluate as run_equation
         digits = target if plan.input_digits is None or target is None else min(target, plan.input_digits)
         at = plan.coefficients_at
-        outs, diag = run_equation(c, xs, dps, digits=digits,
+        outs, diag = run_equation(c, xs, dps, digits=digits, shape=plan.equation_shape,
                                   coefficients_at=None if at is None else (lambda d: at(d)[:len(c)]))
         miss = [j for j, o in enumerate(outs) if not o.ok]
         if plan.fallback is None or not miss:

@@ -86,15 +86,16 @@ def _laplace_ode(eq, c, x, theta, dps: int, n_terms: int):
         return laplace(F, x, 0, dps, theta=theta, scale=dist0 / abs(x), s_max=s_max)
 
 
-def borel_ode_evaluate(c, xs, dps: int, digits=None, coefficients_at=None):
+def borel_ode_evaluate(c, xs, dps: int, digits=None, coefficients_at=None, shape=None):
     """Borel sums at ``xs`` from the exact equation of the Borel transform of ``c`` (module
-    docstring). ``coefficients_at`` is accepted for symmetry with the ``ode`` method and unused.
+    docstring). ``coefficients_at`` is accepted for symmetry with the ``ode`` method and unused;
+    ``shape``: the equation's shape if known (:func:`resum.estimators.resum_ode.find_equation`).
 
     Returns ``(outcomes, diagnostics)`` like the other evaluators."""
     digits = dps if digits is None else digits
     with mpmath.workdps(dps + 10):
         B = borel_coefficients(c)
-    K, Q, P, roots, why = _prepare(B, dps, digits)
+    K, Q, P, roots, why = _prepare(B, dps, digits, shape)
     if why:
         why = why.replace("the series obeys", "the Borel transform obeys").replace(
             "the equation the series obeys", "the equation the Borel transform obeys")

@@ -35,21 +35,32 @@ from .._kernels.flint_bridge import acb_to_mpc, flint_prec, to_acb
 from ..results import Estimate
 from ._common import first_term_scale
 from ._num import poly_roots
-from .diffapprox import _deriv_coeffs, _equation_at, exact_equation, exact_tolerance
+from .diffapprox import (_deriv_coeffs, _equation_at, _normalisation_vanishes, _residual_ok, exact_equation,
+                         exact_tolerance, fit_diffapprox)
 from .resum_band import PointOutcome
 
-__all__ = ["ode_evaluate", "find_equation"]
+__all__ = ["ode_evaluate", "find_equation", "equation_shape"]
 
 #: the band is this many times the change under the reruns
 SAFETY = 10
 
 
-def find_equation(c, dps: int, digits: int):
+def find_equation(c, dps: int, digits: int, shape=None):
     """``(K, Q, P)`` of the lowest-order equation the coefficients ``c`` obey exactly (order
     1, then 2), or None. A rational function (``Q_0 f + P = 0``, order 0: it also obeys a family
     of first-order equations, whose fit is then singular) is returned as the first-order
-    equation ``Q_0 f' + Q_0' f + P' = 0``."""
+    equation ``Q_0 f' + Q_0' f + P' = 0``.
+
+    ``shape`` (from :func:`equation_shape` of an equation found earlier for the same series,
+    for example at other digits or with more terms) is fitted first and kept if it passes the
+    same test on every coefficient; otherwise the full search runs (a long series that obeys a
+    first-order equation with ``Q_1(0) = 0`` costs the search about a second: some 150 linear
+    systems)."""
     tol = exact_tolerance(digits)
+    if shape is not None:
+        eq = _fit_shape(c, dps, tol, *shape)
+        if eq is not None:
+            return eq
     for K in (0, 1, 2):
         if K == 0 and not _maybe_rational(c, dps, tol):
             continue
@@ -57,9 +68,7 @@ def find_equation(c, dps: int, digits: int):
         eqs = exact_equation(D, K, dps, tol)
         if eqs:
             L, _, Q, _ = eqs[0]
-            P = [-_equation_at(D, K, Q, n)[0] for n in range(L + 1)]
-            scale = max([abs(v) for q in Q for v in q] + [mpmath.mpf(1)])
-            P = [v if abs(v) > mpmath.mpf(10) ** (-dps // 2) * scale else mpmath.mpf(0) for v in P]
+            P = _inhomogeneity(D, K, Q, L, dps)
             if K == 0:
                 q = Q[0]
                 dq = [k * q[k] for k in range(1, len(q))] or [mpmath.mpf(0)]
@@ -67,6 +76,37 @@ def find_equation(c, dps: int, digits: int):
                 return 1, [dq, list(q)], dp
             return K, Q, P
     return None
+
+
+def equation_shape(eq):
+    """``(K, lead, M, L)`` of an equation from :func:`find_equation` (order, order of the
+    zero of ``Q_K`` at 0, degree of the ``Q_j``, degree of ``P``), to pass back as its
+    ``shape``; None for a rational function's converted equation (found quickly anyway)."""
+    if eq is None:
+        return None
+    K, Q, P = eq
+    if len({len(q) for q in Q}) != 1:
+        return None
+    return K, _order_at_zero(Q[K]), len(Q[K]) - 1, len(P) - 1
+
+
+def _fit_shape(c, dps, tol, K, lead, M, L):
+    """The equation of exactly this shape if it holds for every coefficient, else None."""
+    D = _deriv_coeffs(c, K)
+    try:
+        fit = fit_diffapprox(D, K, L, [M] * (K + 1), dps, lead)
+    except (ValueError, ZeroDivisionError, ArithmeticError):
+        return None
+    if fit is None or not _residual_ok(D, K, L, fit[0], tol) or _normalisation_vanishes(fit[0], dps):
+        return None
+    return K, fit[0], _inhomogeneity(D, K, fit[0], L, dps)
+
+
+def _inhomogeneity(D, K, Q, L, dps):
+    """``P`` (degree ``L``) of ``sum_j Q_j f^(j) + P = 0``, rounding-level entries set to 0."""
+    P = [-_equation_at(D, K, Q, n)[0] for n in range(L + 1)]
+    scale = max([abs(v) for q in Q for v in q] + [mpmath.mpf(1)])
+    return [v if abs(v) > mpmath.mpf(10) ** (-dps // 2) * scale else mpmath.mpf(0) for v in P]
 
 
 def _maybe_rational(c, dps, tol) -> bool:
@@ -205,7 +245,13 @@ def _start(roots, c, K, end, dps, n_terms):
     r0 = min(dist0 * rho, abs(end))
     z = end / abs(end) * r0 if end != 0 else mpmath.mpf(0)
     cs = list(c[:n_terms])
-    return z, [sum(cs[n] * mpmath.ff(n, j) * z ** (n - j) for n in range(j, len(cs))) for j in range(K)]
+
+    def derivative(j):                    # f^(j)(z) by Horner on n!/(n-j)! c_n (exact integers)
+        acc = 0
+        for n in range(len(cs) - 1, j - 1, -1):
+            acc = acc * z + cs[n] * math.perm(n, j)
+        return acc
+    return z, [derivative(j) for j in range(K)]
 
 
 def _clusters(roots, tol):
@@ -290,12 +336,12 @@ def _continue(Q, P, K, roots, c, x, dps, n_terms, digits):
 REFIT_GAP = mpmath.mpf(10) ** -8
 
 
-def _prepare(c, dps, digits):
+def _prepare(c, dps, digits, shape=None):
     """(K, Q, P, roots, None) of the equation of ``c`` fitted at ``dps + 10`` digits, or
     (None, ..., reason) when there is none or the origin is irregular."""
     with mpmath.workdps(dps + 10):
         cm = [mpmath.mpmathify(v) for v in c]
-        eq = find_equation(cm, dps + 10, digits)
+        eq = find_equation(cm, dps + 10, digits, shape)
     if eq is None:
         return None, None, None, None, ("the series obeys no linear differential equation of order 1 or 2 with "
                                         "polynomial coefficients (up to 64 unknowns) exactly: use another method")
@@ -337,16 +383,17 @@ def _value(eq, cm, x, dps, digits):
                                                   "line from 0", "rerun_change": mpmath.nstr(dev, 5)}), None
 
 
-def ode_evaluate(c, xs, dps: int, digits: int | None = None, coefficients_at=None):
+def ode_evaluate(c, xs, dps: int, digits: int | None = None, coefficients_at=None, shape=None):
     """Values at ``xs`` from the exact equation of ``c`` (see the module docstring).
 
     ``coefficients_at(d)``, if given, returns the coefficients at ``d`` digits (exact input): a
     point refused because going round an apparent singular point of the equation left a small
-    gap is retried once with the equation fitted at twice the digits.
+    gap is retried once with the equation fitted at twice the digits. ``shape``: see
+    :func:`find_equation`.
 
     Returns ``(outcomes, diagnostics)`` like the other evaluators."""
     digits = dps if digits is None else digits
-    K, Q, P, roots, why = _prepare(c, dps, digits)
+    K, Q, P, roots, why = _prepare(c, dps, digits, shape)
     if why:
         return [PointOutcome(None, None, False, why, {}) for _ in xs], {"equation": None}
     from .diffapprox import equation_text
@@ -362,7 +409,7 @@ def ode_evaluate(c, xs, dps: int, digits: int | None = None, coefficients_at=Non
             if fine is None:
                 d2 = 2 * dps + 20
                 c2 = coefficients_at(d2 + 10)
-                K2, Q2, P2, roots2, why2 = _prepare(c2, d2, d2 - 10)
+                K2, Q2, P2, roots2, why2 = _prepare(c2, d2, d2 - 10, shape)
                 with mpmath.workdps(d2 + 10):
                     fine = (None if why2 else ((K2, Q2, P2, roots2), [mpmath.mpmathify(v) for v in c2], d2))
                 if fine is None:
