@@ -70,10 +70,6 @@ def quadratic_degrees(n_used: int):
     return m + (r > 0), m + (r > 1), m
 
 
-def _square(c, n):
-    return [mpmath.fsum(c[i] * c[k - i] for i in range(k + 1)) for k in range(n)]
-
-
 class QuadraticApprox:
     """``P + Q y + R y^2 = 0`` with coefficient lists (low to high); ``y(0) = c0``."""
 
@@ -154,14 +150,14 @@ def quadratic_fit(c: Sequence, l: int, m: int, k: int, dps: int,
     cplx = any(isinstance(v, (mpmath.mpc, complex)) for v in c[:n])
     conv, back = (to_acb, acb_to_mp) if cplx else (to_arb, arb_to_mp)
     Mat = flint.acb_mat if cplx else flint.arb_mat
+    Pol = flint.acb_poly if cplx else flint.arb_poly
     cap = max_dps or 4 * int(dps) + 60
     prec_dps = int(dps) + 2 * (m + k) + 20
     while True:
-        with mpmath.workdps(prec_dps + 10):
-            c2 = _square([mpmath.mpmathify(v) for v in c[:n]], n)
         with flint_precision(prec_dps):
             f = [conv(v) for v in c[:n]]
-            f2 = [conv(v) for v in c2]
+            fp = Pol(f)
+            f2 = (list((fp * fp).coeffs()) + [conv(0)] * n)[:n]
             rows, rhs = [], []
             for i in range(l + 1, n):
                 row = [f[i - j] if i - j >= 0 else 0 for j in range(1, m + 1)]
@@ -179,9 +175,8 @@ def quadratic_fit(c: Sequence, l: int, m: int, k: int, dps: int,
                 if got >= dps or prec_dps >= cap:
                     Q = [conv(1)] + x[:m]
                     R = x[m:]
-                    P = [-(sum((Q[j] * f[i - j] for j in range(0, min(i, m) + 1)), conv(0))
-                           + sum((R[j] * f2[i - j] for j in range(0, min(i, k) + 1)), conv(0)))
-                         for i in range(l + 1)]
+                    Pp = -(Pol(Q) * fp + Pol(R) * Pol(f2))
+                    P = (list(Pp.coeffs()) + [conv(0)] * (l + 1))[:l + 1]
                     with mpmath.workdps(prec_dps):
                         out = [[back(v) for v in part] for part in (P, Q, R)]
                     if got < dps / 2:
