@@ -48,7 +48,8 @@ def add_arguments(parser) -> None:
     parser.add_argument("--reference", default=None, metavar="FILE",
                         help="reference values to compare with (lines 'at value [error]')")
     parser.add_argument("--large-power", default=None, metavar="P",
-                        help="expected power p of f ~ x^p at large x (conformal maps absorb it)")
+                        help="expected power p of f ~ x^p at large x (conformal maps absorb it; default: read from "
+                             "the series when it is clearly a simple fraction; 0 turns that off)")
     parser.add_argument("--no-verify", action="store_true",
                         help="skip the reruns at higher precision and with fewer terms (faster, less safe)")
     add_common_options(parser)

@@ -38,13 +38,13 @@ from typing import Sequence
 import mpmath
 
 from ..results import Estimate
-from ..transforms.conformal import ConformalMap, pull_back, rim_factor
+from ..transforms.conformal import ConformalMap, RayMap, StarMap, pull_back, rim_factor
 from .resum_band import (PointOutcome, RationalIntegrator, candidate_orders, fit_candidates,
                          outcomes_from_table)
 from .resum_pade import pade_evaluate
 from .resum_quadratic import quadratic_evaluate
 
-__all__ = ["conformal_evaluate", "derivative_evaluate", "mapped_coefficients"]
+__all__ = ["conformal_evaluate", "derivative_evaluate", "mapped_coefficients", "rim_power"]
 
 
 #: what to do about a point on the cut, appended to the refusal (one line)
@@ -64,6 +64,90 @@ def mapped_coefficients(c: Sequence, cmap: ConformalMap, dps: int, alpha=None) -
     """Coefficients in ``w`` of ``(1 - w/w_inf)^alpha f(x(w))``."""
     cw = [mpmath.mpmathify(v) for v in pull_back(c, cmap, dps)]
     return _times_rim(cw, alpha, cmap.rim_point())
+
+
+#: the large-x power read off at the rim is rounded to k/q with q <= this ...
+RIM_POWER_MAX_DEN = 4
+#: ... and used only if the middle half of the estimates lies within this of k/q (the
+#: estimates creep slowly onto the limit: on the angle-deformed kernel family from 100 loops
+#: they sit at 0.4999 (a = pi/8), 0.490 (3 pi/8) and 0.528 (5 pi/12) against the 1/2 that
+#: its finite-coupling values show; fractions with q <= 4 are at least 1/12 apart)
+RIM_POWER_TOL = 0.04
+
+
+def rim_exponent(cmap: ConformalMap):
+    """``a`` with ``x ~ (1 - w/w_inf)^(-a)`` at the rim point of the map (2 for a ray
+    map, from the map for a star map), None for maps where it is not worked out."""
+    if isinstance(cmap, StarMap):
+        return cmap.large_x_exponent()
+    if isinstance(cmap, RayMap):
+        return 2
+    return None
+
+
+def rim_power(c: Sequence, cmap: ConformalMap, dps: int, n_orders: int = 6):
+    """The power ``p`` in ``f ~ C x^p`` at large ``x``, read from the series through the map.
+
+    With ``f(x(w)) = w^k u(w)`` and ``u(0) != 0``, ``f ~ (1 - w/w_inf)^(-a p)`` at the
+    rim point means ``h(w) = (w_inf - w) u'(w)/u(w) -> a p`` there (``a`` from
+    :func:`rim_exponent`). ``h`` is re-expanded exactly as far as the series goes; its
+    near-diagonal Padé approximants of the ``n_orders`` largest term counts (offsets
+    -1, 0, 1) are evaluated at ``w_inf``. Returns ``(fraction, median, half_spread)``
+    with ``fraction`` the simplest ``k/q`` (``q <= RIM_POWER_MAX_DEN``) within
+    :data:`RIM_POWER_TOL` of the middle half of those values, or None when there is no
+    such fraction (a logarithm at infinity, values still moving, too few terms).
+    An estimate: an approximant evaluated on the rim converges to the limit only if
+    the function tends to the pure power there; the caller reports what it used.
+
+    >>> import mpmath
+    >>> c = [mpmath.binomial(mpmath.mpf(1) / 3, k) for k in range(40)]   # (1 + x)^(1/3)
+    >>> str(rim_power(c, RayMap(-1), 30)[0])
+    '1/3'
+    """
+    from fractions import Fraction
+    from .resum_band import rational_fit
+    a = rim_exponent(cmap)
+    if a is None or len(c) < 12:
+        return None
+    with mpmath.workdps(dps):
+        cw = [mpmath.mpmathify(v) for v in pull_back([mpmath.mpmathify(v) for v in c], cmap, dps)]
+        k = next((i for i, v in enumerate(cw) if v != 0), None)
+        if k is None:
+            return None
+        u = cw[k:]
+        n = len(u)
+        if n < 12:
+            return None
+        rim = cmap.rim_point()
+        q = []                                   # u'/u
+        for m in range(n - 1):
+            q.append(((m + 1) * u[m + 1] - mpmath.fsum(q[j] * u[m - j] for j in range(m))) / u[0])
+        h = [rim * q[0]] + [rim * q[m] - q[m - 1] for m in range(1, len(q))]
+        vals = []
+        N = len(h)
+        for nt in range(N, max(8, N - n_orders) - 1, -1):
+            for d in (0, 1, -1):
+                M = (nt - 1 - d) // 2
+                L = nt - 1 - M
+                r = rational_fit(h[:nt], L, M, min(dps, 30), reduce=False)
+                if r is None or r.den(rim) == 0:
+                    continue
+                v = r(rim) / a
+                if mpmath.isfinite(v) and abs(mpmath.im(v)) < 1e-6 * (1 + abs(v)):
+                    vals.append(mpmath.re(v))
+    if len(vals) < 6:
+        return None
+    vals.sort()
+    lo, hi = vals[len(vals) // 4], vals[(3 * len(vals)) // 4]
+    med = vals[len(vals) // 2]
+    half = (hi - lo) / 2
+    if half > RIM_POWER_TOL:
+        return None
+    for den in range(1, RIM_POWER_MAX_DEN + 1):
+        num = int(mpmath.nint(med * den))
+        if abs(lo - mpmath.mpf(num) / den) <= RIM_POWER_TOL and abs(hi - mpmath.mpf(num) / den) <= RIM_POWER_TOL:
+            return Fraction(num, den), med, half
+    return None
 
 
 def _derivative_gamma(alpha):

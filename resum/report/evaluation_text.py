@@ -154,6 +154,13 @@ def _render(result, title, reference):
                      "approximants resum f' in the mapped variable and integrate it from 0 (exactly, by partial "
                      "fractions); chosen because its band was narrower than that of the approximants to f itself, "
                      "and widened to reach their value if the two bands did not overlap.")
+    rim = [p for p in result.points if p.diagnostics.get("rim_power_alpha")]
+    if rim:
+        lines.append("")
+        lines.append("Growth divided out at " + ", ".join(mpmath.nstr(p.at, 12) for p in rim) + ": the power of x "
+                     "at large x read from the series (method line) was divided out there, the mapped function "
+                     "multiplied by (1 - w/w_inf)^alpha, alpha = " + rim[0].diagnostics["rim_power_alpha"] +
+                     ", before the approximants; the other points were resummed without it.")
     short = [p for p in result.points if p.diagnostics.get("reach")]
     if short:
         lines.append("")

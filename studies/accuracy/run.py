@@ -156,7 +156,7 @@ def main(argv=None):
             tv = truth(cache, f"bes:{a}:{g}", lambda: t_bes(a, g))
             td = 50 if a == "0" else TRUTH_DPS[g] - 2
             run(f"bes a={a}", s, 100, g, tv, "pade", td)
-            run(f"bes a={a} p=1/2", s, 100, g, tv, None, td, large_x_power=mpmath.mpf(1) / 2)
+            run(f"bes a={a} p off", s, 100, g, tv, None, td, large_x_power=0)
             if args.quadratic:
                 run(f"bes a={a} p=1/2 quad", s, 100, g, tv, None, td, large_x_power=mpmath.mpf(1) / 2,
                     method="conformal-quadratic")

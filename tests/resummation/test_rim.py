@@ -33,7 +33,11 @@ def test_band_near_the_rim_still_holds(x, widened):
     # (1 + x)^(-1/3) from 40 terms: at 1e6 the band used to be 0.0109(7) around the true
     # 0.0100000 (band/error 0.67, truth outside). Points within 1/40 of the rim now get
     # their band widened by 1/((1 - |w|) 40): band/error 8.4 at 1e6 and 19 at 1e7.
-    res = evaluate(binomial_series(Fraction(-1, 3), 40), [x], Context(dps=30), method="conformal-pade")
+    # The power x^(-1/3) is not given (large_x_power=0), as for a function whose large-x
+    # power cannot be read off; read off, it makes the mapped function (1 + w)^(-2/3) and
+    # the rim harmless (next test).
+    res = evaluate(binomial_series(Fraction(-1, 3), 40), [x], Context(dps=30), method="conformal-pade",
+                   large_x_power=0)
     p = res.points[0]
     with workdps(50):
         truth = (1 + mpmath.mpf(x)) ** (-mpmath.mpf(1) / 3)
@@ -42,3 +46,16 @@ def test_band_near_the_rim_still_holds(x, widened):
         assert p.value.error / err <= 100
     assert ("rim_layer" in p.diagnostics) == widened
     assert any("rim of the mapped disk" in w for w in res.warnings) == widened
+
+
+@pytest.mark.parametrize("x", ["1e4", "1e6", "1e7"])
+def test_power_read_from_the_series_removes_the_rim_problem(x):
+    # |w| >= 0.98 here: the power read from the series is used (from |w| = 0.95 on)
+    res = evaluate(binomial_series(Fraction(-1, 3), 40), [x], Context(dps=30), method="conformal-pade")
+    p = res.points[0]
+    assert "x^(-1/3) at large x" in res.diagnostics["why"]
+    assert p.diagnostics["rim_power_alpha"] is not None
+    with workdps(50):
+        truth = (1 + mpmath.mpf(x)) ** (-mpmath.mpf(1) / 3)
+        assert p.value.contains(truth)
+        assert abs(p.value.value - truth) / truth < mpmath.mpf(10) ** -29
