@@ -111,7 +111,9 @@ def row(name, n, at, p, tv, plain=None, truth_digits=45):
         if plain is not None and plain.value is not None:
             e2 = abs(plain.value.value - tv)
             pd = f"{float(-mpmath.log10(e2 / abs(tv))):.1f}" if e2 else "99"
-        return [name, n, at, p.method, dig_txt, f"{claim:.1f}", ratio_txt, "yes" if inside else "NO", pd]
+        meth = p.method + (f" ({p.diagnostics['variant']})"
+                           if p.diagnostics.get("variant") in ("derivative", "quadratic") else "")
+        return [name, n, at, meth, dig_txt, f"{claim:.1f}", ratio_txt, "yes" if inside else "NO", pd]
 
 
 def main(argv=None):

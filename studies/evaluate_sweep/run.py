@@ -108,13 +108,20 @@ def main(argv=None):
     ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     ap.add_argument("--terms", type=int, action="append", help="term counts (default 40 and 80)")
     ap.add_argument("--json", help="write the rows to this file")
+    ap.add_argument("--method", default="auto", help="resummation method (default auto)")
+    ap.add_argument("--far", action="store_true",
+                    help="also x = 1e4 and 1e5 wherever x = 1000 is in the list (near the rim of the disk)")
     args = ap.parse_args(argv)
     rows = []
     t0 = time.time()
     for n in args.terms or [40, 80]:
         for name, c, f, xs in cases(n):
             t = time.time()
-            res = evaluate(Series(c), xs, Context(dps=DPS))
+            if args.far and "1000" in xs:
+                xs = xs + ["1e4", "1e5"]
+            if args.method != "auto" and name.startswith("Stieltjes"):
+                continue
+            res = evaluate(Series(c), xs, Context(dps=DPS), method=args.method)
             for p in res.points:
                 with workdps(50):
                     truth = f(mpmath.mpf(p.x))

@@ -111,3 +111,24 @@ def test_zero_angle_power_read_and_verified(zero_angle):
             assert p.success and p.value.contains(truth)
             assert _digits(p.value, truth) >= want
             assert p.value.error <= 1000 * abs(p.value.value - truth)
+
+
+def test_cusp_angle_strong_coupling_near_the_rim():
+    # a = pi/4 (cusp anomalous dimension, ~ 2g at strong coupling: Frolov and Tseytlin,
+    # hep-th/0204226): auto reads x^(1/2), and at g = 5 and 20 (|w| = 0.905, 0.975) the
+    # quadratic approximants give the narrower band (measured 10.0 and 6.3 digits, against
+    # 8.5 and 5.2 by conformal-Padé alone). Truth: the kernel solver, 14 digits.
+    s = weak_coupling_series("pi/4", 100, Context(dps=150))
+    r = evaluate(s, ["5", "20"], Context(dps=30))
+    assert "x^(1/2) at large x" in r.diagnostics["why"]
+    from resum.report.evaluation_text import render_evaluation
+    assert "Quadratic variant at 5.0, 20.0:" in render_evaluation(r)     # the report says so
+    with workdps(40):
+        for p, g, want in zip(r.points, ["5", "20"], [9.5, 6]):
+            ref = finite_coupling(g, "pi/4", Context(dps=14))
+            assert ref.success
+            truth = ref.value.value
+            assert p.diagnostics["variant"] == "quadratic"
+            assert p.success and p.value.contains(truth)
+            assert _digits(p.value, truth) >= want
+            assert p.value.error <= 1000 * abs(p.value.value - truth)
