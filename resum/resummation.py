@@ -867,7 +867,8 @@ def _near_rim_quadratic(plan: _Plan, c, xs, outs, diag, dps, n_orders, target):
     if not idx:
         return outs, diag
     q, qd = conformal_evaluate(c, [xs[j] for j in idx], plan.cmap, dps, alpha=plan.alpha,
-                               n_orders=7 if n_orders is None else n_orders, variants="quadratic")
+                               n_orders=7 if n_orders is None else n_orders, variants="quadratic",
+                               target_digits=target)
     before = [outs[j] for j in idx]
     names = [o.info.get("variant") for o in before]
     chosen = _choose([("pade", before), ("quadratic", q)])
