@@ -736,11 +736,10 @@ def _rim_alpha(cmap, alpha, large_x_power, c, ctx):
     if got is None or got[0] == 0:
         return None, "", None
     p, med, half = got
-    note = (f"; growth x^({p}) at large x divided out at points with |w| >= {RIM_POWER_FROM_W} "
-            f"(and used by quadratic approximants tried from |w| >= {QUADRATIC_FROM_W}) "
-            f"(the log-derivative through the map gives {mpmath.nstr(med, 5)} +- "
-            f"{mpmath.nstr(max(half, mpmath.mpf(10) ** -6), 2)} at infinity; give large_x_power to apply "
-            "a power everywhere, 0 to turn this off)")
+    note = (f"; growth x^({p}) at large x read from the series (the log-derivative through the map gives "
+            f"{mpmath.nstr(med, 5)} +- {mpmath.nstr(max(half, mpmath.mpf(10) ** -6), 2)} at infinity), divided "
+            f"out at points with |w| >= {RIM_POWER_FROM_W} and by the quadratic approximants tried from "
+            f"|w| >= {QUADRATIC_FROM_W}; give large_x_power to apply a power everywhere, 0 to turn this off")
     return _alpha_for(cmap, None, mpmath.mpf(p.numerator) / p.denominator), note, RIM_POWER_FROM_W
 
 
@@ -853,6 +852,8 @@ QUADRATIC_FROM_W = 0.9
 
 
 def _near_rim_quadratic(plan: _Plan, c, xs, outs, diag, dps, n_orders, target):
+    """The quadratic variant at the points near the rim that conformal-Padé left short of
+    ``target`` digits (:data:`QUADRATIC_FROM_W`); per point the narrower band wins."""
     from .estimators.resum_conformal import _choose, conformal_evaluate
     if plan.alpha is None or plan.alpha == 0 or not isinstance(plan.cmap, (RayMap, StarMap)):
         return outs, diag
@@ -957,9 +958,11 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
         expected power ``p`` of ``f ~ x^p`` at large ``x`` from which alpha is set.
         When neither is given, conformal plans read ``p`` from the series itself
         (the log-derivative through the map at the rim point,
-        :func:`~resum.estimators.resum_conformal.rim_power`) and use it when it is
-        clearly a simple fraction; the plan's ``why`` says so. ``large_x_power=0``
-        turns this off.
+        :func:`~resum.estimators.resum_conformal.rim_power`) when it is clearly a
+        simple fraction, and use it near the rim only (:data:`RIM_POWER_FROM_W`,
+        and for the quadratic variant :data:`QUADRATIC_FROM_W`); the plan's
+        ``why`` says so. A power that is given applies at every point (and enables
+        the quadratic variant near the rim). ``large_x_power=0`` turns both off.
     lateral : {"auto", "always", "never"}
         Lateral Borel sums when a singularity lies on the integration ray.
     n_orders : int, optional
