@@ -81,3 +81,57 @@ def test_too_few_terms_is_a_clear_refusal():
     r = evaluate(s, [5], Context(dps=15), method="conformal-quadratic", verify=False)
     p = r.points[0]
     assert not p.success and "at least 12 terms" in p.message
+
+
+def _agree_digits(a, b):
+    """Normwise relative digits on which two approximants' coefficients agree."""
+    xa, xb = a.P + a.Q + a.R, b.P + b.Q + b.R
+    scale = max(abs(v) for v in xa)
+    diff = max(abs(u - v) for u, v in zip(xa, xb))
+    return float(-mpmath.log10(diff / scale)) if diff else 99.0
+
+
+@pytest.mark.parametrize("n", [61, 90])
+def test_order_basis_agrees_with_the_dense_lu_on_random_series(n):
+    # the O(n^2) order-basis recursion against python-flint's dense ball LU (arb_mat.solve) on
+    # the same Hermite-Padé system; coefficients random in [-1, 1] times 0.8^k (random seed 5)
+    import random
+    rng = random.Random(5)
+    with workdps(80):
+        c = [mpmath.mpf(rng.uniform(-1, 1)) * mpmath.mpf("0.8") ** k for k in range(n)]
+        l, m, k = quadratic_degrees(n)
+        a = quadratic_fit(c, l, m, k, 40, method="order-basis")
+        b = quadratic_fit(c, l, m, k, 40, method="lu")
+        assert a is not None and b is not None
+        assert a.digits >= 40 and b.digits >= 40
+        assert _agree_digits(a, b) >= 39
+
+
+def test_order_basis_agrees_with_the_dense_lu_on_the_kernel_family():
+    # the cusp angle of the BES family (Beisert, Eden, Staudacher, hep-th/0610251), 125 loops
+    # at 120 digits, mapped to the disk of its cut (-inf, -1/16] with the growth x^(1/2)
+    # divided out: where auto uses the recursion (ORDER_BASIS_FROM terms and more). (From
+    # 60-digit coefficients the top approximants of both constructions are degenerate alike:
+    # a near-common factor, no value anywhere.)
+    from resum.estimators.resum_conformal import mapped_coefficients
+    from resum.estimators.resum_quadratic import ORDER_BASIS_FROM
+    from resum.sources.bes import weak_coupling_series
+    from resum.transforms.conformal import RayMap
+    s = weak_coupling_series("pi/4", 125, Context(dps=120))
+    with workdps(120):
+        cw = mapped_coefficients(s.coefficients, RayMap(mpmath.mpf(-1) / 16), 120, alpha=1)
+        n = len(cw)
+        assert n >= ORDER_BASIS_FROM
+        l, m, k = quadratic_degrees(n)
+        a = quadratic_fit(cw, l, m, k, 30)               # auto: the recursion
+        b = quadratic_fit(cw, l, m, k, 30, method="lu")
+        assert a is not None and b is not None and a.digits >= 30
+        assert _agree_digits(a, b) >= 29
+        for w in (mpmath.mpf("0.3"), mpmath.mpf("0.6")):
+            va, vb = a(w), b(w)
+            assert va is not None and vb is not None and abs(va - vb) <= abs(vb) * mpmath.mpf(10) ** -28
+
+
+def test_unknown_fit_method_is_refused():
+    with pytest.raises(ValueError, match="order-basis"):
+        quadratic_fit([1, 2, 3, 4, 5], 1, 1, 0, 10, method="svd")
