@@ -842,7 +842,7 @@ def _run_conformal(plan: _Plan, c, xs, dps, n_orders, target):
 #: With the power at large x known (given, or read from the series), points with
 #: |w| >= QUADRATIC_FROM_W whose conformal-Padé band falls short of the digits asked also get
 #: the quadratic (Hermite-Padé) approximants, with the power divided out, and the narrower
-#: band wins (widened to reach the other value where the two do not overlap). Measured on the
+#: band wins (widened to cover the other band where the two do not overlap). Measured on the
 #: angle-deformed kernel family from 100 loops with x^(1/2) given (studies/accuracy): at g = 5
 #: (|w| = 0.905) and g = 20 (0.975) the quadratic approximants gain 1-2.3 digits at a = pi/8,
 #: pi/4 and 3 pi/8 with bands 9-380 x their error, and lose 13 digits at a = 0, where

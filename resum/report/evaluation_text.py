@@ -153,7 +153,7 @@ def _render(result, title, reference):
         lines.append("Derivative variant at " + ", ".join(mpmath.nstr(p.at, 12) for p in deriv) + ": there the "
                      "approximants resum f' in the mapped variable and integrate it from 0 (exactly, by partial "
                      "fractions); chosen because its band was narrower than that of the approximants to f itself, "
-                     "and widened to reach their value if the two bands did not overlap.")
+                     "and widened to cover their band if the two bands did not overlap.")
     quad = [p for p in result.points if p.diagnostics.get("variant") == "quadratic"
             and p.method == "conformal-pade"]
     if quad:
@@ -161,7 +161,7 @@ def _render(result, title, reference):
         lines.append("Quadratic variant at " + ", ".join(mpmath.nstr(p.at, 12) for p in quad) + ": near the rim "
                      "of the mapped disk, with the growth at large x known, quadratic approximants P + Q f + R f^2 "
                      "= 0 of the mapped function were tried as well (the root that equals the series at 0 followed "
-                     "to the point); chosen because their band was narrower, and widened to reach the Padé value "
+                     "to the point); chosen because their band was narrower, and widened to cover the Padé band "
                      "if the two bands did not overlap.")
     rim = [p for p in result.points if p.diagnostics.get("rim_power_alpha")]
     if rim:
