@@ -165,19 +165,22 @@ def _order_basis(fp, f2, n, l, m, k, Pol, conv):
     vec = [[Pol([one]), Pol([]), Pol([])], [Pol([]), Pol([one]), Pol([])], [Pol([]), Pol([]), Pol([one])]]
     res = [Pol([one]), fp, Pol(f2)]
     sdeg = [-l, -m, -k]
+    def exact_zero(x):
+        return abs(x.mid()) == 0 and x.rad() == 0
+
     for s in range(n):
         cs = [r[s] if r.length() > s else zero for r in res]
         usable = [i for i in range(3) if not cs[i].contains(0)]
         if not usable:
-            if all(abs(x.mid()) == 0 and x.rad() == 0 for x in cs):
+            if all(exact_zero(x) for x in cs):
                 continue                      # every residual already vanishes here (exactly)
             return None
         low = min(sdeg[i] for i in usable)
         piv = max((i for i in usable if sdeg[i] == low), key=lambda i: abs(cs[i].mid()))
-        if any(sdeg[i] < low for i in range(3) if i != piv):
+        if any(sdeg[i] < low and not exact_zero(cs[i]) for i in range(3)):
             return None                       # a vector of lower degree has an unclear residual
         for i in range(3):
-            if i == piv or (abs(cs[i].mid()) == 0 and cs[i].rad() == 0):
+            if i == piv or exact_zero(cs[i]):
                 continue
             t = cs[i] / cs[piv]
             vec[i] = [a - b * t for a, b in zip(vec[i], vec[piv])]
