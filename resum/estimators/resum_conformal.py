@@ -105,23 +105,17 @@ def rim_power(c: Sequence, cmap: ConformalMap, dps: int, n_orders: int = 6):
     '1/3'
     """
     from fractions import Fraction
+    from .dlog import dlog_series
     from .resum_band import rational_fit
     a = rim_exponent(cmap)
     if a is None or len(c) < 12:
         return None
     with mpmath.workdps(dps):
         cw = [mpmath.mpmathify(v) for v in pull_back([mpmath.mpmathify(v) for v in c], cmap, dps)]
-        k = next((i for i, v in enumerate(cw) if v != 0), None)
-        if k is None:
-            return None
-        u = cw[k:]
-        n = len(u)
-        if n < 12:
+        q = dlog_series(cw)                      # u'/u, leading zeros of the mapped series stripped
+        if q is None or len(q) < 11:
             return None
         rim = cmap.rim_point()
-        q = []                                   # u'/u
-        for m in range(n - 1):
-            q.append(((m + 1) * u[m + 1] - mpmath.fsum(q[j] * u[m - j] for j in range(m))) / u[0])
         h = [rim * q[0]] + [rim * q[m] - q[m - 1] for m in range(1, len(q))]
         vals = []
         N = len(h)
