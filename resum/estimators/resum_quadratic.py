@@ -162,7 +162,8 @@ def _order_basis(fp, f2, n, l, m, k, Pol, conv):
     (sigma-basis) construction of Beckermann and Labahn, SIAM J. Matrix Anal. Appl. 15
     (1994) 804-823, in its simplest form (from memory); the dense LU below is its check."""
     zero, one = conv(0), conv(1)
-    vec = [[Pol([one]), Pol([]), Pol([])], [Pol([]), Pol([one]), Pol([])], [Pol([]), Pol([]), Pol([one])]]
+    # only Q_i and R_i are kept: P_i enters the residuals, and P follows from Q and R at the end
+    vec = [[Pol([]), Pol([])], [Pol([one]), Pol([])], [Pol([]), Pol([one])]]
     res = [Pol([one]), fp, Pol(f2)]
     sdeg = [-l, -m, -k]
     def exact_zero(x):
@@ -191,7 +192,7 @@ def _order_basis(fp, f2, n, l, m, k, Pol, conv):
     best = min(range(3), key=lambda i: sdeg[i])
     if sdeg[best] > 0:
         return None
-    P, Q, R = vec[best]
+    Q, R = vec[best]
     q0 = Q[0] if Q.length() else zero
     if q0.contains(0):
         return None
@@ -221,11 +222,16 @@ def quadratic_fit(c: Sequence, l: int, m: int, k: int, dps: int,
     conv, back = (to_acb, acb_to_mp) if cplx else (to_arb, arb_to_mp)
     Mat = flint.acb_mat if cplx else flint.arb_mat
     Pol = flint.acb_poly if cplx else flint.arb_poly
-    cap = max_dps or 4 * int(dps) + 60
+    def plan(ob):
+        """(starting precision, cap) in digits for the recursion (ob) or the dense LU."""
+        lu_cap = max_dps or 4 * int(dps) + 60
+        if ob:
+            start = int(dps) + int(math.ceil(ORDER_BASIS_LOSS * n)) + 20
+            return start, max(lu_cap, start)
+        return int(dps) + 2 * (m + k) + 20, lu_cap
+
     use_ob = method == "order-basis" or (method == "auto" and n >= ORDER_BASIS_FROM)
-    if use_ob:
-        cap = max(cap, int(dps) + int(math.ceil(ORDER_BASIS_LOSS * n)) + 20)
-    prec_dps = int(dps) + (int(math.ceil(ORDER_BASIS_LOSS * n)) if use_ob else 2 * (m + k)) + 20
+    prec_dps, cap = plan(use_ob)
     while True:
         with flint_precision(prec_dps):
             f = [conv(v) for v in c[:n]]
@@ -249,13 +255,7 @@ def quadratic_fit(c: Sequence, l: int, m: int, k: int, dps: int,
                     x = None
             if x is not None:
                 got = min(_rel_digits(x), float(prec_dps)) if x else float(prec_dps)
-                if got >= dps or prec_dps >= cap:
-                    if got < dps / 2:
-                        if use_ob and method == "auto":
-                            use_ob, prec_dps = False, int(dps) + 2 * (m + k) + 20
-                            cap = max_dps or 4 * int(dps) + 60
-                            continue
-                        return None
+                if got >= dps or (prec_dps >= cap and got >= dps / 2):
                     Q = [conv(1)] + x[:m]
                     R = x[m:]
                     Pp = -(Pol(Q) * fp + Pol(R) * Pol(f2))
@@ -266,8 +266,8 @@ def quadratic_fit(c: Sequence, l: int, m: int, k: int, dps: int,
         if prec_dps >= cap:
             if use_ob and method == "auto":
                 # the recursion did not get there: the dense LU decides
-                use_ob, prec_dps = False, int(dps) + 2 * (m + k) + 20
-                cap = max_dps or 4 * int(dps) + 60
+                use_ob = False
+                prec_dps, cap = plan(False)
                 continue
             return None
         prec_dps = min(cap, 2 * prec_dps)
