@@ -39,8 +39,10 @@ from __future__ import annotations
 
 from typing import Callable, Optional, Sequence
 
+import flint
 import mpmath
 
+from ..transforms._arb import flint_precision, to_acb
 from .resum_band import candidate_orders, fit_candidates, outcomes_from_table
 
 __all__ = ["pade_evaluate", "partial_sum_evaluate"]
@@ -77,11 +79,14 @@ def pade_evaluate(c: Sequence, zs: Sequence, dps: int, *, n_orders: int = 7,
     table = [[None] * len(orders) for _ in zs]
     dropped = [[] for _ in zs]
     fits, singular = fit_candidates(c, orders, dps)
+    tols = [pole_tol * max(abs(z), mpmath.mpf(10) ** -10) for z in zs]
     for i, r in fits:
         L, M = orders[i][1], orders[i][2]
-        poles = r.poles(dps) if M > 0 else []
+        # the roots of Q only where a pole may be near a point (most approximants have
+        # none near any point, and the roots cost more than the rest of the evaluation)
+        poles = r.poles(dps) if M > 0 and not _no_pole_near(r.q, zs, tols, dps) else []
         for j, z in enumerate(zs):
-            tol = pole_tol * max(abs(z), mpmath.mpf(10) ** -10)
+            tol = tols[j]
             near = [p for p in poles if abs(p - z) < tol
                     and not (keep_poles_beyond is not None and abs(p) >= keep_poles_beyond)]
             if near:
@@ -96,6 +101,31 @@ def pade_evaluate(c: Sequence, zs: Sequence, dps: int, *, n_orders: int = 7,
         o.info["orders"] = [f"[{L}/{M}]" for _, L, M in orders]
         o.info["values"] = [None if v is None else mpmath.nstr(v, 45) for v in table[j]]
     return outs, {"n_singular_systems": singular, "orders": [list(o) for o in orders]}
+
+
+def _no_pole_near(q: Sequence, zs: Sequence, tols: Sequence, dps: int) -> bool:
+    """True when the polynomial ``q`` provably has no root within ``tols[j]`` of any
+    ``zs[j]`` (False: it may have one, or the test could not tell).
+
+    Rouché's theorem on the shifted polynomial ``q(z + t) = sum a_k t^k``: if
+    ``|a_0| > sum_(k>=1) |a_k| rho^k`` then ``q`` has as many roots in ``|t| < rho``
+    as the constant ``a_0``, none (common practice, no source). The shift and the
+    sums run in ball arithmetic, so the answer True is rigorous for the coefficients
+    as given."""
+    with flint_precision(dps + 10):
+        Q = flint.acb_poly([to_acb(v) for v in q])
+        for z, tol in zip(zs, tols):
+            a = list(Q(flint.acb_poly([to_acb(z), 1])).coeffs())
+            if not a:
+                return False
+            rho = to_acb(tol).real
+            s, rk = flint.arb(0), flint.arb(1)
+            for ak in a[1:]:
+                rk = rk * rho
+                s += abs(ak) * rk
+            if not (abs(a[0]) > s):
+                return False
+    return True
 
 
 def partial_sum_evaluate(c: Sequence, zs: Sequence, dps: int, *, n_orders: int = 7, safety=4):

@@ -1,0 +1,40 @@
+"""The pole screen of Padé evaluation (Rouché's test instead of the roots of Q).
+
+Reference: the roots of the same polynomials by mpmath.polyroots at 50 digits; the screen
+may answer "maybe" where no root is near (it is a sufficient test), never "none" where one is.
+"""
+import random
+
+import mpmath
+
+from resum.context import workdps
+from resum.estimators.resum_pade import _no_pole_near, pade_evaluate
+
+
+def test_screen_never_misses_a_root():
+    rng = random.Random(7)
+    with workdps(50):
+        for _ in range(20):
+            M = rng.randint(1, 12)
+            q = [mpmath.mpf(1)] + [mpmath.mpf(rng.uniform(-1, 1)) for _ in range(M)]
+            roots = mpmath.polyroots(list(reversed(q)), maxsteps=200, extraprec=100)
+            for _ in range(10):
+                z = mpmath.mpc(rng.uniform(-3, 3), rng.uniform(-3, 3))
+                tol = mpmath.mpf(rng.uniform(0.01, 0.5))
+                near = any(abs(p - z) < tol for p in roots)
+                if near:
+                    assert not _no_pole_near(q, [z], [tol], 50)
+                # with rho = d / (4 M), d the distance to the nearest root, sum |a_k| rho^k
+                # <= |a_0| ((1 + 1/(4M))^M - 1) <= |a_0| (e^(1/4) - 1): the screen must answer
+                d = min(abs(p - z) for p in roots)
+                assert _no_pole_near(q, [z], [d / (4 * M)], 50)
+
+
+def test_approximant_with_a_pole_on_the_point_is_dropped():
+    # 1/(1 - x/2) + log(1+x)/x at x = 2 exactly: every approximant has its pole at 2 (to
+    # rounding), so every one is dropped and no value is given there (common practice, no source)
+    with workdps(40):
+        c = [mpmath.mpf(2) ** -k + mpmath.mpf(-1) ** k / (k + 1) for k in range(30)]
+        out, _ = pade_evaluate(c, [mpmath.mpf(2), mpmath.mpf(1)], 40)
+        assert not out[0].ok and out[0].info["dropped_for_poles"]
+        assert out[1].ok and out[1].re.contains(2 + mpmath.log(2))
