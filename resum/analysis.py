@@ -173,21 +173,39 @@ def default_context(series) -> Context:
 # running and reconciling
 # ---------------------------------------------------------------------------
 
+def _one(name, series, ctx):
+    """One estimator's result (its own numerical failures become a failed result)."""
+    f = get_method(name)
+    t0 = time.perf_counter()
+    try:
+        r = f(series, ctx)
+    except InputError as exc:
+        r = MethodResult(name, False, Status.TOO_FEW_TERMS, str(exc))
+    except (ZeroDivisionError, ValueError, ArithmeticError, mpmath.libmp.NoConvergence) as exc:
+        r = MethodResult(name, False, Status.FAILED, f"numerical failure: {exc}")
+    d = dict(r.diagnostics)
+    d["seconds"] = round(time.perf_counter() - t0, 3)
+    return replace(r, diagnostics=d)
+
+
+#: estimators in decreasing order of cost on long series (started first when they run
+#: side by side, see :mod:`resum.parallel`)
+_HEAVY_FIRST = ("diff-approx2", "diff-approx", "dlog", "pade")
+
+
 def _run(series, ctx, names):
-    out = {}
-    for name in names:
-        f = get_method(name)
-        t0 = time.perf_counter()
-        try:
-            r = f(series, ctx)
-        except InputError as exc:
-            r = MethodResult(name, False, Status.TOO_FEW_TERMS, str(exc))
-        except (ZeroDivisionError, ValueError, ArithmeticError, mpmath.libmp.NoConvergence) as exc:
-            r = MethodResult(name, False, Status.FAILED, f"numerical failure: {exc}")
-        d = dict(r.diagnostics)
-        d["seconds"] = round(time.perf_counter() - t0, 3)
-        out[name] = replace(r, diagnostics=d)
-    return out
+    """Every estimator in ``names`` on ``series``; side by side in worker processes for
+    long series on a machine with several cores (:mod:`resum.parallel`), same results."""
+    from .parallel import jobs_for, run_tasks
+    names = list(names)
+    jobs = jobs_for(series.n_terms, sum(1 for n in names if n in _HEAVY_FIRST))
+    if jobs > 1:
+        order = sorted(names, key=lambda n: _HEAVY_FIRST.index(n) if n in _HEAVY_FIRST else len(_HEAVY_FIRST))
+        res = run_tasks(_one, [(n, series, ctx) for n in order], jobs)
+        if res is not None:
+            got = dict(zip(order, res))
+            return {n: got[n] for n in names}
+    return {name: _one(name, series, ctx) for name in names}
 
 
 def _err(s: Singularity):

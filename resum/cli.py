@@ -91,4 +91,6 @@ def main(argv: Optional[List[str]] = None) -> int:
 
 
 def run() -> None:  # console-script entry point
+    from .parallel import allow_auto
+    allow_auto()       # long analyses may use worker processes (resum.parallel)
     sys.exit(main())

@@ -754,6 +754,12 @@ def _alpha_for(cmap, alpha, large_x_power):
     return 2 * p if isinstance(cmap, RayMap) else p
 
 
+def _run_at(plan: _Plan, c, xs, dps, n_orders, quad_dps, target):
+    """:func:`_run` at ``dps`` working digits (a task of :func:`evaluate`)."""
+    with _wd(dps):
+        return _run(plan, c, xs, dps, n_orders, quad_dps, target=target)
+
+
 def _run(plan: _Plan, c, xs, dps, n_orders, quad_dps=None, target=None):
     from .estimators.resum_borel import borel_evaluate
     from .estimators.resum_conformal import conformal_evaluate
@@ -1026,19 +1032,25 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
         # the Padé systems need the long working precision; the Laplace integrals only the
         # reported digits plus guards (tanh-sinh converges fast there)
         qd = min(wd, ctx.work_dps + 5)
-        with _wd(wd):
-            outs, diag = _run(plan, c, xs, wd, n_orders, qd, target=ctx.dps)
-        checks = [[] for _ in xs]
+        # the run itself and, with verify, its reruns at higher precision (input moved in its
+        # last digit) and with fewer terms: independent, side by side where resum.parallel allows
+        tasks = [(plan, c, xs, wd, n_orders, qd, ctx.dps)]
         if verify:
             hi = ctx.higher()
             wd2 = hi.work_dps + series.n_terms // 2 + extra if work_dps is None else work_dps + 15
             with _wd(wd2):
-                c2 = series.dense(Context(dps=wd2, guard=0))
-                c2 = _perturb(c2, series.digits)
-                o2, _ = _run(plan, c2, xs, wd2, n_orders, min(wd2, hi.work_dps + 5), target=hi.dps)
+                c2 = _perturb(series.dense(Context(dps=wd2, guard=0)), series.digits)
             nf = max(6, series.n_terms - max(4, series.n_terms // 10))
-            with _wd(wd):
-                o3, _ = _run(plan, c[:nf], xs, wd, n_orders, qd, target=ctx.dps)
+            tasks += [(plan, c2, xs, wd2, n_orders, min(wd2, hi.work_dps + 5), hi.dps),
+                      (plan, c[:nf], xs, wd, n_orders, qd, ctx.dps)]
+        from .parallel import jobs_for, run_tasks
+        done = run_tasks(_run_at, tasks, jobs_for(series.n_terms, len(tasks)))
+        if done is None:
+            done = [_run_at(*t) for t in tasks]
+        outs, diag = done[0]
+        checks = [[] for _ in xs]
+        if verify:
+            o2, o3 = done[1][0], done[2][0]
             for j in range(len(xs)):
                 checks[j] = [("higher precision", o2[j]), (f"{nf} terms", o3[j])]
         baselines = []

@@ -82,8 +82,21 @@ def _watch_parent() -> None:
     threading.Thread(target=watch, name="resum-parent-watch", daemon=True).start()
 
 
+def _one_process_per_point() -> None:
+    """The points fill the cores: no worker processes inside one point's analysis
+    (:mod:`resum.parallel`), unless the user asked for them with ``RESUM_JOBS``."""
+    os.environ.setdefault("RESUM_JOBS", "1")
+
+
+def _cluster_point(spec, index: int, runner: str):
+    """compute_point on a cluster worker, without worker processes of its own."""
+    _one_process_per_point()
+    return compute_point(spec, index, runner)
+
+
 def _point_process(conn, spec, index: int, runner: str) -> None:
     """Body of the process computing one point: send its record back and end."""
+    _one_process_per_point()
     # Ctrl-C at a terminal reaches the whole process group: the main process
     # decides (it stops this process); no traceback from here
     signal.signal(signal.SIGINT, signal.SIG_IGN)
@@ -239,7 +252,7 @@ class DaskRunner:
 
             def submit():
                 i = pending.pop()
-                f = client.submit(compute_point, spec_f, i, self.name, pure=False,
+                f = client.submit(_cluster_point, spec_f, i, self.name, pure=False,
                                   key=f"resum-{spec.name}-{i}-{os.getpid()}-{id(self)}")
                 futs[f] = i
                 done.add(f)

@@ -1,0 +1,125 @@
+"""Worker processes for the independent parts of one analysis.
+
+An analysis runs several estimators on the same series (ratio, Padé, Dlog-Padé,
+differential approximants of order 1 and 2, ...), then reruns those that made the
+verdict with fewer terms and with more digits. The estimators do not depend on
+each other, so on a machine with several cores they can run side by side: on the
+200-loop series of the angle-deformed kernel family at 120 digits the two orders of
+differential approximants and the Dlog-Padé table take 6-9 s each.
+
+How many processes: :func:`jobs_for` -- the environment variable ``RESUM_JOBS``
+if set (``1`` turns this off); otherwise, in the ``resum`` command (which calls
+:func:`allow_auto`), the cores this process may use, at most :data:`MAX_JOBS`, and
+1 for short series, where starting processes costs more than it saves. From Python
+the default is one process: worker processes re-import the caller's main module,
+which a script without an ``if __name__ == "__main__":`` guard does not survive;
+scripts with the guard may call :func:`allow_auto` or set ``RESUM_JOBS``. The
+family runners set ``RESUM_JOBS=1`` in their point processes (the points already
+fill the cores).
+
+The processes fork from a server process that has imported resum once (the
+``forkserver`` start method: no fork of a process that may hold threads), so after
+the first call starting them costs milliseconds. Each task runs at the mpmath and
+FLINT precisions of the caller. Results are the same as in one process (the same
+computations); anything that goes wrong with the processes themselves (a worker
+killed, an object that cannot be sent) makes the caller fall back to running the
+tasks one after the other.
+"""
+from __future__ import annotations
+
+import multiprocessing
+import os
+from concurrent.futures import ProcessPoolExecutor
+from typing import Callable, Optional, Sequence
+
+import flint
+import mpmath
+
+__all__ = ["allow_auto", "jobs_for", "run_tasks", "ENV", "MAX_JOBS", "PARALLEL_FROM_TERMS"]
+
+#: environment variable: number of worker processes for one analysis (1: none)
+ENV = "RESUM_JOBS"
+#: at most this many processes by default (there are rarely more heavy estimators)
+MAX_JOBS = 4
+#: series shorter than this run in one process (their estimators take well under a second)
+PARALLEL_FROM_TERMS = 100
+
+
+def _cores() -> int:
+    try:
+        return max(1, len(os.sched_getaffinity(0)))
+    except (AttributeError, OSError):  # pragma: no cover - not Linux
+        return max(1, os.cpu_count() or 1)
+
+
+_AUTO = False
+
+
+def allow_auto(flag: bool = True) -> None:
+    """Let long analyses use worker processes without ``RESUM_JOBS`` being set (the
+    command line does this; a script may, under an ``if __name__ == "__main__":`` guard)."""
+    global _AUTO
+    _AUTO = bool(flag)
+
+
+def jobs_for(n_terms: int, n_tasks: int) -> int:
+    """Worker processes for ``n_tasks`` independent tasks on a series of ``n_terms`` terms."""
+    env = os.environ.get(ENV)
+    if env is not None and env.strip():
+        try:
+            jobs = int(env)
+        except ValueError:
+            jobs = 1
+    else:
+        if not _AUTO or n_terms < PARALLEL_FROM_TERMS:
+            return 1
+        jobs = min(_cores(), MAX_JOBS)
+    return max(1, min(jobs, n_tasks))
+
+
+_CONTEXT = None
+
+
+def _mp_context():
+    global _CONTEXT
+    if _CONTEXT is None:
+        methods = multiprocessing.get_all_start_methods()
+        if "forkserver" in methods:
+            ctx = multiprocessing.get_context("forkserver")
+            ctx.set_forkserver_preload(["resum.analysis"])
+        else:  # pragma: no cover - not Linux
+            ctx = multiprocessing.get_context("spawn")
+        _CONTEXT = ctx
+    return _CONTEXT
+
+
+def _call(fn, args, mp_prec, flint_prec):
+    """Run ``fn(*args)`` at the caller's precisions (in a worker process, which starts
+    no worker processes of its own)."""
+    os.environ[ENV] = "1"
+    mpmath.mp.prec = mp_prec
+    flint.ctx.prec = flint_prec
+    return fn(*args)
+
+
+def run_tasks(fn: Callable, arg_lists: Sequence[tuple], jobs: int) -> Optional[list]:
+    """``[fn(*args) for args in arg_lists]`` in ``jobs`` worker processes, in order.
+
+    ``fn`` must be a module-level function and its arguments and results picklable.
+    Returns None when the processes could not be used (the caller then runs the
+    tasks itself); an exception raised by ``fn`` itself propagates as it would in
+    one process."""
+    import pickle
+    from concurrent.futures.process import BrokenProcessPool
+    if jobs < 2 or len(arg_lists) < 2:
+        return None
+    try:
+        pickle.dumps((fn, list(arg_lists)))      # what cannot be sent is found before any work
+    except Exception:                            # noqa: BLE001 - any object pickle refuses
+        return None
+    try:
+        with ProcessPoolExecutor(max_workers=jobs, mp_context=_mp_context()) as pool:
+            futs = [pool.submit(_call, fn, args, mpmath.mp.prec, flint.ctx.prec) for args in arg_lists]
+            return [f.result() for f in futs]
+    except (BrokenProcessPool, pickle.PicklingError, OSError):
+        return None

@@ -1,0 +1,60 @@
+"""Worker processes for one analysis (resum.parallel): same results as one process.
+
+Reference: the same analysis run in one process (RESUM_JOBS=1); the series is
+log(1+x)/x, whose radius 1 is known in closed form (common practice, no source).
+"""
+import mpmath
+import pytest
+
+from resum import parallel
+from resum.analysis import analyze
+from resum.context import Context
+from resum.series import Series
+from fractions import Fraction
+
+
+def _square(x, y):
+    return x * x + y
+
+
+def test_jobs_for_reads_the_environment(monkeypatch):
+    monkeypatch.setenv(parallel.ENV, "3")
+    assert parallel.jobs_for(10, 8) == 3          # asked for: even a short series
+    assert parallel.jobs_for(500, 2) == 2         # never more than the tasks
+    monkeypatch.setenv(parallel.ENV, "1")
+    assert parallel.jobs_for(500, 8) == 1
+    monkeypatch.setenv(parallel.ENV, "many")
+    assert parallel.jobs_for(500, 8) == 1         # unreadable: one process
+    monkeypatch.delenv(parallel.ENV)
+    parallel.allow_auto(False)
+    assert parallel.jobs_for(500, 8) == 1         # from Python: one process unless allowed
+
+
+def test_run_tasks_in_order_and_refuses_what_cannot_be_sent():
+    assert parallel.run_tasks(_square, [(k, 1) for k in range(6)], 2) == [k * k + 1 for k in range(6)]
+    assert parallel.run_tasks(lambda x: x, [(1,), (2,)], 2) is None     # a lambda is not picklable
+    assert parallel.run_tasks(_square, [(2, 1)], 2) is None              # one task: nothing to share
+
+
+@pytest.mark.parametrize("methods", [["ratio", "pade", "dlog"]])
+def test_analysis_same_in_worker_processes(monkeypatch, methods):
+    s = Series([Fraction((-1) ** k, k + 1) for k in range(110)])           # log(1+x)/x
+    ctx = Context(dps=40)
+    monkeypatch.setenv(parallel.ENV, "1")
+    one = analyze(s, ctx, methods=methods, verify=True)
+    monkeypatch.setenv(parallel.ENV, "2")
+    used = []
+    real = parallel.run_tasks
+
+    def spy(fn, args, jobs):
+        out = real(fn, args, jobs)
+        used.append(out is not None)
+        return out
+    monkeypatch.setattr(parallel, "run_tasks", spy)
+    two = analyze(s, ctx, methods=methods, verify=True)
+    assert used and all(used)                    # the worker processes did run
+    assert one.radius.contains(1) and two.radius.contains(1)
+    with mpmath.workdps(40):
+        assert (one.radius.value, one.radius.lower, one.radius.upper) == \
+            (two.radius.value, two.radius.lower, two.radius.upper)
+    assert [s.location for s in one.singularities] == [s.location for s in two.singularities]
