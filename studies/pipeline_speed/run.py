@@ -1,6 +1,6 @@
 """CPU time of analyze/evaluate on long series, with checks against independent truths.
 
-One command:  python studies/pipeline_speed/run.py [--only log|bes] [--points N]
+One command:  python studies/pipeline_speed/run.py [--only log|bes] [--points N] [--jobs N]
 
 Prints one table: for each call the wall time, the CPU time of this process
 (``time.process_time``; the machine is shared, so CPU time is the figure to
@@ -18,13 +18,17 @@ outside the estimators:
   here (their check against the source's finite-coupling solver is in
   studies/bes_angles).
 
-All runs at ``Context(dps=30)`` with verification on (the defaults).
+All runs at ``Context(dps=30)`` with verification on (the defaults). ``--jobs N``
+lets one analysis or evaluation use N worker processes (resum.parallel, as the
+``resum`` command does by default); the CPU column then counts this process only,
+so compare wall times.
 A time is one run, not a minimum over repeats: expect +-15 % between runs
 on a loaded machine.
 """
 from __future__ import annotations
 
 import argparse
+import os
 import time
 from fractions import Fraction
 
@@ -90,7 +94,10 @@ def main(argv=None):
     ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     ap.add_argument("--only", choices=["log", "bes"], help="one series only")
     ap.add_argument("--points", type=int, default=10, help="evaluation points (default 10)")
+    ap.add_argument("--jobs", type=int, default=1,
+                    help="worker processes per analysis or evaluation (default 1: CPU times comparable)")
     args = ap.parse_args(argv)
+    os.environ["RESUM_JOBS"] = str(max(1, args.jobs))
     rows = []
     if args.only in (None, "log"):
         study_log(rows, args.points)
@@ -99,7 +106,7 @@ def main(argv=None):
     head = ("call", "wall", "CPU", "result")
     wd = [max(len(str(r[i])) for r in rows + [head]) for i in range(4)]
     print()
-    print("Pipeline CPU time at 30 digits (verification on)")
+    print(f"Pipeline CPU time at 30 digits (verification on), {max(1, args.jobs)} process(es) per call")
     print("| " + " | ".join(h.ljust(wd[i]) for i, h in enumerate(head)) + " |")
     print("|" + "|".join("-" * (w + 2) for w in wd) + "|")
     for r in rows:
