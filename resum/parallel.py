@@ -35,7 +35,7 @@ from typing import Callable, Optional, Sequence
 import flint
 import mpmath
 
-__all__ = ["allow_auto", "jobs_for", "run_tasks", "ENV", "MAX_JOBS", "PARALLEL_FROM_TERMS"]
+__all__ = ["allow_auto", "cores", "jobs_for", "run_tasks", "ENV", "MAX_JOBS", "PARALLEL_FROM_TERMS"]
 
 #: environment variable: number of worker processes for one analysis (1: none)
 ENV = "RESUM_JOBS"
@@ -45,7 +45,8 @@ MAX_JOBS = 4
 PARALLEL_FROM_TERMS = 100
 
 
-def _cores() -> int:
+def cores() -> int:
+    """Cores this process may use."""
     try:
         return max(1, len(os.sched_getaffinity(0)))
     except (AttributeError, OSError):  # pragma: no cover - not Linux
@@ -73,7 +74,7 @@ def jobs_for(n_terms: int, n_tasks: int) -> int:
     else:
         if not _AUTO or n_terms < PARALLEL_FROM_TERMS:
             return 1
-        jobs = min(_cores(), MAX_JOBS)
+        jobs = min(cores(), MAX_JOBS)
     return max(1, min(jobs, n_tasks))
 
 

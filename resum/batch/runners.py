@@ -38,10 +38,8 @@ __all__ = ["SerialRunner", "ProcessRunner", "DaskRunner", "make_runner", "defaul
 
 
 def default_jobs() -> int:
-    try:
-        return max(1, len(os.sched_getaffinity(0)))
-    except (AttributeError, OSError):  # pragma: no cover - not Linux
-        return max(1, os.cpu_count() or 1)
+    from ..parallel import cores
+    return cores()
 
 
 class SerialRunner:
