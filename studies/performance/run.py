@@ -30,6 +30,7 @@ like the Hilbert matrix (the hard, common case).
 from __future__ import annotations
 
 import argparse
+import gc
 import math
 import sys
 import time
@@ -55,12 +56,20 @@ def series_log(n, dps):
 
 
 def timed(fn, repeat=1):
+    """Best wall time of ``repeat`` calls, with Python's garbage collector paused during each
+    call (as the standard timeit does: a collection triggered by the previous call's garbage,
+    for instance the baseline's matrices, otherwise lands in whichever call runs next)."""
     best = math.inf
     out = None
     for _ in range(repeat):
-        t = time.perf_counter()
-        out = fn()
-        best = min(best, time.perf_counter() - t)
+        gc.collect()
+        gc.disable()
+        try:
+            t = time.perf_counter()
+            out = fn()
+            best = min(best, time.perf_counter() - t)
+        finally:
+            gc.enable()
     return best, out
 
 
