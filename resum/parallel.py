@@ -29,6 +29,7 @@ from __future__ import annotations
 
 import multiprocessing
 import os
+import signal
 from concurrent.futures import ProcessPoolExecutor
 from typing import Callable, Optional, Sequence
 
@@ -94,6 +95,23 @@ def _mp_context():
     return _CONTEXT
 
 
+def _quiet_worker():
+    """Workers leave Ctrl-C to the caller, which stops them (no traceback from each)."""
+    signal.signal(signal.SIGINT, signal.SIG_IGN)
+
+
+def _stop(pool) -> None:
+    """End a pool's workers now (their tasks are abandoned)."""
+    # ProcessPoolExecutor keeps its worker processes in _processes; terminating them is the
+    # only way to abandon running tasks (shutdown waits for them)
+    for proc in list((getattr(pool, "_processes", None) or {}).values()):
+        try:
+            proc.terminate()
+        except (OSError, AttributeError):  # pragma: no cover - already gone
+            pass
+    pool.shutdown(wait=False, cancel_futures=True)
+
+
 def _call(fn, args, mp_prec, flint_prec):
     """Run ``fn(*args)`` at the caller's precisions (in a worker process, which starts
     no worker processes of its own)."""
@@ -119,8 +137,17 @@ def run_tasks(fn: Callable, arg_lists: Sequence[tuple], jobs: int) -> Optional[l
     except Exception:                            # noqa: BLE001 - any object pickle refuses
         return None
     try:
-        with ProcessPoolExecutor(max_workers=jobs, mp_context=_mp_context()) as pool:
-            futs = [pool.submit(_call, fn, args, mpmath.mp.prec, flint.ctx.prec) for args in arg_lists]
-            return [f.result() for f in futs]
-    except (BrokenProcessPool, pickle.PicklingError, OSError):
+        pool = ProcessPoolExecutor(max_workers=jobs, mp_context=_mp_context(), initializer=_quiet_worker)
+    except (OSError, ValueError):
         return None
+    try:
+        futs = [pool.submit(_call, fn, args, mpmath.mp.prec, flint.ctx.prec) for args in arg_lists]
+        return [f.result() for f in futs]
+    except (BrokenProcessPool, pickle.PicklingError, OSError):
+        _stop(pool)
+        return None
+    except BaseException:          # Ctrl-C, or an exception of fn itself: stop the others first
+        _stop(pool)
+        raise
+    finally:
+        pool.shutdown(wait=True, cancel_futures=True)
