@@ -29,6 +29,7 @@ from __future__ import annotations
 
 import multiprocessing
 import os
+import pickle
 import signal
 from concurrent.futures import ProcessPoolExecutor
 from typing import Callable, Optional, Sequence
@@ -112,13 +113,21 @@ def _stop(pool) -> None:
     pool.shutdown(wait=False, cancel_futures=True)
 
 
+class _Unsendable(Exception):
+    """A task's result could not be pickled (the caller then runs the tasks itself)."""
+
+
 def _call(fn, args, mp_prec, flint_prec):
-    """Run ``fn(*args)`` at the caller's precisions (in a worker process, which starts
+    """``fn(*args)`` pickled, at the caller's precisions (in a worker process, which starts
     no worker processes of its own)."""
     os.environ[ENV] = "1"
     mpmath.mp.prec = mp_prec
     flint.ctx.prec = flint_prec
-    return fn(*args)
+    out = fn(*args)
+    try:
+        return pickle.dumps(out)
+    except Exception as exc:                     # noqa: BLE001 - any object pickle refuses
+        raise _Unsendable(f"{type(exc).__name__}: {exc}") from None
 
 
 def run_tasks(fn: Callable, arg_lists: Sequence[tuple], jobs: int) -> Optional[list]:
@@ -128,7 +137,6 @@ def run_tasks(fn: Callable, arg_lists: Sequence[tuple], jobs: int) -> Optional[l
     Returns None when the processes could not be used (the caller then runs the
     tasks itself); an exception raised by ``fn`` itself propagates as it would in
     one process."""
-    import pickle
     from concurrent.futures.process import BrokenProcessPool
     if jobs < 2 or len(arg_lists) < 2:
         return None
@@ -142,8 +150,8 @@ def run_tasks(fn: Callable, arg_lists: Sequence[tuple], jobs: int) -> Optional[l
         return None
     try:
         futs = [pool.submit(_call, fn, args, mpmath.mp.prec, flint.ctx.prec) for args in arg_lists]
-        return [f.result() for f in futs]
-    except (BrokenProcessPool, pickle.PicklingError, OSError):
+        return [pickle.loads(f.result()) for f in futs]
+    except (BrokenProcessPool, pickle.PicklingError, OSError, _Unsendable):
         _stop(pool)
         return None
     except BaseException:          # Ctrl-C, or an exception of fn itself: stop the others first

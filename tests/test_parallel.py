@@ -17,6 +17,11 @@ def _square(x, y):
     return x * x + y
 
 
+def _ball(x):
+    import flint
+    return flint.arb(x)          # FLINT balls do not pickle
+
+
 def test_jobs_for_reads_the_environment(monkeypatch):
     monkeypatch.setenv(parallel.ENV, "3")
     assert parallel.jobs_for(10, 8) == 3          # asked for: even a short series
@@ -34,6 +39,7 @@ def test_run_tasks_in_order_and_refuses_what_cannot_be_sent():
     assert parallel.run_tasks(_square, [(k, 1) for k in range(6)], 2) == [k * k + 1 for k in range(6)]
     assert parallel.run_tasks(lambda x: x, [(1,), (2,)], 2) is None     # a lambda is not picklable
     assert parallel.run_tasks(_square, [(2, 1)], 2) is None              # one task: nothing to share
+    assert parallel.run_tasks(_ball, [(1,), (2,)], 2) is None            # a result that cannot come back
 
 
 @pytest.mark.parametrize("methods", [["ratio", "pade", "dlog"]])
