@@ -72,7 +72,11 @@ def jobs_for(n_terms: int, n_tasks: int) -> int:
         try:
             jobs = int(env)
         except ValueError:
-            jobs = 1
+            jobs = 0
+        if jobs < 1:
+            from .errors import InputError
+            raise InputError(f"must be a whole number of processes, 1 or more (1: none), got {env!r}",
+                             where=f"environment variable {ENV}")
     else:
         if not _AUTO or n_terms < PARALLEL_FROM_TERMS:
             return 1

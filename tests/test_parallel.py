@@ -9,6 +9,7 @@ import pytest
 from resum import parallel
 from resum.analysis import analyze
 from resum.context import Context
+from resum.errors import InputError
 from resum.series import Series
 from fractions import Fraction
 
@@ -28,8 +29,10 @@ def test_jobs_for_reads_the_environment(monkeypatch):
     assert parallel.jobs_for(500, 2) == 2         # never more than the tasks
     monkeypatch.setenv(parallel.ENV, "1")
     assert parallel.jobs_for(500, 8) == 1
-    monkeypatch.setenv(parallel.ENV, "many")
-    assert parallel.jobs_for(500, 8) == 1         # unreadable: one process
+    for bad in ("many", "0", "-2"):
+        monkeypatch.setenv(parallel.ENV, bad)
+        with pytest.raises(InputError, match="RESUM_JOBS"):
+            parallel.jobs_for(500, 8)
     monkeypatch.delenv(parallel.ENV)
     parallel.allow_auto(False)
     assert parallel.jobs_for(500, 8) == 1         # from Python: one process unless allowed
