@@ -529,7 +529,7 @@ def _match(s, others):
     return m
 
 
-def _verify(series, ctx, names, base, warnings):
+def _verify(series, ctx, names, base, warnings, progress=lambda msg: None):
     """Reruns with fewer terms and at higher precision; widen bands to cover them."""
     info = {}
     reruns = {}
@@ -545,7 +545,10 @@ def _verify(series, ctx, names, base, warnings):
     rad, sings = base["radius"], list(base["singularities"])
     borel, borel_b = base["borel"], base["borel_b"]
     for key, (s2, c2, factor) in reruns.items():
+        t1 = time.perf_counter()
+        _stage(progress, names, s2, "verification, " + key.replace("_", " "))
         res2 = _run(s2, c2, names)
+        progress(f"verification, {key.replace('_', ' ')} done ({time.perf_counter() - t1:.1f} s)")
         w2 = []
         r2 = _reconcile(s2, res2, w2)
         entry = {"n_terms": s2.n_terms, "dps": c2.dps}
@@ -599,7 +602,8 @@ def _verify(series, ctx, names, base, warnings):
     return {"radius": rad, "singularities": tuple(sings), "borel": borel, "borel_b": borel_b}, info
 
 
-def analyze(series, ctx: Optional[Context] = None, methods=None, verify: bool = True) -> AnalysisResult:
+def analyze(series, ctx: Optional[Context] = None, methods=None, verify: bool = True,
+            progress=None) -> AnalysisResult:
     """Radius, leading singularities and growth type of a power series, with bands.
 
     Parameters
@@ -613,6 +617,9 @@ def analyze(series, ctx: Optional[Context] = None, methods=None, verify: bool = 
     verify : bool
         Rerun with fewer terms and at higher precision (or perturbed input)
         and widen the bands to cover what changes.
+    progress : callable, optional
+        Called with a one-line message as each stage starts and ends (the
+        command line prints them on stderr).
 
     Returns
     -------
@@ -624,12 +631,22 @@ def analyze(series, ctx: Optional[Context] = None, methods=None, verify: bool = 
     ctx = ctx or default_context(series)
     prep = prepare(series, ctx)          # input errors surface here
     with ctx.working():
-        return _analyze(series, ctx, names, verify, prep)
+        return _analyze(series, ctx, names, verify, prep, progress or (lambda msg: None))
 
 
-def _analyze(series, ctx, names, verify, prep):
+def _stage(progress, names, series, what):
+    """Tell ``progress`` that ``names`` start on ``series`` (and in how many processes)."""
+    from .parallel import jobs_for
+    jobs = jobs_for(series.n_terms, sum(1 for n in names if n in _HEAVY_FIRST))
+    progress(f"{what}: {len(names)} estimators on {series.n_terms} terms"
+             + (f", {jobs} processes" if jobs > 1 else ""))
+
+
+def _analyze(series, ctx, names, verify, prep, progress):
     t0 = time.perf_counter()
+    _stage(progress, names, series, "main run")
     results = _run(series, ctx, names)
+    progress(f"main run done ({time.perf_counter() - t0:.1f} s)")
     warnings = []
     base = _reconcile(series, results, warnings)
     verification = {}
@@ -644,7 +661,7 @@ def _analyze(series, ctx, names, verify, prep):
         # the growth-rate bounds (cheap) always rerun: they screen points inside the radius
         contributing += [k for k in ("root-test", "ratio")
                          if k in results and results[k].success and k not in contributing]
-        final_v, verification = _verify(series, ctx, contributing, base, warnings)
+        final_v, verification = _verify(series, ctx, contributing, base, warnings, progress)
         final.update(final_v)
     growth = base["growth"]
     n_ok = sum(1 for r in results.values() if r.success)

@@ -929,7 +929,7 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
              verify: bool = True, *, cmap: Optional[ConformalMap] = None, singularities=None,
              borel_b=None, borel_map=None, alpha=None, large_x_power=None, lateral: str = "auto",
              n_orders: Optional[int] = None, use_analysis: bool = True,
-             work_dps: Optional[int] = None, analysis=None) -> EvaluationResult:
+             work_dps: Optional[int] = None, analysis=None, progress=None) -> EvaluationResult:
     """Resummed values of ``series`` at ``points``, with bands.
 
     Parameters
@@ -979,6 +979,9 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
         :func:`resum.analysis.analyze`) to plan the method and map from; by
         default ``method="auto"`` runs one (without its verification reruns), and so
         does ``"conformal-pade"`` when neither ``cmap`` nor ``singularities`` is given.
+    progress : callable, optional
+        Called with a one-line message as each stage starts and ends (the
+        command line prints them on stderr).
 
     Returns
     -------
@@ -1012,6 +1015,9 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
         xs = [cpl.to_variable(a) if cpl is not None else a for a in at]
         xs = [mpmath.re(x) if isinstance(x, mpmath.mpc) and x.imag == 0 else x for x in xs]
         c = series.dense(Context(dps=wd, guard=0))
+        say = progress or (lambda msg: None)
+        t1 = time.time()
+        say(f"choosing the method for {series.n_terms} terms")
         plan = _plan(method, c, xs, series, ctx, cmap=cmap, singularities=singularities,
                      borel_b=borel_b, borel_map=borel_map, alpha=alpha, lateral=lateral,
                      large_x_power=large_x_power, use_analysis=use_analysis, warnings=warnings,
@@ -1044,9 +1050,16 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
             tasks += [(plan, c2, xs, wd2, n_orders, min(wd2, hi.work_dps + 5), hi.dps),
                       (plan, c[:nf], xs, wd, n_orders, qd, ctx.dps)]
         from .parallel import jobs_for, run_tasks
-        done = run_tasks(_run_at, tasks, jobs_for(series.n_terms, len(tasks)))
+        jobs = jobs_for(series.n_terms, len(tasks))
+        say(f"method {plan.method} ({time.time() - t1:.1f} s)")
+        t1 = time.time()
+        say(f"{plan.method} at {len(xs)} point(s)" + (", with reruns at higher precision and with fewer terms"
+                                                     if verify else "")
+            + (f", {jobs} processes" if jobs > 1 else ""))
+        done = run_tasks(_run_at, tasks, jobs)
         if done is None:
             done = [_run_at(*t) for t in tasks]
+        say(f"{plan.method} done ({time.time() - t1:.1f} s)")
         outs, diag = done[0]
         checks = [[] for _ in xs]
         if verify:

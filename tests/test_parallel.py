@@ -67,3 +67,18 @@ def test_analysis_same_in_worker_processes(monkeypatch, methods):
         assert (one.radius.value, one.radius.lower, one.radius.upper) == \
             (two.radius.value, two.radius.lower, two.radius.upper)
     assert [s.location for s in one.singularities] == [s.location for s in two.singularities]
+
+
+def test_progress_messages_name_each_stage():
+    # the stages an analysis and an evaluation report (the command line prints them on a terminal)
+    from resum.resummation import evaluate
+    s = Series([Fraction((-1) ** k, k + 1) for k in range(30)])           # log(1+x)/x
+    seen = []
+    analyze(s, Context(dps=30), methods=["ratio", "pade"], verify=True, progress=seen.append)
+    assert seen[0].startswith("main run: 2 estimators on 30 terms") and seen[1].startswith("main run done")
+    assert any(m.startswith("verification, fewer terms done") for m in seen)
+    seen.clear()
+    r = evaluate(s, ["2"], Context(dps=20), progress=seen.append)
+    assert seen[0].startswith("choosing the method") and seen[-1].endswith(" s)")
+    with mpmath.workdps(30):
+        assert r.points[0].value.contains(mpmath.log(3) / 2)

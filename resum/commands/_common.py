@@ -153,3 +153,11 @@ def fail(message: str, where: str = ""):
 def log(message: str) -> None:
     """A log line on stderr."""
     print(f"resum: {message}", file=sys.stderr, flush=True)
+
+
+def stage_log(args):
+    """Where the library's stage messages go: :func:`log` (indented) on a terminal, nowhere
+    under ``--json`` or when stderr is not a terminal (as the family runs' progress line)."""
+    if getattr(args, "json", False) or not sys.stderr.isatty():
+        return None
+    return lambda message: log("  " + message)

@@ -7,7 +7,7 @@ from ..analysis import analyze, default_context
 from ..context import DEFAULT
 from ..errors import InputError
 from ..estimators import METHODS, validate_methods
-from ._common import (add_common_options, at_file, emit_json, load_series, log, prepare_plot_dir,
+from ._common import (add_common_options, at_file, emit_json, load_series, log, prepare_plot_dir, stage_log,
                       write_figures)
 
 HELP = "radius of convergence, singularities and growth of a series, with error bands"
@@ -53,7 +53,7 @@ def run(args) -> int:
         prepare_plot_dir(args.plot)
     log(f"analyzing {series.n_terms} terms of {args.file} at {ctx.dps} digits")
     try:
-        result = analyze(series, ctx, methods=methods, verify=not args.no_verify)
+        result = analyze(series, ctx, methods=methods, verify=not args.no_verify, progress=stage_log(args))
     except InputError as exc:
         raise at_file(exc, args.file) from None
     if args.plot is not None:

@@ -18,7 +18,7 @@ import os
 import sys
 
 from ..errors import InputError
-from ._common import (add_common_options, at_file, emit_json, load_series, log, prepare_plot_dir,
+from ._common import (add_common_options, at_file, emit_json, load_series, log, prepare_plot_dir, stage_log,
                       require_power_series, write_figures)
 
 MIN_TERMS = 6       # resum.resummation.evaluate refuses fewer terms
@@ -123,7 +123,7 @@ def run(args) -> int:
     log(f"evaluating {series.n_terms} terms of {args.file} at {len(points)} point(s), {ctx.dps} digits")
     try:
         result = evaluate(series, points, ctx, method=args.method, verify=not args.no_verify,
-                          large_x_power=large)
+                          large_x_power=large, progress=stage_log(args))
     except InputError as exc:
         raise at_file(exc, args.file) from None
     if args.plot is not None:
