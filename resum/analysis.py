@@ -193,19 +193,27 @@ def _one(name, series, ctx):
 _HEAVY_FIRST = ("diff-approx2", "diff-approx", "dlog", "pade")
 
 
-def _run(series, ctx, names):
+def _run(series, ctx, names, progress=None, label="run"):
     """Every estimator in ``names`` on ``series``; side by side in worker processes for
-    long series on a machine with several cores (:mod:`resum.parallel`), same results."""
+    long series on a machine with several cores (:mod:`resum.parallel`), same results.
+    ``progress`` (optional) hears the stage ``label`` start and end."""
     from .parallel import jobs_for, run_tasks
     names = list(names)
     jobs = jobs_for(series.n_terms, sum(1 for n in names if n in _HEAVY_FIRST))
+    say = progress or (lambda msg: None)
+    t0 = time.perf_counter()
+    say(f"{label}: {len(names)} estimators on {series.n_terms} terms" + (f", {jobs} processes" if jobs > 1 else ""))
+    out = None
     if jobs > 1:
         order = sorted(names, key=lambda n: _HEAVY_FIRST.index(n) if n in _HEAVY_FIRST else len(_HEAVY_FIRST))
         res = run_tasks(_one, [(n, series, ctx) for n in order], jobs)
         if res is not None:
             got = dict(zip(order, res))
-            return {n: got[n] for n in names}
-    return {name: _one(name, series, ctx) for name in names}
+            out = {n: got[n] for n in names}
+    if out is None:
+        out = {name: _one(name, series, ctx) for name in names}
+    say(f"{label} done ({time.perf_counter() - t0:.1f} s)")
+    return out
 
 
 def _err(s: Singularity):
@@ -529,7 +537,7 @@ def _match(s, others):
     return m
 
 
-def _verify(series, ctx, names, base, warnings, progress=lambda msg: None):
+def _verify(series, ctx, names, base, warnings, progress=None):
     """Reruns with fewer terms and at higher precision; widen bands to cover them."""
     info = {}
     reruns = {}
@@ -545,10 +553,7 @@ def _verify(series, ctx, names, base, warnings, progress=lambda msg: None):
     rad, sings = base["radius"], list(base["singularities"])
     borel, borel_b = base["borel"], base["borel_b"]
     for key, (s2, c2, factor) in reruns.items():
-        t1 = time.perf_counter()
-        _stage(progress, names, s2, "verification, " + key.replace("_", " "))
-        res2 = _run(s2, c2, names)
-        progress(f"verification, {key.replace('_', ' ')} done ({time.perf_counter() - t1:.1f} s)")
+        res2 = _run(s2, c2, names, progress, "verification, " + key.replace("_", " "))
         w2 = []
         r2 = _reconcile(s2, res2, w2)
         entry = {"n_terms": s2.n_terms, "dps": c2.dps}
@@ -631,22 +636,12 @@ def analyze(series, ctx: Optional[Context] = None, methods=None, verify: bool = 
     ctx = ctx or default_context(series)
     prep = prepare(series, ctx)          # input errors surface here
     with ctx.working():
-        return _analyze(series, ctx, names, verify, prep, progress or (lambda msg: None))
+        return _analyze(series, ctx, names, verify, prep, progress)
 
 
-def _stage(progress, names, series, what):
-    """Tell ``progress`` that ``names`` start on ``series`` (and in how many processes)."""
-    from .parallel import jobs_for
-    jobs = jobs_for(series.n_terms, sum(1 for n in names if n in _HEAVY_FIRST))
-    progress(f"{what}: {len(names)} estimators on {series.n_terms} terms"
-             + (f", {jobs} processes" if jobs > 1 else ""))
-
-
-def _analyze(series, ctx, names, verify, prep, progress):
+def _analyze(series, ctx, names, verify, prep, progress=None):
     t0 = time.perf_counter()
-    _stage(progress, names, series, "main run")
-    results = _run(series, ctx, names)
-    progress(f"main run done ({time.perf_counter() - t0:.1f} s)")
+    results = _run(series, ctx, names, progress, "main run")
     warnings = []
     base = _reconcile(series, results, warnings)
     verification = {}
