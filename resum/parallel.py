@@ -37,7 +37,7 @@ from typing import Callable, Optional, Sequence
 import flint
 import mpmath
 
-__all__ = ["allow_auto", "cores", "jobs_for", "run_tasks", "ENV", "MAX_JOBS", "PARALLEL_FROM_TERMS"]
+__all__ = ["allow_auto", "cores", "env_jobs", "jobs_for", "run_tasks", "ENV", "MAX_JOBS", "PARALLEL_FROM_TERMS"]
 
 #: environment variable: number of worker processes for one analysis (1: none)
 ENV = "RESUM_JOBS"
@@ -65,19 +65,28 @@ def allow_auto(flag: bool = True) -> None:
     _AUTO = bool(flag)
 
 
+def env_jobs() -> Optional[int]:
+    """The process count ``RESUM_JOBS`` asks for, or None when it is unset or empty; an
+    InputError naming the variable when it is not a whole number 1 or more (callers that
+    start long work check this first, so a bad value stops them before any point runs)."""
+    env = os.environ.get(ENV)
+    if env is None or not env.strip():
+        return None
+    try:
+        jobs = int(env)
+    except ValueError:
+        jobs = 0
+    if jobs < 1:
+        from .errors import InputError
+        raise InputError(f"must be a whole number of processes, 1 or more (1: none), got {env!r}",
+                         where=f"environment variable {ENV}")
+    return jobs
+
+
 def jobs_for(n_terms: int, n_tasks: int) -> int:
     """Worker processes for ``n_tasks`` independent tasks on a series of ``n_terms`` terms."""
-    env = os.environ.get(ENV)
-    if env is not None and env.strip():
-        try:
-            jobs = int(env)
-        except ValueError:
-            jobs = 0
-        if jobs < 1:
-            from .errors import InputError
-            raise InputError(f"must be a whole number of processes, 1 or more (1: none), got {env!r}",
-                             where=f"environment variable {ENV}")
-    else:
+    jobs = env_jobs()
+    if jobs is None:
         if not _AUTO or n_terms < PARALLEL_FROM_TERMS:
             return 1
         jobs = min(cores(), MAX_JOBS)

@@ -10,7 +10,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 
-
+from ..parallel import env_jobs
 from .progress import Progress
 from .records import RunFolder
 from .runners import SerialRunner
@@ -84,6 +84,7 @@ def run_family(spec: FamilySpec, outdir, runner=None, resume: bool = False,
         Ctrl-C stops the run after writing what has finished; the outcome
         then has ``interrupted=True`` (and the summary covers what is on disk).
     """
+    env_jobs()                    # a bad RESUM_JOBS stops the run here, not at every point
     runner = runner or SerialRunner()
     folder = RunFolder(outdir)
     folder.check(spec, resume=resume or retry_failed)

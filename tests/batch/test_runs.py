@@ -141,6 +141,15 @@ def test_dead_worker_is_recorded_and_the_rest_finish(tmp_path):
     assert multiprocessing.active_children() == []
 
 
+def test_bad_worker_count_stops_the_run_before_any_point(tmp_path, monkeypatch):
+    # common practice, no source: a bad setting is reported once, before work starts
+    monkeypatch.setenv("RESUM_JOBS", "two")
+    spec = parse_spec(SMALL, path="spec.toml")
+    with pytest.raises(InputError, match="RESUM_JOBS"):
+        run_family(spec, tmp_path / "o", quiet=True, plots=False)
+    assert not (tmp_path / "o").exists()
+
+
 def test_reuse_of_a_folder(tmp_path):
     spec = parse_spec(SMALL, path="spec.toml")
     run_family(spec, tmp_path / "o", quiet=True, plots=False)
