@@ -412,7 +412,11 @@ def estimate_conjugate_pair(series, ctx=None):
     Estimates from the last windows of n are compared for D = 1..4 and the
     most stable D is used; band = safety (2) x spread over the last 6 n. The
     exponent band is wider since ``g`` enters at order 1/n.
-    Applicability: real coefficients, one dominant conjugate pair.
+    Applicability: real coefficients, one dominant conjugate pair whose
+    oscillation the data resolve: a fitted angle within ``1/N`` of the real
+    axis (less than a sixth of a period over the N terms) is reported as not
+    applicable, since a real singular point with corrections in ``1/n`` fits
+    the same recurrence.
 
     References
     ----------
@@ -475,6 +479,17 @@ def estimate_conjugate_pair(series, ctx=None):
             g_half = max(g_half, SAFETY * abs(g2 - g))
         R = 1 / mu
         phi = mpmath.acos(cphi)
+        off_axis = min(phi, mpmath.pi - phi)
+        if N * off_axis < 1:
+            # c_n ~ mu^n n^g cos(n phi + psi) with N phi << 1 (or N (pi - phi) << 1) has not
+            # turned through a sixth of a period by the last coefficient: over the data it is a
+            # real point whose corrections in 1/n the fit has mistaken for an angle (measured:
+            # (1 + 16x)^(1/8) - 3 (1 + 16x)^(5/8), 80 terms, gave -1/16 +- 1.3e-7 i and an
+            # exponent 0.875 for the true 1/8)
+            return failed(method, Status.NOT_APPLICABLE,
+                          f"fitted angle {mpmath.nstr(off_axis, 2)} from the real axis turns through less "
+                          f"than a sixth of a period over {N} terms: a real singular point, left to the "
+                          "ratio methods", prep)
         R_half = mu_half / mu ** 2
         sinphi = mpmath.sin(phi)
         phi_half = c_half / max(abs(sinphi), mpmath.mpf(10) ** -10)

@@ -101,6 +101,27 @@ def test_conjugate_pair():
     _check(r.singularities[0].exponent, Fraction(-2, 5), 1e-3)
 
 
+def test_conjugate_pair_declines_a_real_point_with_corrections():
+    # (1 + 16x)^(1/8) - 3 (1 + 16x)^(5/8): one real singular point x = -1/16, exponents 1/8 and
+    # 5/8 (binomial series, common practice, no source). Its coefficients fit the pair
+    # recurrence with an angle 1e-6 from the real axis; before, the estimator reported a pair
+    # -1/16 +- 1.3e-7 i with exponent 0.875 (neither 1/8 nor 5/8). Over 80 terms such an angle
+    # has not turned through a sixth of a period: not applicable, the ratio methods take the point
+    a = binomial_power(Fraction(1, 8), 80, scale=-16)
+    b = binomial_power(Fraction(5, 8), 80, scale=-16)
+    r = estimate_conjugate_pair(Series([x - 3 * y for x, y in zip(a, b)]), Context(dps=60))
+    assert not r.success and "real singular point" in r.message
+    # a genuine pair at a small angle, resolved by the data, is still found: (1 - 2x cos(1/4) +
+    # x^2)^(-1/3) has x_c = exp(+-i/4), theta = -1/3 (common practice, no source)
+    with workdps(80):
+        t = mpmath.cos(mpmath.mpf(1) / 4)
+        cs = mpmath.taylor(lambda x: (1 - 2 * x * t + x * x) ** (-mpmath.mpf(1) / 3), 0, 79)
+    r = estimate_conjugate_pair(Series(cs, digits=60), Context(dps=55))
+    assert r.success, r.message
+    with workdps(60):
+        _check(r.diagnostics["angle"], mpmath.mpf(1) / 4, 1e-4)
+
+
 def test_large_order_euler():
     # sum (-1)^n n! x^n: A = -1, b = 1 exactly (common practice, no source)
     r = estimate_large_order(Series(euler_series(40)), CTX)
