@@ -216,3 +216,25 @@ def test_point_beyond_an_unmapped_complex_pair_is_flagged():
         v = mpmath.mpc(far.value.value, far.imag.value)
         assert abs(v / u - 1) < 1e-18 and far.value.contains(u.real) and far.imag.contains(u.imag)
         assert abs(t / u - 1) < 1e-40      # here also the principal power of the whole product
+
+
+def test_rounding_artifacts_do_not_choose_the_map():
+    # sqrt(1 + x) (1 - 2x/3)^(-3/10), 50 terms rounded to 30 digits: branch points -1 and 3/2
+    # (closed form). The differential approximants alone also put two conjugate pairs on the
+    # circle |x| = 1 that move when the last digit moves; the plan built a pair map on one of
+    # them (0.700 + 0.709 i) and reached 12.2 digits at x = -0.5 + 1.5 i. Screened, the map is
+    # the cut from -1 and the value carries 20+ digits. Truth: principal powers (the segment
+    # from 0 crosses neither cut), mpmath at 50 digits
+    a = binomial_series(Fraction(1, 2), 50).coefficients
+    b = binomial_series(Fraction(-3, 10), 50, scale=Fraction(-3, 2)).coefficients
+    c = [sum(a[j] * b[k - j] for j in range(k + 1)) for k in range(50)]
+    with workdps(30):
+        c = [mpmath.mpf(x.numerator) / x.denominator for x in c]
+    r = evaluate(Series(c, digits=30), ["-0.5+1.5*I"], ctx=Context(dps=30), method="conformal-pade")
+    p = r.points[0]
+    with workdps(50):
+        x = mpmath.mpc("-0.5", "1.5")
+        truth = mpmath.sqrt(1 + x) * (1 - 2 * x / 3) ** (-mpmath.mpf(3) / 10)
+    assert p.value.contains(truth.real) and p.imag.contains(truth.imag), (str(p.value), str(p.imag))
+    assert max(p.value.width, p.imag.width) < 1e-19
+    assert r.diagnostics["map"]["kind"] == "ray"
