@@ -511,8 +511,13 @@ def estimate_diffapprox(series, ctx=None, order=1, count=16, max_radius_factor=2
                           f"{prep.dps} digits (the series may satisfy a lower-order equation exactly -- "
                           "degenerate table -- or the precision is too low)",
                           prep, {"skipped": skipped})
+        # up to 12 points: rounding noise in the coefficients can put several conjugate pairs of
+        # zeros on the circle of convergence in every approximant, and with the default 6 they
+        # crowded out the true singular points just beyond them (measured: (1 + x)^(1/3)
+        # (1 - 2x/3)^(-3/10), 50 terms at 30 digits: three noise pairs at |x| = 0.97-1 kept, -1
+        # and 3/2 dropped although every approximant has them; the analysis screens the noise)
         sings, info = clusters_to_singularities(ens, method, prep.eps, residue_is_exponent=True,
-                                                real_series=not prep.is_complex,
+                                                real_series=not prep.is_complex, max_count=12,
                                                 radius_factor=max_radius_factor if not exact_eq
                                                 else max(max_radius_factor, 10), detect_cuts=False)
         how = (f"{len(ens)} inhomogeneous differential approximants of order {K} (L in 0..6, degrees of the "
