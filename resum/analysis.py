@@ -594,7 +594,8 @@ def _found_again(s, again):
 
 def _drop_precision_artifacts(sings, found_by, rerun, key, warnings):
     """Drop points that one method alone finds and that the rerun at higher precision (or with
-    the input moved in its last digit) does not find again.
+    the input moved in its last digit) does not find again. Returns (kept points, indices of
+    the dropped ones).
 
     Rounding the coefficients adds a small random series whose radius is the function's own;
     differential approximants fitted to it put zeros of ``Q_K`` on or just inside the circle
@@ -614,7 +615,7 @@ def _drop_precision_artifacts(sings, found_by, rerun, key, warnings):
     warnings.append(f"not reported: {_points_by([(sings[i], found_by[i]) for i in drop])}, each seen by "
                     f"one method only and not found again by the rerun with {key.replace('_', ' ')}: "
                     "artifacts of the coefficients' last digits")
-    return kept, [sings[i] for i in drop]
+    return kept, drop
 
 
 def _screen_artifacts(series, ctx, base, warnings, progress=None):
@@ -643,9 +644,8 @@ def _screen_artifacts(series, ctx, base, warnings, progress=None):
     kept, dropped = _drop_precision_artifacts(sings, found_by, again, key, warnings)
     if not dropped:
         return base
-    keep = [i for i, s in enumerate(sings) if not any(s is d for d in dropped)]
     combined = dict(base["combined"])
-    combined["singularities"] = [base["combined"]["singularities"][i] for i in keep]
+    combined["singularities"] = [c for i, c in enumerate(base["combined"]["singularities"]) if i not in dropped]
     return dict(base, singularities=tuple(kept), radius=radius_band(kept), combined=combined)
 
 
