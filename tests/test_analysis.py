@@ -268,3 +268,24 @@ def test_rounding_artifacts_are_not_reported(alpha, beta, x2, n):
     _check(r.radius, 1, 1e-20)
     _check(_near(r.singularities, -1).exponent, alpha, 1e-20)
     assert any(w.startswith("not reported") for w in r.warnings)
+
+
+def test_step_two_ratios_follow_the_faster_parity():
+    # (1 + x^2)^(-1/3) + (1 + x/2)^(1/2): singular points +-i (exponent -1/3) and -2 (exponent
+    # 1/2), radius 1 (binomial series, common practice, no source). The odd coefficients come
+    # from the second term only and shrink like 2^-n; step-2 ratios of the odd n (the parity
+    # of the last of 40 terms) gave radius 2.00000000(8), and the verdict dropped +-i, found by
+    # five other methods, as lying inside it. Rounded to 30 digits so that no exact equation
+    # decides it
+    n = 40
+    even = binomial_power(Fraction(-1, 3), n // 2, scale=-1)      # (1 + u)^(-1/3), u = x^2
+    b = binomial_power(Fraction(1, 2), n, scale=Fraction(-1, 2))
+    c = [b[k] + (even[k // 2] if k % 2 == 0 else 0) for k in range(n)]
+    with workdps(30):
+        c = [_mp(x) * 1 for x in c]
+    r = analyze(Series(c, digits=30), Context(dps=30))
+    assert r.success, r.message
+    _check(r.radius, 1, 1e-8)
+    s = _near(r.singularities, 1j)
+    assert abs(s.location - 1j) < 1e-8
+    _check(s.exponent, Fraction(-1, 3), 1e-3)
