@@ -156,6 +156,23 @@ def test_growth_classes():
         assert classify_growth([_mp(c) for c in catalan(40)])[0] == "finite radius"
 
 
+def test_growth_class_survives_a_crossover_of_two_terms():
+    # (1 - x)^(1/3) + (1 - x/1.1)^(-1/2): radius 1 (binomial series, common practice, no source).
+    # The two terms have opposite signs and cross over near n = 40, where a few ratios
+    # c_n/c_(n-2) swing by orders of magnitude; a least-squares slope called 60 terms
+    # factorial (kappa 0.62) and every estimator refused the series
+    a = binomial_power(Fraction(1, 3), 60)
+    b = binomial_power(Fraction(-1, 2), 60, scale=Fraction(10, 11))
+    c = [x + y for x, y in zip(a, b)]
+    with workdps(30):
+        kind, kappa = classify_growth([_mp(x) for x in c])
+    assert kind == "finite radius" and abs(kappa) < 0.5, kappa
+    from resum.analysis import analyze
+    r = analyze(Series(c), Context(dps=30))
+    assert r.success and r.growth == "finite radius", r.message
+    _check(r.radius, 1, 1e-3)
+
+
 def test_not_applicable_is_reported_not_raised():
     r = estimate_ratio(Series(euler_series(30)), CTX)
     assert not r.success and r.status.value == "not applicable"
