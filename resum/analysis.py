@@ -436,7 +436,7 @@ def _screen_lone_inner_points(sings, ok, warnings):
     return [s for s in sings if not any(s is d for d in drop)]
 
 
-def _drop_lone_outer_points(lead, exact, warnings):
+def _drop_lone_outer_points(lead, warnings):
     """Among the candidates for the nearest singularities, drop a point that one method
     alone finds and whose centre lies beyond a point that two or more methods confirm.
 
@@ -447,12 +447,11 @@ def _drop_lone_outer_points(lead, exact, warnings):
     30-digit coefficients at ``a = 0.3``, two conjugate pairs at ``|x| = 0.064-0.067``, gone
     at 120 loops). Kept in the candidates it would widen the radius band to reach it and
     be listed as a leading singularity. It is named in a warning instead."""
-    confirmed = [s for s, f in lead if len(f) >= 2 or exact.intersection(f)]
+    confirmed = [s for s, f in lead if not _single_source(s, f)]
     if not confirmed:
         return lead
     edge = min(modulus_band(s.re, s.im).upper for s in confirmed)
-    lone = [(s, f) for s, f in lead
-            if len(f) == 1 and not exact.intersection(f) and abs(s.location) > edge]
+    lone = [(s, f) for s, f in lead if _single_source(s, f) and abs(s.location) > edge]
     if lone:
         warnings.append(f"not reported: {_points_by(lone)}, each seen by one method only and beyond the "
                         f"nearest singularity two or more methods confirm (radius {mpmath.nstr(edge, 6)} "
@@ -504,7 +503,7 @@ def _reconcile(series, results, warnings):
     # a competing point on the other side), then anything found by two methods or more
     rmin = min(abs(s.location) for s, _ in combined)
     lead = [(s, f) for s, f in combined if abs(s.location) <= rmin * 1.1 + _err(s)]
-    lead = _drop_lone_outer_points(lead, exact, warnings)
+    lead = _drop_lone_outer_points(lead, warnings)
     nearest_methods = max((len(f) for s, f in lead), default=0)
     rest = [(s, f) for s, f in combined if (s, f) not in lead and (len(f) >= 2 or exact.intersection(f))]
     chosen = lead + rest
@@ -635,18 +634,29 @@ def _screen_artifacts(series, ctx, base, warnings, progress=None):
     lone = sorted({found_by[i][0] for i, s in enumerate(sings) if _single_source(s, found_by[i])})
     if not lone:
         return base
-    if series.digits is None:
-        key, s2, c2 = "higher_precision", series, ctx.higher()
-    else:
-        key, s2, c2 = "perturbed_input", _perturbed(series), ctx
+    key, s2, c2 = _precision_rerun(series, ctx)
     res2 = _run(s2, c2, lone, progress, "artifact screen, " + ", ".join(lone))
     again = {"singularities": [x for r in res2.values() if r.success for x in r.singularities]}
     kept, dropped = _drop_precision_artifacts(sings, found_by, again, key, warnings)
     if not dropped:
         return base
-    combined = dict(base["combined"])
-    combined["singularities"] = [c for i, c in enumerate(base["combined"]["singularities"]) if i not in dropped]
-    return dict(base, singularities=tuple(kept), radius=radius_band(kept), combined=combined)
+    return dict(base, singularities=tuple(kept), radius=radius_band(kept),
+                combined=_without(base["combined"], dropped))
+
+
+def _precision_rerun(series, ctx):
+    """(key, series, context) of the rerun that moves the input's precision: exact input at
+    higher working precision, inexact input with each coefficient moved in its last digit."""
+    if series.digits is None:
+        return "higher_precision", series, ctx.higher()
+    return "perturbed_input", _perturbed(series), ctx
+
+
+def _without(combined, dropped):
+    """The ``combined`` record of a reconciliation without the singularities at ``dropped``."""
+    out = dict(combined)
+    out["singularities"] = [c for i, c in enumerate(combined.get("singularities", [])) if i not in dropped]
+    return out
 
 
 def _rerun_radius(r2, sings):
@@ -671,22 +681,20 @@ def _verify(series, ctx, names, base, warnings, progress=None):
     if n - drop >= MIN_TERMS + 4:
         short = series.truncate(n - drop)
         reruns["fewer_terms"] = (short, ctx, FEWER_TERMS_FACTOR)
-    if series.digits is None:
-        reruns["higher_precision"] = (series, ctx.higher(), SAFETY)
-    else:
-        reruns["perturbed_input"] = (_perturbed(series), ctx, SAFETY)
+    pkey, ps, pc = _precision_rerun(series, ctx)
+    reruns[pkey] = (ps, pc, SAFETY)
     rad, sings = base["radius"], list(base["singularities"])
     borel, borel_b = base["borel"], base["borel_b"]
     done = {}
     for key, (s2, c2, factor) in reruns.items():
         res2 = _run(s2, c2, names, progress, "verification, " + key.replace("_", " "))
         done[key] = _reconcile(s2, res2, [])
-    prec_key = "perturbed_input" if "perturbed_input" in done else "higher_precision"
-    if prec_key in done and base["growth"] == "finite radius":
-        sings, dropped = _drop_precision_artifacts(sings, _found_by(base), done[prec_key], prec_key,
-                                                   warnings)
+    combined = base["combined"]
+    if base["growth"] == "finite radius":
+        sings, dropped = _drop_precision_artifacts(sings, _found_by(base), done[pkey], pkey, warnings)
         if dropped:
             rad = radius_band(sings)
+            combined = _without(combined, dropped)
     for key, (s2, c2, factor) in reruns.items():
         r2 = done[key]
         entry = {"n_terms": s2.n_terms, "dps": c2.dps}
@@ -738,7 +746,8 @@ def _verify(series, ctx, names, base, warnings, progress=None):
             warnings.append(f"precision limits the result: the radius agrees to "
                             f"{hp['radius_digits_agree']:.1f} digits between reruns; raise the precision "
                             "or give more digits")
-    return {"radius": rad, "singularities": tuple(sings), "borel": borel, "borel_b": borel_b}, info
+    return {"radius": rad, "singularities": tuple(sings), "borel": borel, "borel_b": borel_b,
+            "combined": combined}, info
 
 
 def analyze(series, ctx: Optional[Context] = None, methods=None, verify: bool = True,
@@ -820,7 +829,7 @@ def _analyze(series, ctx, names, verify, prep, progress=None):
                 + (" and at higher precision" if series.digits is None else " and with input perturbed in the last digit")
                 + "; bands widened to cover the changes (x" f"{FEWER_TERMS_FACTOR}" " the fewer-terms change, x"
                 f"{SAFETY}" " the precision change).")
-    diag = {"how": how, "verification": verification, "combined": base["combined"],
+    diag = {"how": how, "verification": verification, "combined": final["combined"],
             "seconds": round(time.perf_counter() - t0, 3), "dps": ctx.dps, "n_terms": series.n_terms,
             "variable": series.variable}
     if series.coupling is not None:
