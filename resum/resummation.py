@@ -446,7 +446,7 @@ class _Plan:
     why: str = ""
     singularities: tuple = ()      # the points the map was chosen from (conformal plans)
     fallback: Optional["_Plan"] = None   # for points this plan cannot reach (ode)
-    input_digits: Optional[int] = None   # digits the inexact coefficients carry (ode's equation test)
+    input_digits: Optional[int] = None   # digits the inexact coefficients carry (ode: equation test; borel: noise)
     coefficients_at: Any = None          # exact input: d -> coefficients at d digits (ode's refit)
     equation_shape: Any = None           # the equation's shape as the plan found it (ode, borel-ode)
     alpha_from_w: Any = None             # alpha read from the series: used only where |w| >= this
@@ -499,7 +499,7 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
             tm = None
         why = ("factorial growth" if factorial else "requested") + (
             f"; nearest Borel singularity t = {mpmath.nstr(A, 10)}" if A is not None else "")
-        plan = _Plan(m, tm, b, alpha, lateral, why)
+        plan = _Plan(m, tm, b, alpha, lateral, why, input_digits=series.digits)
         eq = (_follow_borel_equation(series, c, ctx)
               if method == "auto" and (b is None or b == 0) and lateral == "auto" else None)
         if eq is not None:
@@ -800,9 +800,12 @@ def _run(plan: _Plan, c, xs, dps, n_orders, quad_dps=None, target=None):
         if plan.method == "conformal-pade":
             outs, diag = _near_rim_quadratic(plan, c, xs, outs, diag, dps, n_orders, target)
         return outs, diag
+    # (the rerun at higher precision asks for more digits than inexact input carries; its
+    # noise sets which pole-zero pairs on the path are cancelled, see resum_borel)
+    digits = target if plan.input_digits is None or target is None else min(target, plan.input_digits)
     return borel_evaluate(c, xs, dps, b=plan.borel_b, cmap=plan.cmap, alpha=plan.alpha,
                           n_orders=7 if n_orders is None else n_orders, lateral=plan.lateral,
-                          quad_dps=quad_dps, target_digits=target)
+                          quad_dps=quad_dps, target_digits=digits)
 
 
 def _run_conformal(plan: _Plan, c, xs, dps, n_orders, target):

@@ -13,7 +13,15 @@ Steps, for a series ``sum c_n x^n`` with factorially growing coefficients:
 
 An approximant is dropped at a point when one of its poles (with a residue
 that matters at this precision) lies within ``path_tol`` (relative) of the
-integration path before the exponential has killed the integrand.
+integration path before the exponential has killed the integrand. A pole on
+the path that is one half of a Froissart doublet (a zero within
+:func:`resum.estimators.pade_sing.doublet_tolerance` of it) whose term is below
+the digits asked for is cancelled against its zero instead; the approximant
+is integrated without the pair and its error grows by a bound on the pair's
+principal-value contribution (``_DOUBLET_SAFETY`` x residue in ``t`` x the
+exponential weight there, in units of ``|x|``). Inexact input makes such pairs
+(noise in the last digits of the Borel transform); dropping every approximant
+that carries one left too few to form a band.
 
 When the approximants have a stable pole on the integration ray itself (a
 singularity of ``B`` on the positive axis: the series is not Borel
@@ -57,7 +65,9 @@ import mpmath
 
 from ..transforms.borel import borel_coefficients, laplace
 from ..transforms.conformal import ConformalMap
-from .resum_band import PointOutcome, band_from_candidates, candidate_orders, fast_evaluator, rational_fit
+from .pade_sing import doublet_tolerance
+from .resum_band import (PointOutcome, Rational, band_from_candidates, candidate_orders, fast_evaluator,
+                         rational_fit)
 from .resum_conformal import mapped_coefficients
 
 __all__ = ["borel_evaluate", "borel_plane_poles"]
@@ -70,6 +80,54 @@ def _seg_dist(p, a, b):
     tt = mpmath.re((p - a) * mpmath.conj(ab)) / abs(ab) ** 2
     tt = min(max(tt, 0), 1)
     return abs(p - (a + tt * ab))
+
+
+#: the pair's principal-value contribution is at most this times |residue in t| x weight / |x|
+#: (the log of the distance to the path is bounded by the working digits' log; generous)
+_DOUBLET_SAFETY = 100
+
+
+def _divide_root(a, root):
+    """``a(w) / (1 - w/root)`` for a polynomial ``a`` (low to high) with a root near ``root``."""
+    hi = list(reversed(a))
+    out = [hi[0]]
+    for coef in hi[1:-1]:
+        out.append(coef + root * out[-1])
+    return [-root * v for v in reversed(out)]
+
+
+def _real_if(z, real, dps):
+    if real and abs(mpmath.im(z)) <= mpmath.mpf(10) ** (-(dps // 2)) * abs(z):
+        return mpmath.re(z)
+    return z
+
+
+def _without_doublets(r, pairs, dps):
+    """The rational ``r`` with each (pole, zero) pair in ``pairs`` cancelled, ``Q(0) = 1`` kept."""
+    real = not any(isinstance(v, mpmath.mpc) for v in r.p + r.q)
+    p, q = list(r.p), list(r.q)
+    for pole, zero in pairs:
+        pole, zero = _real_if(pole, real, dps), _real_if(zero, real, dps)
+        q, p = _divide_root(q, pole), _divide_root(p, zero)
+    q0 = q[0]
+    return Rational(tuple(v / q0 for v in p), tuple(v / q0 for v in q), len(p) - 1, len(q) - 1)
+
+
+def _doublet_zero(r, pole, dps, tol, zeros_cache):
+    """The zero of ``r`` within ``tol`` (relative) of ``pole``, or ``None``."""
+    if r.L < 1:
+        return None
+    if "z" not in zeros_cache:
+        zeros_cache["z"] = r.zeros(dps)
+    near = [z for z in zeros_cache["z"] if abs(z - pole) < tol * abs(pole)]
+    if not near:
+        return None
+    real = not any(isinstance(v, mpmath.mpc) for v in r.p + r.q)
+    z = min(near, key=lambda z: abs(z - pole))
+    if real and abs(mpmath.im(pole)) <= mpmath.mpf(10) ** (-(dps // 2)) * abs(pole) \
+            and abs(mpmath.im(z)) > mpmath.mpf(10) ** (-(dps // 2)) * abs(z):
+        return None         # a real pole must pair with a real zero for the cancellation to stay real
+    return z
 
 
 def borel_plane_poles(r, dps: int, cmap: Optional[ConformalMap] = None):
@@ -146,6 +204,10 @@ def borel_evaluate(c: Sequence, xs: Sequence, dps: int, *, b=0, cmap: Optional[C
         A = min((abs(p) for p in top), default=mpmath.mpf(1))
 
     rim = cmap.rim_point() if cmap is not None else None
+    # Froissart doublets on the path: cancelled when their term is below the digits asked
+    asked = mpmath.mpf(10) ** (-(qd if target_digits is None else min(qd, int(target_digits))))
+    pair_tol = doublet_tolerance(qd if target_digits is None else min(qd, int(target_digits)))
+    zeros_of = [{} for _ in fits]
 
     w_of_t = cmap.w_of_x_at(dps) if cmap is not None else None
 
@@ -193,7 +255,7 @@ def borel_evaluate(c: Sequence, xs: Sequence, dps: int, *, b=0, cmap: Optional[C
             thetas = [th, -th]
         vals = {th: [None] * len(orders) for th in thetas}
         errs = {th: [mpmath.mpf(0)] * len(orders) for th in thetas}
-        dropped = []
+        dropped, cancelled = [], []
         for i, ((n, L, M), r) in enumerate(zip(orders, fits)):
             if r is None:
                 continue
@@ -204,7 +266,7 @@ def borel_evaluate(c: Sequence, xs: Sequence, dps: int, *, b=0, cmap: Optional[C
                 ss = [mpmath.mpf(0)] + [A / abs(x) * mpmath.mpf(2) ** k for k in range(-12, 200)
                                         if A / abs(x) * mpmath.mpf(2) ** k < s_max] + [s_max]
                 path = [to_t_inv(x * s * e, cmap) for s in ss]
-                bad = None
+                bad, pairs, pair_err = None, [], mpmath.mpf(0)
                 for p, res in polelists[i]:
                     if abs(res) <= tiny:
                         continue
@@ -213,7 +275,15 @@ def borel_evaluate(c: Sequence, xs: Sequence, dps: int, *, b=0, cmap: Optional[C
                         if dist < path_tol * max(abs(p), mpmath.mpf(10) ** -8):
                             weight = mpmath.exp(-ss[k] * mpmath.cos(th))
                             if weight * abs(res) > tiny:
-                                bad = p
+                                bound = _doublet_bound(p, res, weight, x, cmap)
+                                z = None
+                                if bound is not None and bound <= asked * scale_ref:
+                                    z = _doublet_zero(r, p, dps, pair_tol, zeros_of[i])
+                                if z is None:
+                                    bad = p
+                                else:
+                                    pairs.append((p, z))
+                                    pair_err += bound
                             break
                     if bad is not None:
                         break
@@ -221,17 +291,22 @@ def borel_evaluate(c: Sequence, xs: Sequence, dps: int, *, b=0, cmap: Optional[C
                     dropped.append(f"[{L}/{M}] theta={mpmath.nstr(th, 4)}: pole at {var} = "
                                    f"{mpmath.nstr(bad, 8)} on the path")
                     continue
+                Fi = F
+                if pairs:
+                    Fi = make_F(_without_doublets(r, pairs, dps))
+                    cancelled.append(f"[{L}/{M}] theta={mpmath.nstr(th, 4)}: "
+                                     + ", ".join(f"{var} = {mpmath.nstr(p, 8)}" for p, _ in pairs))
                 try:
-                    v, err = laplace(F, x, b, qd, theta=th, scale=A / abs(x), s_max=s_max)
+                    v, err = laplace(Fi, x, b, qd, theta=th, scale=A / abs(x), s_max=s_max)
                 except (ZeroDivisionError, ValueError) as exc:
                     dropped.append(f"[{L}/{M}]: integral failed ({exc})")
                     continue
                 if not mpmath.isfinite(abs(v)):
                     continue
                 vals[th][i] = v
-                errs[th][i] = err
+                errs[th][i] = err + pair_err
         ns = [o[0] for o in orders]
-        info = {"dropped": dropped, "orders": [f"[{L}/{M}]" for _, L, M in orders], "lateral": use_lateral}
+        info = {"dropped": dropped, "doublets_cancelled": cancelled, "orders": [f"[{L}/{M}]" for _, L, M in orders], "lateral": use_lateral}
         if not use_lateral:
             vv = vals[thetas[0]]
             fl = max(errs[thetas[0]])
@@ -277,6 +352,20 @@ def borel_evaluate(c: Sequence, xs: Sequence, dps: int, *, b=0, cmap: Optional[C
         else:
             outs.append(PointOutcome(re, am, True, "", info))
     return outs, diag
+
+
+def _doublet_bound(p, res, weight, x, cmap):
+    """Bound on the Laplace integral of a doublet's pole term (residue ``res`` in the
+    approximant's variable at ``p``), or ``None`` where the map's derivative is unusable."""
+    if cmap is None:
+        res_t = abs(res)
+    else:
+        h = abs(p) * mpmath.mpf(10) ** (-(mpmath.mp.dps // 3))
+        dt = (cmap.x_of_w(p + h) - cmap.x_of_w(p - h)) / (2 * h)     # dt/dw at the pole
+        if not mpmath.isfinite(abs(dt)):
+            return None
+        res_t = abs(res) * abs(dt)
+    return _DOUBLET_SAFETY * res_t * weight / abs(x)
 
 
 def to_t_inv(t, cmap):

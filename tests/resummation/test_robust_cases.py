@@ -103,6 +103,32 @@ def test_rational_borel_transform_verifies_at_higher_precision():
             assert p.value.contains(truth) and _digits(p.value.value, truth) >= 18
 
 
+def test_rounded_stieltjes_series_keeps_its_precision_check():
+    # sum (-1)^n (1/3)_n x^n given to 20 significant digits (as a user's file would carry it).
+    # It is the asymptotic series of int_0^inf e^(-t) (1 + x t)^(-1/3) dt = U(1, 5/3, 1/x)/x
+    # (DLMF 13.4.4 with a = 1, b = 5/3; mpmath.hyperu as reference). The rounding noise makes
+    # Froissart doublets on the Laplace path of the mapped Borel transform; the rerun at higher
+    # precision dropped every approximant carrying one, kept 1 of 10, and both points were
+    # marked unstable although right to 17 and 13 digits. Pairs whose term lies below the digits
+    # the input carries are now cancelled against their zero.
+    b = Fraction(1, 3)
+    c, r = [], Fraction(1)
+    for n in range(40):
+        c.append(r)
+        r *= -(b + n)
+    with workdps(20):
+        rounded = [mpmath.mpf(v.numerator) / v.denominator for v in c]
+    s = Series(rounded, digits=19)
+    res = evaluate(s, ["0.5", "2"], Context(dps=19))
+    with workdps(40):
+        for p, want in zip(res.points, (15, 11)):
+            truth = mpmath.hyperu(1, 2 - mpmath.mpf(1) / 3, 1 / p.x) / p.x
+            assert p.success, p.message
+            assert p.value.contains(truth)
+            assert _digits(p.value.value, truth) >= want
+            assert p.value.digits() >= want - 1
+
+
 def _power_of_quadratic(b1, b2, p, n):
     # (1 + b1 x + b2 x^2)^p, exact (tests/known_series.py)
     return Series(quadratic_series(p, Fraction(b1), Fraction(b2), n))
