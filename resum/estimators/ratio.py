@@ -343,6 +343,35 @@ def estimate_ratio(series, ctx=None, step=None):
 # root test
 # ---------------------------------------------------------------------------
 
+#: root test: relative band above which the upper-envelope fit is tried, and beyond which the
+#: test reports no radius (common practice, no source)
+ROOT_ENVELOPE_SPREAD = mpmath.mpf("0.1")
+ROOT_MAX_SPREAD = mpmath.mpf("0.5")
+
+
+def _root_fits(pts):
+    """Fits of ``log|c_n|`` (``pts``: (n, log|c_n|)) over three windows and two model sizes:
+    ``(radius, SAFETY x spread, fits)`` or ``None``."""
+    ests = []
+    for nb in (3, 4):
+        for w in (len(pts), (2 * len(pts)) // 3, len(pts) // 2):
+            sub = pts[-w:]
+            if len(sub) < nb + 2:
+                continue
+            basis = lambda n: [mpmath.mpf(n), mpmath.log(n), mpmath.mpf(1), mpmath.mpf(1) / n][:nb]  # noqa: E731
+            A = mpmath.matrix([basis(n) for n, _ in sub])
+            b = mpmath.matrix([y for _, y in sub])
+            try:
+                sol = lu_solve(A.T * A, A.T * b)
+            except ZeroDivisionError:
+                continue
+            ests.append(mpmath.exp(-sol[0]))
+    if not ests:
+        return None
+    v = ests[0]
+    return v, SAFETY * max(abs(e - v) for e in ests), ests
+
+
 def estimate_root_test(series, ctx=None):
     """Radius from the growth of ``|c_n|``: fits of ``log|c_n|`` to
     ``n log mu + (g) log n + b + d/n`` over the last coefficients.
@@ -353,7 +382,11 @@ def estimate_root_test(series, ctx=None):
     removes the power and the constant. Band: safety factor (2) times the
     spread of fits over three windows and two model sizes. Only the modulus
     is found (oscillating coefficients give wide bands); no exponent is
-    reported. Applicability: finite non-zero radius. # common practice, no source
+    reported. Where the fits disagree by more than ``ROOT_ENVELOPE_SPREAD`` of
+    the radius (one parity or phase of the coefficients falls off faster), the
+    upper envelope is fitted instead (the limsup of Cauchy-Hadamard); beyond
+    ``ROOT_MAX_SPREAD`` no radius is reported. Applicability: finite non-zero
+    radius. # common practice, no source
     """
     method = "root-test"
     prep = prepare(series, ctx)
@@ -366,28 +399,33 @@ def estimate_root_test(series, ctx=None):
         pts = [(n, mpmath.log(abs(c[n]))) for n in range(N // 3, N) if c[n] != 0]
         if len(pts) < 8:
             return failed(method, Status.TOO_FEW_TERMS, "too few non-zero coefficients", prep)
-        ests = []
-        for nb in (3, 4):
-            for w in (len(pts), (2 * len(pts)) // 3, len(pts) // 2):
-                sub = pts[-w:]
-                if len(sub) < nb + 2:
+        fit = _root_fits(pts)
+        envelope = None
+        if fit is None or fit[1] > fit[0] * ROOT_ENVELOPE_SPREAD:
+            # the magnitudes follow no single law: a subsequence (a parity, a phase of a complex
+            # pair) falls off faster. The radius is the limsup (Cauchy-Hadamard): fit the upper
+            # envelope, the largest |c_n| of each block of k consecutive orders
+            for k in (2, 3, 4):
+                env = [max(pts[i:i + k], key=lambda q: q[1]) for i in range(0, len(pts) - k + 1, k)]
+                if len(env) < 8:
                     continue
-                basis = lambda n: [mpmath.mpf(n), mpmath.log(n), mpmath.mpf(1), mpmath.mpf(1) / n][:nb]  # noqa: E731
-                A = mpmath.matrix([basis(n) for n, _ in sub])
-                b = mpmath.matrix([y for _, y in sub])
-                try:
-                    sol = lu_solve(A.T * A, A.T * b)
-                except ZeroDivisionError:
-                    continue
-                ests.append(mpmath.exp(-sol[0]))
-        if not ests:
+                f = _root_fits(env)
+                if f is not None and (fit is None or f[1] / f[0] < fit[1] / fit[0]):
+                    fit, envelope = f, k
+        if fit is None:
             return failed(method, Status.TOO_FEW_TERMS, "too few non-zero coefficients", prep)
-        v = ests[0]
-        half = SAFETY * max(abs(e - v) for e in ests)
+        v, half, ests = fit
+        if half > v * ROOT_MAX_SPREAD:
+            return failed(method, Status.NOT_CONVERGED,
+                          f"the fits of log|c_n| disagree by more than {int(ROOT_MAX_SPREAD * 100)} % of the radius "
+                          "(competing singularities of different radii?); use the ratio, conjugate-pair or "
+                          "Padé estimates", prep)
         half = max(half, v * mpmath.mpf(10) ** -(prep.digits // 2))
         radius = Estimate(v, v - half, v + half)
         how = ("Least-squares fits of log|c_n| to n log(mu) + g log n + b (+ d/n) over three windows of "
                f"the last coefficients; band = {SAFETY} x spread of the six fits.")
+        if envelope:
+            how += f" Fitted to the upper envelope (largest |c_n| of each {envelope} consecutive orders)."
         return finish(method, prep, [], diagnostics={"how": how, "fits": ests}, radius_u=radius)
 
 

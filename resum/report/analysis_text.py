@@ -38,6 +38,11 @@ def _fmt(e):
     return str(e)
 
 
+def _theta(s):
+    # (a bare "theta = -" read as a minus sign with its number lost)
+    return "exponent not determined" if s.exponent is None else f"theta = {_fmt(s.exponent)}"
+
+
 def _loc(s):
     if s.im.value == 0 and s.im.error == 0:
         return _fmt(s.re)
@@ -77,7 +82,7 @@ def _render(r, title):
         lines.append(f"leading singularities, f ~ A (1 - {var}/{var}_c)^theta near each:")
         for i, s in enumerate(r.singularities, 1):
             lines.append(f"  {i}. {var}_c = {_loc(s)}   |{var}_c| = {_fmt(_modulus(s))}")
-            lines.append(f"     {_KIND_TEXT.get(s.kind, s.kind)}, theta = {_fmt(s.exponent)}")
+            lines.append(f"     {_KIND_TEXT.get(s.kind, s.kind)}, {_theta(s)}")
             if s.note:
                 lines.append(f"     ({s.note})")
     lines.append("")
@@ -89,7 +94,7 @@ def _render(r, title):
                 what = f"A = {_fmt(m.borel_singularity)}, b = {_fmt(m.borel_exponent)}"
             elif m.singularities:
                 s = m.singularities[0]
-                what += f"; nearest {_loc(s)}, theta = {_fmt(s.exponent)}"
+                what += f"; nearest {_loc(s)}, {_theta(s)}"
             lines.append(f"  {name:15s} ok      {what}")
         else:
             lines.append(f"  {name:15s} {m.status.value}: {m.message}")

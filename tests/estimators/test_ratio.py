@@ -149,6 +149,30 @@ def test_root_test_radius():
     _check(r.radius, Fraction(1, 2), 0.05)
 
 
+def test_root_test_fits_the_envelope_when_one_parity_falls_off():
+    # (1 + x^2)^(-1/3) + (1 + x/2)^(1/2): radius 1 (binomial series, common practice, no source).
+    # The odd coefficients shrink like 2^-n, the even ones like n^(-2/3): one fit through both
+    # gave radius 3.0 [-7.6e+19, 7.6e+19]. The upper envelope (limsup, Cauchy-Hadamard) gives 1
+    n = 40
+    even = binomial_power(Fraction(-1, 3), n // 2, scale=-1)      # (1 + u)^(-1/3), u = x^2
+    b = binomial_power(Fraction(1, 2), n, scale=Fraction(-1, 2))
+    c = [b[k] + (even[k // 2] if k % 2 == 0 else 0) for k in range(n)]
+    r = estimate_root_test(Series(c), CTX)
+    assert r.success, r.message
+    _check(r.radius, 1, 0.01)
+    assert "upper envelope" in r.diagnostics["how"]
+
+
+def test_root_test_refuses_magnitudes_without_one_law():
+    # 1 at every ninth order, 5^-n elsewhere: the radius is 1 (Cauchy-Hadamard, common practice,
+    # no source), but blocks of up to 4 orders often miss the large terms, so no fit through
+    # magnitudes agrees with another; the test must say so rather than print a band wider than
+    # its value
+    c = [Fraction(1) if k % 9 == 0 else Fraction(1, 5 ** k) for k in range(60)]
+    r = estimate_root_test(Series(c), CTX)
+    assert not r.success and "disagree" in r.message
+
+
 def test_growth_classes():
     with workdps(30):
         assert classify_growth([mpmath.mpf(math_fact) for math_fact in euler_series(40)])[0] == "factorial"
