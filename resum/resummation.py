@@ -536,7 +536,7 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
         if radius is not None and all(abs(x) < radius / 4 for x in xs):
             return _Plan("partial-sum", why=f"all points inside a quarter of the radius {mpmath.nstr(radius, 8)}")
         if chosen is not None:
-            a, note, from_w = _rim_alpha(chosen, alpha, large_x_power, c, ctx)
+            a, note, from_w = _rim_alpha(chosen, alpha, large_x_power, c, ctx, series.digits)
             other = _Plan("conformal-pade", chosen, alpha=a, alpha_from_w=from_w,
                           why=f"finite radius; map: {chosen.describe()}{note}", singularities=_locations(sings))
         else:
@@ -555,7 +555,7 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
     if chosen is None:
         raise InputError(f"{method} needs singularities to build a map and none were found; "
                          "give singularities=[...] or a map", where="method")
-    a, note, from_w = _rim_alpha(chosen, alpha, large_x_power, c, ctx)
+    a, note, from_w = _rim_alpha(chosen, alpha, large_x_power, c, ctx, series.digits)
     return _Plan(method, chosen, alpha=a, alpha_from_w=from_w, why=f"map: {chosen.describe()}{note}",
                  singularities=_locations(sings))
 
@@ -720,15 +720,31 @@ def _reexpansion_guard(plan, c, series, wd) -> int:
 #: loses 0.8 at 3 pi/8, and at a = 0 with 40 digits asked its band fell short of the closed form
 #: by 3x (the approximants settle ~1e-28 from it: the size of the exp(-4 pi g) term they miss).
 RIM_POWER_FROM_W = 0.95
+#: ... or within RIM_POWER_LAYER / N of the rim, (1 - |w|) N <= RIM_POWER_LAYER: the approximants
+#: resolve the growth factor (1 - w)^(-2p) only a few times 1/N away from w = 1. N is the number
+#: of terms, but for decimal input at most 2 D + 8 (D the digits the coefficients carry: the
+#: near-diagonal approximants that rounding leaves meaningful); this reaches further in than
+#: RIM_POWER_FROM_W only for N < 80 or D < 36. Measured on (1 + x)^(1/3) rounded to 16 digits
+#: (studies/evaluate_sweep --digits 16): at x = 1000 (|w| = 0.939) every approximant sat 0.01
+#: below the truth and the band missed it, from 40 and from 80 terms; with x^(1/3) divided out,
+#: 11 and 12 digits, in band
+RIM_POWER_LAYER = 4
 
 
-def _rim_alpha(cmap, alpha, large_x_power, c, ctx):
+def _rim_power_from_w(n_terms, digits=None):
+    """The ``|w|`` from which a large-x power read from the series is divided out."""
+    n = n_terms if digits is None else min(n_terms, 2 * int(digits) + 8)
+    return min(RIM_POWER_FROM_W, 1 - RIM_POWER_LAYER / max(n, 1))
+
+
+def _rim_alpha(cmap, alpha, large_x_power, c, ctx, digits=None):
     """The rim power for a conformal plan, a note for its ``why`` and the ``|w|`` from which
     it applies: from ``alpha`` or ``large_x_power`` when given (everywhere); otherwise the
     large-x power read from the series through the map
     (:func:`~resum.estimators.resum_conformal.rim_power`), when it is clearly a simple
-    fraction, at points with ``|w| >= RIM_POWER_FROM_W``. ``large_x_power = 0`` turns the
-    reading off."""
+    fraction, at points with ``|w| >= RIM_POWER_FROM_W`` or within ``RIM_POWER_LAYER / N`` of
+    the rim (:func:`_rim_power_from_w`; ``digits``: what decimal coefficients carry).
+    ``large_x_power = 0`` turns the reading off."""
     if alpha is not None or large_x_power is not None:
         return _alpha_for(cmap, alpha, large_x_power), "", None
     from .estimators.resum_conformal import rim_power
@@ -739,11 +755,12 @@ def _rim_alpha(cmap, alpha, large_x_power, c, ctx):
     if got is None or got[0] == 0:
         return None, "", None
     p, med, half = got
+    from_w = _rim_power_from_w(len(c), digits)
     note = (f"; growth x^({p}) at large x read from the series (the log-derivative through the map gives "
             f"{mpmath.nstr(med, 5)} +- {mpmath.nstr(max(half, mpmath.mpf(10) ** -6), 2)} at infinity), divided "
-            f"out at points with |w| >= {RIM_POWER_FROM_W} and by the quadratic approximants tried from "
+            f"out at points with |w| >= {mpmath.nstr(from_w, 3)} and by the quadratic approximants tried from "
             f"|w| >= {QUADRATIC_FROM_W}; give large_x_power to apply a power everywhere, 0 to turn this off")
-    return _alpha_for(cmap, None, mpmath.mpf(p.numerator) / p.denominator), note, RIM_POWER_FROM_W
+    return _alpha_for(cmap, None, mpmath.mpf(p.numerator) / p.denominator), note, from_w
 
 
 def _alpha_for(cmap, alpha, large_x_power):
@@ -919,6 +936,25 @@ def _perturb(c, digits):
     return [v * (1 + eps * rng.choice((-1, 1))) for v in c]
 
 
+#: a precision rerun whose band supports no significant digit and is this many times wider than
+#: the point's own is covered whole (exp(-x)/sqrt(1+x) from 80 terms rounded to 16 digits at
+#: x = 10: the approximants agreed to 7e-6 around -5e-6, the rerun's band was 4e-3, the truth
+#: 1.4e-5: outside; studies/evaluate_sweep --digits 16). Covering every rerun band ten times
+#: wider cost 2-3 digits at a dozen points of that sweep whose bands held anyway
+RERUN_WIDER = 10
+
+
+def _cover(est: Optional[Estimate], others) -> Optional[Estimate]:
+    """``est`` widened to contain the whole of each band in ``others``."""
+    if est is None:
+        return None
+    lo, hi = est.lower, est.upper
+    for o in others:
+        if o is not None:
+            lo, hi = min(lo, o.lower), max(hi, o.upper)
+    return Estimate(est.value, lo, hi)
+
+
 def _widen(est: Optional[Estimate], others) -> Optional[Estimate]:
     if est is None:
         return None
@@ -971,7 +1007,7 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
         When neither is given, conformal plans read ``p`` from the series itself
         (the log-derivative through the map at the rim point,
         :func:`~resum.estimators.resum_conformal.rim_power`) when it is clearly a
-        simple fraction, and use it near the rim only (:data:`RIM_POWER_FROM_W`,
+        simple fraction, and use it near the rim only (:func:`_rim_power_from_w`,
         and for the quadratic variant :data:`QUADRATIC_FROM_W`); the plan's
         ``why`` says so. A power that is given applies at every point (and enables
         the quadratic variant near the rim). ``large_x_power=0`` turns both off.
@@ -1126,9 +1162,19 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                     few = [oc for name, oc in checks[j] if name != "higher precision" and oc is not None and oc.ok
                            and oc.info.get("method", plan.method) == o.info.get("method", plan.method)]
                     re = _widen(re, [oc.re for oc in prec])
-                    parts["precision rerun"] = mpmath.nstr(re.error, 5)
                     if im is not None:
                         im = _widen(im, [oc.im for oc in prec])
+                    # a rerun whose band supports no digit at all (the input moved by a unit in its
+                    # last digit scatters the approximants) says that a narrow spread here is luck
+                    lost = [oc for oc in prec if oc.re is not None and _supports_no_digit(oc.re, oc.im)
+                            and oc.re.error > RERUN_WIDER * re.error]
+                    if lost:
+                        re = _cover(re, [oc.re for oc in lost])
+                        if im is not None:
+                            im = _cover(im, [oc.im for oc in lost])
+                        warnings.append(f"at {mpmath.nstr(a, 10)}: the rerun at higher precision (input moved "
+                                        "in its last digit) supports no digit here; band widened to cover it")
+                    parts["precision rerun"] = mpmath.nstr(re.error, 5)
                     for oc in few:
                         if oc.re is not None and not oc.re.contains(re.value) and success:
                             # the band model fell short with fewer terms by the factor dev / band

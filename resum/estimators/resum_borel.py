@@ -15,13 +15,13 @@ An approximant is dropped at a point when one of its poles (with a residue
 that matters at this precision) lies within ``path_tol`` (relative) of the
 integration path before the exponential has killed the integrand. A pole on
 the path that is one half of a Froissart doublet (a zero within
-:func:`resum.estimators.pade_sing.doublet_tolerance` of it) whose term is below
-the digits asked for is cancelled against its zero instead; the approximant
-is integrated without the pair and its error grows by a bound on the pair's
-principal-value contribution (``_DOUBLET_SAFETY`` x residue in ``t`` x the
-exponential weight there, in units of ``|x|``). Inexact input makes such pairs
-(noise in the last digits of the Borel transform); dropping every approximant
-that carries one left too few to form a band.
+:func:`resum.estimators.pade_sing.doublet_tolerance` of it) whose contribution
+is within ``_DOUBLET_SLACK`` of the noise of the digits asked for is cancelled
+against its zero instead; the approximant is integrated without the pair and
+its error grows by an estimate of the pair's principal-value contribution
+(:func:`_doublet_bound`). Inexact input makes such pairs (noise in the last
+digits of the Borel transform); dropping every approximant that carries one
+left too few to form a band.
 
 When the approximants have a stable pole on the integration ray itself (a
 singularity of ``B`` on the positive axis: the series is not Borel
@@ -82,9 +82,13 @@ def _seg_dist(p, a, b):
     return abs(p - (a + tt * ab))
 
 
-#: the pair's principal-value contribution is at most this times |residue in t| x weight / |x|
-#: (the log of the distance to the path is bounded by the working digits' log; generous)
-_DOUBLET_SAFETY = 100
+#: safety factor on the principal-value estimate of a cancelled pair's contribution
+#: (:func:`_doublet_bound`; covers the pair's shape away from its pole and complex poles)
+_DOUBLET_SAFETY = 10
+#: a pair is cancelled when that estimate is within this factor of the input's noise level (the
+#: rerun with the input moved by a unit in its last digit makes pairs ten times stronger than
+#: rounding does); its estimate joins the approximant's error
+_DOUBLET_SLACK = 100
 
 
 def _divide_root(a, root):
@@ -275,9 +279,9 @@ def borel_evaluate(c: Sequence, xs: Sequence, dps: int, *, b=0, cmap: Optional[C
                         if dist < path_tol * max(abs(p), mpmath.mpf(10) ** -8):
                             weight = mpmath.exp(-ss[k] * mpmath.cos(th))
                             if weight * abs(res) > tiny:
-                                bound = _doublet_bound(p, res, weight, x, cmap)
+                                bound = _doublet_bound(p, res, x, b, cmap)
                                 z = None
-                                if bound is not None and bound <= asked * scale_ref:
+                                if bound is not None and bound <= _DOUBLET_SLACK * asked * scale_ref:
                                     z = _doublet_zero(r, p, dps, pair_tol, zeros_of[i])
                                 if z is None:
                                     bad = p
@@ -354,18 +358,26 @@ def borel_evaluate(c: Sequence, xs: Sequence, dps: int, *, b=0, cmap: Optional[C
     return outs, diag
 
 
-def _doublet_bound(p, res, weight, x, cmap):
-    """Bound on the Laplace integral of a doublet's pole term (residue ``res`` in the
-    approximant's variable at ``p``), or ``None`` where the map's derivative is unusable."""
+def _doublet_bound(p, res, x, b, cmap):
+    """Estimate (with ``_DOUBLET_SAFETY``) of what cancelling a doublet changes in the Laplace
+    integral, or ``None`` where the map's derivative is unusable. The pair adds about
+    ``res_t/(t - t_p)`` near its pole (``res_t`` the residue in ``t``, ``t_p`` the pole), and
+    ``|PV int_0^inf e^-s/(s - s_p) ds| = |e^-s_p Ei(s_p)|`` with ``s_p = t_p/x`` (real ``s_p``;
+    ``|s_p|`` otherwise, and ``(1 + |s_p|)^|b|`` for the Borel-Le Roy weight). Note that the
+    integral falls off like ``1/s_p``, not like the exponential at the pole."""
     if cmap is None:
-        res_t = abs(res)
+        res_t, t_p = abs(res), p
     else:
         h = abs(p) * mpmath.mpf(10) ** (-(mpmath.mp.dps // 3))
         dt = (cmap.x_of_w(p + h) - cmap.x_of_w(p - h)) / (2 * h)     # dt/dw at the pole
         if not mpmath.isfinite(abs(dt)):
             return None
-        res_t = abs(res) * abs(dt)
-    return _DOUBLET_SAFETY * res_t * weight / abs(x)
+        res_t, t_p = abs(res) * abs(dt), cmap.x_of_w(p)
+    sp = abs(t_p) / abs(x)
+    if sp == 0:
+        return None
+    J = abs(mpmath.exp(-sp) * mpmath.ei(sp)) * (1 + sp) ** abs(mpmath.mpmathify(b))
+    return _DOUBLET_SAFETY * res_t * J / abs(x)
 
 
 def to_t_inv(t, cmap):

@@ -5,6 +5,7 @@ Run from the repository root:
     python studies/evaluate_sweep/run.py              # 40 and 80 terms (a few minutes)
     python studies/evaluate_sweep/run.py --terms 20   # one term count
     python studies/evaluate_sweep/run.py --json out.json
+    python studies/evaluate_sweep/run.py --digits 16  # coefficients rounded to 16 digits, as from doubles
 
 Every function below has a closed form (binomial series, logarithms, arctan, products and
 sums of them, Stieltjes integrals; common practice, no source), evaluated by mpmath at 50
@@ -109,6 +110,9 @@ def main(argv=None):
     ap.add_argument("--terms", type=int, action="append", help="term counts (default 40 and 80)")
     ap.add_argument("--json", help="write the rows to this file")
     ap.add_argument("--method", default="auto", help="resummation method (default auto)")
+    ap.add_argument("--digits", type=int, default=None,
+                    help="round every coefficient to this many significant digits (declared as the "
+                         "series' digits; 20 digits asked, or fewer if the input carries fewer)")
     ap.add_argument("--far", action="store_true",
                     help="also x = 1e4 and 1e5 wherever x = 1000 is in the list (near the rim of the disk)")
     args = ap.parse_args(argv)
@@ -121,7 +125,13 @@ def main(argv=None):
                 xs = xs + ["1e4", "1e5"]
             if args.method != "auto" and name.startswith("Stieltjes"):
                 continue
-            res = evaluate(Series(c), xs, Context(dps=DPS), method=args.method)
+            if args.digits:
+                with workdps(args.digits):
+                    c = [+mpmath.mpf(v.numerator) / v.denominator for v in c]
+                s = Series(c, digits=args.digits)
+            else:
+                s = Series(c)
+            res = evaluate(s, xs, Context(dps=DPS), method=args.method)
             for p in res.points:
                 with workdps(50):
                     truth = f(mpmath.mpf(p.x))
@@ -130,7 +140,8 @@ def main(argv=None):
                         row.update(inside="-", digits="-", claimed="-", ratio="-", status=p.status.value)
                     else:
                         err = abs(p.value.value - truth)
-                        at_floor = p.value.error <= abs(p.value.value) * mpmath.mpf(10) ** (1 - DPS)
+                        asked = min(DPS, args.digits or DPS)
+                        at_floor = p.value.error <= abs(p.value.value) * mpmath.mpf(10) ** (1 - asked)
                         row.update(inside="yes" if p.value.contains(truth) else "NO",
                                    digits=f"{float(-mpmath.log10(err / abs(truth))):.1f}" if err else ">50",
                                    claimed=f"{p.value.digits():.1f}",

@@ -11,6 +11,7 @@ import pytest
 
 from resum.context import Context, workdps
 from resum.resummation import evaluate
+from resum.series import Series
 from tests.known_series import binomial_series
 
 
@@ -59,3 +60,21 @@ def test_power_read_from_the_series_removes_the_rim_problem(x):
         truth = (1 + mpmath.mpf(x)) ** (-mpmath.mpf(1) / 3)
         assert p.value.contains(truth)
         assert abs(p.value.value - truth) / truth < mpmath.mpf(10) ** -29
+
+
+@pytest.mark.parametrize("n", [40, 80])
+def test_rounded_series_reads_its_power_closer_in(n):
+    # (1 + x)^(1/3) from 40 or 80 terms rounded to 16 digits (as from double precision) at
+    # x = 1000, |w| = 0.939: without the power read from the series every approximant sat 0.01
+    # below the truth 10.0033 and the band (9.992(9) from 40 terms, 9.991(13) from 80) missed it.
+    # The power is now divided out within 4/N of the rim, N at most 2 x 16 + 8 for 16-digit
+    # input: 11-12 digits, in band
+    with workdps(16):
+        c = [+mpmath.mpf(v.numerator) / v.denominator for v in binomial_series(Fraction(1, 3), n).coefficients]
+    res = evaluate(Series(c, digits=16), ["1000"], Context(dps=20))
+    p = res.points[0]
+    assert p.diagnostics["rim_power_alpha"] is not None
+    with workdps(50):
+        truth = mpmath.mpf(1001) ** (mpmath.mpf(1) / 3)
+        assert p.value.contains(truth)
+        assert abs(p.value.value - truth) / truth < mpmath.mpf(10) ** -9
