@@ -289,3 +289,47 @@ def test_step_two_ratios_follow_the_faster_parity():
     s = _near(r.singularities, 1j)
     assert abs(s.location - 1j) < 1e-8
     _check(s.exponent, Fraction(-1, 3), 1e-3)
+
+
+def _rounded(c, digits):
+    with workdps(digits):
+        return Series([+_mp(v) for v in c], digits=digits)
+
+
+def test_noise_points_of_both_differential_approximants_are_screened():
+    # (1 - 3x/5)^(1/2) from 80 terms rounded to 16 digits (binomial series, common practice, no
+    # source): both orders of differential approximants placed three points at |x| = 1.69-1.73
+    # (exponent 0 to 1e-5), reported as confirmed by two methods. They fit the same kind of
+    # equation to the same noise, so together they now count as one method for the screen
+    # against the rerun with the input moved in its last digit, which does not find them again
+    r = analyze(_rounded(binomial_power(Fraction(1, 2), 80, scale=Fraction(3, 5)), 16), Context(dps=16))
+    assert r.success, r.message
+    assert len(r.singularities) == 1
+    _check(r.singularities[0].re, Fraction(5, 3), 1e-10)
+    _check(r.radius, Fraction(5, 3), 1e-10)
+    _check(r.singularities[0].exponent, Fraction(1, 2), 1e-8)
+
+
+def test_apparent_logarithmic_points_are_not_reported():
+    # (1 - 3x/4 + 9x^2/4)^(1/3) (1 - 2x/5)^(-1/3) from 40 terms rounded to 16 digits: branch
+    # points at 1/6 +- i sqrt(15)/6 (|x| = 2/3, exponent 1/3) and 5/2 (closed form, common
+    # practice, no source). First-order approximants had zeros of Q_1 with exponent 0 and a log
+    # coefficient below 1e-10 (apparent points of the approximating equation); a pair of them
+    # at |x| = 0.6665, just inside the circle, was reported as logarithmic singularities
+    n = 40
+    q = [Fraction(1)] + [Fraction(0)] * (n - 1)
+    a1, a2, p = Fraction(-3, 4), Fraction(9, 4), Fraction(1, 3)
+    for m in range(1, n):            # (1 + a1 x + a2 x^2)^p by its first-order recurrence
+        v = (p - (m - 1)) * a1 * q[m - 1]
+        if m >= 2:
+            v += (2 * p - (m - 2)) * a2 * q[m - 2]
+        q[m] = v / m
+    b = binomial_power(Fraction(-1, 3), n, scale=Fraction(2, 5))
+    c = [sum(q[j] * b[k - j] for j in range(k + 1)) for k in range(n)]
+    r = analyze(_rounded(c, 16), Context(dps=16))
+    assert r.success, r.message
+    pair = complex(Fraction(1, 6), 15 ** 0.5 / 6)
+    for s in r.singularities:
+        assert s.kind != "log"
+        assert min(abs(s.location - pair), abs(s.location - pair.conjugate()), abs(s.location - 2.5)) < 1e-8
+    _check(r.radius, Fraction(2, 3), 1e-8)

@@ -5,6 +5,7 @@ Run from the repository root:
     python studies/algebraic_sweep/run.py                 # 80 random cases, a few minutes
     python studies/algebraic_sweep/run.py --cases 20 --seed 3 --dps 60
     python studies/algebraic_sweep/run.py --evaluate  # resummed values at random complex points
+    python studies/algebraic_sweep/run.py --digits 16 # coefficients rounded to 16 digits
 
 Each case is a product of one to three factors, ``(1 - x/s)^p`` with a rational branch point
 ``s`` of either sign or ``(1 - 2 x cos(phi)/r + x^2/r^2)^p`` (a conjugate pair
@@ -158,6 +159,9 @@ def main(argv=None):
     ap.add_argument("--decimal", action="store_true",
                     help="give the coefficients as decimals with dps + 20 digits instead of exact "
                          "rationals (the exact-equation path then runs only on a degenerate table)")
+    ap.add_argument("--digits", type=int, default=None,
+                    help="give the coefficients as decimals rounded to this many digits (16: as from double "
+                         "precision); the analysis asks for at most that many")
     args = ap.parse_args(argv)
     rng = random.Random(args.seed)
     t0 = time.time()
@@ -186,13 +190,16 @@ def main(argv=None):
     for i in range(args.cases):
         desc, c, truth = make_case(rng)
         t = time.time()
-        if args.decimal:
-            with workdps(args.dps + 20):
-                c = [mpmath.mpf(v.numerator) / v.denominator for v in c]
-            series = Series(c, digits=args.dps + 20)
+        dps = args.dps
+        if args.decimal or args.digits:
+            d = args.digits or args.dps + 20
+            with workdps(d):
+                c = [+mpmath.mpf(v.numerator) / v.denominator for v in c]
+            series = Series(c, digits=d)
+            dps = min(dps, d)
         else:
             series = Series(c)
-        a = analyze(series, Context(dps=args.dps))
+        a = analyze(series, Context(dps=dps))
         exact = any((r.diagnostics or {}).get("exact_equation") for r in a.methods.values())
         n_exact += exact
         bad = check(a, truth)
