@@ -589,13 +589,11 @@ _DA_FAMILY = frozenset({"diff-approx", "diff-approx2"})
 
 
 def _noise_prone(s, found_by):
-    """Seen by one method only, or by the differential approximants only (first and second
-    order agree on the zeros that rounding noise makes: (1 - 3x/5)^(1/2) from 80 terms rounded
-    to 16 digits had three such points at |x| = 1.69-1.73, exponent 0 to 1e-5, found by both),
-    and not from an equation the series obeys exactly."""
-    if "obeys exactly" in (s.note or ""):
-        return False
-    return len(found_by) == 1 or (len(found_by) > 0 and set(found_by) <= _DA_FAMILY)
+    """:func:`_single_source` with the differential approximants counted as one method (first
+    and second order agree on the zeros that rounding noise makes: (1 - 3x/5)^(1/2) from 80
+    terms rounded to 16 digits had three such points at |x| = 1.69-1.73, exponent 0 to 1e-5,
+    found by both)."""
+    return _single_source(s, {"diff-approx" if m in _DA_FAMILY else m for m in found_by})
 
 
 def _found_again(s, again):

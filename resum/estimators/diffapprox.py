@@ -354,7 +354,7 @@ def exact_exponents(Q, K, roots, dps, homogeneous=False):
 APPARENT_LOG = mpmath.mpf("1e-6")
 
 
-def _without_apparent(D, L, Q, pts, c):
+def _without_apparent(D, L, Q, pts, c, dps):
     """First-order approximants: drop zeros of ``Q_1`` whose exponent is 0 and whose logarithm
     has a negligible coefficient. Near a simple zero ``z`` of ``Q_1`` with ``Q_0(z) = 0`` the
     solution is analytic plus ``-P(z)/Q_1'(z) log(x - z)`` (common practice, no source: the
@@ -367,17 +367,13 @@ def _without_apparent(D, L, Q, pts, c):
     if not any(abs(th) < APPARENT_LOG for _, th in pts):
         return pts
     P = [-_equation_at(D, 1, Q, n)[0] for n in range(L + 1)]
-    dQ = polyder(Q[1])
-    out = []
-    for z, th in pts:
-        if abs(th) < APPARENT_LOG:
-            size = max(abs(v) * abs(z) ** k for k, v in enumerate(c[:4]))
-            d = sum(v * z ** k for k, v in enumerate(dQ))
-            coef = abs(sum(v * z ** k for k, v in enumerate(P)) / d) if d != 0 else mpmath.inf
-            if coef < APPARENT_LOG * size:
-                continue
-        out.append((z, th))
-    return out
+    zs = [z for z, th in pts if abs(th) < APPARENT_LOG]
+    apparent = set()
+    for z, pz, d in zip(zs, polyval_many(P, zs, dps), polyval_many(polyder(Q[1]), zs, dps)):
+        size = max(abs(v) * abs(z) ** k for k, v in enumerate(c[:4]))
+        if d != 0 and abs(pz / d) < APPARENT_LOG * size:
+            apparent.add(z)
+    return [(z, th) for z, th in pts if z not in apparent]
 
 
 def exponents_at(Q, K, zs, dps):
@@ -523,7 +519,7 @@ def estimate_diffapprox(series, ctx=None, order=1, count=16, max_radius_factor=2
                 pts = [(z, th) for z, th in zip(roots, exponents_at(Q, K, roots, prep.dps))
                        if th is not None and mpmath.isfinite(th)]
                 if K == 1:
-                    pts = _without_apparent(D, L, Q, pts, prep.c)
+                    pts = _without_apparent(D, L, Q, pts, prep.c, prep.dps)
                 ens.append({"L": L, "M": tuple(Ms), "poles": pts, "zeros": [], "spurious": [], "rel_err": err})
                 table.append({"L": L, "M": list(Ms), "roots": [z for z, _ in pts],
                               "exponents": [t for _, t in pts]})
