@@ -100,15 +100,22 @@ def _divide_root(a, root):
     return [-root * v for v in reversed(out)]
 
 
+def _on_axis(z, dps):
+    """Whether ``z`` is real to half the working digits (a root of a real polynomial)."""
+    return abs(mpmath.im(z)) <= mpmath.mpf(10) ** (-(dps // 2)) * abs(z)
+
+
 def _real_if(z, real, dps):
-    if real and abs(mpmath.im(z)) <= mpmath.mpf(10) ** (-(dps // 2)) * abs(z):
-        return mpmath.re(z)
-    return z
+    return mpmath.re(z) if real and _on_axis(z, dps) else z
+
+
+def _is_real(r):
+    return not any(isinstance(v, mpmath.mpc) for v in r.p + r.q)
 
 
 def _without_doublets(r, pairs, dps):
     """The rational ``r`` with each (pole, zero) pair in ``pairs`` cancelled, ``Q(0) = 1`` kept."""
-    real = not any(isinstance(v, mpmath.mpc) for v in r.p + r.q)
+    real = _is_real(r)
     p, q = list(r.p), list(r.q)
     for pole, zero in pairs:
         pole, zero = _real_if(pole, real, dps), _real_if(zero, real, dps)
@@ -126,10 +133,8 @@ def _doublet_zero(r, pole, dps, tol, zeros_cache):
     near = [z for z in zeros_cache["z"] if abs(z - pole) < tol * abs(pole)]
     if not near:
         return None
-    real = not any(isinstance(v, mpmath.mpc) for v in r.p + r.q)
     z = min(near, key=lambda z: abs(z - pole))
-    if real and abs(mpmath.im(pole)) <= mpmath.mpf(10) ** (-(dps // 2)) * abs(pole) \
-            and abs(mpmath.im(z)) > mpmath.mpf(10) ** (-(dps // 2)) * abs(z):
+    if _is_real(r) and _on_axis(pole, dps) and not _on_axis(z, dps):
         return None         # a real pole must pair with a real zero for the cancellation to stay real
     return z
 
@@ -208,9 +213,10 @@ def borel_evaluate(c: Sequence, xs: Sequence, dps: int, *, b=0, cmap: Optional[C
         A = min((abs(p) for p in top), default=mpmath.mpf(1))
 
     rim = cmap.rim_point() if cmap is not None else None
-    # Froissart doublets on the path: cancelled when their term is below the digits asked
-    asked = mpmath.mpf(10) ** (-(qd if target_digits is None else min(qd, int(target_digits))))
-    pair_tol = doublet_tolerance(qd if target_digits is None else min(qd, int(target_digits)))
+    # Froissart doublets on the path: cancelled when their contribution is within _DOUBLET_SLACK
+    # of the noise of the digits asked for
+    asked_digits = qd if target_digits is None else min(qd, int(target_digits))
+    asked, pair_tol = mpmath.mpf(10) ** (-asked_digits), doublet_tolerance(asked_digits)
     zeros_of = [{} for _ in fits]
 
     w_of_t = cmap.w_of_x_at(dps) if cmap is not None else None
