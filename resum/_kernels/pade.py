@@ -1062,6 +1062,13 @@ def _coeff_diff_digits(p1, p2):
     return max(0.0, float(mpmath.log10(mx / df)))
 
 
+def _pair_agree_digits(pb, qb, p2, q2, L, M):
+    """Digits to which two numerator/denominator pairs agree (the smaller of the two counts):
+    the input-sensitivity estimate of :func:`pade` (the rerun with the input moved)."""
+    return min(_coeff_diff_digits(_ball_poly_to_list(pb, L), _ball_poly_to_list(p2, L)),
+               _coeff_diff_digits(_ball_poly_to_list(qb, M), _ball_poly_to_list(q2, M)))
+
+
 def _fraction_run(g, d, Mmax, tol, cplx, prec, final_bits=None, ar=None):
     """One run of the staircase for [Mmax+d/Mmax] (d >= 0) or [Mmax/Mmax-d].
     Returns ((p, q, certified digits), False), or (None, precision_block)
@@ -1250,10 +1257,7 @@ def pade(c: Sequence, L: int, M: int, dps: int, *, input_digits: Optional[float]
                 out2, _ = _fraction_run(gp, Lg - Mg, min(Lg, Mg), tl, cplx, prec, ar=ar)
                 if out2 is not None:
                     with ar.precision(prec):
-                        d2 = min(_coeff_diff_digits(_ball_poly_to_list(pb, Lg),
-                                                    _ball_poly_to_list(out2[0], Lg)),
-                                 _coeff_diff_digits(_ball_poly_to_list(qb, Mg),
-                                                    _ball_poly_to_list(out2[1], Mg)))
+                        d2 = _pair_agree_digits(pb, qb, out2[0], out2[1], Lg, Mg)
                     diag["input_sensitivity_digits"] = d2
                     digs = min(digs, d2)
             with ar.precision(prec):
@@ -1273,10 +1277,7 @@ def pade(c: Sequence, L: int, M: int, dps: int, *, input_digits: Optional[float]
                     out2 = _pade_lu(gp, Lg, Mg, dps, cplx, prec)
                     if out2 is not None:
                         with fb.flint_prec(prec):
-                            d2 = min(_coeff_diff_digits(_ball_poly_to_list(pb, Lg),
-                                                        _ball_poly_to_list(out2[0], Lg)),
-                                     _coeff_diff_digits(_ball_poly_to_list(qb, Mg),
-                                                        _ball_poly_to_list(out2[1], Mg)))
+                            d2 = _pair_agree_digits(pb, qb, out2[0], out2[1], Lg, Mg)
                         diag["input_sensitivity_digits"] = d2
                         digs = min(digs, d2)
                 with fb.flint_prec(prec):
