@@ -784,6 +784,10 @@ def _run(plan: _Plan, c, xs, dps, n_orders, quad_dps=None, target=None):
     from .estimators.resum_borel import borel_evaluate
     from .estimators.resum_conformal import conformal_evaluate
     from .estimators.resum_pade import pade_evaluate, partial_sum_evaluate
+    # the digits a method may ask of the input: the rerun at higher precision asks for more than
+    # inexact input carries (ode: the equation test; borel: which pole-zero pairs on the path are
+    # noise, see resum_borel)
+    digits = target if plan.input_digits is None or target is None else min(target, plan.input_digits)
     if plan.method == "partial-sum":
         return partial_sum_evaluate(c, xs, dps, n_orders=7 if n_orders is None else n_orders)
     if plan.method == "pade":
@@ -793,7 +797,6 @@ def _run(plan: _Plan, c, xs, dps, n_orders, quad_dps=None, target=None):
             from .estimators.resum_ode import ode_evaluate as run_equation
         else:
             from .estimators.resum_borel_ode import borel_ode_evaluate as run_equation
-        digits = target if plan.input_digits is None or target is None else min(target, plan.input_digits)
         at = plan.coefficients_at
         outs, diag = run_equation(c, xs, dps, digits=digits, shape=plan.equation_shape,
                                   coefficients_at=None if at is None else (lambda d: at(d)[:len(c)]))
@@ -817,9 +820,6 @@ def _run(plan: _Plan, c, xs, dps, n_orders, quad_dps=None, target=None):
         if plan.method == "conformal-pade":
             outs, diag = _near_rim_quadratic(plan, c, xs, outs, diag, dps, n_orders, target)
         return outs, diag
-    # (the rerun at higher precision asks for more digits than inexact input carries; its
-    # noise sets which pole-zero pairs on the path are cancelled, see resum_borel)
-    digits = target if plan.input_digits is None or target is None else min(target, plan.input_digits)
     return borel_evaluate(c, xs, dps, b=plan.borel_b, cmap=plan.cmap, alpha=plan.alpha,
                           n_orders=7 if n_orders is None else n_orders, lateral=plan.lateral,
                           quad_dps=quad_dps, target_digits=digits)
