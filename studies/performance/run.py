@@ -326,19 +326,26 @@ def study_pipeline(dps):
                 else str(res)[:60])
     except Exception as err:     # a study records a failure and goes on
         tab.add("analyze", "-", f"failed: {type(err).__name__}: {str(err)[:80]}")
-    try:
-        from resum.resummation import evaluate
-        t, res = timed(lambda: evaluate(s, ["2"], ctx))
-        pts = getattr(res, "points", None)
-        got = str(pts[0].value) if pts else str(res)[:80]
-        from resum.context import workdps
-        with workdps(ctx.work_dps + 20):          # the truth at more digits than the band
-            ref = mpmath.log(3) / 2
-            ok = pts[0].value.contains(ref) if pts else None
-        tab.add("evaluate at x=2", fmt_t(t),
-                f"{got}; truth log(3)/2 = {mpmath.nstr(ref, 25)}; band contains truth: {ok}")
-    except Exception as err:
-        tab.add("evaluate at x=2", "-", f"failed: {type(err).__name__}: {str(err)[:80]}")
+    from resum.resummation import evaluate
+    from resum.context import workdps
+    # the target's ten points, from inside the disk (x = 0.5) to far beyond it (x = 20)
+    xs = ["0.5", "1", "1.5", "2", "3", "4", "5", "7", "10", "20"]
+    with workdps(dps + 40):
+        inexact = Series([mpmath.mpf((-1) ** k) / (k + 1) for k in range(200)], name="log1p_over_x",
+                         digits=dps + 30)
+    for label, ser in (("exact rationals", s), (f"{dps + 30}-digit decimals", inexact)):
+        try:
+            t, res = timed(lambda: evaluate(ser, xs, ctx))
+            with workdps(ctx.work_dps + 20):     # the truth at more digits than the bands
+                inside = sum(bool(p.value.contains(mpmath.log1p(mpmath.mpf(x)) / mpmath.mpf(x)))
+                             for x, p in zip(xs, res.points))
+                worst = min(p.value.digits() for p in res.points)
+            methods = sorted({p.method for p in res.points})
+            tab.add(f"evaluate at 10 points, x = 0.5 .. 20 ({label})", fmt_t(t),
+                    f"{inside}/10 bands contain log(1+x)/x; narrowest claim {worst:.1f} digits; "
+                    f"method {', '.join(methods)}")
+        except Exception as err:     # a study records a failure and goes on
+            tab.add(f"evaluate at 10 points ({label})", "-", f"failed: {type(err).__name__}: {str(err)[:80]}")
     return tab
 
 
