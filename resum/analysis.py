@@ -362,11 +362,10 @@ def _drop_inside_growth_radius(combined, ok, warnings):
     kept = [(s, f) for s, f in combined if not abs(s.location) + _err(s) < floor]
     if not kept:
         return combined
-    for s, f in combined:
-        if (s, f) not in kept:
-            warnings.append(f"discarded a point at {mpmath.nstr(s.location, 6)} seen by {', '.join(f)}: it lies "
-                            f"inside the radius {mpmath.nstr(top, 6)} implied by the growth of the "
-                            "coefficients")
+    gone = [(s, f) for s, f in combined if (s, f) not in kept]
+    if gone:
+        warnings.append(f"discarded {_points_by(gone)}: inside the radius {mpmath.nstr(top, 6)} implied by "
+                        "the growth of the coefficients")
     return kept
 
 
@@ -429,10 +428,9 @@ def _screen_lone_inner_points(sings, ok, warnings):
             drop.append(s)
     if not drop or len(drop) == len(sings):
         return sings
-    for s in drop:
-        warnings.append(f"discarded a point at {mpmath.nstr(s.location, 6)} seen by {s.method} only: it lies "
-                        f"inside the radius {mpmath.nstr(floor / (1 - LONE_INNER_MARGIN), 6)} implied by the "
-                        "growth of the coefficients")
+    warnings.append(f"discarded {_points_by([(s, [s.method]) for s in drop])}, each seen by one method only: "
+                    f"inside the radius {mpmath.nstr(floor / (1 - LONE_INNER_MARGIN), 6)} implied by the "
+                    "growth of the coefficients")
     return [s for s in sings if not any(s is d for d in drop)]
 
 
