@@ -73,6 +73,10 @@ from .resum_conformal import mapped_coefficients
 __all__ = ["borel_evaluate", "borel_plane_poles"]
 
 
+#: Digits of the Laplace integrals beyond the digits reported (``target_digits``).
+QUAD_MARGIN = 15
+
+
 def _seg_dist(p, a, b):
     ab = b - a
     if ab == 0:
@@ -183,6 +187,11 @@ def borel_evaluate(c: Sequence, xs: Sequence, dps: int, *, b=0, cmap: Optional[C
     ``outcome.info`` holds ``S_plus``/``S_minus``.
     """
     qd = dps if quad_dps is None else quad_dps
+    if target_digits is not None:
+        # the integrals need the digits reported (at most what the input carries) plus guards,
+        # not the working precision of a short input's rerun (16-digit input: 31 digits asked
+        # at ctx.dps = 16, 36 by the rerun)
+        qd = min(qd, int(target_digits) + QUAD_MARGIN)
     d = borel_coefficients(c, b)
     var = "t"
     if cmap is not None:
