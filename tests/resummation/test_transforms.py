@@ -56,6 +56,20 @@ def test_borel_laplace_stieltjes():
         assert abs(d2[1] + 1 / mpmath.gamma(mpmath.mpf(5) / 2)) < mpmath.mpf(10) ** -35
 
 
+@pytest.mark.parametrize("x, dps", [("0.1", 20), ("2", 30), ("0.5", 45)])
+def test_laplace_digits_asked_at_higher_working_precision(x, dps):
+    # the quadrature runs at dps + LAPLACE_GUARD digits while the caller works at 100: the value
+    # must still carry the dps digits asked and its error estimate must cover the actual error;
+    # reference e^{1/x} E_1(1/x)/x, the Borel sum of sum (-1)^n n! x^n (Bender and Orszag 1978,
+    # sec. 8.2; mpmath e1)
+    with workdps(100):
+        X = mpmath.mpf(x)
+        ref = mpmath.e ** (1 / X) * mpmath.e1(1 / X) / X
+        v, err = laplace(lambda t: 1 / (1 + t), X, 0, dps)
+        assert abs(v - ref) <= err
+        assert abs(v - ref) < abs(ref) * mpmath.mpf(10) ** (-dps)
+
+
 @pytest.mark.parametrize("s", [mpmath.mpc("0.5", "0.8660254037844386467637231707529"), mpmath.mpc(-1, 2)])
 def test_pair_map_geometry(s):
     # w(x) maps the plane cut along Re x = Re s (|Im x| >= Im s) onto the unit disk; checked
