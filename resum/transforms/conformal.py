@@ -177,8 +177,9 @@ class RayMap(ConformalMap):
         return (_mp(self.x0),)
 
     def rim_point(self):
-        """The value of ``w`` that ``x = infinity`` maps to."""
-        return mpmath.mpf(self._sign())
+        """The value of ``w`` that ``x = infinity`` maps to (the unit ``sign``; complex when
+        ``x0`` is)."""
+        return _mp(self._sign())
 
     def describe(self) -> str:
         return f"one cut from x0 = {mpmath.nstr(_mp(self.x0), 12)} radially to infinity"

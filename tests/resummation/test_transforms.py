@@ -112,3 +112,30 @@ def test_star_map_geometry(s):
         ref = mpmath.taylor(lambda w: m.x_of_w(w), 0, 7)
         assert all(abs(A - B) < mpmath.mpf(10) ** -15 for A, B in zip(ser, ref))
         assert all(isinstance(v, mpmath.mpf) for v in ser)
+
+
+@pytest.mark.parametrize("x0, alpha", [(Fraction(-1, 3), None), (Fraction(-2), Fraction(1, 2)),
+                                       ((-1, 1), None), (Fraction(-1, 3), Fraction(-1, 4))])
+def test_ray_integrand_matches_mpmath_composition(x0, alpha):
+    # the Borel sums' fused FLINT integrand r(w(t)) / (1 - w/rim)^alpha against the same
+    # composition in plain mpmath (map formula w = sign (s - 1)/(s + 1), s = sqrt(1 - t/x0),
+    # Horner sums; mpmath as the general-purpose reference), real and complex t
+    from resum.estimators.resum_band import Rational
+    from resum.estimators.resum_borel import _ray_integrand
+    with workdps(50):
+        x0 = mpmath.mpc(*x0) if isinstance(x0, tuple) else mpmath.mpf(x0.numerator) / x0.denominator
+        al = None if alpha is None else mpmath.mpf(alpha.numerator) / alpha.denominator
+        p = [mpmath.mpf(1) / (k + 2) for k in range(6)]
+        q = [mpmath.mpf(1)] + [mpmath.mpf((-1) ** k) / (k + 3) ** 2 for k in range(1, 7)]
+        r = Rational(tuple(p), tuple(q), 5, 6)
+        m = RayMap(x0)
+        F = _ray_integrand(r, m, al, m.rim_point())
+        for t in [mpmath.mpf("0.01"), mpmath.mpf(1), mpmath.mpf(37), mpmath.mpc(2, 1), mpmath.mpc(5, -3)]:
+            w = m.w_of_x(t)
+            ref = mpmath.polyval(p[::-1], w) / mpmath.polyval(q[::-1], w)
+            if al is not None:
+                ref /= (1 - w / m.rim_point()) ** al
+            got = F(t)
+            assert abs(got - ref) <= abs(ref) * mpmath.mpf(10) ** -45
+            # a real integrand stays real (the Laplace sum of a real series is real)
+            assert isinstance(got, mpmath.mpc) == isinstance(ref, mpmath.mpc)
