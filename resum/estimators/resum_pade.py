@@ -82,11 +82,20 @@ def pade_evaluate(c: Sequence, zs: Sequence, dps: int, *, n_orders: int = 7,
     tols = [pole_tol * max(abs(z), mpmath.mpf(10) ** -10) for z in zs]
     for i, r in fits:
         L, M = orders[i][1], orders[i][2]
-        # the roots of Q only where a pole may be near a point (most approximants have
-        # none near any point, and the roots cost more than the rest of the evaluation)
-        poles = r.poles(dps) if M > 0 and not _no_pole_near(r.q, zs, tols, dps) else []
+        # the roots of Q only where the disk tests cannot tell (most approximants have no
+        # pole near any point, and the roots cost more than the rest of the evaluation)
+        counts = _pole_counts(r.q, zs, tols, dps) if M > 0 else [0] * len(zs)
+        inside = [c is not None and c > 0 and (keep_poles_beyond is None
+                                               or abs(z) + t < keep_poles_beyond)
+                  for c, z, t in zip(counts, zs, tols)]
+        undecided = any(c is None or (c > 0 and not ok) for c, ok in zip(counts, inside))
+        poles = r.poles(dps) if undecided else []
         for j, z in enumerate(zs):
             tol = tols[j]
+            if inside[j]:
+                dropped[j].append(f"[{L}/{M}]: at least {counts[j]} pole(s) within {mpmath.nstr(tol, 3)} of "
+                                  "the point (Pellet's test)")
+                continue
             near = [p for p in poles if abs(p - z) < tol
                     and not (keep_poles_beyond is not None and abs(p) >= keep_poles_beyond)]
             if near:
@@ -103,29 +112,66 @@ def pade_evaluate(c: Sequence, zs: Sequence, dps: int, *, n_orders: int = 7,
     return outs, {"n_singular_systems": singular, "orders": [list(o) for o in orders]}
 
 
-def _no_pole_near(q: Sequence, zs: Sequence, tols: Sequence, dps: int) -> bool:
-    """True when the polynomial ``q`` provably has no root within ``tols[j]`` of any
-    ``zs[j]`` (False: it may have one, or the test could not tell).
+#: Pellet's test is tried for up to this many roots in a disk
+PELLET_MAX = 4
 
-    Rouché's theorem on the shifted polynomial ``q(z + t) = sum a_k t^k``: if
-    ``|a_0| > sum_(k>=1) |a_k| rho^k`` then ``q`` has as many roots in ``|t| < rho``
-    as the constant ``a_0``, none (common practice, no source). The shift and the
-    sums run in ball arithmetic, so the answer True is rigorous for the coefficients
-    as given."""
+
+def _pole_counts(q: Sequence, zs: Sequence, tols: Sequence, dps: int) -> list:
+    """Per point, what disk tests prove about the roots of ``q`` within ``tols[j]`` of
+    ``zs[j]``: 0 (none), a positive ``k`` (at least ``k``: exactly ``k`` when proved for the
+    disk itself), or None (the tests cannot tell; the caller computes the roots).
+
+    Pellet's theorem on the shifted polynomial ``q(z + t) = sum a_k t^k``: if
+    ``|a_k| rho^k > sum_(j != k) |a_j| rho^j`` then ``q`` has exactly ``k`` roots in
+    ``|t| < rho`` (k = 0 is Rouché's test against the constant; M. Marden, *Geometry of
+    Polynomials*, AMS 1966, sec. 28, from memory). Tried at ``rho = tol``, then for "none" at
+    2 and 4 ``tol`` (no root in a larger disk) and for "some" at ``tol/2`` and ``tol/4`` (roots
+    in a smaller one), k up to :data:`PELLET_MAX`. The shift and the sums run in ball
+    arithmetic, so every answer is rigorous for the coefficients as given."""
+    out = []
     with flint_precision(dps + 10):
         Q = flint.acb_poly([to_acb(v) for v in q])
         for z, tol in zip(zs, tols):
-            a = list(Q(flint.acb_poly([to_acb(z), 1])).coeffs())
+            a = [abs(ak) for ak in Q(flint.acb_poly([to_acb(z), 1])).coeffs()]
             if not a:
-                return False
+                out.append(None)
+                continue
             rho = to_acb(tol).real
-            s, rk = flint.arb(0), flint.arb(1)
-            for ak in a[1:]:
-                rk = rk * rho
-                s += abs(ak) * rk
-            if not (abs(a[0]) > s):
-                return False
-    return True
+            found = _pellet(a, rho)
+            if found is None:
+                for f in (2, 4):
+                    if _pellet(a, rho * f, only_zero=True) == 0:
+                        found = 0
+                        break
+            if found is None:
+                for f in (2, 4):
+                    k = _pellet(a, rho / f)
+                    if k:
+                        found = k
+                        break
+            out.append(found)
+    return out
+
+
+def _pellet(a, rho, only_zero=False):
+    """The ``k`` (at most :data:`PELLET_MAX`) for which Pellet's inequality holds for the
+    moduli ``a`` of the shifted coefficients at radius ``rho``, or None."""
+    terms, rk = [], flint.arb(1)
+    for ak in a:
+        terms.append(ak * rk)
+        rk = rk * rho
+    total = sum(terms[1:], terms[0])
+    for k in range(1 if only_zero else min(PELLET_MAX, len(terms) - 1) + 1):
+        if 2 * terms[k] > total:
+            return k
+    return None
+
+
+def _no_pole_near(q: Sequence, zs: Sequence, tols: Sequence, dps: int) -> bool:
+    """True when the polynomial ``q`` provably has no root within ``tols[j]`` of any
+    ``zs[j]`` (False: it may have one, or the tests could not tell): the answer 0 of
+    :func:`_pole_counts` at every point."""
+    return all(c == 0 for c in _pole_counts(q, zs, tols, dps))
 
 
 def partial_sum_evaluate(c: Sequence, zs: Sequence, dps: int, *, n_orders: int = 7, safety=4):
