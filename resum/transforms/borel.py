@@ -92,17 +92,12 @@ def laplace(F: Callable, x, b, dps: int, *, theta=0, scale=1, s_max=None):
     # nodes, weights and stopping test follow mpmath's precision, and at the caller's (often
     # twice dps: the Padé plan) it refined every panel towards digits nobody asked for (4000
     # integrand calls per integral at 81 digits for a 36-digit request).
-    mp = mpmath.mp
-    hi = mp.prec
+    hi = mpmath.mp.prec
 
     def integrand(s):
         u = s * e
-        lo = mp.prec                # (set by hand: a context manager per call costs more)
-        mp.prec = hi
-        try:
+        with mpmath.workprec(hi):
             f = F(x * u)
-        finally:
-            mp.prec = lo
         w = mpmath.exp(-u) * f
         if b != 0:
             w *= u ** b
