@@ -428,7 +428,8 @@ def _screen_lone_inner_points(sings, ok, warnings):
             drop.append(s)
     if not drop or len(drop) == len(sings):
         return sings
-    warnings.append(f"discarded {_points_by([(s, [s.method]) for s in drop])}, each seen by one method only: "
+    warnings.append(f"discarded {_points_by([(s, [s.method]) for s in drop])}, "
+                    f"{'each ' if len(drop) > 1 else ''}seen by one method only: "
                     f"inside the radius {mpmath.nstr(floor / (1 - LONE_INNER_MARGIN), 6)} implied by the "
                     "growth of the coefficients")
     return [s for s in sings if not any(s is d for d in drop)]
