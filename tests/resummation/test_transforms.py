@@ -139,3 +139,21 @@ def test_ray_integrand_matches_mpmath_composition(x0, alpha):
             assert abs(got - ref) <= abs(ref) * mpmath.mpf(10) ** -45
             # a real integrand stays real (the Laplace sum of a real series is real)
             assert isinstance(got, mpmath.mpc) == isinstance(ref, mpmath.mpc)
+
+
+def test_path_prefilter_keeps_every_near_segment():
+    # the double-precision prefilter of the Borel path check must keep every segment that the
+    # exact distance (mpmath, point to segment: common practice, no source) finds within tol,
+    # including poles just off a ray sampled at powers of two, as the Borel sums sample it
+    import random
+    from resum.estimators.resum_borel import _near_segments, _seg_dist
+    rng = random.Random(5)
+    with workdps(40):
+        for _ in range(200):
+            th = mpmath.mpf(rng.uniform(-0.5, 0.5))
+            e = mpmath.expj(th)
+            path = [mpmath.mpf(0)] + [e * mpmath.mpf(2) ** k for k in range(-6, 8)]
+            p = e * mpmath.mpf(rng.uniform(0, 100)) + mpmath.mpc(0, rng.uniform(-1, 1)) * 10 ** rng.randint(-30, 0)
+            tol = mpmath.mpf("0.002") * abs(p)
+            exact = [k for k in range(len(path) - 1) if _seg_dist(p, path[k], path[k + 1]) < tol]
+            assert set(exact) <= set(_near_segments(p, path, tol))
