@@ -167,13 +167,6 @@ def _pellet(a, rho, only_zero=False):
     return None
 
 
-def _no_pole_near(q: Sequence, zs: Sequence, tols: Sequence, dps: int) -> bool:
-    """True when the polynomial ``q`` provably has no root within ``tols[j]`` of any
-    ``zs[j]`` (False: it may have one, or the tests could not tell): the answer 0 of
-    :func:`_pole_counts` at every point."""
-    return all(c == 0 for c in _pole_counts(q, zs, tols, dps))
-
-
 def partial_sum_evaluate(c: Sequence, zs: Sequence, dps: int, *, n_orders: int = 7, safety=4):
     """Partial sums as candidates (for points well inside the disk of convergence)."""
     from .resum_band import PointOutcome, band_from_candidates
