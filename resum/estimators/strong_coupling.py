@@ -160,7 +160,8 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
         The weak-coupling series (its declared coupling, if any, is the ``g``).
     couplings : sequence, optional
         Couplings to evaluate at (default: 4, 6, 8, 12, 16, 24, 32, 48, 64, 80
-        times the distance to the nearest singularity in ``g``).
+        times the distance to the nearest singularity in ``g``, rounded to three
+        significant digits).
     method, evaluate_options :
         Passed to :func:`resum.resummation.evaluate`.
     leading_power : number, optional
@@ -440,4 +441,12 @@ def _default_grid(series, ctx):
     r = abs(sing[0]) if sing else mpmath.mpf(1)
     if series.coupling is not None:
         r = abs(series.coupling.from_variable(r))
-    return [r * k for k in (4, 6, 8, 12, 16, 24, 32, 48, 64, 80)]
+    # the distance is an estimate (0.2500004... for 1/4): the grid is rounded to three
+    # significant digits, so that reports name couplings a reader recognises (20, not 20.0000345)
+    return [_round_sig(r * k, 3) for k in (4, 6, 8, 12, 16, 24, 32, 48, 64, 80)]
+
+
+def _round_sig(v, digits):
+    """``v > 0`` rounded to ``digits`` significant decimal digits."""
+    e = int(mpmath.floor(mpmath.log10(v))) - digits + 1
+    return mpmath.nint(v / mpmath.mpf(10) ** e) * mpmath.mpf(10) ** e

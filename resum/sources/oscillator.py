@@ -74,7 +74,8 @@ def rs_coefficients(state: int = 0, orders: int = 100) -> list:
     -----
     Exact rational arithmetic: there is no rounding error. The cost grows
     like ``orders^3`` operations on numbers of ``orders log(orders)`` digits;
-    300 orders of the ground state take about a second.
+    300 orders of the ground state take about 8 s on a 2-core machine (measured
+    4 December 2026; the convolution over earlier orders is most of it).
     """
     _check(state, orders)
     n = state
