@@ -110,7 +110,10 @@ def run(args) -> int:
         from ..plots.evaluation import write_evaluation_plots
         figures += [Path(f).name for f in write_analysis_plots(ana, series, out)]
         reference = [(mpmath.mpf(g), _val(t), _err(t)) for g, t in zip(COUPLINGS, truth) if t is not None]
-        figures += [Path(f).name for f in write_evaluation_plots(ev, series, ctx, out, reference)]
+        from ..plots.evaluation import curve_grid
+        # the resummed curve between the couplings (one run, no verification reruns)
+        curve = evaluate(series, curve_grid(COUPLINGS, 24), ctx, verify=False, analysis=ana)
+        figures += [Path(f).name for f in write_evaluation_plots(ev, series, ctx, out, reference, curve)]
 
     report = _report(series, ana, ev, rows, held, figures, time.perf_counter() - t0)
     atomic_write_text(out / "report.md", report)

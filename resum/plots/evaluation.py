@@ -14,7 +14,7 @@ import mpmath
 from ..context import Context, workdps
 from . import save_figure
 
-__all__ = ["plot_evaluation", "plot_digits", "plot_borel_plane", "write_evaluation_plots"]
+__all__ = ["plot_evaluation", "plot_digits", "plot_borel_plane", "write_evaluation_plots", "curve_grid"]
 
 
 def _ax(ax):
@@ -40,22 +40,65 @@ def _x_scale(ax, xs):
         ax.set_xscale("log")
 
 
-def plot_evaluation(result, ax=None, reference: Optional[Sequence] = None):
+def curve_grid(points, n: int = 24) -> list:
+    """``n`` real points spanning the real ones among ``points`` (the couplings asked for), at
+    which to draw the resummed curve: geometric from the smallest to the largest when they are
+    all positive and span two decades or more (the axis is then logarithmic), otherwise evenly
+    spaced over the interval from 0 (or the smallest) to the largest, leaving out 0 itself.
+    Empty when no real non-zero point is given or ``n < 1``."""
+    from ..resummation import parse_points
+    vals = parse_points(list(points), mpmath.mp.dps)
+    reals = [mpmath.re(a) for a in vals if mpmath.im(a) == 0 and a != 0]
+    if not reals or n < 1:
+        return []
+    lo, hi = min(reals), max(reals)
+    if lo > 0 and hi >= 100 * lo:
+        ratio = (hi / lo) ** (mpmath.mpf(1) / max(n - 1, 1))
+        grid = [lo * ratio ** k for k in range(n)]
+        grid[0], grid[-1] = lo, hi          # the ends exactly, not to the rounding of the powers
+    else:
+        a, b = min(lo, 0), max(hi, 0)
+        grid = [a + (b - a) * mpmath.mpf(k) / n for k in range(n)] + [b]
+    return [g for g in grid if g != 0]
+
+
+def _draw_curve(ax, curve, result):
+    """The resummed curve on the extra grid: a line through the values and the band shaded
+    (without verification reruns: the curve is drawn from one run at the working precision),
+    passing through the points asked for as well."""
+    pts = sorted(_real_points(curve) + _real_points(result), key=lambda p: p.at)
+    if len(pts) < 2:
+        return
+    xs = [float(p.at) for p in pts]
+    ax.fill_between(xs, [float(p.value.lower) for p in pts], [float(p.value.upper) for p in pts],
+                    alpha=0.25, lw=0, label="band (curve: no verification reruns)")
+    ax.plot(xs, [float(p.value.value) for p in pts], "-", lw=1.2,
+            label=f"resummed curve ({pts[0].method})")
+
+
+def plot_evaluation(result, ax=None, reference: Optional[Sequence] = None, curve=None):
     """Resummed value against the point, with its band, the optimal-truncation
-    baseline (band +- smallest term) and any reference values."""
+    baseline (band +- smallest term) and any reference values. ``curve``: an
+    evaluation of the same series at more points (see :func:`curve_grid`), drawn
+    as a line with its band shaded; the points asked for are then markers."""
     ax = _ax(ax)
     with workdps((result.provenance.dps if result.provenance else 50) + 10):
+        if curve is not None:
+            _draw_curve(ax, curve, result)
         pts = _real_points(result)
         xs = [float(p.at) for p in pts]
         ys = [float(p.value.value) for p in pts]
         lo = [float(p.value.value - p.value.lower) for p in pts]
         hi = [float(p.value.upper - p.value.value) for p in pts]
-        ax.errorbar(xs, ys, yerr=[lo, hi], fmt="o-", ms=4, capsize=3, label=f"resummed ({result.points[0].method})"
-                    if result.points else "resummed")
+        ax.errorbar(xs, ys, yerr=[lo, hi], fmt="o" if curve is not None else "o-", ms=4, capsize=3,
+                    label=f"resummed ({result.points[0].method})" if result.points else "resummed")
         bs = [p for p in result.points if p.baseline is not None and not isinstance(p.at, mpmath.mpc)]
         if bs:
-            span = max(ys) - min(ys) if len(ys) > 1 else (abs(ys[0]) if ys else 1)
-            lo_y, hi_y = (min(ys) - span, max(ys) + span) if ys else (None, None)
+            # the window: the values asked for and those of the curve
+            yw = ys + ([float(p.value.value) for p in _real_points(curve)] if curve is not None else [])
+            span = max(yw) - min(yw) if len(yw) > 1 else (abs(yw[0]) if yw else 1)
+            pad = span if curve is None else span / 8     # a curve fills its window itself
+            lo_y, hi_y = (min(yw) - pad, max(yw) + pad) if yw else (None, None)
             # a baseline whose error bar is wider than the window says nothing it can show:
             # it is counted in the legend instead of drawn across the figure
             shown = [p for p in bs if lo_y is None or float(p.baseline.value.error) <= span]
@@ -161,14 +204,15 @@ def plot_borel_plane(series, ctx, ax=None, b=0, dps=None, doublet_tol=1e-6):
     return ax
 
 
-def write_evaluation_plots(result, series, ctx, folder, reference=None) -> list:
-    """Write evaluation.png, digits.png and (for Borel methods) borel_plane.png; returns the paths."""
+def write_evaluation_plots(result, series, ctx, folder, reference=None, curve=None) -> list:
+    """Write evaluation.png, digits.png and (for Borel methods) borel_plane.png; returns the paths.
+    ``curve``: an evaluation at more points, drawn in evaluation.png (see :func:`plot_evaluation`)."""
     import matplotlib
     matplotlib.use("Agg", force=False)
     import matplotlib.pyplot as plt
     os.makedirs(folder, exist_ok=True)
     out = []
-    for name, fn in (("evaluation.png", lambda ax: plot_evaluation(result, ax, reference)),
+    for name, fn in (("evaluation.png", lambda ax: plot_evaluation(result, ax, reference, curve)),
                      ("digits.png", lambda ax: plot_digits(result, ax, reference))):
         fig, ax = plt.subplots(figsize=(6.4, 4.2))
         fn(ax)

@@ -120,3 +120,42 @@ def test_points_joined_in_order_of_the_axis():
     assert list(ax2.get_lines()[0].get_xdata()) == [1.0, 10.0, 1000.0]
     assert ax2.get_xscale() == "log"
     plt.close("all")
+
+
+def test_curve_grid_spans_the_points_asked_for():
+    """The figure's curve runs over the points asked for: evenly from 0 (or the smallest, when
+    negative) to the largest, without 0 itself; geometric when the points span two decades or
+    more (the axis is then logarithmic); nothing for complex points only (common practice, no
+    source)."""
+    from resum.plots.evaluation import curve_grid
+    g = curve_grid(["1/2", "5"], 10)
+    assert len(g) == 10 and g[-1] == 5 and all(abs((b - a) - mpmath.mpf(1) / 2) < 1e-14 for a, b in zip(g, g[1:]))
+    g = curve_grid(["1", "1000"], 7)
+    assert g[0] == 1 and g[-1] == 1000
+    assert all(abs(b / a - mpmath.sqrt(10)) < 1e-12 for a, b in zip(g, g[1:]))
+    assert [float(x) for x in curve_grid(["-2", "3"], 5)] == [-2.0, -1.0, 1.0, 2.0, 3.0]
+    assert curve_grid(["1+2*I"], 5) == [] and curve_grid(["1"], 0) == []
+
+
+def test_curve_drawn_through_the_points_follows_the_function():
+    """log(1+x)/x = sum (-1)^k x^k/(k+1) (common practice, no source), [L/M] Padé of 30 exact
+    terms: the curve drawn at 8 more points passes through the two points asked for, and every
+    drawn value is mpmath's log1p(x)/x to within its band."""
+    import matplotlib.pyplot as plt
+    from fractions import Fraction
+    from resum.plots.evaluation import curve_grid, plot_evaluation
+    from resum.resummation import evaluate
+    from resum.series import Series
+    s = Series([Fraction((-1) ** k, k + 1) for k in range(30)])
+    ctx = Context(dps=15)
+    r = evaluate(s, ["1/2", "5"], ctx, method="pade", verify=False)
+    curve = evaluate(s, curve_grid(["1/2", "5"], 8), ctx, method="pade", verify=False)
+    ax = plot_evaluation(r, curve=curve)
+    line = next(ln for ln in ax.get_lines() if ln.get_label().startswith("resummed curve"))
+    xs, ys = list(line.get_xdata()), list(line.get_ydata())
+    assert xs == sorted(xs) and 0.5 in xs and 5.0 in xs and len(xs) == 10     # 5 is on the grid too
+    bands = {float(p.at): float(p.value.error) for p in list(r.points) + list(curve.points)}
+    for x, y in zip(xs, ys):
+        assert abs(y - float(mpmath.log1p(x) / x)) <= bands[x] + 1e-14
+    assert any(c.get_label().startswith("band (curve") for c in ax.collections)
+    plt.close("all")

@@ -105,5 +105,11 @@ def test_cli_plot(tmp_path, capsys):
     f.write_text("\n".join(str((-1) ** n * math.factorial(n)) for n in range(20)) + "\n")
     out = tmp_path / "plots"
     assert main(["evaluate", str(f), "--at", "0.5", "--at", "1", "--no-verify", "--dps", "15",
-                 "--plot", str(out)]) == 0
+                 "--plot", str(out), "--curve", "3"]) == 0
     assert (out / "evaluation.png").exists() and (out / "borel_plane.png").exists()
+    assert "resummed curve at 3 points" in capsys.readouterr().err
+    # the curve belongs to the figure; its count is a whole number
+    assert main(["evaluate", str(f), "--at", "1", "--curve", "3"]) == 2
+    assert "--curve" in capsys.readouterr().err
+    assert main(["evaluate", str(f), "--at", "1", "--curve", "-1", "--plot", str(out)]) == 2
+    assert "whole number" in capsys.readouterr().err
