@@ -70,6 +70,27 @@ def test_laplace_digits_asked_at_higher_working_precision(x, dps):
         assert abs(v - ref) < abs(ref) * mpmath.mpf(10) ** (-dps)
 
 
+def test_laplace_borel_le_roy_and_near_singular_integrands():
+    """Both quadratures of :func:`laplace`: with b = 1/2 (tanh-sinh: u^b is an end-point
+    singularity), the Borel-Le Roy transform of sum (-1)^n n! x^n, B(t) = 2F1(1, 1; 3/2; -t) /
+    Gamma(3/2), must give the same Borel sum e^{1/x} E_1(1/x)/x (Bender and Orszag 1978, sec.
+    8.2; mpmath hyp2f1 and e1); and an integrand with poles 10^-3 off the real ray (where the
+    Gauss-Legendre panels cannot meet the digits asked and tanh-sinh takes over) must still be
+    inside its error estimate against mpmath.quad split at the near-pole (common practice, no
+    source)."""
+    with workdps(60):
+        X = mpmath.mpf("0.5")
+        ref = mpmath.e ** (1 / X) * mpmath.e1(1 / X) / X
+        B = lambda t: mpmath.hyp2f1(1, 1, mpmath.mpf(3) / 2, -t) / mpmath.gamma(mpmath.mpf(3) / 2)  # noqa: E731
+        v, err = laplace(B, X, mpmath.mpf(1) / 2, 30)
+        assert abs(v - ref) <= err and abs(v - ref) < abs(ref) * mpmath.mpf(10) ** -30
+        eps = mpmath.mpf("1e-3")
+        F = lambda t: 1 / ((t - 1) ** 2 + eps ** 2)  # noqa: E731
+        v, err = laplace(F, mpmath.mpf(1), 0, 20)
+        ref = mpmath.quad(lambda u: mpmath.exp(-u) * F(u), [0, 1 - 10 * eps, 1, 1 + 10 * eps, 10, mpmath.inf])
+        assert abs(v - ref) <= err and abs(v - ref) < abs(ref) * mpmath.mpf(10) ** -15
+
+
 @pytest.mark.parametrize("s", [mpmath.mpc("0.5", "0.8660254037844386467637231707529"), mpmath.mpc(-1, 2)])
 def test_pair_map_geometry(s):
     # w(x) maps the plane cut along Re x = Re s (|Im x| >= Im s) onto the unit disk; checked
