@@ -161,3 +161,45 @@ def stage_log(args):
     if getattr(args, "json", False) or not sys.stderr.isatty():
         return None
     return lambda message: log("  " + message)
+
+
+class FractionBar:
+    """A one-line bar on stderr for one long computation that reports the fraction of its work
+    done (:mod:`resum.progress`): ``label [#####.......]  42%  0:12 elapsed, ~0:16 left``,
+    redrawn in place at most four times a second, on a terminal only (a log or a pipe gets the
+    command's own summary line, nothing else). :meth:`close` clears it."""
+
+    def __init__(self, label: str, stream=None, width: int = 24):
+        import time
+        self.label = label
+        self.stream = sys.stderr if stream is None else stream
+        self.width = width
+        self.start = time.monotonic()
+        self._last = 0.0
+        self.shown = False
+        try:
+            self.tty = bool(self.stream.isatty())
+        except (AttributeError, ValueError):
+            self.tty = False
+
+    def __call__(self, fraction: float) -> None:
+        import time
+        if not self.tty:
+            return
+        now = time.monotonic()
+        if now - self._last < 0.25 and fraction < 1:
+            return
+        self._last = now
+        from ..batch.progress import _clock
+        el = now - self.start
+        fill = int(round(fraction * self.width))
+        left = f", ~{_clock(el / fraction - el)} left" if 0.02 <= fraction < 1 else ""
+        self.stream.write(f"\r{self.label} [{'#' * fill}{'.' * (self.width - fill)}] {100 * fraction:3.0f}%  "
+                          f"{_clock(el)} elapsed{left}\x1b[K")
+        self.stream.flush()
+        self.shown = True
+
+    def close(self) -> None:
+        if self.shown:
+            self.stream.write("\r\x1b[K")
+            self.stream.flush()

@@ -106,7 +106,14 @@ def run(args) -> int:
             p.check(getattr(args, p.name, None), f"--{p.name}")
     ctx = Context(dps=dps) if dps is not None else DEFAULT
     kw = _values(spec, args, ctx.work_dps + 10)
-    series = spec.build(ctx, **kw)
+    from ..progress import listening
+    from ._common import FractionBar
+    bar = FractionBar(f"resum generate {spec.name}")
+    try:
+        with listening(bar):
+            series = spec.build(ctx, **kw)
+    finally:
+        bar.close()
     path = write_series(series, args.out)
     kind = "exact" if series.is_exact else f"{series.digits} digits"
     print(f"resum generate: wrote {series.n_terms} coefficients ({kind}) of {series.name or spec.name} "

@@ -210,7 +210,9 @@ SOURCES = {
     "oscillator": SourceSpec(
         "oscillator", "energy levels of p^2 + x^2 + g x^4 as exact Rayleigh-Schrodinger series in g",
         (Param("state", "int", 0, "level: 0 ground state, 1 first excited, ...", minimum=0),
-         Param("orders", "int", 100, "number of coefficients (g^0 .. g^(orders-1))",
+         Param("orders", "int", 100, "number of coefficients (g^0 .. g^(orders-1)); the exact "
+                                     "recursion's cost grows about like orders^4: 300 orders take "
+                                     "about 8 s, 400 about 35 s",
                minimum=1, maximum=OSC_MAX_ORDERS)),
         _osc_build, _osc_truth, "energy at couplings g by diagonalisation in an oscillator basis"),
     "phi4": SourceSpec(

@@ -62,6 +62,7 @@ import numpy as np
 from ..context import DEFAULT, Context, bits_for, workdps
 from ..errors import InputError
 from ..results import Estimate, Provenance, Status, num_to_str
+from ..progress import report
 from ..results import longest_number
 from ..series.core import Coupling, Series
 from ._arb import acb_from_mpc, arb_from_mpf, arb_rad_to_mpf, arb_to_mpf, flint_prec
@@ -173,10 +174,16 @@ def _weak_arb(loops: int, alpha, beta2):
     same = [alpha * two_j[j] for j in range(maxn + 1)]
     cross = [-(beta2 * two_j[j]) for j in range(maxn + 1)]
     blocks, width = {}, {}
+    # progress: the blocks take about 30 % of the time (measured at 100 and 200 loops), the
+    # products the rest, each step of s costing about P - s block products
+    work1 = sum(min(q, N) * min(N, -(-max(1, P - q) // _BUCKET) * _BUCKET) for q in range(1, P + 1))
+    done1 = 0
     for q in range(1, P + 1):
         rows = min(q, N)
         C = min(N, -(-max(1, P - q) // _BUCKET) * _BUCKET)
         width[q] = C
+        done1 += rows * C
+        report(0.3 * done1 / work1)
         mat = []
         for i in range(1, rows + 1):
             k = q - i
@@ -200,7 +207,9 @@ def _weak_arb(loops: int, alpha, beta2):
     acc = [[zero] * N for _ in range(P + 1)]
     u = []
     w = [flint.arb(1)] + [zero] * (N - 1)
+    work2 = P * (P + 1) // 2
     for s in range(P):
+        report(0.3 + 0.7 * (s * P - s * (s - 1) // 2) / work2)
         if s >= 1:
             w = [-a for a in acc[s]]
         u.append(w[0])

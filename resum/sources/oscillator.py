@@ -43,6 +43,7 @@ import numpy as np
 from ..context import DEFAULT, Context, workdps
 from ..errors import InputError
 from ..results import Estimate, Provenance, Status, num_to_str
+from ..progress import report
 from ..results import longest_number
 from ..series.core import Series
 
@@ -92,6 +93,7 @@ def rs_coefficients(state: int = 0, orders: int = 100) -> list:
     Eint = [(2 * n + 1, 1)]
     x4 = flint.fmpz_poly([0, 0, 0, 0, 1])
     for k in range(1, orders):
+        report((k / orders) ** 4)        # the cost of order k grows about like k^3
         D = d[k - 1]
         for l in range(1, k):
             D = math.lcm(D, Eint[l][1] * d[k - l])
