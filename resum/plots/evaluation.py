@@ -65,8 +65,9 @@ def curve_grid(points, n: int = 24) -> list:
 def _draw_curve(ax, curve, result):
     """The resummed curve on the extra grid: a line through the values and the band shaded
     (without verification reruns: the curve is drawn from one run at the working precision),
-    passing through the points asked for as well."""
-    pts = sorted(_real_points(curve) + _real_points(result), key=lambda p: p.at)
+    passing through the points asked for as well. Curve points without a converged value (on
+    a cut, beyond what the series supports) are left out, not drawn as if they held."""
+    pts = sorted([p for p in _real_points(curve) if p.success] + _real_points(result), key=lambda p: p.at)
     if len(pts) < 2:
         return
     xs = [float(p.at) for p in pts]
@@ -95,7 +96,7 @@ def plot_evaluation(result, ax=None, reference: Optional[Sequence] = None, curve
         bs = [p for p in result.points if p.baseline is not None and not isinstance(p.at, mpmath.mpc)]
         if bs:
             # the window: the values asked for and those of the curve
-            yw = ys + ([float(p.value.value) for p in _real_points(curve)] if curve is not None else [])
+            yw = ys + ([float(p.value.value) for p in _real_points(curve) if p.success] if curve is not None else [])
             span = max(yw) - min(yw) if len(yw) > 1 else (abs(yw[0]) if yw else 1)
             pad = span if curve is None else span / 8     # a curve fills its window itself
             lo_y, hi_y = (min(yw) - pad, max(yw) + pad) if yw else (None, None)
