@@ -203,3 +203,52 @@ class FractionBar:
         if self.shown:
             self.stream.write("\r\x1b[K")
             self.stream.flush()
+
+
+#: Most points one ``--at START:STOP:N`` may ask for.
+MAX_RANGE_POINTS = 1000
+
+AT_HELP_RANGE = ("; START:STOP:N gives N evenly spaced points from START to STOP (both included), "
+                 "START:STOP:N:log geometric ones")
+
+
+def expand_points(texts, dps: int, where: str = "--at") -> list:
+    """The ``--at`` values as mpmath numbers: each a decimal or expression, or a range
+    ``START:STOP:N`` (N evenly spaced points, both ends included) or ``START:STOP:N:log``
+    (geometric; START and STOP real and positive). START and STOP may be expressions."""
+    import mpmath
+    from ..resummation import parse_points
+    out = []
+    for text in texts:
+        here = f"{where} {text[:40]}"
+        if ":" not in text:
+            try:
+                out += parse_points([text], dps)
+            except InputError as exc:
+                raise InputError(exc.bare, where=here) from None
+            continue
+        parts = [p.strip() for p in text.split(":")]
+        log_scale = len(parts) == 4 and parts[3].lower() == "log"
+        if len(parts) not in (3, 4) or (len(parts) == 4 and not log_scale):
+            raise InputError("write a range as START:STOP:N or START:STOP:N:log", where=here)
+        try:
+            n = int(parts[2])
+        except ValueError:
+            n = 0
+        if not 2 <= n <= MAX_RANGE_POINTS:
+            raise InputError(f"the number of points N must be a whole number from 2 to {MAX_RANGE_POINTS}, "
+                             f"got {parts[2]!r}", where=here)
+        try:
+            a, b = parse_points(parts[:2], dps)
+        except InputError as exc:
+            raise InputError(exc.bare, where=here) from None
+        with mpmath.workdps(dps):
+            if log_scale:
+                if isinstance(a, mpmath.mpc) or isinstance(b, mpmath.mpc) or a <= 0 or b <= 0:
+                    raise InputError("a log range needs real positive START and STOP", where=here)
+                r = (b / a) ** (mpmath.mpf(1) / (n - 1))
+                pts = [a * r ** k for k in range(n - 1)] + [b]
+            else:
+                pts = [a + (b - a) * mpmath.mpf(k) / (n - 1) for k in range(n - 1)] + [b]
+        out += pts
+    return out

@@ -18,8 +18,8 @@ import os
 import sys
 
 from ..errors import InputError
-from ._common import (add_common_options, at_file, emit_json, load_series, log, prepare_plot_dir, stage_log,
-                      require_power_series, write_figures)
+from ._common import (AT_HELP_RANGE, add_common_options, at_file, emit_json, expand_points, load_series, log,
+                      prepare_plot_dir, require_power_series, stage_log, write_figures)
 
 MIN_TERMS = 6       # resum.resummation.evaluate refuses fewer terms
 
@@ -40,7 +40,7 @@ def add_arguments(parser) -> None:
     parser.add_argument("file", metavar="FILE", help="series file (JSON, CSV or text)")
     parser.add_argument("--at", action="append", required=True, metavar="X",
                         help="point to evaluate at (the coupling if the file declares one); decimal or "
-                             "expression such as 1/4 or sqrt(2); repeat for more points")
+                             "expression such as 1/4 or sqrt(2); repeat for more points" + AT_HELP_RANGE)
     parser.add_argument("--method", default="auto", metavar="M",
                         help=f"one of: {', '.join(METHODS)} (default auto)")
     parser.add_argument("--plot", default=None, metavar="DIR",
@@ -145,12 +145,7 @@ def run(args) -> int:
         raise InputError(exc.bare, where="--method") from None
     series, ctx = load_series(args.file, args.dps)
     require_power_series(series, args.file, MIN_TERMS, "resummation")
-    points = []
-    for text in args.at:
-        try:
-            points += parse_points([text], ctx.work_dps + series.n_terms)
-        except InputError as exc:
-            raise InputError(exc.bare, where=f"--at {text[:40]}") from None
+    points = expand_points(args.at, ctx.work_dps + series.n_terms)
     reference = read_reference(args.reference, ctx.work_dps) if args.reference else None
     large = None
     if args.large_power is not None:

@@ -12,7 +12,8 @@ from __future__ import annotations
 
 from ..errors import InputError
 from ..series.expr import evaluate_expression
-from ._common import add_common_options, at_file, emit_json, load_series, log, require_power_series
+from ._common import (AT_HELP_RANGE, add_common_options, at_file, emit_json, expand_points, load_series, log,
+                      require_power_series)
 
 HELP = "strong-coupling probe: fit the asymptotic form of the resummed function, with bands"
 DESCRIPTION = __doc__.split("\n\n", 1)[1].strip()
@@ -22,7 +23,7 @@ def add_arguments(parser) -> None:
     parser.add_argument("file", metavar="FILE", help="series file (JSON, CSV or text)")
     parser.add_argument("--at", action="append", default=None, metavar="G",
                         help="coupling to resum at (repeat; default: a geometric ladder beyond "
-                             "the nearest singularity)")
+                             "the nearest singularity)" + AT_HELP_RANGE)
     parser.add_argument("--power", default=None, metavar="P",
                         help="leading power p in f ~ a g^p (default: estimated from x f'/f)")
     parser.add_argument("--logs", action="store_true", help="also fit g^(p-k) log g terms")
@@ -50,7 +51,7 @@ def run(args) -> int:
         raise InputError(exc.bare, where="--method") from None
     series, ctx = load_series(args.file, args.dps)
     require_power_series(series, args.file, 6, "the strong-coupling probe (a resummation)")
-    couplings = None if not args.at else [_number(t, ctx.work_dps, "--at") for t in args.at]
+    couplings = None if not args.at else expand_points(args.at, ctx.work_dps)
     power = None if args.power is None else _number(args.power, ctx.work_dps, "--power")
     expected = {}
     for item in args.expect:

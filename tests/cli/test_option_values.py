@@ -48,3 +48,40 @@ def test_evaluate_at_negative_expressions(tmp_path, capsys):
             assert abs(mpmath.mpf(row["at"]) - x) < mpmath.mpf(10) ** -25
             assert mpmath.mpf(row["lo"]) <= truth <= mpmath.mpf(row["hi"])
             assert mpmath.mpf(row["hi"]) - mpmath.mpf(row["lo"]) < mpmath.mpf(10) ** -10
+
+
+def test_at_ranges_expand_to_evenly_spaced_or_geometric_points():
+    """--at START:STOP:N (both ends included) and START:STOP:N:log (common practice, no
+    source); the ends may be expressions and keep every digit; malformed ranges are one-line
+    input errors naming the option."""
+    from resum.commands._common import expand_points
+    from resum.errors import InputError
+    with workdps(40):
+        pts = expand_points(["-1:1:5", "2"], 40)
+        assert [float(p) for p in pts] == [-1.0, -0.5, 0.0, 0.5, 1.0, 2.0]
+        pts = expand_points(["1:1000:4:log"], 40)
+        assert pts[0] == 1 and pts[-1] == 1000 and abs(pts[1] - 10) < mpmath.mpf(10) ** -35
+        pts = expand_points(["pi/4:pi:4"], 40)
+        assert abs(pts[0] - mpmath.pi / 4) < mpmath.mpf(10) ** -38 and abs(pts[-1] - mpmath.pi) < mpmath.mpf(10) ** -38
+    for bad, needle in (("1:2", "START:STOP:N"), ("1:2:1", "from 2 to"), ("0:1:3:log", "positive"),
+                        ("1:2:3:lin", "START:STOP:N"), ("1:zz:3", "zz")):
+        with pytest.raises(InputError) as exc:
+            expand_points([bad], 30)
+        assert needle in str(exc.value) and "--at" in str(exc.value)
+
+
+def test_at_range_on_the_command_line(tmp_path, capsys):
+    """log(1+x)/x from 40 exact terms at three points of a range: each value is mpmath's
+    log1p(x)/x within its band (common practice, no source)."""
+    f = tmp_path / "log.json"
+    f.write_text(json.dumps({"variable": "x",
+                             "coefficients": [str(Fraction((-1) ** k, k + 1)) for k in range(40)]}))
+    assert main(["evaluate", str(f), "--at", "0.5:2:3", "--json", "--no-verify", "--dps", "15"]) == 0
+    doc = json.loads(capsys.readouterr().out)
+    assert [r["at"] for r in doc["values"]][0] == "0.5" and len(doc["values"]) == 3
+    with workdps(30):
+        for r in doc["values"]:
+            x = mpmath.mpf(r["at"])
+            assert mpmath.mpf(r["lo"]) <= mpmath.log1p(x) / x <= mpmath.mpf(r["hi"])
+    assert main(["evaluate", str(f), "--at", "1:2"]) == 2
+    assert "--at 1:2" in capsys.readouterr().err
