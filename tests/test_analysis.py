@@ -201,8 +201,18 @@ def test_unknown_method_lists_valid_ones():
 
 
 def test_too_few_terms_is_input_error():
-    with pytest.raises(InputError):
+    with pytest.raises(InputError) as e:
         analyze(Series([1, 1, 1]))
+    assert "usable terms" in str(e.value)
+
+
+def test_polynomial_is_named_as_such():
+    """1 + 4x followed by twenty zero coefficients is a polynomial (an entire function), not a
+    series with too few terms: the error says so and points to evaluate (common practice, no
+    source)."""
+    with pytest.raises(InputError) as e:
+        analyze(Series([1, 4] + [0] * 20))
+    assert "polynomial of degree 1" in str(e.value) and "20 coefficients above it are zero" in str(e.value)
 
 
 def test_methods_subset_and_how_text():

@@ -96,6 +96,12 @@ def prepare(series, ctx: Optional[Context], min_terms: int = MIN_TERMS) -> Prepa
         else:
             cplx = False
     n_nonzero = sum(1 for v in c if v != 0)
+    if n_nonzero < min_terms and nz and len(dense) - 1 - nz[-1] >= min_terms:
+        # a polynomial: the many zero coefficients at the top are data, not missing terms
+        raise InputError(f"the series is a polynomial of degree {series.start + nz[-1]} in {series.variable} "
+                         f"(the {len(dense) - 1 - nz[-1]} coefficients above it are zero): an entire function "
+                         "with no singularity to analyse ('resum evaluate' sums it exactly)",
+                         where="series.coefficients")
     if n_nonzero < min_terms:
         raise InputError(f"only {n_nonzero} usable terms (in {series.variable}"
                          f"{'^' + str(k) if k > 1 else ''}); singularity analysis needs at least "
