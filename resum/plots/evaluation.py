@@ -124,12 +124,21 @@ def plot_evaluation(result, ax=None, reference: Optional[Sequence] = None, curve
     return ax
 
 
-def plot_digits(result, ax=None, reference: Optional[Sequence] = None):
-    """Digits supported by each band (and, with references, digits actually agreeing)."""
+def plot_digits(result, ax=None, reference: Optional[Sequence] = None, curve=None):
+    """Digits supported by each band (and, with references, digits actually agreeing).
+    ``curve``: an evaluation at more points (:func:`curve_grid`), whose digits are drawn as a
+    line (how fast the series' reach falls off with the coupling); the points asked for are then
+    markers."""
     ax = _ax(ax)
     with workdps((result.provenance.dps if result.provenance else 50) + 10):
         pts = _real_points(result)
-        ax.plot([float(p.at) for p in pts], [min(p.value.digits(), 200) for p in pts], "o-", label="band")
+        if curve is not None:
+            cp = sorted([p for p in _real_points(curve) if p.success] + pts, key=lambda p: p.at)
+            if len(cp) >= 2:
+                ax.plot([float(p.at) for p in cp], [min(p.value.digits(), 200) for p in cp], "-", lw=1.2,
+                        label="band (curve: no verification reruns)")
+        ax.plot([float(p.at) for p in pts], [min(p.value.digits(), 200) for p in pts],
+                "o" if curve is not None else "o-", label="band")
         if reference:
             xs, ds = [], []
             for a, v, _ in reference:
@@ -214,7 +223,7 @@ def write_evaluation_plots(result, series, ctx, folder, reference=None, curve=No
     os.makedirs(folder, exist_ok=True)
     out = []
     for name, fn in (("evaluation.png", lambda ax: plot_evaluation(result, ax, reference, curve)),
-                     ("digits.png", lambda ax: plot_digits(result, ax, reference))):
+                     ("digits.png", lambda ax: plot_digits(result, ax, reference, curve))):
         fig, ax = plt.subplots(figsize=(6.4, 4.2))
         fn(ax)
         fig.tight_layout()

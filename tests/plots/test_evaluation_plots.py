@@ -158,4 +158,8 @@ def test_curve_drawn_through_the_points_follows_the_function():
     for x, y in zip(xs, ys):
         assert abs(y - float(mpmath.log1p(x) / x)) <= bands[x] + 1e-14
     assert any(c.get_label().startswith("band (curve") for c in ax.collections)
+    from resum.plots.evaluation import plot_digits
+    ax2 = plot_digits(r, curve=curve)
+    dl = next(ln for ln in ax2.get_lines() if ln.get_label().startswith("band (curve"))
+    assert list(dl.get_xdata()) == xs        # the digits of every drawn point, in the same order
     plt.close("all")
