@@ -427,9 +427,10 @@ def _analysis(series, ctx):
         from .analysis import analyze  # noqa: WPS433
     except ImportError:
         return None
+    global _LAST_PLAN_ANALYSIS
     key = (ctx.dps, ctx.work_dps)
-    last = _LAST_PLAN_ANALYSIS
-    if last and last[0] is series and last[1] == key:
+    last = _LAST_PLAN_ANALYSIS          # one tuple, read once: threads replace it whole
+    if last is not None and last[0] is series and last[1] == key:
         # the same (immutable) series and digits as the call before: the same analysis (the
         # command line's figure evaluates a second time, on the curve's points)
         return last[2]
@@ -439,12 +440,12 @@ def _analysis(series, ctx):
         raise
     except Exception:  # noqa: BLE001 - the analysis is an aid; evaluation goes on without it
         return None
-    _LAST_PLAN_ANALYSIS[:] = [series, key, an]
+    _LAST_PLAN_ANALYSIS = (series, key, an)
     return an
 
 
-#: The last plan analysis: [series, (dps, work_dps), result] (one entry; see _analysis).
-_LAST_PLAN_ANALYSIS: list = []
+#: The last plan analysis: (series, (dps, work_dps), result) or None (one entry; see _analysis).
+_LAST_PLAN_ANALYSIS = None
 
 
 # ---------------------------------------------------------------------------- core

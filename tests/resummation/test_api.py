@@ -113,3 +113,28 @@ def test_cli_plot(tmp_path, capsys):
     assert "--curve" in capsys.readouterr().err
     assert main(["evaluate", str(f), "--at", "1", "--curve", "-1", "--plot", str(out)]) == 2
     assert "whole number" in capsys.readouterr().err
+
+
+def test_plan_analysis_reused_for_the_same_series(monkeypatch):
+    """A second evaluate of the same (immutable) Series at the same digits plans from the same
+    analysis instead of running it again; another Series object gets its own. The values are
+    log(1+x)/x (mpmath log1p) within their bands either way (common practice, no source)."""
+    import resum.analysis as A
+    from fractions import Fraction
+    calls = []
+    real = A.analyze
+
+    def counting(*a, **k):
+        calls.append(1)
+        return real(*a, **k)
+    monkeypatch.setattr(A, "analyze", counting)
+    s = Series([Fraction((-1) ** k, k + 1) for k in range(30)])
+    ctx = Context(dps=15)
+    r1 = evaluate(s, ["2"], ctx, verify=False)
+    r2 = evaluate(s, ["3"], ctx, verify=False)
+    assert len(calls) == 1
+    evaluate(Series([Fraction((-1) ** k, k + 1) for k in range(30)]), ["3"], ctx, verify=False)
+    assert len(calls) == 2
+    with workdps(30):
+        for r, x in ((r1, 2), (r2, 3)):
+            assert r.points[0].value.contains(mpmath.log1p(x) / x)
