@@ -282,6 +282,15 @@ def parse_points(points, dps: int) -> list:
     return out
 
 
+def spaced_points(a, b, n: int, geometric: bool = False) -> list:
+    """``n >= 2`` points from ``a`` to ``b``, both ends exactly: evenly spaced, or geometric
+    (``a``, ``b`` real and positive) at the working precision."""
+    if geometric:
+        r = (b / a) ** (mpmath.mpf(1) / (n - 1))
+        return [a] + [a * r ** k for k in range(1, n - 1)] + [b]
+    return [a + (b - a) * mpmath.mpf(k) / (n - 1) for k in range(n - 1)] + [b]
+
+
 def _to_mp(v):
     from fractions import Fraction
     if isinstance(v, Fraction):

@@ -3,6 +3,7 @@ from __future__ import annotations
 
 import json
 import sys
+import time
 from typing import Optional, Tuple
 
 from ..context import DEFAULT, Context
@@ -170,7 +171,6 @@ class FractionBar:
     command's own summary line, nothing else). :meth:`close` clears it."""
 
     def __init__(self, label: str, stream=None, width: int = 24):
-        import time
         self.label = label
         self.stream = sys.stderr if stream is None else stream
         self.width = width
@@ -183,7 +183,6 @@ class FractionBar:
             self.tty = False
 
     def __call__(self, fraction: float) -> None:
-        import time
         if not self.tty:
             return
         now = time.monotonic()
@@ -217,7 +216,7 @@ def expand_points(texts, dps: int, where: str = "--at") -> list:
     ``START:STOP:N`` (N evenly spaced points, both ends included) or ``START:STOP:N:log``
     (geometric; START and STOP real and positive). START and STOP may be expressions."""
     import mpmath
-    from ..resummation import parse_points
+    from ..resummation import parse_points, spaced_points
     out = []
     for text in texts:
         here = f"{where} {text[:40]}"
@@ -242,13 +241,8 @@ def expand_points(texts, dps: int, where: str = "--at") -> list:
             a, b = parse_points(parts[:2], dps)
         except InputError as exc:
             raise InputError(exc.bare, where=here) from None
+        if log_scale and (isinstance(a, mpmath.mpc) or isinstance(b, mpmath.mpc) or a <= 0 or b <= 0):
+            raise InputError("a log range needs real positive START and STOP", where=here)
         with mpmath.workdps(dps):
-            if log_scale:
-                if isinstance(a, mpmath.mpc) or isinstance(b, mpmath.mpc) or a <= 0 or b <= 0:
-                    raise InputError("a log range needs real positive START and STOP", where=here)
-                r = (b / a) ** (mpmath.mpf(1) / (n - 1))
-                pts = [a * r ** k for k in range(n - 1)] + [b]
-            else:
-                pts = [a + (b - a) * mpmath.mpf(k) / (n - 1) for k in range(n - 1)] + [b]
-        out += pts
+            out += spaced_points(a, b, n, geometric=log_scale)
     return out

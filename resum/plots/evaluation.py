@@ -46,20 +46,16 @@ def curve_grid(points, n: int = 24) -> list:
     all positive and span two decades or more (the axis is then logarithmic), otherwise evenly
     spaced over the interval from 0 (or the smallest) to the largest, leaving out 0 itself.
     Empty when no real non-zero point is given or ``n < 1``."""
-    from ..resummation import parse_points
+    from ..resummation import parse_points, spaced_points
     vals = parse_points(list(points), mpmath.mp.dps)
     reals = [mpmath.re(a) for a in vals if mpmath.im(a) == 0 and a != 0]
     if not reals or n < 1:
         return []
     lo, hi = min(reals), max(reals)
     if lo > 0 and hi >= 100 * lo:
-        ratio = (hi / lo) ** (mpmath.mpf(1) / max(n - 1, 1))
-        grid = [lo * ratio ** k for k in range(n)]
-        grid[0], grid[-1] = lo, hi          # the ends exactly, not to the rounding of the powers
-    else:
-        a, b = min(lo, 0), max(hi, 0)
-        grid = [a + (b - a) * mpmath.mpf(k) / n for k in range(n)] + [b]
-    return [g for g in grid if g != 0]
+        return spaced_points(lo, hi, max(n, 2), geometric=True)
+    a, b = min(lo, 0), max(hi, 0)
+    return [g for g in spaced_points(a, b, n + 1) if g != 0]
 
 
 def _draw_curve(ax, curve, result):
