@@ -21,6 +21,14 @@ import time
 __all__ = ["Progress"]
 
 
+def is_tty(stream) -> bool:
+    """Whether ``stream`` is a terminal (False for anything that cannot say)."""
+    try:
+        return bool(stream.isatty())
+    except (AttributeError, ValueError):
+        return False
+
+
 def _clock(seconds: float) -> str:
     seconds = int(round(max(0.0, seconds)))
     h, rest = divmod(seconds, 3600)
@@ -54,10 +62,7 @@ class Progress:
         self._finished_here = 0
         self.stopped = 0
         self.closed = False
-        try:
-            self.tty = bool(self.stream.isatty())
-        except (AttributeError, ValueError):
-            self.tty = False
+        self.tty = is_tty(self.stream)
         self._lock = threading.Lock()
         self._halt = threading.Event()
         self._ticker = None

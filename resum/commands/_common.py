@@ -177,10 +177,8 @@ class FractionBar:
         self.start = time.monotonic()
         self._last = 0.0
         self.shown = False
-        try:
-            self.tty = bool(self.stream.isatty())
-        except (AttributeError, ValueError):
-            self.tty = False
+        from ..batch.progress import is_tty
+        self.tty = is_tty(self.stream)
 
     def __call__(self, fraction: float) -> None:
         if not self.tty:
