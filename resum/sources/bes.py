@@ -61,8 +61,8 @@ import numpy as np
 
 from ..context import DEFAULT, Context, bits_for, workdps
 from ..errors import InputError
-from ..results import Estimate, Provenance, Status, num_to_str
 from ..progress import report
+from ..results import Estimate, Provenance, Status, num_to_str
 from ..results import longest_number
 from ..series.core import Coupling, Series
 from ._arb import acb_from_mpc, arb_from_mpf, arb_rad_to_mpf, arb_to_mpf, flint_prec

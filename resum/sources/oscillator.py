@@ -42,8 +42,8 @@ import numpy as np
 
 from ..context import DEFAULT, Context, workdps
 from ..errors import InputError
-from ..results import Estimate, Provenance, Status, num_to_str
 from ..progress import report
+from ..results import Estimate, Provenance, Status, num_to_str
 from ..results import longest_number
 from ..series.core import Series
 
