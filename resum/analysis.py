@@ -435,6 +435,11 @@ def _screen_lone_inner_points(sings, ok, warnings):
     return [s for s in sings if not any(s is d for d in drop)]
 
 
+#: a lone point whose modulus band is this many times wider than that of the confirmed
+#: nearest singularity, and reaches its circle, is not reported (see _drop_lone_outer_points)
+LONE_VAGUE_RATIO = 100
+
+
 def _drop_lone_outer_points(lead, warnings):
     """Among the candidates for the nearest singularities, drop a point that one method
     alone finds and whose centre lies beyond a point that two or more methods confirm.
@@ -450,9 +455,20 @@ def _drop_lone_outer_points(lead, warnings):
     if not confirmed:
         return lead
     edge = min(modulus_band(s.re, s.im).upper for s in confirmed)
-    lone = [(s, f) for s, f in lead if _single_source(s, f) and abs(s.location) > edge]
+    floor = min(modulus_band(s.re, s.im).lower for s in confirmed)
+
+    def unseen_on_circle(s):
+        # a vague point whose band reaches the circle of a sharp confirmed one: the methods that
+        # see that circle sharply would see this point too (measured: loggamma(1 + x), 80 terms,
+        # a zero of Q_1 at 0.997(12) beside the log point at -1 that four methods put at
+        # -1 to 20 digits; kept, it cut the positive axis and every point x > 1 was refused)
+        mb = modulus_band(s.re, s.im)
+        return mb.upper >= floor and mb.upper - mb.lower > LONE_VAGUE_RATIO * (edge - floor)
+
+    lone = [(s, f) for s, f in lead if _single_source(s, f)
+            and (abs(s.location) > edge or unseen_on_circle(s))]
     if lone:
-        warnings.append(f"not reported: {_points_by(lone)}, each seen by one method only and beyond the "
+        warnings.append(f"not reported: {_points_by(lone)}, each seen by one method only, not nearer than the "
                         f"nearest singularity two or more methods confirm (radius {mpmath.nstr(edge, 6)} "
                         "at most)")
     return [t for t in lead if t not in lone]
@@ -467,13 +483,26 @@ def _points_by(pairs):
 def _reconcile(series, results, warnings):
     ok = {k: r for k, r in results.items() if r.success}
     growth = "finite radius"
+    lo = results.get("large-order")
     if "large-order" in ok:
+        growth = "factorial"
+    elif lo is not None and (lo.diagnostics or {}).get("factorial"):
+        # the coefficients grow factorially, but c_n ~ S A^-n Gamma(n + b) does not fit them
+        # (for example a complex pair of Borel singularities, or Gamma(2n) growth in u = x^2)
         growth = "factorial"
     elif any(r.growth == "entire-like" for r in ok.values()):
         growth = "entire-like"
     out = {"growth": growth, "radius": None, "singularities": (), "borel": None, "borel_b": None,
            "combined": {}}
     if growth == "factorial":
+        if "large-order" not in ok:
+            out["radius"] = Estimate.exact(0)
+            warnings.append("factorial growth (kappa = " + mpmath.nstr(lo.diagnostics["kappa"], 3)
+                            + "), but the Borel-plane singularity was not located (" + lo.message
+                            + "): the coefficients do not follow one S A^-n Gamma(n + b) (a complex pair, "
+                            "alternating patterns, or Gamma(k n) growth); radius 0")
+            out["combined"] = {"radius": "large-order"}
+            return out
         r = ok["large-order"]
         out.update(radius=r.radius, borel=r.borel_singularity, borel_b=r.borel_exponent)
         out["combined"] = {"borel": "large-order"}
@@ -540,7 +569,7 @@ def radius_band(sings) -> Estimate:
     bands = [(abs(s.location), modulus_band(s.re, s.im)) for s in sings]
     v, near = min(bands, key=lambda t: t[0])
     contenders = [b for _, b in bands if b.lower <= near.upper]
-    lo = min(b.lower for b in contenders)
+    lo = max(min(b.lower for b in contenders), 0)      # a modulus: never below 0
     hi = min(b.upper for b in contenders)
     return Estimate(v, min(lo, v), max(hi, v))
 
@@ -816,6 +845,9 @@ def _analyze(series, ctx, names, verify, prep, progress=None):
         final_v, verification = _verify(series, ctx, contributing, base, warnings, progress)
         final.update(final_v)
     growth = base["growth"]
+    rad = final["radius"]
+    if rad is not None and rad.lower < 0:
+        final["radius"] = Estimate(rad.value, 0, rad.upper)     # widened by reruns: a modulus stays >= 0
     n_ok = sum(1 for r in results.values() if r.success)
     if final["radius"] is None:
         status, success = Status.NOT_CONVERGED, False
@@ -825,6 +857,8 @@ def _analyze(series, ctx, names, verify, prep, progress=None):
         success = True
         status = Status.CONVERGED
         msg = f"{n_ok} of {len(results)} methods converged"
+        if n_ok == 0 and growth == "factorial":
+            msg = "factorial growth, radius 0; no method located the Borel-plane singularity"
         if any(w.startswith("methods disagree") for w in warnings):
             status = Status.DISAGREE
         if any(w.startswith("precision limits") for w in warnings):

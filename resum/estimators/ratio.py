@@ -267,7 +267,8 @@ def estimate_ratio(series, ctx=None, step=None):
         growth, kappa = classify_growth(c)
         if growth != "finite radius":
             return failed(method, Status.NOT_APPLICABLE,
-                          f"coefficients grow like a {growth} series (kappa = {mpmath.nstr(kappa, 3)}); "
+                          f"coefficients grow like {'a factorial' if growth == 'factorial' else 'an entire-like'} series "
+                          f"(kappa = {mpmath.nstr(kappa, 3)}); "
                           "ratio extrapolation needs a finite radius", prep, {"kappa": kappa})
         steps = [step] if step else [1, 2]
         cands = []
@@ -619,7 +620,9 @@ def estimate_large_order(series, ctx=None):
         y = [zz / n for n, zz in zip(wn, wz)]
         inv_a, ia_half, k1, info1 = extrapolate(wn, y, prep.eps * 4)
         if inv_a == 0 or ia_half > abs(inv_a) / 10:
-            return failed(method, Status.NOT_CONVERGED, "z_n/n does not settle", prep, {"table": info1})
+            # the growth is factorial all the same (the verdict keeps that, without A and b)
+            return failed(method, Status.NOT_CONVERGED, "z_n/n does not settle", prep,
+                          {"table": info1, "kappa": kappa, "factorial": True})
         A = 1 / inv_a
         A_half = ia_half / abs(inv_a) ** 2
         bseq = lambda a: [a * zz - n + 1 for n, zz in zip(wn, wz)]  # noqa: E731

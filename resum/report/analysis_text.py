@@ -72,9 +72,19 @@ def _render(r, title):
     lines.append(f"growth of the coefficients: {r.growth or 'undetermined'}")
     if r.growth == "factorial":
         lines.append(f"  radius of convergence: 0 (divergent series)")
-        lines.append(f"  c_n ~ S A^-n Gamma(n + b) with  A = {_fmt(r.borel_singularity)},  "
-                     f"b = {_fmt(r.borel_exponent)}")
-        lines.append("  (A: nearest singularity of the Borel transform; A < 0 means alternating signs)")
+        lo = r.methods.get("large-order")
+        stride = (lo.diagnostics or {}).get("stride", 1) if lo is not None else 1
+        if r.borel_singularity is None:
+            lines.append("  the Borel-plane singularity was not located (see the warnings)")
+        elif stride > 1:
+            lines.append(f"  only every {stride}-th coefficient is non-zero: in u = {var}^{stride}, "
+                         f"c_n u^n with c_n ~ S A^-n Gamma(n + b),  A = {_fmt(r.borel_singularity)},  "
+                         f"b = {_fmt(r.borel_exponent)}")
+            lines.append(f"  (A: nearest singularity of the Borel transform in u; A < 0 means alternating signs)")
+        else:
+            lines.append(f"  c_n ~ S A^-n Gamma(n + b) with  A = {_fmt(r.borel_singularity)},  "
+                         f"b = {_fmt(r.borel_exponent)}")
+            lines.append("  (A: nearest singularity of the Borel transform; A < 0 means alternating signs)")
     else:
         lines.append(f"radius of convergence in {var}: {_fmt(r.radius)}")
     if r.singularities:
