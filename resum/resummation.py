@@ -68,7 +68,7 @@ from .context import DEFAULT, Context
 from .errors import InputError
 from .results import Estimate, Provenance, Status, num_to_str, jsonable, point_label
 from .series.core import Series
-from .estimators.resum_band import rational_fit
+from .estimators.resum_band import PointOutcome, rational_fit
 from .estimators.resum_truncation import optimal_truncation
 from .estimators._common import first_term_scale
 from .estimators.resum_ode import equation_shape
@@ -200,7 +200,8 @@ class EvaluationResult:
 
         ``{"values": [{"at", "value", "lo", "hi", "method", "digits"} (+ "im", "im_lo", "im_hi",
         "terms_needed")], "warnings": [...]}``; a failed point has ``value``/``lo``/``hi`` =
-        ``"nan"``. ``digits``: the significant digits the band supports; ``terms_needed`` (only
+        ``"nan"`` and ``message`` says why; every point has ``status`` (as in the text report).
+        ``digits``: the significant digits the band supports; ``terms_needed`` (only
         where the band falls short of the digits asked): the projected number of terms for them
         (see ``_reach``).
         """
@@ -212,7 +213,7 @@ class EvaluationResult:
         for p in self.points:
             if p.value is None:
                 row = {"at": point_label(num_to_str(p.at, 30)), "value": "nan", "lo": "nan", "hi": "nan",
-                       "method": p.method}
+                       "method": p.method, "status": p.status.value, "message": p.message}
             else:
                 e = p.value.to_dict()
                 row = {"at": point_label(num_to_str(p.at, 30)), "value": e["value"], "lo": e["lo"], "hi": e["hi"],
@@ -222,6 +223,9 @@ class EvaluationResult:
                     row.update({"im": i["value"], "im_lo": i["lo"], "im_hi": i["hi"]})
                 d = p.value.digits()
                 row["digits"] = "inf" if not math.isfinite(d) else f"{d:.1f}"
+                row["status"] = p.status.value
+                if p.message:
+                    row["message"] = p.message
                 reach = p.diagnostics.get("reach")
                 if reach and reach.get("terms_needed"):
                     row["terms_needed"] = str(reach["terms_needed"])
@@ -472,6 +476,7 @@ class _Plan:
     coefficients_at: Any = None          # exact input: d -> coefficients at d digits (ode's refit)
     equation_shape: Any = None           # the equation's shape as the plan found it (ode, borel-ode)
     alpha_from_w: Any = None             # alpha read from the series: used only where |w| >= this
+    reach: Any = None                    # pade for poles: |x| below which the poles are resolved
 
 
 def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map, alpha,
@@ -520,7 +525,7 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
         if m == "borel-pade":
             tm = None
         why = ("factorial growth" if factorial else "requested") + (
-            f"; nearest Borel singularity t = {mpmath.nstr(A, 10)}" if A is not None else "")
+            f"; nearest Borel singularity t = {_a_text(an, A)}" if A is not None else "")
         plan = _Plan(m, tm, b, alpha, lateral, why, input_digits=series.digits)
         eq = (_follow_borel_equation(series, c, ctx)
               if method == "auto" and (b is None or b == 0) and lateral == "auto" else None)
@@ -557,7 +562,17 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
     if method == "auto":
         if radius is not None and all(abs(x) < radius / 4 for x in xs):
             return _Plan("partial-sum", why=f"all points inside a quarter of the radius {mpmath.nstr(radius, 8)}")
-        if chosen is not None:
+        if cmap is None and _only_poles(sings):
+            # a meromorphic function (as far as the analysis sees): Padé approximants represent
+            # poles exactly, and a conformal map would cut the plane where the function has none
+            locs = ", ".join(mpmath.nstr(s.location, 8) for s in sings)
+            reach = _resolved_pole_radius(c, ctx.work_dps)
+            other = _Plan("pade", why=f"finite radius; the singularities found are poles ({locs}): "
+                                      "Padé approximants represent poles, no cut is needed"
+                                      + ("" if reach is None else
+                                         f"; their poles are resolved for |x| < {mpmath.nstr(reach, 4)}"),
+                          reach=reach)
+        elif chosen is not None:
             a, note, from_w = _rim_alpha(chosen, alpha, large_x_power, c, ctx, series.digits)
             other = _Plan("conformal-pade", chosen, alpha=a, alpha_from_w=from_w,
                           why=f"finite radius; map: {chosen.describe()}{note}", singularities=_locations(sings))
@@ -582,6 +597,56 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
                  singularities=_locations(sings))
 
 
+def _resolved_pole_radius(c, dps):
+    """|x| up to which the poles of the top near-diagonal Padé approximant are confirmed (to
+    1e-6, relative) by those of the approximant with two terms fewer, or None if all are.
+
+    Inside the disk holding the poles they have captured, the approximants of a meromorphic
+    function converge (de Montessus de Ballore's theorem; G. A. Baker and P. Graves-Morris,
+    Padé Approximants, 2nd ed., CUP 1996, sec. 6.2, from memory); beyond the first pole they do
+    not confirm, their values are extrapolation that can agree across orders and still be wrong
+    (sec x from 60 terms at x = 50: every approximant near 0, truth 1.036). Poles with a residue
+    below 1e-(dps/2) of the largest are pole-zero pairs of the rounding and are skipped."""
+    from .estimators.resum_borel import borel_plane_poles
+    n = len(c)
+    fits = []
+    for m in (n, n - 2):
+        M = (m - 1) // 2
+        r = rational_fit(c[:m], m - 1 - M, M, dps)
+        if r is None or r.M == 0:
+            return None
+        fits.append(borel_plane_poles(r, dps))
+    top, other = fits
+    big = max((abs(res) for _, res in top if mpmath.isfinite(res)), default=0)
+    floor = big * mpmath.mpf(10) ** (-(dps // 2))
+    for p, res in sorted(top, key=lambda t: abs(t[0])):
+        if mpmath.isfinite(res) and abs(res) <= floor:
+            continue
+        if not any(abs(q - p) <= mpmath.mpf("1e-6") * abs(p) for q, _ in other):
+            return abs(p)
+    return None
+
+
+def _a_text(an, A) -> str:
+    """The Borel singularity for the plan's note: with its band when the analysis gave one,
+    else to 6 digits (the quick probe's pole of a Padé approximant; not a measured accuracy)."""
+    est = getattr(an, "borel_singularity", None) if an is not None else None
+    if est is not None:
+        return str(est)
+    return mpmath.nstr(A, 6) + " (rough)"
+
+
+def _only_poles(sings) -> bool:
+    """Every singularity the analysis reported is a pole (kind and exponent band agree)."""
+    if not sings or not all(hasattr(s, "kind") for s in sings):
+        return False
+    for s in sings:
+        e = getattr(s, "exponent", None)
+        if s.kind != "pole" or e is None or not any(e.contains(-k) for k in (1, 2, 3)):
+            return False
+    return True
+
+
 def _obeys_equation(an) -> bool:
     """The analysis found that the series obeys a differential equation exactly."""
     m = getattr(an, "methods", {}).get("diff-approx") if an is not None else None
@@ -595,6 +660,12 @@ def _follow_borel_equation(series, c, ctx):
     from .estimators.resum_ode import _regular_at_origin
     from .transforms.borel import borel_coefficients
     if not series.is_exact:
+        return None
+    from .estimators._common import _detect_stride
+    if _detect_stride([k for k, v in enumerate(c) if v != 0])[0] > 1:
+        # a series in x^k (k > 1): its Borel transform in x decays like exp(-t^2) along the ray,
+        # which the walk cannot follow against the growing solutions (sum (-1)^n n! x^(2n) at
+        # x = 0.5 came out as 1.9e372 [-1e1039, 1e1039]); the Padé route handles it
         return None
     return _stable_equation(series, c, ctx, borel_coefficients, lambda eq: _regular_at_origin(eq[1], eq[0]))
 
@@ -781,7 +852,7 @@ def _rim_alpha(cmap, alpha, large_x_power, c, ctx, digits=None):
     note = (f"; growth x^({p}) at large x read from the series (the log-derivative through the map gives "
             f"{mpmath.nstr(med, 5)} +- {mpmath.nstr(max(half, mpmath.mpf(10) ** -6), 2)} at infinity), divided "
             f"out at points with |w| >= {mpmath.nstr(from_w, 3)} and by the quadratic approximants tried from "
-            f"|w| >= {QUADRATIC_FROM_W}; give large_x_power to apply a power everywhere, 0 to turn this off")
+            f"|w| >= {QUADRATIC_FROM_W}; give large_x_power (--large-power) to apply a power everywhere, 0 to turn this off")
     return _alpha_for(cmap, None, mpmath.mpf(p.numerator) / p.denominator), note, from_w
 
 
@@ -813,7 +884,18 @@ def _run(plan: _Plan, c, xs, dps, n_orders, quad_dps=None, target=None):
     if plan.method == "partial-sum":
         return partial_sum_evaluate(c, xs, dps, n_orders=7 if n_orders is None else n_orders)
     if plan.method == "pade":
-        return pade_evaluate(c, xs, dps, n_orders=7 if n_orders is None else n_orders)
+        inside = [j for j, x in enumerate(xs) if plan.reach is None or abs(x) < plan.reach]
+        outs, diag = (pade_evaluate(c, [xs[j] for j in inside], dps, n_orders=7 if n_orders is None else n_orders)
+                      if inside else ([], {}))
+        if len(inside) == len(xs):
+            return outs, diag
+        full = [PointOutcome(None, None, False, (
+            f"x = {mpmath.nstr(x, 8)} lies beyond the poles the approximants resolve (|x| < "
+            f"{mpmath.nstr(plan.reach, 4)}, where the top two orders stop agreeing): their values there are "
+            "extrapolation; more terms reach farther"), {}) for x in xs]
+        for j, o in zip(inside, outs):
+            full[j] = o
+        return full, diag
     if plan.method in ("ode", "borel-ode"):
         if plan.method == "ode":
             from .estimators.resum_ode import ode_evaluate as run_equation
@@ -822,7 +904,10 @@ def _run(plan: _Plan, c, xs, dps, n_orders, quad_dps=None, target=None):
         at = plan.coefficients_at
         outs, diag = run_equation(c, xs, dps, digits=digits, shape=plan.equation_shape,
                                   coefficients_at=None if at is None else (lambda d: at(d)[:len(c)]))
-        miss = [j for j, o in enumerate(outs) if not o.ok]
+        # a point beyond a branch point on the line from 0 keeps its refusal: the fallback's map
+        # may not cut there, and its number would be neither side's value (exact sqrt(1 + x) +
+        # log(1 - x/3) at x = 5 came back as 4.1(15) from a map cut only at -1; truth 2.04 +- pi i)
+        miss = [j for j, o in enumerate(outs) if not o.ok and not o.info.get("branch_on_line")]
         if plan.fallback is None or not miss:
             return outs, diag
         # the points the equation cannot reach, by the fallback plan
@@ -1137,6 +1222,7 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                                       t["reached"], t["how"]))
         pts = []
         n_fail = 0
+        real_input = not any(isinstance(v, mpmath.mpc) and v.imag != 0 for v in c)
         for j, (a, x, o) in enumerate(zip(at, xs, outs)):
             pdiag = dict(o.info)
             pdiag.pop("method", None)        # a fallback point's method: PointResult.method
@@ -1148,6 +1234,11 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
             parts = {}      # half-width of the band after each widening step (diagnostics)
             status, success, msg = Status.CONVERGED, True, ""
             re, im = o.re, o.im
+            if im is not None and real_input and not isinstance(x, mpmath.mpc) and "S_plus" not in o.info \
+                    and re is not None and im.contains(0):
+                # a real series at a real point off any lateral sum: an imaginary part that
+                # contains 0 is rounding (atan at real points carried "im": "-4.35e-77")
+                im = None
             if not o.ok or re is None:
                 status, success, msg = Status.NOT_CONVERGED, False, o.reason or "no stable approximants"
                 n_fail += 1

@@ -257,6 +257,18 @@ def _widen_in_rim_layer(o: PointOutcome, w, n_terms: int) -> None:
     o.info["rim_layer"] = {"layer": mpmath.nstr(layer, 3), "factor": mpmath.nstr(fac, 3)}
 
 
+def _across_cut(cmap, x) -> bool:
+    """The map jumps across ``x`` (a point on a cut), as opposed to being continuous there with
+    ``|w|`` merely at the rim to the working precision: the images of ``x (1 +- 1e-8 i)``."""
+    x = mpmath.mpmathify(x)
+    d = mpmath.mpc(0, "1e-8") * (abs(x) if x != 0 else 1)
+    try:
+        up, down = cmap.w_of_x(x + d), cmap.w_of_x(x - d)
+    except (ZeroDivisionError, ValueError):
+        return True
+    return bool(abs(up - down) > mpmath.mpf("1e-4"))
+
+
 def conformal_evaluate(c: Sequence, xs: Sequence, cmap: ConformalMap, dps: int, *, alpha=None,
                        n_orders: int = 7, offsets: Sequence[int] = (0,), safety=4,
                        variants: str = "both", target_digits=None):
@@ -345,7 +357,15 @@ def conformal_evaluate(c: Sequence, xs: Sequence, cmap: ConformalMap, dps: int, 
                              for o in named[0][1]])]
     outs = _choose(named)
     for j, o in enumerate(outs):
-        if bad[j]:
+        if bad[j] and not _across_cut(cmap, xs[j]):
+            # |w| = 1 to the tolerance, yet the map is continuous here: a point so far out that
+            # its image sits on the rim (log(1 + x) at x = 1e30 with the cut on the negative axis)
+            outs[j] = PointOutcome(None, None, False,
+                                   f"x = {mpmath.nstr(xs[j], 10)} maps to the rim of the disk (1 - |w| = "
+                                   f"{mpmath.nstr(1 - abs(cmap.w_of_x(xs[j])), 3)}), too close for approximants in w; "
+                                   "a smaller point, or the strong-coupling probe (resum strong) for the "
+                                   "growth there", {})
+        elif bad[j]:
             outs[j] = PointOutcome(None, None, False,
                                    f"x = {mpmath.nstr(xs[j], 10)} lies on the cut of the map "
                                    f"({cmap.describe()}){ON_CUT_ADVICE}", {})

@@ -215,7 +215,7 @@ ON_PATH = mpmath.mpf(10) ** -8
 ARC_CHORDS = 8
 
 
-def _walk(Q, P, K, roots, z, target, vals, eps, record=None):
+def _walk(Q, P, K, roots, z, target, vals, eps, record=None, budget=None):
     """Taylor steps along the segment from ``z`` to ``target`` (which stays off the zeros of
     ``Q_K``), each at most half the distance to the nearest zero. With a list ``record``, each
     step appends ``(z, h, b)``: its centre, length and scaled local coefficients."""
@@ -225,6 +225,10 @@ def _walk(Q, P, K, roots, z, target, vals, eps, record=None):
             return vals
         near = min((abs(z - r) for r in roots), default=mpmath.inf)
         h = (target - z) / rem * min(rem, near / 2)
+        if budget is not None:
+            budget[0] -= 1
+            if budget[0] < 0:
+                raise _TooFar()
         if record is None:
             vals = _step(Q, P, K, z, vals, h, eps)
         else:
@@ -278,7 +282,30 @@ def _path_zeros(roots, z0, x):
     return sorted(out, key=lambda tr: tr[0])
 
 
+#: the walk refuses a point needing more Taylor steps than this (half circles included): the
+#: steps grow only geometrically away from a singular point (about log|x| / log 1.5 of them),
+#: and each costs a local series at the full precision (log(1 + x) from 40 terms: x = 1e300
+#: took 385 s and came back wrong; x = 1e999999 never returned)
+MAX_WALK_STEPS = 200
+
+
+class _TooFar(Exception):
+    """The walk took more than MAX_WALK_STEPS steps."""
+
+
 def _continue(Q, P, K, roots, c, x, dps, n_terms, digits):
+    """:func:`_continue_walk` with the step budget: a point the walk cannot reach in
+    MAX_WALK_STEPS steps is refused (None, reason, None)."""
+    budget = [MAX_WALK_STEPS]
+    try:
+        return _continue_walk(Q, P, K, roots, c, x, dps, n_terms, digits, budget)
+    except _TooFar:
+        return None, (f"{mpmath.nstr(x, 6)} is too far out for the walk along the line (more than "
+                      f"{MAX_WALK_STEPS} Taylor steps, each at most half the distance to the nearest "
+                      "singular point of the equation)"), None
+
+
+def _continue_walk(Q, P, K, roots, c, x, dps, n_terms, digits, budget):
     """``f(x)`` by continuation along the straight line from 0 (None and a reason if refused).
 
     A zero ``r`` of ``Q_K`` on the line is passed by two half circles, one on each side; if the
@@ -306,13 +333,13 @@ def _continue(Q, P, K, roots, c, x, dps, n_terms, digits):
             others = [abs(r - q) for q in centres if q != r] + [abs(r), abs(x - r)]
             rad = min(others) / 2
             z1 = r - direction * rad
-            vals = _walk(Q, P, K, roots, z, z1, vals, eps)
+            vals = _walk(Q, P, K, roots, z, z1, vals, eps, budget=budget)
             ends = []
             for side in (1, -1):
                 v, w = vals, z1
                 for k in range(1, ARC_CHORDS + 1):
                     w2 = r - direction * rad * mpmath.expj(side * mpmath.pi * k / ARC_CHORDS)
-                    v = _walk(Q, P, K, roots, w, w2, v, eps)
+                    v = _walk(Q, P, K, roots, w, w2, v, eps, budget=budget)
                     w = w2
                 ends.append(v)
             (up, down) = ends
@@ -327,7 +354,7 @@ def _continue(Q, P, K, roots, c, x, dps, n_terms, digits):
                               "point a small imaginary part (for example add 1e-6*I)"), gap
             vals = [(a + b) / 2 for a, b in zip(up, down)]
             z = r + direction * rad
-        vals = _walk(Q, P, K, roots, z, x, vals, eps)
+        vals = _walk(Q, P, K, roots, z, x, vals, eps, budget=budget)
         return vals[0], "", None
 
 
@@ -366,7 +393,10 @@ def _value(eq, cm, x, dps, digits):
     same = max(digits, dps - 10)
     v1, why, gap = _continue(Q, P, K, roots, cm, x, dps + 10, n, same)
     if v1 is None:
-        return PointOutcome(None, None, False, why, {}), gap
+        # the two sides differ by far more than an inexact equation explains: a branch point
+        # of the function on the line, so the point has no single value to fall back to
+        info = {"branch_on_line": True} if gap is not None and gap >= REFIT_GAP else {}
+        return PointOutcome(None, None, False, why, info), gap
     v2, why2, _ = _continue(Q, P, K, roots, cm, x, dps + 30, n, same)
     v3, why3, _ = _continue(Q, P, K, roots, cm, x, dps + 10, max(K + 2, n - 5), same)
     if v2 is None or v3 is None:
