@@ -9,6 +9,7 @@ user supplies.
 """
 from __future__ import annotations
 
+import re
 
 from ..errors import InputError
 from ..series.expr import evaluate_expression
@@ -58,7 +59,13 @@ def run(args) -> int:
         label, sep, value = item.partition("=")
         if not sep or not label.strip():
             raise InputError(f"write --expect as LABEL=VALUE (e.g. g^1=2), got {item!r}", where="--expect")
-        expected[label.strip()] = _number(value, ctx.work_dps, f"--expect {label.strip()}")
+        label = " ".join(label.split())
+        var = series.coupling.symbol if series.coupling is not None else series.variable
+        m = re.fullmatch(r"([A-Za-z_]\w*)\^(-?\d+(?:/\d+)?)( log ([A-Za-z_]\w*))?", label)
+        if m is None or m.group(1) != var or (m.group(4) is not None and m.group(4) != var):
+            raise InputError(f"write the term as {var}^P or '{var}^P log {var}' with P a whole number or a "
+                             f"fraction (e.g. {var}^1=2, '{var}^-1/2=0.3'), got {label!r}", where="--expect")
+        expected[label] = _number(value, ctx.work_dps, f"--expect {label}")
     if not args.json:
         log(f"probing {series.name or args.file} at growing coupling ({ctx.dps} digits)")
     try:

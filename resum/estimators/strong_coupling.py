@@ -110,6 +110,11 @@ class StrongCouplingResult:
                    None if d.get("provenance") is None else Provenance.from_dict(d["provenance"]))
 
 
+#: best chi2 per degree of freedom over the ensemble above which the fitted form is rejected:
+#: the fits miss the values by 100 times their bands (between 4 and this, a warning only)
+GROSS_MISFIT = 10 ** 4
+
+
 def simple_rational(x, band, max_den: int = 6):
     """The simplest fraction ``k/q`` (``q <= max_den``) inside ``[x - band, x + band]``, or None."""
     from fractions import Fraction
@@ -203,6 +208,10 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
         if any(isinstance(g, mpmath.mpc) or g <= 0 for g in gs):
             raise InputError("strong-coupling couplings must be real and positive", where="couplings")
         gs = sorted(gs)
+        dup = [g for a, g in zip(gs, gs[1:]) if g == a]
+        if dup:
+            raise InputError(f"strong-coupling couplings must be distinct; {mpmath.nstr(dup[0], 8)} is given "
+                             "more than once", where="couplings")
         if values is None and series.start >= 0:
             from ..resummation import polynomial_degree
             c = series.dense(Context(dps=ctx.work_dps, guard=0))
@@ -227,7 +236,7 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
                                         f"only {len(trusted)} of {len(gs)} couplings have a resummed band below "
                                         f"{mpmath.nstr(max_rel_band, 3)} of the value "
                                         f"({len(got)} gave a value at all); the fit needs 4: give more terms, "
-                                        "smaller couplings, or a larger max_rel_band",
+                                        "smaller couplings, or a larger max_rel_band (Python option)",
                                         var, tuple(gs), tuple(vals), trusted_up_to, None, "", ())
         # leading power from log-derivative secants, extrapolated in 1/g
         secants = []
@@ -305,9 +314,31 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
             return StrongCouplingResult(False, Status.FAILED, "no fit could be made", var, tuple(gs),
                                         tuple(vals), trusted_up_to, lp, source, ())
         ok = members
-        if not any(m["dof"] > 0 and m["chi2"] / m["dof"] <= 4 for m in members):
+        ratios = [m["chi2"] / m["dof"] for m in members if m["dof"] > 0]
+        best = min(ratios) if ratios else None
+        mismatch = best is not None and best > GROSS_MISFIT
+        if best is not None and best > 4 and not mismatch:
             warnings.append("no fit matches the values within their bands: the truncated form leaves out "
                             "terms bigger than the bands (the ensemble spread reflects this)")
+        if mismatch:
+            # the form p, p - 1, p - 2, ... misses the values by far more than their bands: the
+            # leading power, or the spacing of the powers after it, is not what the form assumes
+            # (2F1(1/3, 1/2; 7/4; -x): x^(-1/3) + x^(-1/2) + ..., read as x^(-1/4) and fitted as
+            # -1/4, -5/4, ... with chi2/dof 1e11; the coefficient bands missed by 100 %)
+            warnings.append(f"the form {_label(_frac_or(p_mp), False, var)} + "
+                            f"{_label(_frac_or(p_mp - 1), False, var)} + ... misses the resummed values by "
+                            f"{mpmath.nstr(mpmath.sqrt(best), 2)} times their bands at best: the leading power "
+                            "or the spacing of the subleading powers is not what the form assumes, and the "
+                            "coefficient bands do not hold (try leading_power / --power, log terms, "
+                            "or values at larger coupling)")
+            if p_est is not None and leading_power is None:
+                # the secants are what the values show; the rounded fraction is not confirmed
+                last = secants[-1][1]
+                lo = min(p_est.lower, last, p_mp)
+                hi = max(p_est.upper, last, p_mp)
+                lp = Estimate(p_est.value, lo, hi)
+                source = (f"log-derivative {mpmath.nstr(p_est.value, 6)}, not settled (last secant "
+                          f"{mpmath.nstr(last, 6)}); the fits with power {_frac_or(p_mp)} do not match")
         labels = []
         for m in ok:
             for pw, lg in m["basis"]:
@@ -352,9 +383,12 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
                                               "n_terms_fit": list(n_terms_fit)},
                           n_terms=getattr(series, "n_terms", 0), dps=ctx.work_dps,
                           input_hash=series.input_hash() if hasattr(series, "input_hash") else "")
-        return StrongCouplingResult(True, Status.CONVERGED,
-                                    f"fitted {len(coeffs)} coefficients from {len(trusted)} couplings up to "
-                                    f"{var} = {mpmath.nstr(trusted_up_to, 6)}", var, tuple(gs), tuple(vals),
+        done = (f"fitted {len(coeffs)} coefficients from {len(trusted)} couplings up to "
+                f"{var} = {mpmath.nstr(trusted_up_to, 6)}")
+        if mismatch:
+            done = "the asymptotic form does not fit the resummed values; " + done
+        return StrongCouplingResult(not mismatch, Status.NOT_CONVERGED if mismatch else Status.CONVERGED,
+                                    done, var, tuple(gs), tuple(vals),
                                     trusted_up_to, lp, source, tuple(coeffs), comparison, tuple(warnings),
                                     diag, prov)
 
@@ -377,6 +411,9 @@ def _compare(coeffs, expected, warnings, exact_polynomial=False) -> dict:
             inside = e.contains(ev)
             comparison[lab] = {"expected": ev, "inside": inside,
                                "sigma": (e.value - ev) / e.error if e.error else (0 if inside else mpmath.inf)}
+        if e is None and not exact_polynomial:
+            warnings.append(f"{lab}: expected {mpmath.nstr(ev, 12)}, but no fit carries this term (fitted: "
+                            f"{', '.join(found) or 'none'})")
         if inside is False:
             what = "the polynomial gives" if exact_polynomial else "fitted"
             warnings.append(f"{lab}: {what} {e if e is not None else 0}, which does not contain the "
