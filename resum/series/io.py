@@ -69,7 +69,8 @@ MAX_DIGITS = 100000          # digits a file may declare its coefficients carry
 MAX_COUPLING_POWER = 100     # x = g^p with 1 <= p <= this
 _JSON_KEYS = {"format", "name", "description", "variable", "start", "coupling", "digits",
               "exact", "coefficients", "provenance", "metadata"}
-_HEADER_KEYS = {"format", "name", "description", "variable", "start", "coupling", "digits", "exact"}
+_HEADER_KEYS = {"format", "name", "description", "variable", "start", "coupling", "digits", "exact",
+                "provenance"}
 
 
 # ---------------------------------------------------------------- helpers
@@ -391,10 +392,20 @@ def _header_line(line, meta, where):
         raise InputError(f"unknown header key {key!r}; allowed: {', '.join(sorted(_HEADER_KEYS))}",
                          where=where)
     value = value.strip()
+    if key in meta:
+        raise InputError(f"header key {key!r} given twice; keep one", where=where)
     if key == "exact":
         if value.lower() not in ("true", "false", "yes", "no"):
             raise InputError("exact must be true or false", where=where)
         value = value.lower() in ("true", "yes")
+    if key == "provenance":
+        try:
+            value = json.loads(value)
+        except ValueError:
+            value = None
+        if not isinstance(value, dict):
+            raise InputError("provenance must be a JSON object on one line, e.g. {\"source\": \"bes\"}",
+                             where=where)
     meta[key] = value
 
 
@@ -648,8 +659,15 @@ def write_series(series: Series, path, fmt: Optional[str] = None) -> Path:
         if fmt == "text" and series.start:
             hdr.append(("start", series.start))
         pre = "# " if fmt == "csv" else ""
-        if series.description:
-            lines.append("# " + series.description.replace("\n", " "))
+        desc = series.description.replace("\n", " ").strip()
+        if desc and "#" not in desc:
+            hdr.insert(1 if hdr and hdr[0][0] == "format" else 0, ("description", desc))
+        elif desc:
+            lines.append("# " + desc)      # a '#' would end a header line: kept as a comment
+        if "provenance" in meta:
+            prov = json.dumps(meta["provenance"], separators=(",", ":"))
+            if "#" not in prov and "\n" not in prov:
+                hdr.append(("provenance", prov))
         for k, v in hdr:
             lines.append(f"{pre}{k}: {v}")
         if fmt == "csv":
