@@ -140,7 +140,16 @@ def format_value_error(value, lower, upper, max_digits: int = 60) -> str:
         # a zero with a tiny band (the real part of a point on the imaginary axis) would
         # otherwise print as 0.000...0(12) with as many zeros as the band is small
         return f"0 [{mpmath.nstr(lower, 2)}, {mpmath.nstr(upper, 2)}]"
-    err_units = int(mpmath.ceil(err / mpf(10) ** place))
+    if place >= 6:
+        # a large value: mantissa(error)eN instead of an integer with dozens of zeros
+        if value == 0:
+            return f"0 [{mpmath.nstr(lower, 2)}, {mpmath.nstr(upper, 2)}]"
+        e = int(mpmath.floor(mpmath.log10(abs(value))))
+        sc = mpf(10) ** e
+        return f"{format_value_error(value / sc, lower / sc, upper / sc, max_digits)}e{e}"
+    # (less a hair: a band scaled by a power of ten is not exact in binary, and 10.0000001
+    # units must print as 10, not 11)
+    err_units = int(mpmath.ceil(err / mpf(10) ** place * (1 - mpf(10) ** (10 - mpmath.mp.dps))))
     if place >= 0:
         v = int(mpmath.nint(value / mpf(10) ** place)) * 10 ** place
         return f"{v}({err_units * 10 ** place})"

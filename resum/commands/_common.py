@@ -58,7 +58,7 @@ def context_for(series: Optional[Series], dps: Optional[int], where: str = "") -
     if carried is not None and carried < dps:
         loc = least_precise_location(series) or where or "input"
         lower = f"lower --dps to at most {carried}, " if carried >= 5 else ""
-        raise InputError(f"coefficient carries only {carried} digits but --dps {dps} was "
+        raise InputError(f"coefficient carries only {carried} digit{'' if carried == 1 else 's'} but --dps {dps} was "
                          f"asked; {lower}write it with more digits, or declare 'digits: N' or "
                          "'exact: true' in the file if its decimals are known better", where=loc)
     return Context(dps=dps)

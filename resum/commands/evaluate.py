@@ -179,6 +179,13 @@ def run(args) -> int:
     if args.json:
         doc = result.contract_dict()
         doc["warnings"] = list(doc["warnings"]) + failed
+        if reference:
+            from ..report.evaluation_text import compare_reference
+            from ..results import num_to_str, point_label
+            doc["reference"] = [{"at": point_label(num_to_str(c["at"], 30)), "value": num_to_str(c["value"], 30),
+                                 "error": None if c["error"] is None else num_to_str(c["error"], 5),
+                                 "difference": None if c["difference"] is None else num_to_str(c["difference"], 5),
+                                 "inside": c["inside"]} for c in compare_reference(result, reference)]
         emit_json(doc)
     else:
         from ..report.evaluation_text import render_evaluation

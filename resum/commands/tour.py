@@ -143,7 +143,7 @@ def _report(series, ana, ev, rows, held, figures, seconds) -> str:
         "## Where the series stops converging",
         "",
         f"- radius of convergence in x: {rad if rad is not None else 'not determined'}"
-        + (f" (|g| = {mpmath.nstr(mpmath.sqrt(rad.value), 12)})" if rad is not None else ""),
+        + (f" (|g| = {_sqrt_band(rad)})" if rad is not None else ""),
     ]
     for s in ana.singularities[:4]:
         ex = "exponent not determined" if s.exponent is None else f"exponent {s.exponent}"
@@ -165,3 +165,11 @@ def _report(series, ana, ev, rows, held, figures, seconds) -> str:
     lines += [f"- {f}" for f in figures]
     lines += ["", f"Total time: {seconds:.0f} s.", ""]
     return "\n".join(lines)
+
+
+def _sqrt_band(e) -> str:
+    """sqrt of a non-negative band, printed to the digits the band supports (as the radius is)."""
+    from ..results import Estimate, format_value_error
+    lo = mpmath.sqrt(max(e.lower, 0))
+    return format_value_error(mpmath.sqrt(e.value), lo, mpmath.sqrt(e.upper)) if isinstance(e, Estimate) \
+        else mpmath.nstr(mpmath.sqrt(e), 6)

@@ -83,13 +83,52 @@ def _fmt(e) -> str:
 
 
 def _complex_point(p) -> bool:
-    return isinstance(p.at, mpmath.mpc) and p.at.imag != 0
+    """The imaginary part belongs to the value (a complex point, or a complex-valued function
+    at a real point), as opposed to the ambiguity of lateral Borel sums."""
+    if isinstance(p.at, mpmath.mpc) and p.at.imag != 0:
+        return True
+    return p.imag is not None and "S_plus" not in p.diagnostics
+
+
+def _complex_digits(p) -> str:
+    """Digits of a complex value, relative to its modulus (a real part that vanishes, as at
+    x = 2 for 1/(1 - x/(1+i)) = -i, has no relative digit of its own)."""
+    err = max(p.value.error, p.imag.error)
+    size = abs(mpmath.mpc(p.value.value, p.imag.value))
+    if err == 0:
+        return "all"
+    if size == 0:
+        return "0.0"
+    return f"{max(0.0, float(mpmath.log10(size / err))):.1f}"
 
 
 def _abs_est(e):
     """The band of -v as that of v when v < 0 (for printing "- i*|v|")."""
     from ..results import Estimate
     return e if e.value >= 0 else Estimate(-e.value, -e.upper, -e.lower)
+
+
+def compare_reference(result, reference) -> list:
+    """Each reference ``(at, value, error_or_None)`` against the resummed point at the same place:
+    dicts with ``at``, ``value``, ``error``, ``difference``, ``digits_agree`` (None: identical)
+    and ``inside`` (None when no resummed value is there)."""
+    with workdps((result.provenance.dps if result.provenance else 50) + 10):
+        return _compare_reference(result, reference)
+
+
+def _compare_reference(result, reference) -> list:
+    out = []
+    for at, val, err in reference:
+        best = min(result.points, key=lambda p: abs(p.at - at))
+        row = {"at": at, "value": val, "error": err, "difference": None, "digits_agree": None, "inside": None}
+        if abs(best.at - at) <= mpmath.mpf(10) ** -10 * max(1, abs(at)) and best.value is not None:
+            diff = best.value.value - val
+            slack = 0 if err is None else err
+            rel = abs(diff / val) if val != 0 else abs(diff)
+            row.update(difference=diff, digits_agree=float(-mpmath.log10(rel)) if rel != 0 else None,
+                       inside=bool(best.value.lower - slack <= val <= best.value.upper + slack))
+        out.append(row)
+    return out
 
 
 def render_evaluation(result, title: str = "", reference: Optional[Sequence] = None) -> str:
@@ -140,7 +179,7 @@ def _render(result, title, reference):
         if _complex_point(p) and p.imag is not None and p.value is not None:
             # at a complex point the imaginary part is part of the value, not an ambiguity
             val = f"{val} {'-' if p.imag.value < 0 else '+'} i*{_fmt(_abs_est(p.imag))}"
-            dig = f"{min(p.value.digits(), p.imag.digits()):.1f}" if p.value.error and p.imag.error else dig
+            dig = _complex_digits(p)
         rows.append((mpmath.nstr(p.at, 12), val, dig, base, p.status.value) + ((p.method,) if mixed else ()))
     widths = [max(len(r[i]) for r in rows) for i in range(len(rows[0]))]
     for k, r in enumerate(rows):
@@ -197,20 +236,16 @@ def _render(result, title, reference):
     if reference:
         lines.append("")
         lines.append("Reference values:")
-        for at, val, err in reference:
-            best = min(result.points, key=lambda p: abs(p.at - at))
-            if abs(best.at - at) > mpmath.mpf(10) ** -10 * max(1, abs(at)) or best.value is None:
+        for c in compare_reference(result, reference):
+            at, val, err = c["at"], c["value"], c["error"]
+            if c["inside"] is None:
                 lines.append(f"  {mpmath.nstr(at, 12)}: reference {mpmath.nstr(val, 20)} (no resummed value here)")
                 continue
-            diff = best.value.value - val
-            slack = 0 if err is None else err
-            inside = best.value.lower - slack <= val <= best.value.upper + slack
-            rel = abs(diff / val) if val != 0 else abs(diff)
-            dig = f"{float(-mpmath.log10(rel)):.1f}" if rel != 0 else "all"
+            dig = "all" if c["digits_agree"] is None else f"{c['digits_agree']:.1f}"
             lines.append(f"  {mpmath.nstr(at, 12)}: reference {mpmath.nstr(val, 20)}"
                          f"{'' if err is None else ' +- ' + mpmath.nstr(err, 3)}; difference "
-                         f"{mpmath.nstr(diff, 3)} ({dig} digits agree); "
-                         f"{'inside' if inside else 'OUTSIDE'} the band{'' if err is None else ' (with the reference error)'}")
+                         f"{mpmath.nstr(c['difference'], 3)} ({dig} digits agree); "
+                         f"{'inside' if c['inside'] else 'OUTSIDE'} the band{'' if err is None else ' (with the reference error)'}")
     fails = [p for p in result.points if not p.success and p.message]
     if fails or result.warnings:
         lines.append("")

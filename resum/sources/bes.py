@@ -121,6 +121,10 @@ def parse_angle(angle, dps: int):
             v = v.real
         if not mpmath.isfinite(v):
             raise InputError(f"angle: must be finite, got {angle!r}")
+        if abs(v) > mpmath.mpf(10) ** (dps // 2):
+            # cos and sin of such an angle keep fewer than half the working digits
+            raise InputError(f"angle: {angle!r} is too large to take its cosine at {dps} digits; "
+                             "give it reduced modulo 2 pi")
         return +v
 
 
