@@ -21,3 +21,12 @@ def test_zero_with_a_band_above_1e_5_keeps_value_error_form():
     # 0.000(3) is short and readable: the value(error) form stays (common practice, no source)
     with workdps(30):
         assert str(Estimate(0, -mpmath.mpf("0.0003"), mpmath.mpf("0.0003"))) == "0.0000(3)"
+
+
+def test_large_values_print_as_mantissa_and_exponent():
+    # a band of 1e7 on a value of 1e11 printed an integer with all its zeros, and a band of 1e300
+    # at zero a 300-digit integer (common practice, no source)
+    with workdps(30):
+        assert str(Estimate(123456789012, 123456789012 - 10 ** 7, 123456789012 + 10 ** 7)) == "1.23457(10)e11"
+        text = str(Estimate(0, -mpmath.mpf("1e300"), mpmath.mpf("1e300")))
+        assert text.startswith("0 [") and len(text) < 30

@@ -85,3 +85,31 @@ def test_at_range_on_the_command_line(tmp_path, capsys):
             assert mpmath.mpf(r["lo"]) <= mpmath.log1p(x) / x <= mpmath.mpf(r["hi"])
     assert main(["evaluate", str(f), "--at", "1:2"]) == 2
     assert "--at 1:2" in capsys.readouterr().err
+
+
+def test_repeated_strong_couplings_and_unreadable_expect_labels_are_one_line_errors(tmp_path, capsys):
+    f = write_series(binomial_series(Fraction(1, 2), 30), tmp_path / "b.json")
+    for argv in (["--at", "5", "--at", "5", "--at", "6", "--at", "7"], ["--at", "5:5:4"],
+                 ["--expect", "g1=2"], ["--expect", "y^1=2"]):
+        assert main(["strong", str(f)] + argv) == 2, argv
+        err = capsys.readouterr().err
+        assert "Traceback" not in err and err.strip().splitlines()[-1].startswith("resum strong: error:")
+
+
+def test_an_angle_too_large_for_its_cosine_is_an_input_error(tmp_path, capsys):
+    assert main(["generate", "bes", "--angle", "1e999", "--loops", "5", "-o", str(tmp_path / "z.json")]) == 2
+    err = capsys.readouterr().err
+    assert "too large" in err and "Traceback" not in err and not (tmp_path / "z.json").exists()
+
+
+def test_evaluate_json_has_point_status_and_reference_comparison(tmp_path, capsys):
+    # (1 + x)^(1/2) at x = 0.5 (closed form, mpmath); x = -3 lies on the cut from -1
+    f = write_series(binomial_series(Fraction(1, 2), 40), tmp_path / "b.json")
+    ref = tmp_path / "ref.txt"
+    with workdps(60):
+        ref.write_text(f"0.5 {mpmath.nstr(mpmath.sqrt(mpmath.mpf(3) / 2), 50)}\n")
+    main(["evaluate", str(f), "--at", "0.5", "--at", "-3", "--reference", str(ref), "--json", "--no-verify"])
+    doc = json.loads(capsys.readouterr().out)
+    good, bad = doc["values"]
+    assert good["status"] == "converged" and bad["status"] != "converged" and bad["message"]
+    assert doc["reference"][0]["inside"] is True

@@ -103,6 +103,8 @@ BAD = [
     ("digbool.json", '{"coefficients": ["1.0"], "digits": true}', "digits must be a whole number"),
     ("exactexp.txt", "exact: true\n1\n1e100000000\n", "line 3"),
     ("longint.json", '{"coefficients": [' + "9" * 30000 + ']}', "at most 20000"),
+    ("twice.txt", "variable: x\nvariable: y\n1\n2\n", "given twice"),
+    ("prov.txt", "provenance: [1, 2]\n1\n2\n", "provenance must be a JSON object"),
 ]
 
 
@@ -242,3 +244,13 @@ def test_rewriting_keeps_the_mode_of_the_file_replaced(tmp_path):
     _with_umask(0o077, lambda: write_series(Series([1, 2]), p))
     assert stat.S_IMODE(os.stat(p).st_mode) == 0o640
     assert read_series(p).coefficients == (1, 2)
+
+
+@pytest.mark.parametrize("ext", ["csv", "txt"])
+def test_description_and_provenance_survive_csv_and_text(tmp_path, ext):
+    # a generated file records where it came from in every format (common practice, no source)
+    s = Series([1, Fraction(1, 2), Fraction(1, 3)], name="demo", description="a test series, x < 1",
+               provenance={"source": "demo", "orders": 3, "note": "fraction: 1/3"})
+    t = read_series(write_series(s, tmp_path / f"s.{ext}"))
+    assert t.description == s.description
+    assert {k: t.provenance[k] for k in ("source", "orders", "note")} == dict(s.provenance)
