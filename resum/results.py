@@ -17,7 +17,7 @@ round trip loses no digit.
 
 >>> e = Estimate(mpf("0.2500003"), mpf("0.2499990"), mpf("0.2500010"))
 >>> str(e)
-'0.2500003(14)'
+'0.2500003(13)'
 >>> e.contains(0.25)
 True
 """

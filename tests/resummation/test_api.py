@@ -54,7 +54,7 @@ def test_round_trip_and_contract():
     cd = r.contract_dict()
     assert set(cd) == {"values", "warnings"}
     for row in cd["values"]:
-        assert set(row) - {"terms_needed"} == {"at", "value", "lo", "hi", "method", "digits"}
+        assert set(row) - {"terms_needed", "message"} == {"at", "value", "lo", "hi", "method", "digits", "status"}
         assert all(isinstance(v, str) for v in row.values())
         assert mpmath.mpf(row["lo"]) <= mpmath.mpf(row["value"]) <= mpmath.mpf(row["hi"])
     assert cd["values"][1]["at"].startswith("0.5")
