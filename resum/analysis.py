@@ -140,7 +140,9 @@ class AnalysisResult:
         ``{"radius": {"value", "lo", "hi"}, "singularities": [{"re", "im",
         "exponent": {"value", "lo", "hi"} or None, "kind"}], "warnings": [...]}``;
         numbers are decimal strings in the series' variable. Extra keys:
-        ``growth``, ``status``, ``borel`` (A and b for factorial growth).
+        ``growth``, ``status``, ``borel`` (A and b for factorial growth), ``methods`` (each
+        estimator's status, message and radius band), ``equation`` (a linear differential
+        equation the series obeys exactly, when one was found).
         """
         if self.radius is None:
             rad = {"value": "nan", "lo": "nan", "hi": "nan"}
@@ -156,6 +158,14 @@ class AnalysisResult:
         if self.borel_singularity is not None:
             out["borel"] = {"A": self.borel_singularity.to_dict(),
                             "b": None if self.borel_exponent is None else self.borel_exponent.to_dict()}
+        # each method's own verdict (as in the text report's method table)
+        out["methods"] = {k: {"status": m.status.value, "message": m.message,
+                              "radius": None if m.radius is None else m.radius.to_dict()}
+                          for k, m in self.methods.items()}
+        eq = [m.diagnostics.get("equation") for m in self.methods.values()
+              if (m.diagnostics or {}).get("exact_equation") and m.diagnostics.get("equation")]
+        if eq:
+            out["equation"] = str(eq[0])
         return out
 
 

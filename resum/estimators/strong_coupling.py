@@ -232,11 +232,17 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
         trusted_up_to = trusted[-1][0] if trusted else None
         if len(trusted) < 4:
             got = [g for g, v in zip(gs, vals) if v is not None]
+            why = ""
+            if values is None:
+                bad = [p for p in res.points if not p.success and p.message]
+                if bad:
+                    why = f"; at {var} = {mpmath.nstr(bad[0].at, 6)}: {bad[0].message}"
             return StrongCouplingResult(False, Status.TOO_FEW_TERMS,
-                                        f"only {len(trusted)} of {len(gs)} couplings have a resummed band below "
-                                        f"{mpmath.nstr(max_rel_band, 3)} of the value "
+                                        f"only {len(trusted)} of {len(gs)} couplings "
+                                        f"({mpmath.nstr(gs[0], 4)} ... {mpmath.nstr(gs[-1], 4)}) have a resummed "
+                                        f"band below {mpmath.nstr(max_rel_band, 3)} of the value "
                                         f"({len(got)} gave a value at all); the fit needs 4: give more terms, "
-                                        "smaller couplings, or a larger max_rel_band (Python option)",
+                                        "other couplings (--at), or a larger max_rel_band (Python option)" + why,
                                         var, tuple(gs), tuple(vals), trusted_up_to, None, "", ())
         # leading power from log-derivative secants, extrapolated in 1/g
         secants = []
