@@ -141,7 +141,7 @@ class AnalysisResult:
         "exponent": {"value", "lo", "hi"} or None, "kind"}], "warnings": [...]}``;
         numbers are decimal strings in the series' variable. Extra keys:
         ``growth``, ``status``, ``borel`` (A and b for factorial growth), ``methods`` (each
-        estimator's status, message and radius band), ``equation`` (a linear differential
+        estimator's status, message and radius as value(error) text), ``equation`` (a linear differential
         equation the series obeys exactly, when one was found).
         """
         if self.radius is None:
@@ -159,8 +159,10 @@ class AnalysisResult:
             out["borel"] = {"A": self.borel_singularity.to_dict(),
                             "b": None if self.borel_exponent is None else self.borel_exponent.to_dict()}
         # each method's own verdict (as in the text report's method table)
+        # (the radius as value(error) text: its digits are the band's, whatever precision it was
+        # stored at)
         out["methods"] = {k: {"status": m.status.value, "message": m.message,
-                              "radius": None if m.radius is None else m.radius.to_dict()}
+                              "radius": None if m.radius is None else str(m.radius)}
                           for k, m in self.methods.items()}
         eq = [m.diagnostics.get("equation") for m in self.methods.values()
               if (m.diagnostics or {}).get("exact_equation") and m.diagnostics.get("equation")]

@@ -507,10 +507,14 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
             b = 0
         tm = borel_map
         A = None
+        in_u = False
         if tm is None or tm == "auto":
-            if an is not None and getattr(an, "borel_singularity", None) is not None:
+            lo = getattr(an, "methods", {}).get("large-order") if an is not None else None
+            in_u = lo is not None and (lo.diagnostics or {}).get("stride", 1) > 1
+            if an is not None and getattr(an, "borel_singularity", None) is not None and not in_u:
                 A = an.borel_singularity.value
             else:
+                # (the analysis' A of a series in u = x^k refers to u; the Borel plane here is x's)
                 A = _borel_singularity(c, b)
             tm = None
             if A is not None and not (mpmath.re(A) > 0 and abs(mpmath.im(A)) < 1e-6 * abs(A)):
@@ -525,7 +529,7 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
         if m == "borel-pade":
             tm = None
         why = ("factorial growth" if factorial else "requested") + (
-            f"; nearest Borel singularity t = {_a_text(an, A)}" if A is not None else "")
+            f"; nearest Borel singularity t = {_a_text(None if in_u else an, A)}" if A is not None else "")
         plan = _Plan(m, tm, b, alpha, lateral, why, input_digits=series.digits)
         eq = (_follow_borel_equation(series, c, ctx)
               if method == "auto" and (b is None or b == 0) and lateral == "auto" else None)

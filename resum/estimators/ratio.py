@@ -617,15 +617,25 @@ def estimate_large_order(series, ctx=None):
         wn, wz = _window(ns, z)
         if len(wn) < 6:
             return failed(method, Status.TOO_FEW_TERMS, "too few usable ratios", prep)
-        y = [zz / n for n, zz in zip(wn, wz)]
+        # Gamma(m n + b) growth: m = 1 usually; m = 2 for a series in x^2 whose terms grow like
+        # Gamma(n_x) in x (Stirling's series: Borel-plane singularities at +-2 pi i in x)
+        m = 1
+        if kappa > 1.6 and abs(kappa - round(float(kappa))) < 0.35:
+            m = int(round(float(kappa)))
+        y = [zz / (m * n) ** m for n, zz in zip(wn, wz)]
         inv_a, ia_half, k1, info1 = extrapolate(wn, y, prep.eps * 4)
         if inv_a == 0 or ia_half > abs(inv_a) / 10:
             # the growth is factorial all the same (the verdict keeps that, without A and b)
-            return failed(method, Status.NOT_CONVERGED, "z_n/n does not settle", prep,
-                          {"table": info1, "kappa": kappa, "factorial": True})
+            return failed(method, Status.NOT_CONVERGED, f"z_n/n{'' if m == 1 else f'^{m}'} does not settle",
+                          prep, {"table": info1, "kappa": kappa, "factorial": True})
         A = 1 / inv_a
         A_half = ia_half / abs(inv_a) ** 2
-        bseq = lambda a: [a * zz - n + 1 for n, zz in zip(wn, wz)]  # noqa: E731
+        if m == 1:
+            bseq = lambda a: [a * zz - n + 1 for n, zz in zip(wn, wz)]  # noqa: E731
+        else:
+            # (A z_n)^(1/m) = m n + b - (m + 1)/2 + O(1/n)
+            bseq = lambda a: [mpmath.re(mpmath.root(a * zz, m)) - m * n + mpmath.mpf(m + 1) / 2  # noqa: E731
+                              for n, zz in zip(wn, wz)]
         bnoise = [abs(A * zz) * prep.eps * 8 for zz in wz]
         b, b_half, k2, info2 = extrapolate(wn, bseq(A), prep.eps, noise=bnoise)
         for a in (A - A_half, A + A_half):
@@ -633,11 +643,16 @@ def estimate_large_order(series, ctx=None):
             b_half = max(b_half, abs(bb - b))
         A_est = Estimate(mpmath.re(A), mpmath.re(A) - A_half, mpmath.re(A) + A_half)
         b_est = Estimate(mpmath.re(b), mpmath.re(b) - b_half, mpmath.re(b) + b_half)
-        how = (f"z_n = c_n/c_(n-1) for n = {wn[0]}..{wn[-1]}; 1/A = lim z_n/n and b = lim (A z_n - n + 1) "
-               f"by Neville tables in 1/n; band = {SAFETY} x spread of the chosen column (b includes "
-               "the band of A).")
+        if m == 1:
+            how = (f"z_n = c_n/c_(n-1) for n = {wn[0]}..{wn[-1]}; 1/A = lim z_n/n and b = lim (A z_n - n + 1) "
+                   f"by Neville tables in 1/n; band = {SAFETY} x spread of the chosen column (b includes "
+                   "the band of A).")
+        else:
+            how = (f"c_n ~ S A^-n Gamma({m} n + b): z_n = c_n/c_(n-1) for n = {wn[0]}..{wn[-1]}; 1/A = "
+                   f"lim z_n/({m} n)^{m} and b = lim ((A z_n)^(1/{m}) - {m} n + {(m + 1) / 2:g}) by Neville "
+                   f"tables in 1/n; band = {SAFETY} x spread of the chosen column (b includes the band of A).")
         diag = {"how": how, "kappa": kappa, "neville_inverse_A": info1, "neville_b": info2,
-                "ratios": list(zip(wn, wz))}
+                "ratios": list(zip(wn, wz)), "gamma_multiple": m}
         zero = Estimate.exact(0)
         return finish(method, prep, [], growth="factorial", diagnostics=diag, borel=A_est,
                       borel_b=b_est, radius_u=zero)

@@ -73,14 +73,21 @@ def _render(r, title):
     if r.growth == "factorial":
         lines.append(f"  radius of convergence: 0 (divergent series)")
         lo = r.methods.get("large-order")
-        stride = (lo.diagnostics or {}).get("stride", 1) if lo is not None else 1
+        ld = (lo.diagnostics or {}) if lo is not None else {}
+        stride, m = ld.get("stride", 1), ld.get("gamma_multiple", 1)
+        gam = "Gamma(n + b)" if m == 1 else f"Gamma({m} n + b)"
         if r.borel_singularity is None:
             lines.append("  the Borel-plane singularity was not located (see the warnings)")
         elif stride > 1:
             lines.append(f"  only every {stride}-th coefficient is non-zero: in u = {var}^{stride}, "
-                         f"c_n u^n with c_n ~ S A^-n Gamma(n + b),  A = {_fmt(r.borel_singularity)},  "
+                         f"c_n u^n with c_n ~ S A^-n {gam},  A = {_fmt(r.borel_singularity)},  "
                          f"b = {_fmt(r.borel_exponent)}")
-            lines.append(f"  (A: nearest singularity of the Borel transform in u; A < 0 means alternating signs)")
+            if m == stride:
+                roots = [mpmath.root(mpmath.mpc(r.borel_singularity.value), m, k) for k in range(m)]
+                lines.append(f"  (in {var} the terms grow like Gamma(n + b'), with Borel-plane singularities at the "
+                             f"{m} roots of A: " + ", ".join(mpmath.nstr(z, 8) for z in roots) + ")")
+            else:
+                lines.append(f"  (A: nearest singularity of the Borel transform in u; A < 0 means alternating signs)")
         else:
             lines.append(f"  c_n ~ S A^-n Gamma(n + b) with  A = {_fmt(r.borel_singularity)},  "
                          f"b = {_fmt(r.borel_exponent)}")

@@ -12,6 +12,7 @@ Truths (each computed here through mpmath, never typed in):
 * Stirling's series log Gamma(z) - (z - 1/2) log z + z - log(2 pi)/2
   ~ sum_k B_(2k) / (2k (2k - 1) z^(2k-1)) (DLMF 5.11.1), factorial growth with the Borel-plane
   singularities on the imaginary axis (+-2 pi i in x = 1/z).
+* n! cos(n): factorial growth with a conjugate pair of Borel-plane singularities at exp(+-i).
 * sqrt(1 + x) + log(1 - x/3): binomial and logarithm series (exact rationals); at x = 5 + 0.001 i
   mpmath's principal branches.
 * 2F1(1/3, 1/2; 7/4; -x) ~ A x^(-1/3) + B x^(-1/2) + ... at large x (DLMF 15.8.2): powers spaced
@@ -86,11 +87,28 @@ def test_zero_on_the_circle_is_not_a_singularity():
     assert p.digits >= 15
 
 
-def test_factorial_growth_without_a_single_gamma():
+def test_stirling_series_gamma_2n_growth_in_x_squared():
+    # B_(2k) ~ (-1)^(k+1) 2 (2k)! / (2 pi)^(2k) (DLMF 24.11.1 with 24.8.1, from memory): the odd
+    # series in u = x^2 grows like Gamma(2n + 1) with A = -4 pi^2, i.e. Borel-plane singularities
+    # at +-2 pi i in x
     c = [Fraction(0)] * 60
     for k in range(1, 30):
         c[2 * k - 1] = _bernoulli(2 * k) / (2 * k * (2 * k - 1))
     a = analyze(Series(c), Context(dps=30))
+    assert a.success and a.growth == "factorial"
+    with mpmath.workdps(30):
+        assert a.borel_singularity.contains(-4 * mpmath.pi ** 2) and a.borel_singularity.digits() > 10
+    assert a.borel_exponent.contains(1) and a.borel_exponent.error < 1e-3
+    assert a.methods["large-order"].diagnostics["gamma_multiple"] == 2
+
+
+def test_factorial_growth_without_a_single_gamma():
+    # c_n = n! cos(n): a conjugate pair of Borel-plane singularities at exp(+-i) (common practice,
+    # no source); z_n / n never settles, and the verdict is still factorial growth
+    with mpmath.workdps(60):
+        c = [mpmath.factorial(n) * mpmath.cos(n) for n in range(60)]
+        s = Series([mpmath.mpf(mpmath.nstr(v, 50)) for v in c], digits=50)
+    a = analyze(s, Context(dps=30))
     assert a.success and a.growth == "factorial"
     assert a.radius is not None and a.radius.value == 0
     assert a.borel_singularity is None
