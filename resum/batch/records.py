@@ -129,7 +129,11 @@ class RunFolder:
 
     def _create(self, spec: FamilySpec) -> None:
         meta_path = self.path / "run.json"
-        self.points.mkdir(parents=True, exist_ok=True)
+        try:
+            self.points.mkdir(parents=True, exist_ok=True)
+        except OSError as exc:
+            raise InputError(f"cannot create the results folder ({exc.strerror or exc}); choose a "
+                             "writable -o folder", where=str(self.path)) from None
         # temporary files left by atomic writes of a run that was killed
         clean_temp_files(self.path, _ours_top)
         clean_temp_files(self.points, _ours_points)
@@ -275,8 +279,14 @@ def flatten_record(rec: dict, n_sing: int = 2) -> dict:
                 continue
             row[f"strong_{kind}_status"] = d.get("status", "")
             _est(f"strong_{kind}_power", d.get("leading_power"), row)
-            for label, e in (d.get("coefficients") or {}).items():
-                _est(f"strong_{kind}_{label.replace(' ', '_')}", e, row)
+            co = d.get("coefficients") or {}
+            if co:
+                # the leading coefficient under one name for every point (the fitted power, and so
+                # the label, can differ from point to point)
+                _est(f"strong_{kind}_leading", next(iter(co.values())), row)
+            for label, e in co.items():
+                if "." not in label:     # a power read as a decimal is no stable column name
+                    _est(f"strong_{kind}_{label.replace(' ', '_')}", e, row)
     err = rec.get("error")
     if err:
         row["error"] = f"{err.get('step')}: {err.get('type')}: {err.get('message')}"

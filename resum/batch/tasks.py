@@ -198,14 +198,23 @@ def ratio_estimate(coeffs, ctx: Context, tail: int = 8, digits=None, order: int 
         ns = [n for n in range(nz[0] + d, len(c), d) if c[n - d] != 0 and c[n] != 0]
         r = {n: c[n] / c[n - d] for n in ns}
         keys = sorted(r)
-        # growth: slope of log|r_n| against log n over the last half
-        half = keys[len(keys) // 2:]
-        if len(half) >= 2 and half[0] > 0:
-            slope = (mpmath.log(abs(r[half[-1]])) - mpmath.log(abs(r[half[0]]))) / \
-                (mpmath.log(half[-1]) - mpmath.log(half[0]))
-        else:
-            slope = mpmath.mpf(0)
-        factorial = slope > mpmath.mpf("0.5") * d
+        # growth: the analysis' classification (a robust slope of log|c_n/c_(n-2)| against log n
+        # in u = x^d): two ratios alone swing by orders of magnitude where a complex pair makes
+        # the coefficients oscillate (1/(1 + x/2 + x^2) was read as factorial, radius 0 +- 0)
+        from ..estimators.ratio import classify_growth
+        kind, kappa = classify_growth(c[nz[0]::d])
+        slope = kappa * d
+        factorial = kind == "factorial"
+        last_r = [r[n] for n in keys[-tail:]]
+        if all(not isinstance(v, mpmath.mpc) for v in last_r) and len({mpmath.sign(v) for v in last_r}) > 1:
+            # ratios of changing sign: a complex pair (or several singularities at one distance),
+            # which a plain ratio table cannot extrapolate
+            return {**base, "status": Status.NOT_CONVERGED.value, "growth": kind,
+                    "radius": None, "borel_distance": None, "spacing": d,
+                    "log_slope": num_to_str(slope, 6),
+                    "how": f"the last {tail} ratios c_n/c_(n-d) change sign (a complex pair or several "
+                           "singularities at the same distance): no plain ratio estimate; the analyze "
+                           "task's conjugate-pair and Padé estimators handle it"}
         col = {n: (r[n] / mpmath.mpf(n) ** d if factorial else r[n]) for n in keys}
         table = [col]
         for k in range(1, order + 1):
@@ -412,6 +421,16 @@ def _check_strong(opts, source_name, source):
     for k in ("truth_dps",):
         if k in opts and not 5 <= opts[k] <= 1000:
             raise InputError(f"{k} out of range; use 5..1000")
+    if "max_rel_band" in opts:
+        try:
+            ok = 0 < float(opts["max_rel_band"]) < 1
+        except (TypeError, ValueError):
+            ok = False
+        if not ok:
+            raise InputError("max_rel_band must be a number between 0 and 1 (the largest relative band of a "
+                             "resummed value the fit uses)")
+    if "couplings" in opts and isinstance(opts["couplings"], (list, tuple)) and len(set(map(str, opts["couplings"]))) < 4:
+        raise InputError("couplings: the fit needs at least 4 distinct couplings")
 
 
 def _check_truth_task(opts, source_name, source):

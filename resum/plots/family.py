@@ -511,15 +511,18 @@ def plot_value_digits(records, x=None, ax=None, at=None):
 
 def strong_keys(records, max_terms: int = 3) -> list:
     """The ``max_terms`` leading fitted strong-coupling coefficients found in
-    the records (labels such as ``"g^1"``, ``"g^0"``), and the leading power
+    the records (labels such as ``"g^1"``, ``"g^0"``; ``"leading"`` first when some
+    point's power was read as a decimal, not a simple fraction), and the leading power
     last if it was estimated."""
-    keys, power = [], False
+    keys, power, leading = [], False, False
     for r in records:
         t = _task(r, "strong") or {}
         for kind, _, _, _ in _STRONG_KINDS:
             d = t.get(kind) or {}
             for k, v in (d.get("coefficients") or {}).items():
-                if _band(v) is not None and k not in keys:
+                if "." in k:
+                    leading = True       # a power read as a decimal: one panel per point otherwise
+                elif _band(v) is not None and k not in keys:
                     keys.append(k)
             lp = d.get("leading_power")
             if _band(lp) is not None and not str(d.get("power_source", "")).startswith("given"):
@@ -531,6 +534,8 @@ def strong_keys(records, max_terms: int = 3) -> list:
         except (IndexError, ValueError):
             return 0, True
     keys.sort(key=order)
+    if leading:
+        keys = ["leading"] + keys
     return keys[:max_terms] + (["leading_power"] if power else [])
 
 
@@ -550,9 +555,12 @@ def plot_strong(records, key, x=None, ax=None):
             if key == "leading_power":
                 return _or_miss(_band(d.get("leading_power")))
             co = d.get("coefficients") or {}
+            if key == "leading":
+                return _band(next(iter(co.values()))) if co else None
             return _band(co[key]) if key in co else None     # absent: that form had no such term
         _draw(ax, _series(records, x, get, "strong"), label, mk, color=colour)
-    return _finish(ax, x, "leading power" if key == "leading_power" else f"coefficient of {key}")
+    return _finish(ax, x, "leading power" if key == "leading_power" else
+                   "leading coefficient" if key == "leading" else f"coefficient of {key}")
 
 
 # ----------------------------------------------------------------------------

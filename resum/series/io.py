@@ -306,7 +306,8 @@ _WHERE_KEY = "least_precise_at"      # provenance key; not written back to files
 def _keep_where(series, digs, loc):
     """The series with the place of its least precise coefficient noted in its provenance."""
     i = _least_precise(digs)
-    if i is None:
+    if i is None or series.digits is None or digs[i] != series.digits:
+        # (a 'digits:' declaration, not this literal, sets what the series carries)
         return series
     return Series(series.coefficients, series.variable, series.start, series.digits, series.coupling,
                   series.name, series.description, {**series.provenance, _WHERE_KEY: loc(i)})
