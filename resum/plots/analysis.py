@@ -79,7 +79,7 @@ def plot_domb_sykes(result, ax=None):
     ax.set_ylabel(f"c_n / c_(n-{s})")
     ax.set_xlim(left=0)
     ax.set_title("Domb-Sykes plot")
-    ax.legend(fontsize=8)
+    _legend(ax, fontsize=8)
     return ax
 
 
@@ -176,7 +176,38 @@ def plot_complex_plane(result, ax=None, method=None):
     ax.set_xlabel(f"Re {var}")
     ax.set_ylabel(f"Im {var}")
     ax.set_title("Complex plane: singularities (boxes: bands)" + ("" if drawn else " -- no Padé data"))
-    ax.legend(fontsize=7, loc="upper right")
+    _legend(ax, fontsize=7, loc="upper right")
+    return ax
+
+
+def _legend(ax, **kw):
+    """A legend only when something carries a label (matplotlib warns on stderr otherwise)."""
+    if ax.get_legend_handles_labels()[0]:
+        ax.legend(**kw)
+
+
+def plot_large_order(result, ax=None):
+    """Factorial growth: z_n / n = c_n / (n c_(n-1)) against 1/n (for Gamma(m n + b) growth,
+    z_n / (m n)^m), with the extrapolated 1/A at 1/n = 0 and its band."""
+    ax = _ax(ax)
+    m = _method(result, "large-order")
+    if m is None or result.borel_singularity is None:
+        ax.text(0.5, 0.5, "the large-order fit did not converge", ha="center", transform=ax.transAxes)
+        return ax
+    d = m.diagnostics
+    k = int(d.get("gamma_multiple", 1))
+    pts = [(int(n), _f(z) / (k * int(n)) ** k) for n, z in d.get("ratios", [])]
+    ax.plot([1 / n for n, _ in pts], [y for _, y in pts], "o", ms=3,
+            label="c_n / (n c_(n-1))" if k == 1 else f"c_n / (({k} n)^{k} c_(n-1))")
+    A = result.borel_singularity
+    inv = [1 / _f(A.value)] + [1 / _f(v) for v in (A.lower, A.upper) if _f(v) != 0]
+    ax.errorbar([0], [inv[0]], yerr=[[max(0, inv[0] - min(inv))], [max(0, max(inv) - inv[0])]], fmt="s",
+                color="C3", capsize=3, label=f"1/A, A = {A}")
+    ax.set_xlabel("1/n")
+    ax.set_ylabel("ratio / n" if k == 1 else f"ratio / ({k} n)^{k}")
+    ax.set_xlim(left=0)
+    ax.set_title("Large-order ratios (factorial growth)")
+    _legend(ax, fontsize=8)
     return ax
 
 
@@ -189,7 +220,10 @@ def write_analysis_plots(result, series, outdir) -> List[str]:
     stem = (series.name or "series").replace(os.sep, "_") if series is not None else "series"
     out = []
     jobs = [("complex_plane", plot_complex_plane)]
-    if _method(result, "ratio") is not None:
+    if result.growth == "factorial":
+        # no singular points of the series itself: the Borel-plane distance from the ratios
+        jobs = [("large_order", plot_large_order)] if result.borel_singularity is not None else []
+    elif _method(result, "ratio") is not None:
         jobs = [("domb_sykes", plot_domb_sykes), ("extrapolation", plot_extrapolation)] + jobs
     for name, fn in jobs:
         fig, ax = plt.subplots(figsize=(6, 4.5))
