@@ -408,6 +408,27 @@ def load_spec(path, sources=None) -> FamilySpec:
     return parse_spec(text, path=path, sources=sources)
 
 
+def _dps_hint(raw) -> int:
+    """The largest whole number given for a parameter named ``dps`` (fixed or on an axis), or 0."""
+    best = 0
+
+    def walk(v):
+        nonlocal best
+        if isinstance(v, int) and not isinstance(v, bool):
+            best = max(best, v)
+        elif isinstance(v, list):
+            for x in v:
+                walk(x)
+        elif isinstance(v, dict):
+            for x in v.values():
+                walk(x)
+    for table in ("fixed", "axes"):
+        t = raw.get(table)
+        if isinstance(t, dict) and "dps" in t:
+            walk(t["dps"])
+    return min(best, 5000)
+
+
 def parse_spec(text: str, path: str = "<spec>", sources=None) -> FamilySpec:
     """Validate spec ``text`` (see the module docstring for the layout)."""
     try:
@@ -500,11 +521,16 @@ class _Validator:
         self.choices = source_choices(source)
         self.limits = source_limits(source)
 
+        # parameter values (an expression such as "pi/8") are evaluated at the largest precision
+        # any point asks for, plus guard digits: evaluated at the study's dps, an angle used by a
+        # point at dps = 35 was wrong from its 30th digit
+        vdps = max(dps, _dps_hint(raw)) + 10
+
         # fixed parameters
         fixed = {}
         fixed_raw = self.table(raw.get("fixed", {}), "fixed", set(params))
         for k, val in fixed_raw.items():
-            fixed[k] = self._choice(k, _param_value(val, params[k][0], dps,
+            fixed[k] = self._choice(k, _param_value(val, params[k][0], vdps,
                                                     self.where(f"fixed.{k}")),
                                     self.where(f"fixed.{k}"))
 
@@ -518,7 +544,7 @@ class _Validator:
         for k, spec in axes_raw.items():
             if k in fixed:
                 raise self.err(f"axes.{k}", f"{k!r} is both fixed and an axis")
-            axes.append(self._axis(k, spec, params[k][0], dps))
+            axes.append(self._axis(k, spec, params[k][0], vdps))
 
         # grid
         combine = self._combine(raw.get("grid", {}), [a.name for a in axes])

@@ -198,3 +198,12 @@ def test_limits_of_a_source_of_your_own():
     for bad, word in (("1", "at least 2"), ("5", "at most 4")):
         with pytest.raises(InputError, match=word):
             parse_spec(text % bad, sources=reg)
+
+
+def test_expression_values_carry_the_largest_precision_a_point_asks_for():
+    # pi/8 (mpmath at 80 digits): evaluated at the study's 30 digits, a point computed at
+    # dps = 60 would have used an angle wrong from its 30th digit
+    sp = parse_spec("[study]\nname = \"t\"\nsource = \"bes\"\ndps = 30\n[fixed]\nloops = 10\ndps = 60\n"
+                    "[axes]\nangle = [\"pi/8\"]\n[tasks.analyze]\n")
+    with mpmath.workdps(80):
+        assert abs(sp.axes[0].values[0] - mpmath.pi / 8) < mpmath.mpf(10) ** -65
