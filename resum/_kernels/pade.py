@@ -994,8 +994,21 @@ def _tolerance(dps, input_digits, tol):
 
 def _finish_inexact(pb, qb, L, M, requested, v, s, sc, digits, dps, method, diag):
     """Ball polynomials of the deflated, scaled problem -> PadeApprox."""
-    p = _ball_poly_to_list(_trim_balls(pb, L, diag.get("tol", 0)), L)
-    q = _ball_poly_to_list(_trim_balls(qb, M, diag.get("tol", 0)), M)
+    pt = _trim_balls(pb, L, diag.get("tol", 0))
+    qt = _trim_balls(qb, M, diag.get("tol", 0))
+    # a trailing coefficient dropped as below the tolerance is an error of its own size: the
+    # digits claimed cannot exceed it (log(1+x)/x at [40/40] asked for 30 digits: p_40 / max|p|
+    # = 2.7e-31 was dropped and 70.7 digits claimed)
+    for full, cut in ((pb, pt), (qb, qt)):
+        co = list(full.coefficients() if hasattr(full, "coefficients") else full.coeffs())
+        kept = len(cut.coeffs())
+        if kept < len(co) and co:
+            big = max(abs(_mid(x)) for x in co)
+            gone = max(abs(_mid(x)) for x in co[kept:])
+            if big > 0 and gone > 0:
+                digits = min(digits, max(0.0, -math.log10(float(gone / big))))
+    p = _ball_poly_to_list(pt, L)
+    q = _ball_poly_to_list(qt, M)
     return _assemble(p, q, requested, v, s, sc, digits, dps, method, diag)
 
 

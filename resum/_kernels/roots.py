@@ -211,10 +211,22 @@ def poly_roots_full(coeffs, dps: int, *, input_digits: Optional[float] = None,
                 wd = int(used / 3.33)
                 with mpmath.workdps(wd):
                     hi = [mpmath.mpmathify(x) for x in reversed(c)]
-                    rs, err = mpmath.polyroots(hi, maxsteps=400, extraprec=wd, error=True)
-                for r in rs:
+                    try:
+                        rs, err = mpmath.polyroots(hi, maxsteps=400, extraprec=wd, error=True)
+                        errs = [mpmath.mpf(err) * max(1, abs(r)) for r in rs]
+                    except mpmath.libmp.NoConvergence:
+                        # a multiple root (the rounded (1 - x)^3 of a Padé denominator): the
+                        # iteration stalls; double-precision roots, whose error for a cluster
+                        # of m roots is about (1e-16)^(1/m), with a radius that covers m <= 4
+                        import numpy as np
+                        rs = [mpmath.mpc(complex(z)) for z in
+                              np.roots([complex(mpmath.mpc(x)) for x in hi])]
+                        errs = [mpmath.mpf("1e-3") * max(1, abs(r)) for r in rs]
+                        msg.append("the iteration did not converge (multiple roots): roots from double "
+                                   "precision, radii rough")
+                for r, e in zip(rs, errs):
                     roots.append(mpmath.mpc(r))
-                    radii.append(mpmath.mpf(err) * max(1, abs(r)))
+                    radii.append(e)
                     cert.append(False)
                     mult.append(1)
             if input_digits is not None:

@@ -26,6 +26,7 @@ import mpmath
 
 from .._kernels import series_ops as ops
 from ..context import DEFAULT, Context
+from ..errors import InputError
 
 __all__ = ["Series", "Coupling", "is_exact_number"]
 
@@ -44,7 +45,7 @@ def _check_number(c, k):
     if isinstance(c, complex):
         c = mpmath.mpc(c)
     if isinstance(c, (mpmath.mpf, mpmath.mpc)) and not mpmath.isfinite(c):
-        raise ValueError(f"coefficient {k} is not finite ({c}); give a finite number")
+        raise InputError(f"coefficient {k} is not finite ({c}); give a finite number")
     return c
 
 
@@ -127,13 +128,17 @@ class Series:
     provenance: Mapping = field(default_factory=dict)
 
     def __post_init__(self):
+        floats = any(isinstance(c, float) for c in self.coefficients)    # before they become mpf
         cs = tuple(_check_number(c, k) for k, c in enumerate(self.coefficients))
         object.__setattr__(self, "coefficients", cs)
         object.__setattr__(self, "provenance", dict(self.provenance))
         if not isinstance(self.start, int):
             raise TypeError("start must be an integer")
+        if self.digits is not None and (isinstance(self.digits, bool) or not isinstance(self.digits, int)
+                                        or self.digits < 1):
+            raise InputError(f"digits must be a whole number >= 1, got {self.digits!r}")
         if self.digits is None and not all(is_exact_number(c) for c in cs):
-            inferred = 15 if any(isinstance(c, float) for c in self.coefficients) else mpmath.mp.dps
+            inferred = 15 if floats else mpmath.mp.dps
             object.__setattr__(self, "digits", int(inferred))
 
     # ------------------------------------------------------------------ basics
@@ -236,7 +241,9 @@ class Series:
 
     def rescale(self, c, ctx: Optional[Context] = None) -> "Series":
         """Substitute x -> c x."""
-        with (ctx or DEFAULT).working():
+        if is_exact_number(c) and c == 1:
+            return self
+        with _working(ctx, self.digits):
             cc = c if is_exact_number(c) else mpmath.mpmathify(c)
             return self._new([a * cc ** (self.start + k) for k, a in enumerate(self.coefficients)])
 
@@ -281,7 +288,7 @@ class Series:
         hi = min(self.order, other.order)
         d = _min_digits(self.digits, other.digits)
         out = []
-        with DEFAULT.working(_extra(d)):
+        with _working(None, d):
             for p in range(lo, hi + 1):
                 v = 0
                 for s_ in (self, other):
@@ -312,7 +319,7 @@ class Series:
         lo = self.start + other.start
         a = self.coefficients
         m = min(self.n_terms, other.n_terms)
-        with DEFAULT.working(_extra(d)):
+        with _working(None, d):
             out = ops.mul(list(a), list(other.coefficients), m)
         return replace(self, coefficients=tuple(out), start=lo, digits=d)
 
@@ -324,7 +331,7 @@ class Series:
         if k0 < 0:
             raise ZeroDivisionError("reciprocal of a zero series")
         a = list(self.coefficients[k0:])
-        with (ctx or DEFAULT).working(_extra(self.digits)):
+        with _working(ctx, self.digits):
             out = ops.reciprocal(a, len(a))
         return replace(self, coefficients=tuple(out), start=-(self.start + k0))
 
@@ -332,6 +339,8 @@ class Series:
         if isinstance(other, Series):
             return self * other.reciprocal()
         other = _check_number(other, "scalar")
+        if other == 0:
+            raise InputError("division of a series by zero")
         if is_exact_number(other):
             return self._new([c / Fraction(other) if is_exact_number(c) else c / other
                               for c in self.coefficients])
@@ -340,23 +349,30 @@ class Series:
     def compose(self, inner: "Series", ctx: Optional[Context] = None) -> "Series":
         """f(inner(x)); ``inner`` must vanish at x = 0."""
         b = inner._dense_native()
-        n = min(self.order, inner.order) + 1 if inner.start + inner.leading_nonzero() <= 1 else self.order + 1
-        with (ctx or DEFAULT).working(_extra(_min_digits(self.digits, inner.digits))):
+        m = inner.start + inner.leading_nonzero()       # inner = O(x^m)
+        # f_j inner^j with the inner series known to x^N_i: its error enters at N_i + 1 + (j - 1) m
+        # (j >= 1), and f's own truncation at (N_f + 1) m
+        n = min(inner.order, (self.order + 1) * max(m, 1) - 1) + 1
+        with _working(ctx, _min_digits(self.digits, inner.digits)):
             out = ops.compose(self._dense_native(), b, n)
         return replace(self._from_native(out, digits=_min_digits(self.digits, inner.digits)),
                        variable=inner.variable)
 
     def log(self, ctx: Optional[Context] = None) -> "Series":
         """log f (needs f(0) != 0)."""
+        if not self.coefficients:
+            raise InputError(f"log of an empty series")
         a = self._dense_native()
-        with (ctx or DEFAULT).working(_extra(self.digits)):
+        with _working(ctx, self.digits):
             out = ops.log(a, len(a))
         d = self.digits if a[0] == 1 or not is_exact_number(a[0]) else (self.digits or (ctx or DEFAULT).dps)
         return self._from_native(out, digits=d)
 
     def exp(self, ctx: Optional[Context] = None) -> "Series":
+        if not self.coefficients:
+            raise InputError(f"exp of an empty series")
         a = self._dense_native()
-        with (ctx or DEFAULT).working(_extra(self.digits)):
+        with _working(ctx, self.digits):
             out = ops.exp(a, len(a))
         d = self.digits if a[0] == 0 or not is_exact_number(a[0]) else (self.digits or (ctx or DEFAULT).dps)
         return self._from_native(out, digits=d)
@@ -376,7 +392,7 @@ class Series:
         core = self._new(self.coefficients[k0:], start=0)
         d = core.derivative()
         n = core.n_terms - 1
-        with (ctx or DEFAULT).working(_extra(self.digits)):
+        with _working(ctx, self.digits):
             out = ops.div(list(d.coefficients), list(core.coefficients), n)
         lead = self.start + k0
         if lead:
@@ -386,16 +402,24 @@ class Series:
     def borel(self, b=0, ctx: Optional[Context] = None) -> "Series":
         """Borel-Le Roy transform: c_n -> c_n / Gamma(n + 1 + b) (b = 0 is Borel)."""
         ctx = ctx or DEFAULT
+        try:
+            bf = mpmath.mpmathify(b)
+        except (TypeError, ValueError):
+            raise InputError(f"b: expected a number, got {b!r}") from None
+        if isinstance(bf, mpmath.mpc) or not mpmath.isfinite(bf):
+            raise InputError(f"b: expected a finite real number, got {b!r}")
+        if bf <= -1 and bf != int(bf):
+            raise InputError(f"b = {b}: Gamma(n + 1 + b) changes sign between the poles; choose b > -1")
         a = self._dense_native()
         if is_exact_number(b) and Fraction(b).denominator == 1:
             b = int(b)
             if b < 0 and any(a[n] != 0 for n in range(min(len(a), -b))):
                 raise ValueError("Gamma(n+1+b) has poles for these n; choose b > -1")
             import math
-            out = [Fraction(c) / math.factorial(n + b) if is_exact_number(c) else c / math.factorial(n + b)
+            out = [(Fraction(c) / math.factorial(n + b) if is_exact_number(c) else c / math.factorial(n + b))
                    if n + b >= 0 else 0 for n, c in enumerate(a)]
             return self._from_native(out, name=self.name, provenance={**self.provenance, "borel_b": b})
-        with ctx.working(_extra(self.digits)):
+        with _working(ctx, self.digits):
             out = [_to_mp(c) / mpmath.gamma(n + 1 + mpmath.mpmathify(b)) for n, c in enumerate(a)]
         return self._from_native(out, digits=self.digits or ctx.dps,
                                  provenance={**self.provenance, "borel_b": str(b)})
@@ -423,8 +447,16 @@ def _min_digits(a, b):
     return min(a, b)
 
 
-def _extra(digits):
-    """Extra working digits so inexact coefficient arithmetic keeps what it has."""
+def _extra(digits, ctx=None):
+    """Extra working digits so inexact coefficient arithmetic keeps what it has (relative to
+    ``ctx``, default DEFAULT: a context of 10 digits passed explicitly still keeps a 90-digit
+    series' digits)."""
     if digits is None:
         return 0
-    return max(0, digits - DEFAULT.work_dps + 10)
+    return max(0, digits - (ctx or DEFAULT).work_dps + 10)
+
+
+def _working(ctx, digits):
+    """``ctx`` (default DEFAULT) entered with the extra digits ``digits`` need."""
+    ctx = ctx or DEFAULT
+    return ctx.working(_extra(digits, ctx))

@@ -93,6 +93,21 @@ class SourceSpec:
     truth: Optional[Callable] = None
     truth_help: str = ""
 
+    def __post_init__(self):
+        # every call of build: unknown parameters and a context beyond MAX_DPS are input errors
+        raw, names, src = self.build, {p.name for p in self.params}, self.name
+
+        def build(ctx: Optional[Context] = None, **params):
+            unknown = [k for k in params if k not in names]
+            if unknown:
+                raise InputError(f"source {src!r} has no parameter {unknown[0]!r}; known: "
+                                 f"{', '.join(sorted(names))}")
+            if ctx is not None and ctx.dps > MAX_DPS:
+                raise InputError(f"dps: {ctx.dps} digits asked; at most {MAX_DPS}")
+            return raw(ctx, **params)
+        build.__doc__ = raw.__doc__
+        object.__setattr__(self, "build", build)
+
     def check(self, **params) -> dict:
         """``params`` if every value lies within its parameter's limits (see
         :meth:`Param.check`); unknown names are left to ``build``."""
@@ -209,7 +224,8 @@ SOURCES = {
         _bes_build, _bes_truth, "F_a(g) at couplings g by a truncated matrix and quadrature"),
     "oscillator": SourceSpec(
         "oscillator", "energy levels of p^2 + x^2 + g x^4 as exact Rayleigh-Schrodinger series in g",
-        (Param("state", "int", 0, "level: 0 ground state, 1 first excited, ...", minimum=0),
+        (Param("state", "int", 0, "level: 0 ground state, 1 first excited, ...", minimum=0,
+               maximum=200),
          Param("orders", "int", 100, "number of coefficients (g^0 .. g^(orders-1)); the exact "
                                      "recursion's cost grows about like orders^4: 300 orders take "
                                      "about 8 s, 400 about 35 s",

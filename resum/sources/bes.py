@@ -963,7 +963,12 @@ def finite_coupling(g, angle="pi/4", ctx: Optional[Context] = None, digits: Opti
     inside the strip ``|Im g| < 1/4``.
     """
     ctx = ctx or DEFAULT
-    digits = ctx.dps if digits is None else int(digits)
+    if digits is not None and (isinstance(digits, bool) or not isinstance(digits, int)):
+        raise InputError(f"digits: expected a whole number, got {digits!r}")
+    if isinstance(max_size, bool) or not isinstance(max_size, int) or max_size < 16:
+        raise InputError(f"max_size: expected a whole number >= 16 (the largest truncation of the "
+                         f"kernel matrix), got {max_size!r}")
+    digits = ctx.dps if digits is None else digits
     if digits < 3:
         raise InputError(f"digits: ask for at least 3, got {digits}")
     with ctx.working(10):

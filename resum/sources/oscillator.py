@@ -52,9 +52,15 @@ __all__ = ["rs_coefficients", "series", "energy", "EnergyResult", "MAX_ORDERS"]
 MAX_ORDERS = 3000
 
 
+#: highest level offered: the recursion's table grows with the level (state 10^6 never returned)
+MAX_STATE = 200
+
+
 def _check(state, orders):
     if isinstance(state, bool) or not isinstance(state, int) or state < 0:
         raise InputError(f"state: expected a whole number >= 0, got {state!r}")
+    if state > MAX_STATE:
+        raise InputError(f"state: at most {MAX_STATE}, got {state}")
     if isinstance(orders, bool) or not isinstance(orders, int) or orders < 1:
         raise InputError(f"orders: expected a whole number >= 1, got {orders!r}")
     if orders > MAX_ORDERS:
@@ -333,10 +339,14 @@ def energy(g, state: int = 0, ctx: Optional[Context] = None, max_basis: int = 20
     ctx = ctx or DEFAULT
     if isinstance(state, bool) or not isinstance(state, int) or state < 0:
         raise InputError(f"state: expected a whole number >= 0, got {state!r}")
+    if isinstance(max_basis, bool) or not isinstance(max_basis, int) or max_basis < 24:
+        raise InputError(f"max_basis: expected a whole number >= 24, got {max_basis!r}")
+    if 2 * (state // 2) + 24 > max_basis:
+        raise InputError(f"state {state} needs a basis larger than max_basis = {max_basis}")
     with ctx.working(10):
         gv = _parse_real(g, ctx.work_dps + 10)
-        if isinstance(gv, mpmath.mpc) or gv < 0:
-            raise InputError(f"g: the spectrum is computed for real g >= 0, got {g}")
+        if isinstance(gv, mpmath.mpc) or not mpmath.isfinite(gv) or gv < 0 or gv > mpmath.mpf(10) ** 8:
+            raise InputError(f"g: the spectrum is computed for real 0 <= g <= 1e8, got {g}")
         parity = state % 2
         which = state // 2
         size = max(24, 2 * which + 24, int(1.2 * ctx.dps) + which)

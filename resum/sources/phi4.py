@@ -81,7 +81,14 @@ def closed_form(g, ctx: Optional[Context] = None):
     """
     ctx = ctx or DEFAULT
     with ctx.working():
-        g = mpmath.mpmathify(g)
+        if isinstance(g, bool):
+            raise InputError(f"g: expected a number, got {g!r}")
+        try:
+            g = mpmath.mpmathify(g)
+        except (TypeError, ValueError):
+            raise InputError(f"g: expected a number, got {g!r}") from None
+        if not mpmath.isfinite(g):
+            raise InputError(f"g: must be finite, got {g}")
         if mpmath.re(g) <= 0:
             raise InputError(f"g: the closed form needs Re g > 0, got {g}")
         y = 1 / (8 * g)
