@@ -98,10 +98,10 @@ def plot_evaluation(result, ax=None, reference: Optional[Sequence] = None, curve
             lo_y, hi_y = (min(yw) - pad, max(yw) + pad) if yw else (None, None)
             # a baseline whose error bar is wider than the window says nothing it can show:
             # it is counted in the legend instead of drawn across the figure
-            # (nor does one that sums no term at all: beyond the radius the first term is already
-            # the smallest, and "0 +- that term" is no value)
+            # (nor does one that sums no non-zero term: beyond the radius the first term is
+            # already the smallest, and "0 +- that term" is no value)
             shown = [p for p in bs if (lo_y is None or float(p.baseline.value.error) <= span)
-                     and p.baseline.n_terms > 0]
+                     and p.baseline.n_terms > 0 and p.baseline.value.value != 0]
             off = len(bs) - len(shown)
             label = "optimal truncation" + (f" ({off} off scale: error > {span:.3g})" if off else "")
             if shown:
