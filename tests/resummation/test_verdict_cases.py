@@ -22,6 +22,7 @@ import math
 from fractions import Fraction
 
 import mpmath
+import pytest
 
 from resum import Context, Series, analyze, evaluate
 from resum.estimators.strong_coupling import probe_strong_coupling
@@ -72,6 +73,7 @@ def _loggamma_series(n, digits=40):
         return Series([mpmath.mpf(mpmath.nstr(v, digits)) for v in c], digits=digits)
 
 
+@pytest.mark.slow
 def test_zero_on_the_circle_is_not_a_singularity():
     # the zero of log Gamma(1 + x) at x = 1 once came out of one differential approximant as a
     # vague "log" point 0.997(12); kept, its cut refused every x > 1
