@@ -1000,7 +1000,7 @@ def _finish_inexact(pb, qb, L, M, requested, v, s, sc, digits, dps, method, diag
     # digits claimed cannot exceed it (log(1+x)/x at [40/40] asked for 30 digits: p_40 / max|p|
     # = 2.7e-31 was dropped and 70.7 digits claimed)
     for full, cut in ((pb, pt), (qb, qt)):
-        co = list(full.coefficients() if hasattr(full, "coefficients") else full.coeffs())
+        co = list(full.coeffs())          # Arb polynomials and _MPoly alike
         kept = len(cut.coeffs())
         if kept < len(co) and co:
             big = max(abs(_mid(x)) for x in co)
