@@ -168,7 +168,8 @@ def study_pade(sizes, digit_levels, cap):
             with workdps(dps + int(3 * N) + 100):      # p = first N+1 terms of c q
                 pref = [sum(c[i - j] * qref[j] for j in range(i + 1)) for i in range(N + 1)]
             rows = []
-            for check, label in (("ball", "certified (ball)"), ("rerun", "verified by rerun")):
+            for check, label in (("ball", "certified (ball)"), ("rerun", "verified by rerun"),
+                                 ("residual", "estimated by residual")):
                 t_r, r = timed(lambda: pade(c, N, N, dps, check=check), repeat=2)
                 m_r = peak_mem(lambda: pade(c, N, N, dps, check=check))
                 d_r = min(digits(r.q, qref), digits(r.p, pref))

@@ -379,3 +379,62 @@ def test_rerun_check_singular_block_falls_back_to_ball_lu():
         assert digits_agree(r.q, q_ref) >= 40 and digits_agree(r.p, p_ref) >= 40
     with pytest.raises(ValueError):
         pade(c, 6, 6, dps=40, check="radius")
+
+
+@pytest.mark.parametrize("kind,N,L,dps", [("log", 30, 30, 30), ("log", 40, 40, 100),
+                                          ("exp", 15, 25, 30), ("random", 18, 22, 40),
+                                          ("random", 20, 20, 100)])
+def test_residual_check_estimate_is_honest_and_sharp(kind, N, L, dps):
+    # check='residual' (midpoint recursion, error from the Toeplitz residual
+    # through the Gohberg-Semencul inverse) against the *exact* Padé approximant
+    # of the same rounded input (every mpf coefficient turned into its exact
+    # Fraction; resum's exact path, itself checked against the closed form for
+    # exp above). Series: log(1+x)/x and exp(x) (closed-form coefficients) and
+    # seeded random coefficients in [-1, 1]. The estimate must not exceed the
+    # measured digits, and (it is the error itself, less one digit) must not
+    # undershoot them by more than 3.
+    c = _test_series(kind, L + N + 1, dps + 20, seed=21)
+    r = pade(c, L, N, dps, check="residual")
+    assert r.method == "fraction_residual"
+    assert r.digits >= dps
+    ex = pade([mpf_to_fraction(x) for x in c], L, N, dps)
+    assert ex.method == "exact"
+    with workdps(dps + 200):
+        got = min(digits_agree(r.p, ex.p), digits_agree(r.q, ex.q))
+    assert r.digits <= got <= r.digits + 3
+
+
+def test_residual_check_complex_lower_diagonal_and_blocks():
+    # complex coefficients (acb midpoints); L < M goes to the ball recursion
+    # (the residual check needs L >= M); a singular block falls back to the
+    # certified ball LU. References: mpmath.pade at 80 digits.
+    rng = random.Random(9)
+    with workdps(50):
+        c = [mpmath.mpc(rng.uniform(-1, 1), rng.uniform(-1, 1)) for _ in range(17)]
+    for (L, M), method in (((9, 7), "fraction_residual"), ((6, 10), "fraction")):
+        r = pade(c, L, M, 30, check="residual")
+        assert r.method == method and r.digits >= 30
+        with workdps(80):
+            p_ref, q_ref = mpmath.pade(c[:L + M + 1], L, M)
+            assert digits_agree(r.q, q_ref) >= r.digits and digits_agree(r.p, p_ref) >= r.digits
+    with workdps(80):
+        c = [mpmath.mpf(1), mpmath.mpf(0)] + [mpmath.mpf(1) / (k + 1) for k in range(2, 13)]
+        p_ref, q_ref = mpmath.pade(c, 6, 6)
+    r = pade(c, 6, 6, dps=40, check="residual")
+    assert r.method == "lu" and r.digits >= 40
+    with workdps(80):
+        assert digits_agree(r.q, q_ref) >= 40 and digits_agree(r.p, p_ref) >= 40
+
+
+def test_residual_check_input_sensitivity():
+    # input_digits: the rerun with the input moved at its 25th digit uses the
+    # same midpoint recursion; log(1+x)/x at [20/20] loses about 1.5 digits
+    # per unit of M to the Toeplitz system's conditioning (Beckermann, Numer.
+    # Math. 85 (2000) 553), so 25-digit input leaves well under 25 digits
+    c = _test_series("log", 41, 60, seed=0)
+    r = pade(c, 20, 20, 40, check="residual", input_digits=25)
+    rb = pade(c, 20, 20, 40, input_digits=25)
+    d_res = r.diagnostics["input_sensitivity_digits"]
+    d_ball = rb.diagnostics["input_sensitivity_digits"]
+    assert r.digits == pytest.approx(d_res) and d_res < 10
+    assert abs(d_res - d_ball) < 1.5
