@@ -306,6 +306,7 @@ def _rounded(c, digits):
         return Series([+_mp(v) for v in c], digits=digits)
 
 
+@pytest.mark.slow
 def test_noise_points_of_both_differential_approximants_are_screened():
     # (1 - 3x/5)^(1/2) from 80 terms rounded to 16 digits (binomial series, common practice, no
     # source): both orders of differential approximants placed three points at |x| = 1.69-1.73

@@ -113,6 +113,7 @@ def test_zero_angle_power_read_and_verified(zero_angle):
             assert p.value.error <= 1000 * abs(p.value.value - truth)
 
 
+@pytest.mark.slow
 def test_cusp_angle_strong_coupling_near_the_rim():
     # a = pi/4 (cusp anomalous dimension, ~ 2g at strong coupling: Frolov and Tseytlin,
     # hep-th/0204226): auto reads x^(1/2), and at g = 5 and 20 (|w| = 0.905, 0.975) the
@@ -134,6 +135,7 @@ def test_cusp_angle_strong_coupling_near_the_rim():
             assert p.value.error <= 1000 * abs(p.value.value - truth)
 
 
+@pytest.mark.slow
 def test_disagreeing_variants_cover_each_others_bands():
     # a = 3 pi/8 from 120 loops at g = 2: the derivative variant settles 1.4e-17 (relative) from
     # the truth, the direct one 4e-19 from it on the far side; the kept band used to reach only

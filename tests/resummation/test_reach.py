@@ -37,6 +37,7 @@ def _digits(value, truth):
         return float(-mpmath.log10(abs(value - truth) / abs(truth)))
 
 
+@pytest.mark.slow
 def test_lone_inner_pair_does_not_spoil_radius_and_map():
     # With 79 terms one method (differential approximants) used to report a pair at
     # 0.945 +- 0.202i, 3.4 % inside the radius the ratios pin to 1e-11; the radius came out

@@ -47,6 +47,7 @@ def test_top_approximant_leaving_a_plateau_stays_in_the_band(x):
     assert _digits(p.value.value, truth) >= (9 if x == "100" else 5)      # 9.7 and 5.9 measured
 
 
+@pytest.mark.slow
 def test_lone_pair_one_percent_inside_is_screened():
     # 80 terms: differential approximants alone put a pair at 0.836 +- 0.529i (|s| = 0.990)
     # while the ratios pin the radius to 1e-10; no map was chosen and x = 100 got 6.7 digits
@@ -60,6 +61,7 @@ def test_lone_pair_one_percent_inside_is_screened():
     assert _digits(p.value.value, truth) >= 15                            # 20 measured
 
 
+@pytest.mark.slow
 def test_degenerate_table_of_a_rational_function_is_fast_and_right():
     # (1 + x)^(-5/2) = ((1 - w)/(1 + w))^5 in the disk variable: the Padé denominators carry a
     # five-fold root that FLINT cannot isolate; the fallback (mpmath.polyroots) took 6 s per
@@ -85,6 +87,7 @@ def test_roots_of_a_polynomial_with_a_multiple_root():
         assert min(abs(z - r) for z in rts) < 1e-2
 
 
+@pytest.mark.slow
 def test_rational_borel_transform_verifies_at_higher_precision():
     # sum (-1)^n (n+2)!/2 x^n: its Borel transform is 1/(1+t)^3, so the Padé tables of the
     # (mapped) transform are degenerate. The sum is the Stieltjes integral
