@@ -17,6 +17,7 @@ from __future__ import annotations
 
 import hashlib
 import json
+import math
 import numbers
 from dataclasses import dataclass, field, replace
 from fractions import Fraction
@@ -224,8 +225,7 @@ class Series:
 
     def evaluate_partial(self, x, n: Optional[int] = None, ctx: Optional[Context] = None):
         """Partial sum of the first ``n`` terms at ``x``."""
-        ctx = ctx or DEFAULT
-        with ctx.working():
+        with _working(ctx, self.digits):
             x = mpmath.mpmathify(x)
             s = 0
             for k, c in enumerate(self.coefficients[: n or self.n_terms]):
@@ -280,7 +280,13 @@ class Series:
             if k >= self.n_terms:
                 return self
             cs = list(self.coefficients)
-            cs[k] = cs[k] + other
+            old = cs[k]
+            with _working(None, self.digits):
+                cs[k] = old + other
+            if self.digits is not None and not is_exact_number(old) and cs[k] != 0 and old != 0:
+                loss = float(mpmath.log10((abs(old) + abs(other)) / abs(cs[k])))
+                if loss > 0.5:
+                    return replace(self._new(cs), digits=max(1, int(math.floor(self.digits - loss))))
             return self._new(cs)
         if other.variable != self.variable:
             raise ValueError(f"variables differ: {self.variable} and {other.variable}")
@@ -288,20 +294,33 @@ class Series:
         hi = min(self.order, other.order)
         d = _min_digits(self.digits, other.digits)
         out = []
+        loss = 0.0
         with _working(None, d):
             for p in range(lo, hi + 1):
                 v = 0
+                size = 0
                 for s_ in (self, other):
                     k = p - s_.start
                     if 0 <= k < s_.n_terms:
-                        v = v + s_.coefficients[k]
+                        c = s_.coefficients[k]
+                        v = v + c
+                        if s_.digits is not None and not is_exact_number(c):
+                            size = size + abs(c)
                 out.append(v)
+                if size and v != 0:
+                    # an inexact coefficient that cancels keeps only what is left of its digits
+                    # (relative to the sum): 1.000000001 - 1 leaves 1 of 10
+                    loss = max(loss, float(mpmath.log10(size / abs(v))))
+        if d is not None and loss > 0.5:
+            d = max(1, int(math.floor(d - loss)))
         return replace(self, coefficients=tuple(out), start=lo, digits=d)
 
     __radd__ = __add__
 
     def __neg__(self):
-        return self._new([-c for c in self.coefficients])
+        # at the series' own precision: -c on an mpf rounds to mpmath's ambient precision
+        with _working(None, self.digits):
+            return self._new([-c for c in self.coefficients])
 
     def __sub__(self, other):
         return self + (-other)
@@ -312,7 +331,8 @@ class Series:
     def __mul__(self, other):
         if not isinstance(other, Series):
             other = _check_number(other, "scalar")
-            return self._new([c * other for c in self.coefficients])
+            with _working(None, self.digits):
+                return self._new([c * other for c in self.coefficients])
         if other.variable != self.variable:
             raise ValueError(f"variables differ: {self.variable} and {other.variable}")
         d = _min_digits(self.digits, other.digits)
@@ -379,7 +399,8 @@ class Series:
 
     def derivative(self) -> "Series":
         """d/dx."""
-        out = [(self.start + k) * c for k, c in enumerate(self.coefficients)]
+        with _working(None, self.digits):
+            out = [(self.start + k) * c for k, c in enumerate(self.coefficients)]
         if self.start == 0:
             return self._new(out[1:], start=0)
         return self._new(out, start=self.start - 1)

@@ -103,3 +103,33 @@ def test_pade_claims_no_more_than_a_dropped_top_coefficient_allows():
 def test_bad_source_arguments_are_input_errors(call):
     with pytest.raises(InputError):
         call()
+
+
+def test_cancelling_subtraction_keeps_only_the_digits_left():
+    # e^x and 1 + x + x^2/2 agree in their first three coefficients up to the
+    # rounding of the 30-digit e^x series... here they are made to differ at the
+    # 1e-9 level on purpose: the difference keeps 30 - 9 = 21 digits at most
+    # (relative error of a difference = sum of the absolute errors over the
+    # result: common practice, no source). The claim must hold against the
+    # exact difference computed by mpmath at 60 digits.
+    with workdps(30):
+        a = Series([mpmath.mpf(1) + mpmath.mpf("1e-9"), mpmath.mpf(1), 1 / mpmath.mpf(2)], digits=30)
+    b = Series([Fraction(1), Fraction(1), Fraction(1, 2)])
+    d = a - b
+    assert d.digits == 20
+    with workdps(60):
+        exact = (mpmath.mpf(1) + mpmath.mpf("1e-9")) - 1
+        got = mpmath.mpf(d.coefficients[0])
+        assert abs(got / exact - 1) < mpmath.mpf(10) ** -d.digits
+    # no cancellation: the digits stay; an exact zero (a - a) is not a loss
+    assert (a + b).digits == 30 and (a - a).digits == 30
+    assert (a - 1).digits == 20
+    # negation, scalar multiples and the derivative keep the series' 30 digits even where
+    # mpmath's ambient precision is 15 (-x on an mpf rounds to it); reference: mpmath at 40
+    with workdps(30):
+        t = Series([1 / mpmath.mpf(3), 2 / mpmath.mpf(7)], digits=30)
+    with workdps(15):
+        neg, tri, der = (-t).coefficients[0], (3 * t).coefficients[1], t.derivative().coefficients[0]
+    with workdps(40):
+        for got, want in ((neg, -mpmath.mpf(1) / 3), (tri, mpmath.mpf(6) / 7), (der, mpmath.mpf(2) / 7)):
+            assert abs(got / want - 1) < mpmath.mpf(10) ** -29
