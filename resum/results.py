@@ -246,6 +246,9 @@ class Estimate:
         return float(self.value)
 
     def to_dict(self) -> dict:
+        texts = self.__dict__.get("_texts")
+        if texts is not None:
+            return dict(texts)
         with workprec(self._prec()):
             dps = _dps_for_band(self)
             return {"value": num_to_str(self.value, dps), "lo": num_to_str(self.lower, dps),
@@ -255,7 +258,14 @@ class Estimate:
     def from_dict(cls, d: dict) -> "Estimate":
         texts = [str(d[k]) for k in ("value", "lo", "hi")]
         with workdps(max(len(t) for t in texts) + 10):
-            return cls(*(mpf(t) for t in texts))
+            e = cls(*(mpf(t) for t in texts))
+            same = e.value == mpf(texts[0]) and e.lower == mpf(texts[1]) and e.upper == mpf(texts[2])
+        # written back as read: the digits written depend on the band's width, which rounding
+        # to those digits can move across a whole digit (one Estimate in seven, measured), so a
+        # read-write cycle would otherwise drop a digit
+        if same:
+            object.__setattr__(e, "_texts", {"value": texts[0], "lo": texts[1], "hi": texts[2]})
+        return e
 
 
 def _real(x):

@@ -4,6 +4,7 @@ from __future__ import annotations
 import json
 import sys
 import time
+from dataclasses import replace
 from typing import Optional, Tuple
 
 from ..context import DEFAULT, Context
@@ -64,16 +65,27 @@ def context_for(series: Optional[Series], dps: Optional[int], where: str = "") -
     return Context(dps=dps)
 
 
-def note_limited_precision(series: Series) -> None:
+def note_limited_precision(series: Series) -> Optional[str]:
     """Say on stderr when a short decimal literal (``0.5``, ``1.0``) caps the default precision:
-    every band then reflects the digits it carries, which surprises anyone who meant it exactly."""
+    every band then reflects the digits it carries, which surprises anyone who meant it exactly.
+    Returns the note (the commands add it to the warnings of their JSON), or None."""
     loc = least_precise_location(series)
     if loc is None or series.digits is None or series.digits >= DEFAULT.dps:
-        return
+        return None
     n = series.digits
-    log(f"note: {loc}: the least precise coefficient carries only {n} significant "
-        f"digit{'' if n == 1 else 's'}, which limits every result; declare 'digits: N' or "
-        "'exact: true' in the file if its decimals are known better")
+    text = (f"{loc}: the least precise coefficient carries only {n} significant "
+            f"digit{'' if n == 1 else 's'}, which limits every result; declare 'digits: N' or "
+            "'exact: true' in the file if its decimals are known better")
+    log("note: " + text)
+    return text
+
+
+def with_input_notes(doc: dict, series: Series) -> dict:
+    """``doc`` with the input's precision note (see :func:`load_series`) first in its warnings."""
+    note = series.provenance.get("precision_note")
+    if note:
+        doc["warnings"] = [note] + [w for w in doc.get("warnings", []) if w != note]
+    return doc
 
 
 def load_series(path: str, dps: Optional[int] = None) -> Tuple[Series, Context]:
@@ -87,7 +99,9 @@ def load_series(path: str, dps: Optional[int] = None) -> Tuple[Series, Context]:
     if ctx.work_dps > probe.work_dps:
         s = read_series(path, ctx)
     if dps is None:
-        note_limited_precision(s)
+        note = note_limited_precision(s)
+        if note:
+            s = replace(s, provenance={**s.provenance, "precision_note": note})
     return s, ctx
 
 

@@ -7,7 +7,7 @@ from ..analysis import analyze, default_context
 from ..context import DEFAULT
 from ..errors import InputError
 from ..estimators import METHODS, validate_methods
-from ._common import (add_common_options, at_file, emit_json, load_series, log, prepare_plot_dir, stage_log,
+from ._common import (with_input_notes, add_common_options, at_file, emit_json, load_series, log, prepare_plot_dir, stage_log,
                       write_figures)
 
 HELP = "radius of convergence, singularities and growth of a series, with error bands"
@@ -59,7 +59,7 @@ def run(args) -> int:
     if args.plot is not None:
         write_figures(args.plot, lambda: write_analysis_plots(result, series, args.plot))
     if args.json:
-        emit_json(result.contract_dict())
+        emit_json(with_input_notes(result.contract_dict(), series))
     else:
         from ..report.analysis_text import render_analysis
         import sys

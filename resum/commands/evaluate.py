@@ -18,7 +18,7 @@ import os
 import sys
 
 from ..errors import InputError
-from ._common import (AT_HELP_RANGE, add_common_options, at_file, emit_json, expand_points, load_series, log,
+from ._common import (with_input_notes, AT_HELP_RANGE, add_common_options, at_file, emit_json, expand_points, load_series, log,
                       prepare_plot_dir, require_power_series, stage_log, write_figures)
 
 MIN_TERMS = 6       # resum.resummation.evaluate refuses fewer terms
@@ -179,6 +179,7 @@ def run(args) -> int:
     if args.json:
         doc = result.contract_dict()
         doc["warnings"] = list(doc["warnings"]) + failed
+        with_input_notes(doc, series)
         if reference:
             from ..report.evaluation_text import compare_reference
             from ..results import num_to_str, point_label

@@ -13,7 +13,7 @@ import re
 
 from ..errors import InputError
 from ..series.expr import evaluate_expression
-from ._common import (AT_HELP_RANGE, add_common_options, at_file, emit_json, expand_points, load_series, log,
+from ._common import (with_input_notes, AT_HELP_RANGE, add_common_options, at_file, emit_json, expand_points, load_series, log,
                       require_power_series)
 
 HELP = "strong-coupling probe: fit the asymptotic form of the resummed function, with bands"
@@ -74,7 +74,7 @@ def run(args) -> int:
     except InputError as exc:
         raise at_file(exc, args.file) from None
     if args.json:
-        emit_json(res.to_dict())
+        emit_json(with_input_notes(res.to_dict(), series))
     else:
         print(_render(res))
     return 0 if res.success else 1

@@ -271,6 +271,22 @@ def estimate_ratio(series, ctx=None, step=None):
                           f"(kappa = {mpmath.nstr(kappa, 3)}); "
                           "ratio extrapolation needs a finite radius", prep, {"kappa": kappa})
         steps = [step] if step else [1, 2]
+        # zero coefficients in the tail that are not one whole parity class: the ratios skip
+        # them and read the period as a singularity (1/(1 + x + x^2): 1, -1, 0, 1, -1, 0, ...
+        # gave a "pole at x = -1" with a 40-digit band)
+        half = len(c) // 2
+        zeros = [n for n in range(half, len(c)) if c[n] == 0]
+        if zeros:
+            par = {n % 2 for n in zeros}
+            whole_class = len(par) == 1 and all(c[n] == 0 for n in range(half, len(c))
+                                                if n % 2 == zeros[0] % 2)
+            if not whole_class:
+                return failed(method, Status.NOT_APPLICABLE,
+                              f"{len(zeros)} zero coefficients among the last {len(c) - half} "
+                              f"(at n = {', '.join(str(n) for n in zeros[:4])}{', ...' if len(zeros) > 4 else ''})"
+                              " in no simple stride: ratios would skip them and read their period "
+                              "as a singularity; the Padé and conjugate-pair methods do not", prep)
+            steps = [2]
         cands = []
         for s in steps:
             r = _ratio_step(c, s, prep.eps)

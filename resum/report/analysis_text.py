@@ -30,6 +30,12 @@ _KIND_TEXT = {
 }
 
 
+def _ordinal(k):
+    """2 -> '2nd', 3 -> '3rd', 4 -> '4th', 11 -> '11th'."""
+    suffix = "th" if 10 <= k % 100 <= 20 else {1: "st", 2: "nd", 3: "rd"}.get(k % 10, "th")
+    return f"{k}{suffix}"
+
+
 def _fmt(e):
     if e is None:
         return "-"
@@ -79,7 +85,7 @@ def _render(r, title):
         if r.borel_singularity is None:
             lines.append("  the Borel-plane singularity was not located (see the warnings)")
         elif stride > 1:
-            lines.append(f"  only every {stride}-th coefficient is non-zero: in u = {var}^{stride}, "
+            lines.append(f"  only every {_ordinal(stride)} coefficient is non-zero: in u = {var}^{stride}, "
                          f"c_n u^n with c_n ~ S A^-n {gam},  A = {_fmt(r.borel_singularity)},  "
                          f"b = {_fmt(r.borel_exponent)}")
             if m == stride:
@@ -89,9 +95,13 @@ def _render(r, title):
             else:
                 lines.append(f"  (A: nearest singularity of the Borel transform in u; A < 0 means alternating signs)")
         else:
-            lines.append(f"  c_n ~ S A^-n Gamma(n + b) with  A = {_fmt(r.borel_singularity)},  "
+            lines.append(f"  c_n ~ S A^-n {gam} with  A = {_fmt(r.borel_singularity)},  "
                          f"b = {_fmt(r.borel_exponent)}")
-            lines.append("  (A: nearest singularity of the Borel transform; A < 0 means alternating signs)")
+            if m > 1:
+                lines.append(f"  (A: nearest singularity of the Borel-Le Roy transform sum c_n t^n / Gamma({m} n + b) "
+                             "in t; A < 0 means alternating signs)")
+            else:
+                lines.append("  (A: nearest singularity of the Borel transform; A < 0 means alternating signs)")
     else:
         lines.append(f"radius of convergence in {var}: {_fmt(r.radius)}")
     if r.singularities:

@@ -1,0 +1,91 @@
+"""Combined verdicts of `analyze` on series whose singularities are known exactly.
+
+Sources: closed forms (common practice, no source): 1/(1 + x + x^2) has simple poles at the
+primitive cube roots of unity exp(+-2 pi i/3) and nothing else; x/(e^x - 1) (generating
+function of the Bernoulli numbers) has simple poles at +-2 pi i k, k >= 1, so radius 2 pi;
+1/Gamma(1 + x) is entire (reference coefficients: mpmath.taylor of mpmath.rgamma);
+(2n)!/4^n grows like 4^-n Gamma(2n + 1) exactly.
+"""
+import json
+import math
+from fractions import Fraction
+
+import mpmath
+
+from resum import Context, Series
+from resum.analysis import analyze
+from resum.cli import main
+from resum.series.io import write_series
+
+
+def _inverse(c, n):
+    """Coefficients of 1/sum c_k x^k (exact), n terms."""
+    out = []
+    for k in range(n):
+        s = Fraction(1 if k == 0 else 0) - sum((c[j] * out[k - j] for j in range(1, min(k, len(c) - 1) + 1)),
+                                               Fraction(0))
+        out.append(s / c[0])
+    return out
+
+
+def test_periodic_zero_coefficients_do_not_make_a_pole_at_minus_one():
+    # 1, -1, 0, 1, -1, 0, ...: the ratios skipped the zeros and read x = -1 as a pole
+    s = Series(_inverse([Fraction(1)] * 3, 45))
+    r = analyze(s, Context(dps=40), verify=False)
+    assert r.methods["ratio"].status.value == "not applicable"
+    assert "zero coefficients" in r.methods["ratio"].message
+    assert len(r.singularities) == 2
+    with mpmath.workdps(50):
+        want = mpmath.exp(2j * mpmath.pi / 3)
+        for sg in r.singularities:
+            assert min(abs(sg.location - want), abs(sg.location - mpmath.conj(want))) < 1e-20
+    assert r.radius.lower <= 1 <= r.radius.upper
+
+
+def test_vague_points_do_not_confirm_each_other_at_the_origin():
+    # x/(e^x - 1): one odd term (-x/2) on an even function; Padé and dlog each put a vague point
+    # near 0 whose bands overlapped, and the radius read 1.5e-32
+    s = Series(_inverse([Fraction(1, math.factorial(k + 1)) for k in range(45)], 45))
+    r = analyze(s, Context(dps=40), verify=False)
+    with mpmath.workdps(50):
+        two_pi = 2 * mpmath.pi
+        assert r.radius.lower <= two_pi <= r.radius.upper and r.radius.error < 1e-6
+        assert abs(abs(r.singularities[0].location) - two_pi) < 1e-6
+
+
+def test_pade_alone_does_not_give_an_entire_function_a_radius():
+    with mpmath.workdps(60):
+        c = mpmath.taylor(lambda t: mpmath.rgamma(1 + t), 0, 40)
+    r = analyze(Series(c, digits=50), Context(dps=50), verify=False)
+    assert r.growth == "entire-like"
+    assert not r.singularities and r.radius.value == mpmath.inf
+    assert any("Padé alone" in w for w in r.warnings)
+
+
+def test_gamma_of_twice_n_is_named_in_text_and_json(tmp_path, capsys):
+    s = Series([Fraction(math.factorial(2 * n), 4 ** n) for n in range(40)], name="g2n")
+    p = write_series(s, tmp_path / "g.json")
+    assert main(["analyze", str(p), "--no-verify"]) == 0
+    out = capsys.readouterr().out
+    assert "Gamma(2 n + b)" in out and "Gamma(n + b)" not in out
+    assert main(["analyze", str(p), "--no-verify", "--json"]) == 0
+    doc = json.loads(capsys.readouterr().out)
+    assert doc["borel"]["gamma_multiple"] == "2" and doc["borel"]["stride"] == "1"
+    a = doc["borel"]["A"]
+    assert mpmath.mpf(a["lo"]) <= 4 <= mpmath.mpf(a["hi"])
+    # every method's radius as decimal strings (the JSON contract), value(error) text beside it
+    for m in doc["methods"].values():
+        assert m["radius"] is None or set(m["radius"]) == {"value", "lo", "hi"}
+
+
+def test_short_decimals_note_is_in_the_json_warnings(tmp_path, capsys):
+    # 1/sqrt(1 - x) written with as few decimals as each needs (0.5, 0.375, ...): the
+    # precision note goes to stderr and into the JSON warnings
+    lines = [str(float(Fraction(math.comb(2 * n, n), 4 ** n))) for n in range(30)]
+    p = tmp_path / "d.txt"
+    p.write_text("\n".join(lines) + "\n")
+    assert main(["analyze", str(p), "--no-verify", "--json"]) == 0
+    cap = capsys.readouterr()
+    doc = json.loads(cap.out)
+    assert "least precise coefficient" in doc["warnings"][0] and "d.txt" in doc["warnings"][0]
+    assert "least precise coefficient" in cap.err
