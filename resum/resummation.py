@@ -565,7 +565,18 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
     chosen = cmap if cmap is not None else (choose_map(sings) if sings else None)
     if method == "auto":
         if radius is not None and all(abs(x) < radius / 4 for x in xs):
-            return _Plan("partial-sum", why=f"all points inside a quarter of the radius {mpmath.nstr(radius, 8)}")
+            plan = _Plan("partial-sum", why=f"all points inside a quarter of the radius {mpmath.nstr(radius, 8)}")
+            if mpmath.isinf(radius) and not _partial_sums_settle(c, xs):
+                # an entire function far out (exp(-x) from 60 terms at x = 30: the terms peak at
+                # 1e12 and the last is 1e6): partial sums cannot settle, an exact equation can
+                eq = _follow_equation(series, c, ctx, an)
+                if eq is not None:
+                    return _Plan("ode", why="entire-like series, partial sums cannot settle at every point; "
+                                            "the series obeys a linear differential equation exactly (checked on "
+                                            "every coefficient), followed along the straight line from 0",
+                                 fallback=plan, input_digits=series.digits,
+                                 coefficients_at=_exact_source(series), equation_shape=equation_shape(eq))
+            return plan
         if cmap is None and _only_poles(sings):
             # a meromorphic function (as far as the analysis sees): Padé approximants represent
             # poles exactly, and a conformal map would cut the plane where the function has none
@@ -594,11 +605,25 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
                          equation_shape=equation_shape(eq))
         return other
     if chosen is None:
-        raise InputError(f"{method} needs singularities to build a map and none were found; "
-                         "give singularities=[...] or a map", where="method")
+        raise InputError(f"{method} needs singularities to build a map and the analysis found none "
+                         "(a factorially divergent or entire-like series has no finite ones): use "
+                         "the default method, a Borel method or pade (from Python, "
+                         "evaluate(..., singularities=[...]) or map=... gives them)", where="method")
     a, note, from_w = _rim_alpha(chosen, alpha, large_x_power, c, ctx, series.digits)
     return _Plan(method, chosen, alpha=a, alpha_from_w=from_w, why=f"map: {chosen.describe()}{note}",
                  singularities=_locations(sings))
+
+
+def _partial_sums_settle(c, xs) -> bool:
+    """Whether the last term is far below the largest at every point (1e-20 of it)."""
+    n = len(c) - 1
+    for x in xs:
+        ax = abs(mpmath.mpmathify(x))
+        terms = [abs(v) * ax ** k for k, v in enumerate(c) if v != 0]
+        last = next((abs(c[k]) * ax ** k for k in range(n, -1, -1) if c[k] != 0), 0)
+        if terms and last > mpmath.mpf("1e-20") * max(terms):
+            return False
+    return True
 
 
 def _resolved_pole_radius(c, dps):

@@ -48,8 +48,9 @@ __all__ = ["conformal_evaluate", "derivative_evaluate", "mapped_coefficients", "
 
 
 #: what to do about a point on the cut, appended to the refusal (one line)
-ON_CUT_ADVICE = ("; to pick a side of the cut, give the point a small imaginary part (for example add "
-                 "1e-6*I), or, if the function has no cut there, choose another method with --method")
+ON_CUT_ADVICE = ("; to pick a side of the cut, move the point slightly off it (for example add 1e-6*I "
+                 "to a point on a cut along the real axis, 1e-6 to one on a vertical cut), or, if the "
+                 "function has no cut there, choose another method with --method")
 
 
 def _times_rim(cw: Sequence, alpha, rim) -> list:
@@ -261,12 +262,18 @@ def _across_cut(cmap, x) -> bool:
     """The map jumps across ``x`` (a point on a cut), as opposed to being continuous there with
     ``|w|`` merely at the rim to the working precision: the images of ``x (1 +- 1e-8 i)``."""
     x = mpmath.mpmathify(x)
-    d = mpmath.mpc(0, "1e-8") * (abs(x) if x != 0 else 1)
-    try:
-        up, down = cmap.w_of_x(x + d), cmap.w_of_x(x - d)
-    except (ZeroDivisionError, ValueError):
-        return True
-    return bool(abs(up - down) > mpmath.mpf("1e-4"))
+    size = abs(x) if x != 0 else 1
+    # both across a horizontal and across a vertical cut (a pair of complex cuts runs
+    # vertically: 1/(1 + x + x^2)^(1/3) at x = -0.5 + 2i, on the upper cut, was moved along it
+    # by an imaginary step and called "at the rim")
+    for d in (mpmath.mpc(0, "1e-8") * size, mpmath.mpf("1e-8") * size):
+        try:
+            up, down = cmap.w_of_x(x + d), cmap.w_of_x(x - d)
+        except (ZeroDivisionError, ValueError):
+            return True
+        if abs(up - down) > mpmath.mpf("1e-4"):
+            return True
+    return False
 
 
 def conformal_evaluate(c: Sequence, xs: Sequence, cmap: ConformalMap, dps: int, *, alpha=None,

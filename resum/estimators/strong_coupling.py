@@ -344,7 +344,7 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
                 hi = max(p_est.upper, last, p_mp)
                 lp = Estimate(p_est.value, lo, hi)
                 source = (f"log-derivative {mpmath.nstr(p_est.value, 6)}, not settled (last secant "
-                          f"{mpmath.nstr(last, 6)}); the fits with power {_frac_or(p_mp)} do not match")
+                          f"{mpmath.nstr(last, 6)}); the fits with power {_short_power(p_mp)} do not match")
         labels = []
         for m in ok:
             for pw, lg in m["basis"]:
@@ -416,7 +416,9 @@ def _compare(coeffs, expected, warnings, exact_polynomial=False) -> dict:
         else:
             inside = e.contains(ev)
             comparison[lab] = {"expected": ev, "inside": inside,
-                               "sigma": (e.value - ev) / e.error if e.error else (0 if inside else mpmath.inf)}
+                               # distance in half-widths: two significant digits say it
+                               "sigma": mpmath.mpf(mpmath.nstr((e.value - ev) / e.error, 2)) if e.error
+                               else (0 if inside else mpmath.inf)}
         if e is None and not exact_polynomial:
             warnings.append(f"{lab}: expected {mpmath.nstr(ev, 12)}, but no fit carries this term (fitted: "
                             f"{', '.join(found) or 'none'})")
@@ -467,6 +469,12 @@ def _polynomial_result(series, c, deg, gs, ctx, var, expected, n_terms_fit, log_
                                 f"exact polynomial of degree {deg} in {series.variable}", tuple(coeffs),
                                 comparison, tuple(warnings), {"how": how, "resummation_method": "exact polynomial"},
                                 prov)
+
+
+def _short_power(pw):
+    """A power for messages: the fraction it is (to 1e-12), or its leading 8 digits."""
+    f = _frac_or(pw)
+    return f if not isinstance(f, mpmath.mpf) else mpmath.nstr(f, 8)
 
 
 def _frac_or(pw):

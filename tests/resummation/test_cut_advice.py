@@ -18,7 +18,7 @@ def test_point_on_the_cut_gets_advice_on_one_line():
     bad, good = res.points
     assert not bad.success and good.success
     assert "lies on the cut of the map" in bad.message
-    assert "small imaginary part" in bad.message and "--method" in bad.message
+    assert "slightly off it" in bad.message and "1e-6*I" in bad.message and "--method" in bad.message
     assert "\n" not in bad.message
     assert "imaginary part" not in good.message
 
@@ -32,3 +32,17 @@ def test_following_the_advice_gives_the_side_of_the_cut():
         truth = mpmath.power(1 + mpmath.mpc(-2, mpmath.mpf("1e-6")), -mpmath.mpf(1) / 3)
         assert p.value.contains(truth.real) and p.imag.contains(truth.imag)
         assert abs(p.value.value - truth.real) < 1e-5      # the upper side: 1/2 - i sqrt(3)/2
+
+
+def test_point_on_a_vertical_cut_is_called_on_the_cut_not_at_the_rim():
+    # (1 + x + x^2)^(-1/3): branch points at exp(+-2 pi i/3) (common practice, no source); the
+    # map's two cuts run from them along Re x = -1/2, and -1/2 + 2i lies on the upper one. A
+    # step along the cut (imaginary) saw no jump and called the point "at the rim".
+    with workdps(50):
+        c = mpmath.taylor(lambda t: (1 + t + t * t) ** (-mpmath.mpf(1) / 3), 0, 40)
+    from resum import Series
+    res = evaluate(Series(c, digits=45), ["-0.5+2*I"], Context(dps=30), method="conformal-pade",
+                   verify=False)
+    p = res.points[0]
+    assert not p.success
+    assert "lies on the cut of the map" in p.message and "rim" not in p.message

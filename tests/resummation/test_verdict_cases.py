@@ -160,3 +160,33 @@ def test_far_points_do_not_hang_the_walk_and_are_not_put_on_a_cut():
         assert not p.success and p.value is None
         assert "maps to the rim of the disk" in p.message and "on the cut" not in p.message
     assert sum("too far out for the walk" in w for w in r.warnings) == 2
+
+
+def test_repeated_approximants_of_an_odd_series_do_not_shrink_the_band():
+    # Stirling's series (DLMF 5.11.1), 80 terms, plain Padé at x = 1 and 2 (z = 1, 1/2): the
+    # [2k+1/2k], [2k+1/2k+1] and [2k+2/2k+1] approximants of an odd series are one function;
+    # counted three times they made the spread zero and the bands missed log Gamma by 1.2 and
+    # 2 half-widths. Truth: mpmath.loggamma.
+    c = [Fraction(0)] * 80
+    for k in range(1, 41):
+        if 2 * k - 1 < 80:
+            c[2 * k - 1] = _bernoulli(2 * k) / (2 * k * (2 * k - 1))
+    r = evaluate(Series(c), ["1", "2"], Context(dps=30), method="pade")
+    with mpmath.workdps(40):
+        for p in r.points:
+            z = 1 / mpmath.mpf(p.at)
+            truth = mpmath.loggamma(z) - (z - mpmath.mpf(1) / 2) * mpmath.log(z) + z - mpmath.log(2 * mpmath.pi) / 2
+            assert p.value.contains(truth)
+            assert p.value.digits() > 2
+
+
+def test_entire_series_far_out_follows_its_equation():
+    # exp(-x) = sum (-x)^k / k!: from 60 terms at x = 30 the partial sums cannot settle (terms up
+    # to 1e12, the last 1e6); auto follows the equation f' = -f instead. Truth: mpmath.exp.
+    s = Series([Fraction((-1) ** k, math.factorial(k)) for k in range(60)])
+    r = evaluate(s, ["30", "1"], Context(dps=30))
+    assert r.provenance.method.startswith("ode")
+    with mpmath.workdps(40):
+        for p in r.points:
+            assert p.value.contains(mpmath.exp(-mpmath.mpf(p.at)))
+        assert r.points[0].value.digits() > 15
