@@ -313,6 +313,8 @@ def _combine_group(g, warnings, exact=frozenset()):
         # that miss its band are biased (confluent terms, background), not evidence against it
         e = min(ex, key=_err)
         kind = classify_kind(e.exponent) if e.exponent is not None else e.kind
+        if e.kind == "branch-log" and kind == "branch":
+            kind = "branch-log"          # the equation's indicial roots say so (a double root)
         note = (f"location and exponent from {e.method} (an equation the series obeys exactly); "
                 f"found by {', '.join(s.method for s in g)}")
         return Singularity(e.re, e.im, kind, e.exponent, e.method, note), [s.method for s in g]
@@ -811,8 +813,9 @@ def _verify(series, ctx, names, base, warnings, progress=None):
                 d["exponent_digits_agree"] = digits_agree(ex.value, m.exponent.value)
                 ex = _widen(ex, m.exponent, factor)
             per.append(d)
+            k2 = classify_kind(ex) if ex is not None else s.kind
             new.append(replace(s, re=re, im=im, exponent=ex,
-                               kind=classify_kind(ex) if ex is not None else s.kind))
+                               kind="branch-log" if s.kind == "branch-log" and k2 == "branch" else k2))
         sings = new
         entry["singularities"] = per
         if r2["growth"] != base["growth"]:

@@ -89,3 +89,21 @@ def test_short_decimals_note_is_in_the_json_warnings(tmp_path, capsys):
     doc = json.loads(cap.out)
     assert "least precise coefficient" in doc["warnings"][0] and "d.txt" in doc["warnings"][0]
     assert "least precise coefficient" in cap.err
+
+
+def test_double_indicial_root_is_a_branch_point_with_logarithm():
+    # log(1 - x) (1 - x)^(-1/2) (exact product of the two series): the exact second-order
+    # equation has the double indicial root -1/2 at x = 1, which forces a logarithm
+    # (Frobenius' method: common practice, no source)
+    n = 50
+    lg = [Fraction(0)] + [Fraction(-1, k) for k in range(1, n)]
+    bi = [Fraction(math.comb(2 * k, k), 4 ** k) for k in range(n)]
+    c = [sum((lg[j] * bi[k - j] for j in range(k + 1)), Fraction(0)) for k in range(n)]
+    r = analyze(Series(c), Context(dps=40), verify=False)
+    s0 = r.singularities[0]
+    assert abs(s0.location - 1) < 1e-20
+    assert s0.kind == "branch-log"
+    assert s0.exponent.contains(mpmath.mpf(-1) / 2)
+    # the pure power keeps the kind "branch": (1 - x)^(-1/2)
+    r2 = analyze(Series(bi), Context(dps=40), verify=False)
+    assert r2.singularities[0].kind == "branch"

@@ -349,6 +349,32 @@ def exact_exponents(Q, K, roots, dps, homogeneous=False):
     return out
 
 
+def _mark_log_points(sings, Q, dps):
+    """Kind ``branch-log`` at regular singular points of an exact second-order equation whose
+    indicial equation has a double root: the second Frobenius solution then carries
+    ``log(x - x_c)`` (common practice, no source: Frobenius' method), e.g.
+    ``log(1 - x) (1 - x)^(-1/2)``, whose equation ``(1 - x)^2 f'' - 2 (1 - x) f' + f/4 = 0``
+    has the double root -1/2 at x = 1. A non-integer exponent keeps the kind ``branch-log``; an
+    integer one is left to :func:`classify_kind` (``log`` or ``pole``)."""
+    from dataclasses import replace
+    tol = mpmath.mpf(10) ** (-min(dps // 4, 12))
+    out = []
+    for sg in sings:
+        z = sg.location
+        a = polyval_many(polyder(polyder(Q[2])), [z], dps)[0] / 2
+        q2 = polyval_many(Q[2], [z], dps)[0]
+        dq2 = polyval_many(polyder(Q[2]), [z], dps)[0]
+        scale = max(abs(a), mpmath.mpf(1))
+        if a != 0 and abs(q2) <= tol * scale and abs(dq2) <= tol * scale and sg.kind == "branch":
+            b = polyval_many(polyder(Q[1]), [z], dps)[0]
+            c0 = polyval_many(Q[0], [z], dps)[0]
+            disc = (b - a) ** 2 - 4 * a * c0
+            if abs(disc) <= tol * max(abs(b - a) ** 2, abs(4 * a * c0), mpmath.mpf(1)):
+                sg = replace(sg, kind="branch-log")
+        out.append(sg)
+    return out
+
+
 #: first order, exponent 0: the zero of Q_1 is a logarithmic point of the approximant only if
 #: the log's coefficient -P(z)/Q_1'(z) is at least this fraction of the function's size there
 APPARENT_LOG = mpmath.mpf("1e-6")
@@ -574,6 +600,8 @@ def estimate_diffapprox(series, ctx=None, order=1, count=16, max_radius_factor=2
         if probed and ens and not exact_eq:
             diag["note"] = ("the highest orders are ill-conditioned at this precision; lower orders were used "
                             "(more digits would use more terms)")
+        if exact_eq and K == 2:
+            sings = _mark_log_points(sings, exact_eq[0][2], prep.dps)
         if K == 2:
             # a zero of Q_2 with exponents 0 and a positive integer is usually an apparent
             # singularity of the approximating equation, not of f
