@@ -129,9 +129,10 @@ def _render(r, title):
         eq = (m.diagnostics or {}).get("equation") if m.success else None
         if eq:
             lines.append("")
-            lines.append(f"the series obeys exactly ({name}, checked on every coefficient beyond those fitted; "
-                         f"f = the series in x, coefficients as rationals where they match to the working "
-                         "digits):")
+            lines.append(f"the series obeys, to the working precision ({name}, checked on every coefficient "
+                         "beyond those fitted; f = the series in x, coefficients as rationals where they match "
+                         "to the working digits; decimal coefficients usually mean a function with more "
+                         "singular points than this equation, the farther ones below the precision's reach):")
             lines.append(f"  {eq}")
             break
     ver = d.get("verification") or {}
