@@ -294,7 +294,9 @@ def estimate_ratio(series, ctx=None, step=None):
                 rel = r["mu_s_half"] / abs(r["mu_s"])
                 cands.append((rel, r))
         if not cands:
-            return failed(method, Status.TOO_FEW_TERMS, "too few usable ratios (zero coefficients?)", prep)
+            why = (f"the coefficients carry only {prep.digits} digit{'s' if prep.digits != 1 else ''}"
+                   if prep.digits is not None and prep.digits < 6 else "zero coefficients?")
+            return failed(method, Status.TOO_FEW_TERMS, f"too few usable ratios ({why})", prep)
         cands.sort(key=lambda t: t[0])
         rel, r = cands[0]
         s = r["step"]
