@@ -21,7 +21,7 @@ BAND_MEANING = (
     "What the band means: the value is the median of the three highest-order approximants; the band is "
     "4 x the larger of their spread and the error extrapolated from how fast lower orders approach the "
     "value, never below the quadrature error and the working precision, widened to cover a rerun at "
-    "higher precision (inexact coefficients moved by one unit in their last digit). A rerun with fewer "
+    "higher precision (inexact coefficients moved by 10^-digits relative, up to a unit in their last digit). A rerun with fewer "
     "terms must reach the value within its own band. For a conformal map, a point closer to the rim of "
     "the disk than 1/(terms) has its band widened by 1/((1 - |w|) x terms). It is an estimate, not a "
     "proof. Optimal truncation sums up to the smallest term; its band is +- that term.")
