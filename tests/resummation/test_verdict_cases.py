@@ -190,3 +190,19 @@ def test_entire_series_far_out_follows_its_equation():
         for p in r.points:
             assert p.value.contains(mpmath.exp(-mpmath.mpf(p.at)))
         assert r.points[0].value.digits() > 15
+
+
+def test_rounded_coefficients_followed_by_their_equation_keep_the_truth_in_band():
+    # (1 + x + x^2)^(-1/3) (common practice, no source), 60 coefficients rounded to 25 digits,
+    # method ode: the band's rounding part is one rerun's move (10^-25 relative per
+    # coefficient); with the factor 2 of the approximant methods the truth lay 1.4 and 2.7
+    # half-widths outside at x = 10 and 1000. Truth: mpmath.
+    with mpmath.workdps(60):
+        exact = mpmath.taylor(lambda t: (1 + t + t * t) ** (-mpmath.mpf(1) / 3), 0, 59)
+        c = [mpmath.mpf(mpmath.nstr(v, 25)) for v in exact]
+    r = evaluate(Series(c, digits=25), ["10", "1000"], Context(dps=25), method="ode")
+    with mpmath.workdps(60):
+        for p in r.points:
+            x = mpmath.mpf(p.at)
+            assert p.value.contains((1 + x + x * x) ** (-mpmath.mpf(1) / 3))
+            assert p.value.digits() > 20
