@@ -344,7 +344,8 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
                 hi = max(p_est.upper, last, p_mp)
                 lp = Estimate(p_est.value, lo, hi)
                 source = (f"log-derivative {mpmath.nstr(p_est.value, 6)}, not settled (last secant "
-                          f"{mpmath.nstr(last, 6)}); the fits with power {_short_power(p_mp)} do not match")
+                          f"{mpmath.nstr(last, 6)}); the fits with power {_short_power(p_mp)} do not match; "
+                          "the band spans what the values show, the limit may lie outside it")
         labels = []
         for m in ok:
             for pw, lg in m["basis"]:
