@@ -107,3 +107,13 @@ def test_double_indicial_root_is_a_branch_point_with_logarithm():
     # the pure power keeps the kind "branch": (1 - x)^(-1/2)
     r2 = analyze(Series(bi), Context(dps=40), verify=False)
     assert r2.singularities[0].kind == "branch"
+
+
+def test_double_pole_band_covers_the_split_of_the_root():
+    # (1 - x)^-2 = sum (n + 1) x^n (common practice, no source): a double pole at 1. Its Padé
+    # denominators have the double root, which rounding splits by about eps^(1/2); the Padé
+    # method's band must cover the split (it was 1e-39 around 1 - 3.9e-34 + 1.3e-26 i).
+    r = analyze(Series([n + 1 for n in range(60)]), Context(dps=40), methods=["pade"], verify=False)
+    s0 = r.methods["pade"].singularities[0]
+    assert s0.kind == "pole" and s0.exponent.value == -2
+    assert s0.re.contains(1) and s0.im.contains(0)

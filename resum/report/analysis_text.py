@@ -129,10 +129,13 @@ def _render(r, title):
         eq = (m.diagnostics or {}).get("equation") if m.success else None
         if eq:
             lines.append("")
+            decimals = any(ch.isdigit() and "." in tok for tok in eq.replace("[", " ").replace("]", " ").split()
+                           for ch in tok[:1])
             lines.append(f"the series obeys, to the working precision ({name}, checked on every coefficient "
                          "beyond those fitted; f = the series in x, coefficients as rationals where they match "
-                         "to the working digits; decimal coefficients usually mean a function with more "
-                         "singular points than this equation, the farther ones below the precision's reach):")
+                         "to the working digits" + ("; decimal coefficients usually mean a function with more "
+                                                    "singular points than this equation, the farther ones below "
+                                                    "the precision's reach" if decimals else "") + "):")
             lines.append(f"  {eq}")
             break
     ver = d.get("verification") or {}
