@@ -367,13 +367,14 @@ def test_rerun_check_complex_and_off_diagonal():
             assert digits_agree(r.q, q_ref) >= r.digits and digits_agree(r.p, p_ref) >= r.digits
 
 
-def test_rerun_check_singular_block_falls_back_to_ball_lu():
+@pytest.mark.parametrize("check", ["rerun", "residual"])
+def test_check_singular_block_falls_back_to_ball_lu(check):
     # the same c_1 = 0 series as above: the recursion stops at its first step
     # and the certified ball LU takes over; reference: mpmath.pade at 80 digits
     with workdps(80):
         c = [mpmath.mpf(1), mpmath.mpf(0)] + [mpmath.mpf(1) / (k + 1) for k in range(2, 13)]
         p_ref, q_ref = mpmath.pade(c, 6, 6)
-    r = pade(c, 6, 6, dps=40, check="rerun")
+    r = pade(c, 6, 6, dps=40, check=check)
     assert r.method == "lu" and r.digits >= 40
     with workdps(80):
         assert digits_agree(r.q, q_ref) >= 40 and digits_agree(r.p, p_ref) >= 40
@@ -404,10 +405,9 @@ def test_residual_check_estimate_is_honest_and_sharp(kind, N, L, dps):
     assert r.digits <= got <= r.digits + 3
 
 
-def test_residual_check_complex_lower_diagonal_and_blocks():
+def test_residual_check_complex_and_lower_diagonal():
     # complex coefficients (acb midpoints); L < M goes to the ball recursion
-    # (the residual check needs L >= M); a singular block falls back to the
-    # certified ball LU. References: mpmath.pade at 80 digits.
+    # (the residual check needs L >= M). References: mpmath.pade at 80 digits.
     rng = random.Random(9)
     with workdps(50):
         c = [mpmath.mpc(rng.uniform(-1, 1), rng.uniform(-1, 1)) for _ in range(17)]
@@ -417,13 +417,6 @@ def test_residual_check_complex_lower_diagonal_and_blocks():
         with workdps(80):
             p_ref, q_ref = mpmath.pade(c[:L + M + 1], L, M)
             assert digits_agree(r.q, q_ref) >= r.digits and digits_agree(r.p, p_ref) >= r.digits
-    with workdps(80):
-        c = [mpmath.mpf(1), mpmath.mpf(0)] + [mpmath.mpf(1) / (k + 1) for k in range(2, 13)]
-        p_ref, q_ref = mpmath.pade(c, 6, 6)
-    r = pade(c, 6, 6, dps=40, check="residual")
-    assert r.method == "lu" and r.digits >= 40
-    with workdps(80):
-        assert digits_agree(r.q, q_ref) >= 40 and digits_agree(r.p, p_ref) >= 40
 
 
 def test_residual_check_input_sensitivity():
