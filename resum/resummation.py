@@ -616,12 +616,10 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
 
 def _partial_sums_settle(c, xs) -> bool:
     """Whether the last term is far below the largest at every point (1e-20 of it)."""
-    n = len(c) - 1
     for x in xs:
         ax = abs(mpmath.mpmathify(x))
         terms = [abs(v) * ax ** k for k, v in enumerate(c) if v != 0]
-        last = next((abs(c[k]) * ax ** k for k in range(n, -1, -1) if c[k] != 0), 0)
-        if terms and last > mpmath.mpf("1e-20") * max(terms):
+        if terms and terms[-1] > mpmath.mpf("1e-20") * max(terms):      # the last non-zero term
             return False
     return True
 

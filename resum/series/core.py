@@ -283,10 +283,9 @@ class Series:
             old = cs[k]
             with _working(None, self.digits):
                 cs[k] = old + other
-            if self.digits is not None and not is_exact_number(old) and cs[k] != 0 and old != 0:
-                loss = float(mpmath.log10((abs(old) + abs(other)) / abs(cs[k])))
-                if loss > 0.5:
-                    return replace(self._new(cs), digits=max(1, int(math.floor(self.digits - loss))))
+            if self.digits is not None and not is_exact_number(old) and old != 0:
+                return replace(self._new(cs), digits=_digits_left(self.digits, _cancellation(
+                    abs(old) + abs(other), cs[k])))
             return self._new(cs)
         if other.variable != self.variable:
             raise ValueError(f"variables differ: {self.variable} and {other.variable}")
@@ -307,13 +306,8 @@ class Series:
                         if s_.digits is not None and not is_exact_number(c):
                             size = size + abs(c)
                 out.append(v)
-                if size and v != 0:
-                    # an inexact coefficient that cancels keeps only what is left of its digits
-                    # (relative to the sum): 1.000000001 - 1 leaves 1 of 10
-                    loss = max(loss, float(mpmath.log10(size / abs(v))))
-        if d is not None and loss > 0.5:
-            d = max(1, int(math.floor(d - loss)))
-        return replace(self, coefficients=tuple(out), start=lo, digits=d)
+                loss = max(loss, _cancellation(size, v))
+        return replace(self, coefficients=tuple(out), start=lo, digits=_digits_left(d, loss))
 
     __radd__ = __add__
 
@@ -458,6 +452,23 @@ def _short_exact(c) -> str:
     if big < 3000:
         return str(c)
     return f"<exact, about {big * 30103 // 100000} digits>"
+
+
+def _cancellation(size, v) -> float:
+    """Decimal digits lost when terms of total size ``size`` (their absolute values) sum to
+    ``v``: an inexact coefficient that cancels keeps only what is left of its digits (relative to
+    the sum; 1.000000001 - 1 leaves 1 of 10). 0 for no inexact term or an exact zero."""
+    if not size or v == 0:
+        return 0.0
+    return max(0.0, float(mpmath.log10(size / abs(v))))
+
+
+def _digits_left(d, loss):
+    """``d`` digits less a cancellation of ``loss`` digits (at least 1; losses under half a
+    digit ignored)."""
+    if d is None or loss <= 0.5:
+        return d
+    return max(1, int(math.floor(d - loss)))
 
 
 def _min_digits(a, b):
