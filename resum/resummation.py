@@ -1277,6 +1277,8 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                 im = None
             if not o.ok or re is None:
                 status, success, msg = Status.NOT_CONVERGED, False, o.reason or "no stable approximants"
+                if o.info.get("cut_hint"):
+                    msg += "; " + o.info["cut_hint"]
                 n_fail += 1
             else:
                 agree = {}
@@ -1380,6 +1382,9 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                     msg = (f"the band [{mpmath.nstr(re.lower, 2)}, {mpmath.nstr(re.upper, 2)}] supports no "
                            "significant digit (more terms or another method, --method, may help; if the "
                            "function vanishes near this point, the band is still an absolute error estimate)")
+                    if o.info.get("cut_hint"):
+                        msg = (f"the band [{mpmath.nstr(re.lower, 2)}, {mpmath.nstr(re.upper, 2)}] supports no "
+                               f"significant digit: {o.info['cut_hint']}")
                     n_fail += 1
                     warnings.append(f"at {mpmath.nstr(a, 10)}: {msg}")
             p_method = o.info.get("method", plan.method)

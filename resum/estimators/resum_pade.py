@@ -105,11 +105,57 @@ def pade_evaluate(c: Sequence, zs: Sequence, dps: int, *, n_orders: int = 7,
             table[j][i] = post(j, v) if post else v
     ns = [o[0] for o in orders]
     outs = outcomes_from_table(table, ns, safety=safety)
+    _mark_cut_points(fits, zs, outs, dps, keep_poles_beyond)
     for j, o in enumerate(outs):
         o.info["dropped_for_poles"] = dropped[j]
         o.info["orders"] = [f"[{L}/{M}]" for _, L, M in orders]
         o.info["values"] = [None if v is None else mpmath.nstr(v, 45) for v in table[j]]
     return outs, {"n_singular_systems": singular, "orders": [list(o) for o in orders]}
+
+
+def _poor(o) -> bool:
+    """No result, or a band wider than a tenth of the value."""
+    if not o.ok or o.re is None:
+        return True
+    return o.re.error > abs(o.re.value) / 10
+
+
+def _mark_cut_points(fits, zs, outs, dps, keep_poles_beyond=None):
+    """Where the approximants gave no usable value at a real point, say whether the point
+    lies among the real poles of the approximant with the most terms: poles on both sides of
+    it on the same half-axis, the nearest closer than half the point's distance from 0. That
+    is how Padé approximants trace a branch cut (common practice, no source; Baker and
+    Graves-Morris ch. 6), where the function's value depends on the side the point is
+    approached from. Sets ``info["cut_hint"]`` (a sentence) on those outcomes. The roots are
+    computed only when a real point failed (they cost more than the evaluation)."""
+    poor = [j for j, (z, o) in enumerate(zip(zs, outs))
+            if _poor(o) and not isinstance(z, mpmath.mpc) and z != 0
+            and (keep_poles_beyond is None or abs(z) < keep_poles_beyond)]
+    if not poor or not fits:
+        return
+    r = max(fits, key=lambda f: len(f[1].p) + len(f[1].q))[1]
+    if len(r.q) < 3:
+        return
+    try:
+        poles = [complex(p) for p in r.poles(min(dps, 30))]
+    except Exception:  # noqa: BLE001 - a hint only; no roots, no hint
+        return
+    real = [p.real for p in poles if abs(p.imag) <= 1e-8 * max(abs(p), 1e-300)]
+    for j in poor:
+        z = float(zs[j])
+        side = [p for p in real if p * z > 0]
+        below = [p for p in side if abs(p) < abs(z)]
+        above = [p for p in side if abs(p) > abs(z)]
+        if len(below) < 2 or not above:
+            continue
+        if min(abs(p - z) for p in side) > abs(z) / 2:
+            continue
+        start = min(below, key=abs)
+        outs[j].info["cut_hint"] = (
+            f"the approximants' poles line the real axis around x = {mpmath.nstr(zs[j], 6)} (from about "
+            f"{start:.4g} outwards, {len(below)} of them between 0 and the point): it most likely lies on a branch "
+            "cut, where the value depends on the side; add a small imaginary part (for example 1e-6*I) "
+            "to pick one, or try --method conformal-pade")
 
 
 #: Pellet's test is tried for up to this many roots in a disk

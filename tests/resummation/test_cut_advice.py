@@ -46,3 +46,24 @@ def test_point_on_a_vertical_cut_is_called_on_the_cut_not_at_the_rim():
     p = res.points[0]
     assert not p.success
     assert "lies on the cut of the map" in p.message and "rim" not in p.message
+
+
+def test_pade_on_a_cut_says_so_and_a_meromorphic_point_does_not():
+    # Padé approximants of (1 + x)^(-1/3) put their poles on the cut (-inf, -1] (Baker and
+    # Graves-Morris, Padé Approximants, 2nd ed. (1996), ch. 6: Stieltjes-type convergence); at
+    # x = -2 they give no value, and the message now says why.
+    res = evaluate(binomial_series(Fraction(-1, 3), 40), ["-2"], Context(dps=20), method="pade",
+                   verify=False)
+    p = res.points[0]
+    assert not p.success
+    assert "branch cut" in p.message and "1e-6*I" in p.message and "\n" not in p.message
+    # tan x is meromorphic (poles at pi/2 + k pi, common practice, no source): x = 2 lies between
+    # two of them, Padé converges there, and nothing is said about a cut
+    with workdps(50):
+        c = mpmath.taylor(mpmath.tan, 0, 40)
+        from resum import Series
+        res = evaluate(Series(c, digits=45), ["2"], Context(dps=20), method="pade", verify=False)
+        truth = mpmath.tan(2)
+    p = res.points[0]
+    assert p.success and p.value.contains(truth)
+    assert "cut" not in p.message
