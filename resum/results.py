@@ -54,6 +54,17 @@ def point_label(text: str) -> str:
     return m.group(1) + m.group(2) if m else text
 
 
+def row_point(row: dict) -> str:
+    """The point of a JSON value row (``at``, and ``at_im`` for a complex point) as one label,
+    e.g. ``"3"`` or ``"3+2i"``."""
+    at = point_label(row["at"])
+    im = row.get("at_im")
+    if im is None:
+        return at
+    im = point_label(im)
+    return f"{at}{'' if im.startswith('-') else '+'}{im}i"
+
+
 def num_to_str(x, dps: Optional[int] = None) -> str:
     """Decimal string of a number without losing digits.
 

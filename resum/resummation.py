@@ -106,6 +106,17 @@ class Baseline:
                    int(d["n_terms"]), mpmath.mpf(d["smallest_term"]), bool(d["reached"]), d.get("how", ""))
 
 
+def _at_fields(at) -> dict:
+    """``{"at": ...}`` as decimal strings: a complex point is written as its real part, with
+    ``at_im`` beside it (as ``value`` and ``im`` are)."""
+    if isinstance(at, (mpmath.mpc, complex)):
+        fields = {"at": point_label(num_to_str(mpmath.mpf(at.real), 30))}
+        if at.imag != 0:
+            fields["at_im"] = point_label(num_to_str(mpmath.mpf(at.imag), 30))
+        return fields
+    return {"at": point_label(num_to_str(at, 30))}
+
+
 @dataclass(frozen=True)
 class PointResult:
     """The resummed value at one point.
@@ -211,13 +222,13 @@ class EvaluationResult:
     def _contract(self) -> dict:
         vals = []
         for p in self.points:
+            at = _at_fields(p.at)
             if p.value is None:
-                row = {"at": point_label(num_to_str(p.at, 30)), "value": "nan", "lo": "nan", "hi": "nan",
+                row = {**at, "value": "nan", "lo": "nan", "hi": "nan",
                        "method": p.method, "status": p.status.value, "message": p.message}
             else:
                 e = p.value.to_dict()
-                row = {"at": point_label(num_to_str(p.at, 30)), "value": e["value"], "lo": e["lo"], "hi": e["hi"],
-                       "method": p.method}
+                row = {**at, "value": e["value"], "lo": e["lo"], "hi": e["hi"], "method": p.method}
                 if p.imag is not None:
                     i = p.imag.to_dict()
                     row.update({"im": i["value"], "im_lo": i["lo"], "im_hi": i["hi"]})

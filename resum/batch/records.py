@@ -30,7 +30,7 @@ from pathlib import Path
 from typing import Iterable, Optional
 
 from ..errors import InputError
-from ..results import point_label
+from ..results import row_point
 from ..series.io import atomic_write_text, clean_temp_files, temp_target
 from .spec import FamilySpec, spec_digest, tomllib
 
@@ -230,7 +230,7 @@ def _values_fields(prefix, values, row):
     for v in values or []:
         if not isinstance(v, dict) or "at" not in v:
             continue
-        at = point_label(v["at"])
+        at = row_point(v)
         _est(f"{prefix}@{at}", {"value": v.get("value"), **({"lo": v["lo"], "hi": v["hi"]}
                                                              if "lo" in v else {})}, row)
         if "im" in v:

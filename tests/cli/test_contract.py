@@ -69,6 +69,22 @@ def test_evaluate_contract(tmp_path, capsys, ext):
             assert abs(mpmath.mpf(v["at"]) - x) < mpmath.mpf(10) ** -25
 
 
+def test_evaluate_complex_point_is_written_as_two_decimals(tmp_path, capsys):
+    # at a complex point "at" is the real part and "at_im" the imaginary part, as "value"/"im"
+    p = write_series(catalan_series(), tmp_path / "cat.json")
+    code, doc = run_json(["evaluate", str(p), "--at", "0.1+0.05*I", "--at", "0.1", "--json", "--no-verify"],
+                         capsys)
+    assert code in (0, 1)
+    cplx, real = doc["values"]
+    assert _is_decimal(cplx["at"]) and _is_decimal(cplx["at_im"]) and "at_im" not in real
+    with workdps(50):
+        x = mpmath.mpc(mpmath.mpf(cplx["at"]), mpmath.mpf(cplx["at_im"]))
+        assert abs(x - mpmath.mpc("0.1", "0.05")) < mpmath.mpf(10) ** -25
+        truth = (1 - mpmath.sqrt(1 - 4 * x)) / (2 * x)   # closed form of the Catalan g.f.
+        assert mpmath.mpf(cplx["lo"]) <= truth.real <= mpmath.mpf(cplx["hi"])
+        assert mpmath.mpf(cplx["im_lo"]) <= truth.imag <= mpmath.mpf(cplx["im_hi"])
+
+
 def test_evaluate_at_in_coupling(tmp_path, capsys):
     # declared coupling x = g^2: --at takes g
     p = tmp_path / "c.txt"
