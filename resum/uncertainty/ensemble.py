@@ -24,6 +24,7 @@ and higher precision (see :func:`resum.analysis.analyze`).
 from __future__ import annotations
 
 import mpmath
+import numpy as np
 
 from ..results import Estimate
 
@@ -138,18 +139,19 @@ def cluster_points(groups, rel_tol=0.02, min_fraction=0.5, scale=None):
         scale = min(nz) if nz else mpmath.mpf(1)
     allpts.sort(key=lambda t: abs(t[1]))
     used = [False] * len(allpts)
+    near = _near_finder(allpts, used)
     clusters = []
     for a in range(len(allpts)):
         if used[a]:
             continue
         za = allpts[a][1]
         tol = rel_tol * max(abs(za), scale)
-        idx = [b for b in range(len(allpts)) if not used[b] and abs(allpts[b][1] - za) <= tol]
+        idx = near(za, tol)
         # recentre once on the median and regather
         zs = [allpts[b][1] for b in idx]
         c = mpmath.mpc(robust_center([z.real for z in zs]), robust_center([z.imag for z in zs]))
         tol = rel_tol * max(abs(c), scale)
-        idx = [b for b in range(len(allpts)) if not used[b] and abs(allpts[b][1] - c) <= tol]
+        idx = near(c, tol)
         if not idx:
             idx = [a]
         best = {}
@@ -166,6 +168,33 @@ def cluster_points(groups, rel_tol=0.02, min_fraction=0.5, scale=None):
     out = [c for c in clusters if c["fraction"] >= min_fraction]
     out.sort(key=lambda c: abs(c["center"]))
     return out
+
+
+def _near_finder(allpts, used):
+    """``near(c, tol)``: indices b (increasing) of the points not ``used`` with
+    ``|z_b - c| <= tol``. The distances are screened in double precision with numpy and only
+    those within a relative 1e-9 of ``tol`` are decided in mpmath, so the answer is the one the
+    all-mpmath comparison gives, at a small fraction of its cost (the clustering of a 200-term
+    analysis compared about 10^6 pairs). Points outside double range fall back to mpmath."""
+    with np.errstate(all="ignore"):
+        arr = np.array([complex(z) for _, z, _ in allpts], dtype=complex)
+        mags = np.abs(arr)
+    exact = [z for _, z, _ in allpts]
+    if not np.all(np.isfinite(mags)) or np.any((mags > 0) & (mags < 1e-280)) or np.any(mags > 1e280):
+        return lambda c, tol: [b for b in range(len(exact)) if not used[b] and abs(exact[b] - c) <= tol]
+
+    def near(c, tol):
+        t = float(tol)
+        d = np.abs(arr - complex(c))
+        cand = np.nonzero(d <= t * (1 + 1e-9))[0]
+        out = []
+        for b in cand.tolist():
+            if used[b]:
+                continue
+            if d[b] <= t * (1 - 1e-9) or abs(exact[b] - c) <= tol:
+                out.append(b)
+        return out
+    return near
 
 
 def digits_agree(a, b) -> float:
