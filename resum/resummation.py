@@ -905,6 +905,19 @@ def _alpha_for(cmap, alpha, large_x_power):
     return 2 * p if isinstance(cmap, RayMap) else p
 
 
+def _cut_advice_in_coupling(o, a, x, cpl, cut_map):
+    """A point on the cut of the map, given in the coupling (x = g^2, say): the advice names
+    the nudge of the coupling that leaves the cut (the cut x < 0 is the imaginary g axis, where
+    adding 1e-6*I to g stays on it)."""
+    from .estimators.resum_conformal import off_cut_step
+    step = off_cut_step(cut_map, cpl.to_variable, a)
+    if step is None:
+        return
+    o.reason = (f"{cpl.symbol} = {mpmath.nstr(a, 10)} (x = {mpmath.nstr(x, 10)}) lies on the cut of the map "
+                f"({cut_map.describe()}); to pick a side of the cut, add {step} to "
+                f"{cpl.symbol}, or, if the function has no cut there, choose another method with --method")
+
+
 def _run_at(plan: _Plan, c, xs, dps, n_orders, quad_dps, target):
     """:func:`_run` at ``dps`` working digits (a task of :func:`evaluate`)."""
     with _wd(dps):
@@ -1271,6 +1284,9 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
         n_fail = 0
         real_input = not any(isinstance(v, mpmath.mpc) and v.imag != 0 for v in c)
         for j, (a, x, o) in enumerate(zip(at, xs, outs)):
+            cut_map = o.info.pop("cut_map", None)
+            if cut_map is not None and cpl is not None:
+                _cut_advice_in_coupling(o, a, x, cpl, cut_map)
             pdiag = dict(o.info)
             pdiag.pop("method", None)        # a fallback point's method: PointResult.method
             if o.info.get("rim_layer"):

@@ -44,7 +44,7 @@ from .resum_band import (PointOutcome, RationalIntegrator, candidate_orders, fit
 from .resum_pade import pade_evaluate
 from .resum_quadratic import quadratic_evaluate
 
-__all__ = ["conformal_evaluate", "derivative_evaluate", "mapped_coefficients", "rim_power"]
+__all__ = ["conformal_evaluate", "derivative_evaluate", "mapped_coefficients", "off_cut_step", "rim_power"]
 
 
 #: what to do about a point on the cut, appended to the refusal (one line)
@@ -276,6 +276,20 @@ def _across_cut(cmap, x) -> bool:
     return False
 
 
+def off_cut_step(cmap, x_of, a):
+    """The nudge of a point ``a`` (in the user's variable, ``x = x_of(a)``) that takes it off the
+    cut of ``cmap``: ``"1e-6*I"`` or ``"1e-6"`` (scaled by ``|a|``), whichever leaves the cut, or
+    None. With a coupling (x = g^2, say) the cut in g need not run the way it does in x."""
+    size = abs(a) if a != 0 else 1
+    for text, d in (("1e-6*I", mpmath.mpc(0, "1e-6")), ("1e-6", mpmath.mpf("1e-6"))):
+        try:
+            if not _across_cut(cmap, x_of(a + d * size)):
+                return text if size == 1 else f"{mpmath.nstr(size * mpmath.mpf('1e-6'), 3)}{text[4:]}"
+        except (ZeroDivisionError, ValueError):
+            continue
+    return None
+
+
 def conformal_evaluate(c: Sequence, xs: Sequence, cmap: ConformalMap, dps: int, *, alpha=None,
                        n_orders: int = 7, offsets: Sequence[int] = (0,), safety=4,
                        variants: str = "both", target_digits=None):
@@ -375,7 +389,8 @@ def conformal_evaluate(c: Sequence, xs: Sequence, cmap: ConformalMap, dps: int, 
         elif bad[j]:
             outs[j] = PointOutcome(None, None, False,
                                    f"x = {mpmath.nstr(xs[j], 10)} lies on the cut of the map "
-                                   f"({cmap.describe()}){ON_CUT_ADVICE}", {})
+                                   f"({cmap.describe()}){ON_CUT_ADVICE}",
+                                   {"on_cut": True, "cut_map": cmap})
         else:
             _widen_in_rim_layer(o, ws[j], len(cw))
             o.info["w"] = mpmath.nstr(ws[j], 20)

@@ -67,3 +67,24 @@ def test_pade_on_a_cut_says_so_and_a_meromorphic_point_does_not():
     p = res.points[0]
     assert p.success and p.value.contains(truth)
     assert "cut" not in p.message
+
+
+def test_cut_advice_is_given_in_the_coupling():
+    # (1 + x)^(-1/3) with x = g^2: the cut x <= -1 is the imaginary g axis beyond |g| = 1, where
+    # adding 1e-6*I to g stays on the cut; the advice must name the real nudge instead
+    from resum import Series
+    from resum.series.core import Coupling
+    s = Series(list(binomial_series(Fraction(-1, 3), 30).coefficients), coupling=Coupling("g", 2))
+    res = evaluate(s, ["2*I"], Context(dps=20), method="conformal-pade", singularities=[-1], verify=False)
+    p = res.points[0]
+    assert not p.success and "lies on the cut" in p.message
+    step = p.message.split("add ")[1].split(" to g")[0]
+    assert "I" not in step                        # a real nudge in g
+    res = evaluate(s, [f"2*I+{step}"], Context(dps=20), method="conformal-pade", singularities=[-1],
+                   verify=False)
+    p = res.points[0]
+    assert p.success
+    with workdps(50):
+        g = mpmath.mpc(mpmath.mpf(step), 2)
+        truth = mpmath.power(1 + g * g, -mpmath.mpf(1) / 3)   # principal power, mpmath
+        assert p.value.contains(truth.real) and p.imag.contains(truth.imag)
