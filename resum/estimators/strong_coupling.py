@@ -317,6 +317,7 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
                 members.append({"K": K, "drop": drop, "basis": basis, "sol": sol, "se": se,
                                 "chi2": chi2, "dof": dof, "g_min": win[0][0]})
         if not members:
+            lp, source = _unconfirmed(lp, source, p_est, leading_power)
             return StrongCouplingResult(False, Status.FAILED, "no fit could be made", var, tuple(gs),
                                         tuple(vals), trusted_up_to, lp, source, ())
         ok = members
@@ -371,6 +372,7 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
             coeffs.append((lab, Estimate(med, med - w, med + w)))
         if not coeffs:
             # fits were made, but no coefficient was carried by two of them: nothing to report
+            lp, source = _unconfirmed(lp, source, p_est, leading_power)
             return StrongCouplingResult(
                 False, Status.NOT_CONVERGED,
                 f"no coefficient is supported by two fits: only {len(members)} fit(s) from "
@@ -470,6 +472,17 @@ def _polynomial_result(series, c, deg, gs, ctx, var, expected, n_terms_fit, log_
                                 f"exact polynomial of degree {deg} in {series.variable}", tuple(coeffs),
                                 comparison, tuple(warnings), {"how": how, "resummation_method": "exact polynomial"},
                                 prov)
+
+
+def _unconfirmed(lp, source, p_est, given):
+    """A power rounded from the log-derivative that no fit went on to confirm keeps the
+    log-derivative's band (with the rounded value inside it), not the zero-width band of an
+    exact number: a record reading ``1.0 [1.0, 1.0]`` claimed a certainty nothing had earned."""
+    if given is not None or p_est is None or lp is None or lp.error != 0:
+        return lp, source
+    v = lp.value
+    return (Estimate(v, min(p_est.lower, v), max(p_est.upper, v)),
+            source + "; not confirmed by a fit, so the band is the log-derivative's")
 
 
 def _short_power(pw):

@@ -100,6 +100,25 @@ def test_no_coefficient_carried_by_two_fits_is_a_failure():
     assert "two fits" in r.message and not r.coefficients
 
 
+def test_unconfirmed_rounded_power_keeps_its_band():
+    """The same one-fit situation with the power read from the values (not given): the power
+    rounded to 1 is not confirmed by any fit, so it must not come back as the exact 1 [1, 1]; its
+    band is the log-derivative's and contains the closed form's power 1."""
+    s = weak_coupling_series("0", 20, Context(dps=40))
+    with workdps(30):
+        gs = [4, 6, 8, 10]
+        from resum.results import Estimate
+        vals = []
+        for g in gs:
+            v = 2 / mpmath.pi ** 2 * mpmath.log(mpmath.cosh(2 * mpmath.pi * g))   # the closed form
+            vals.append(Estimate(v, v - mpmath.mpf(10) ** -20, v + mpmath.mpf(10) ** -20))
+    r = probe_strong_coupling(s, couplings=gs, ctx=Context(dps=30), values=vals, n_terms_fit=[3])
+    assert not r.success
+    lp = r.leading_power
+    assert lp.upper > lp.lower and lp.contains(1), lp
+    assert "not confirmed" in r.power_source or "not settled" in r.power_source
+
+
 def test_negative_powers_are_an_input_error():
     from resum.errors import InputError
     from resum.series import Series
