@@ -130,7 +130,8 @@ def format_value_error(value, lower, upper, max_digits: int = 60) -> str:
     (or two, if its first digit is 1) significant figures; the value is
     rounded to the same decimal place: ``0.250000(1)``. A zero-width band
     prints ``max_digits`` digits. A band wider than the value prints the
-    value with one digit and the band explicitly, and so does a zero whose band
+    value with two digits and the band explicitly, a value less than a tenth of
+    its band's half-width as ``0`` and the band, and so does a zero whose band
     is narrower than 1e-5: ``0 [-1.2e-49, 1.2e-49]``.
     """
     value, lower, upper = mpf(value), mpf(lower), mpf(upper)
@@ -145,6 +146,10 @@ def format_value_error(value, lower, upper, max_digits: int = 60) -> str:
     lead = int(err / mpf(10) ** e10)
     ndig_err = 2 if lead == 1 else 1
     place = e10 - ndig_err + 1            # decimal exponent of last printed digit
+    if value != 0 and abs(value) * 10 < err:
+        # the value is far inside a band around zero: its own digits mean nothing (an exponent
+        # 0 to 27 digits printed as -1.5e-45 [-1.0e-27, 1.0e-27]); rounded to the band's scale it is 0
+        return f"0 [{mpmath.nstr(lower, 2)}, {mpmath.nstr(upper, 2)}]"
     if value != 0 and abs(value) < err:
         return f"{mpmath.nstr(value, 2)} [{mpmath.nstr(lower, 2)}, {mpmath.nstr(upper, 2)}]"
     if value == 0 and err < mpf(10) ** -5:

@@ -30,3 +30,13 @@ def test_large_values_print_as_mantissa_and_exponent():
         assert str(Estimate(123456789012, 123456789012 - 10 ** 7, 123456789012 + 10 ** 7)) == "1.23457(10)e11"
         text = str(Estimate(0, -mpmath.mpf("1e300"), mpmath.mpf("1e300")))
         assert text.startswith("0 [") and len(text) < 30
+
+
+def test_value_deep_inside_a_band_around_zero_prints_as_zero():
+    # an exponent 0 known to 27 digits carried the value -1.5e-45 into the text: digits far below
+    # the band are not earned; rounded to the band's scale the value is 0 (common practice, no
+    # source). A value comparable to its band keeps two digits.
+    with workdps(60):
+        assert str(Estimate(mpmath.mpf("-1.5e-45"), mpmath.mpf("-1e-27"), mpmath.mpf("1e-27"))) \
+            == "0 [-1.0e-27, 1.0e-27]"
+        assert str(Estimate(mpmath.mpf("0.5"), mpmath.mpf("-0.3"), mpmath.mpf("1.4"))).startswith("0.5 [")
