@@ -816,11 +816,12 @@ def branch_note(cmap, singularities, x) -> Optional[str]:
     return None
 
 
-def _reexpansion_guard(plan, c, series, wd) -> int:
+def _reexpansion_guard(plan, c, series, wd, loss_out=None) -> int:
     """Extra working digits for a conformal plan (of the series, or of its Borel transform):
     the digits the re-expansion in the disk variable loses to cancellation (estimated from the majorant
     series, :func:`resum._kernels.reexpand.cancellation_digits`), but never more than the
-    input carries beyond ``wd`` (inexact coefficients cannot give more)."""
+    input carries beyond ``wd`` (inexact coefficients cannot give more). ``loss_out`` (a dict)
+    receives ``loss``, the largest cancellation before that cap."""
     if plan.fallback is not None:
         plan = plan.fallback          # the points an ode plan cannot reach are re-expanded
     if plan.method not in _CONFORMAL + ("borel-conformal-pade",) or plan.cmap is None:
@@ -839,6 +840,8 @@ def _reexpansion_guard(plan, c, series, wd) -> int:
         return 0
     loss = [d for d in loss if math.isfinite(d)]
     extra = int(math.ceil(max(loss))) if loss else 0
+    if loss_out is not None:
+        loss_out["loss"] = extra
     if series.digits is not None:
         extra = min(extra, max(0, int(series.digits) + 10 - wd))
     return max(0, extra)
@@ -1231,7 +1234,15 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                      borel_b=borel_b, borel_map=borel_map, alpha=alpha, lateral=lateral,
                      large_x_power=large_x_power, use_analysis=use_analysis, warnings=warnings,
                      analysis=analysis)
-        extra = _reexpansion_guard(plan, c, series, wd) if work_dps is None else 0
+        loss = {}
+        extra = _reexpansion_guard(plan, c, series, wd, loss) if work_dps is None else 0
+        if series.digits is not None and loss.get("loss", 0) >= series.digits - 10:
+            # the mapped coefficients of the top orders keep (almost) none of the input's digits
+            warnings.append(
+                f"the re-expansion in the disk variable cancels about {loss['loss']} digits by the top "
+                f"order, about as many as the coefficients carry ({series.digits}): the highest orders add "
+                f"little, and more terms at {series.digits} digits would add little more; coefficients with "
+                f"about {loss['loss'] + ctx.dps} digits would let every term count")
         if extra:
             # precision plan of the conformal re-expansion: its sums cancel about `extra`
             # digits, which the Padé step in the disk variable must not pay for

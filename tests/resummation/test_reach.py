@@ -78,3 +78,19 @@ def test_no_projection_when_the_digits_asked_are_reached():
     p = evaluate(Series(_coefficients(60)), ["2"], Context(dps=15), method="conformal-pade").points[0]
     assert _digits(p.value.value, truth) >= 15
     assert "reach" not in p.diagnostics
+
+
+def test_input_digits_not_terms_limit_the_reexpansion():
+    # 60 terms rounded to 16 digits: mapping the cut plane to the disk cancels about as many
+    # digits as the coefficients carry by the top order (common practice, no source), so the
+    # report says that more digits, not more terms, would help; exact coefficients: no such
+    # warning. The value still holds the truth (mpmath closed form above).
+    exact = _coefficients(60)
+    with workdps(40):
+        rounded = Series([mpmath.mpf(v.numerator) / v.denominator for v in exact], digits=16)
+    for s, warned in ((rounded, True), (Series(exact), False)):
+        res = evaluate(s, ["5"], Context(dps=15), method="conformal-pade", singularities=[-1], verify=False)
+        hit = [w for w in res.warnings if "cancels about" in w]
+        assert bool(hit) == warned, res.warnings
+        assert all("more terms at 16 digits would add little" in w for w in hit)
+        assert res.points[0].value.contains(_truth("5"))
