@@ -11,6 +11,8 @@ from __future__ import annotations
 
 import re
 
+import mpmath
+
 from ..errors import InputError
 from ..series.expr import evaluate_expression
 from ._common import (with_input_notes, AT_HELP_RANGE, add_common_options, at_file, emit_json, expand_points, load_series, log,
@@ -32,6 +34,9 @@ def add_arguments(parser) -> None:
                         help="expected coefficient to compare with, e.g. 'g^1=2' or "
                              "'g^0=-3*log(2)/(2*pi)' (repeat)")
     parser.add_argument("--method", default="auto", help="resummation method (as in evaluate)")
+    parser.add_argument("--max-band", default=None, metavar="REL",
+                        help="largest relative band of a resummed value that the fit uses "
+                             "(default 1e-4; a larger one lets less sharp values in)")
     add_common_options(parser)
 
 
@@ -54,6 +59,13 @@ def run(args) -> int:
     require_power_series(series, args.file, 6, "the strong-coupling probe (a resummation)")
     couplings = None if not args.at else expand_points(args.at, ctx.work_dps)
     power = None if args.power is None else _number(args.power, ctx.work_dps, "--power")
+    extra = {}
+    if args.max_band is not None:
+        band = _number(args.max_band, ctx.work_dps, "--max-band")
+        if isinstance(band, mpmath.mpc) or not 0 < band < 1:
+            raise InputError(f"give a number between 0 and 1 (a relative band), got "
+                             f"{args.max_band!r}", where="--max-band")
+        extra["max_rel_band"] = band
     expected = {}
     for item in args.expect:
         label, sep, value = item.partition("=")
@@ -70,7 +82,7 @@ def run(args) -> int:
         log(f"probing {series.name or args.file} at growing coupling ({ctx.dps} digits)")
     try:
         res = probe_strong_coupling(series, couplings, ctx, method=args.method, leading_power=power,
-                                    log_terms=args.logs, expected=expected or None)
+                                    log_terms=args.logs, expected=expected or None, **extra)
     except InputError as exc:
         raise at_file(exc, args.file) from None
     if args.json:

@@ -242,7 +242,7 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
                                         f"({mpmath.nstr(gs[0], 4)} ... {mpmath.nstr(gs[-1], 4)}) have a resummed "
                                         f"band below {mpmath.nstr(max_rel_band, 3)} of the value "
                                         f"({len(got)} gave a value at all); the fit needs 4: give more terms, "
-                                        "other couplings (--at), or a larger max_rel_band (Python option)" + why,
+                                        "other couplings (--at), or a larger max_rel_band (--max-band)" + why,
                                         var, tuple(gs), tuple(vals), trusted_up_to, None, "", ())
         # leading power from log-derivative secants, extrapolated in 1/g
         secants = []

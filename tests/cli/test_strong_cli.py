@@ -28,3 +28,25 @@ def test_strong_bad_expect_is_input_error(tmp_path, capsys):
     f.write_text("\n".join(str((-1) ** k) for k in range(20)) + "\n")
     assert main(["strong", str(f), "--expect", "nonsense"]) == 2
     assert "LABEL=VALUE" in capsys.readouterr().err
+
+
+def test_strong_max_band_lets_less_sharp_values_in(tmp_path, capsys):
+    # 40-digit coefficients at a = pi/4 (the cusp anomalous dimension, F ~ 2g - 3 ln2/(2 pi) + ...:
+    # Frolov and Tseytlin, hep-th/0204226): with the default 1e-4 relative band only couplings up
+    # to g = 4 are sharp enough; --max-band 1e-3 admits larger ones, and the leading coefficient 2
+    # stays in its band
+    f = tmp_path / "a4.json"
+    assert main(["generate", "bes", "--angle", "pi/4", "--loops", "60", "--dps", "40", "-o", str(f)]) == 0
+    capsys.readouterr()
+    main(["strong", str(f), "--json"])
+    tight = json.loads(capsys.readouterr().out)
+    code = main(["strong", str(f), "--json", "--max-band", "1e-3"])
+    doc = json.loads(capsys.readouterr().out)
+    assert code == 0 and doc["success"], doc["message"]
+    with workdps(30):
+        assert mpmath.mpf(doc["trusted_up_to"]) > mpmath.mpf(tight["trusted_up_to"])
+        lead = dict((k, v) for k, v in doc["coefficients"])["g^1"]
+        assert mpmath.mpf(lead["lo"]) <= 2 <= mpmath.mpf(lead["hi"])
+    assert main(["strong", str(f), "--max-band", "2"]) == 2
+    err = capsys.readouterr().err
+    assert "--max-band" in err and "between 0 and 1" in err and len(err.strip().splitlines()) == 1
