@@ -100,8 +100,10 @@ def plot_evaluation(result, ax=None, reference: Optional[Sequence] = None, curve
             # it is counted in the legend instead of drawn across the figure
             # (nor does one that sums no non-zero term: beyond the radius the first term is
             # already the smallest, and "0 +- that term" is no value)
+            # (nor one whose error is as large as its value: no digit, e.g. 1 +- 1 beyond the radius)
             shown = [p for p in bs if (lo_y is None or float(p.baseline.value.error) <= span)
-                     and p.baseline.n_terms > 0 and p.baseline.value.value != 0]
+                     and p.baseline.n_terms > 0 and p.baseline.value.value != 0
+                     and p.baseline.value.error < abs(p.baseline.value.value)]
             off = len(bs) - len(shown)
             label = "optimal truncation" + (f" ({off} off scale: error > {span:.3g})" if off else "")
             if shown:
@@ -118,7 +120,9 @@ def plot_evaluation(result, ax=None, reference: Optional[Sequence] = None, curve
     _x_scale(ax, xs)
     ax.set_xlabel(result.at_symbol)
     ax.set_ylabel("f")
-    ax.set_title("Resummed function with band")
+    n_cplx = sum(1 for p in result.points if isinstance(p.at, mpmath.mpc))
+    ax.set_title("Resummed function with band" + (f" ({n_cplx} complex point{'s' if n_cplx > 1 else ''} "
+                                                  "not drawn: see the report)" if n_cplx else ""))
     ax.legend(fontsize=8)
     return ax
 

@@ -76,6 +76,27 @@ def test_off_scale_baseline_is_counted_not_drawn():
     plt.close("all")
 
 
+def test_complex_points_are_named_and_no_digit_baselines_left_out():
+    """log(1+x)/x (common practice, no source): a complex point cannot go on the real axis, so the
+    title says how many were left out; at x = -2, on the cut beyond the radius, the smallest
+    term is the first and the baseline 1 +- 1 carries no digit, so no bar is drawn for it."""
+    from fractions import Fraction
+
+    import matplotlib.pyplot as plt
+    from resum.plots.evaluation import plot_evaluation
+    from resum.resummation import evaluate
+    from resum.series import Series
+    s = Series([Fraction((-1) ** k, k + 1) for k in range(30)])
+    r = evaluate(s, ["1/2", "-2", "1+I"], Context(dps=20), method="pade", verify=False)
+    ax = plot_evaluation(r)
+    assert "1 complex point not drawn" in ax.get_title()
+    bars = [c for c in ax.containers if str(c.get_label()).startswith("optimal truncation")]
+    assert len(bars) == 1
+    xs = list(bars[0].lines[0].get_xdata())
+    assert -2.0 not in xs and 0.5 in xs
+    plt.close("all")
+
+
 def test_save_figure_is_atomic(tmp_path):
     import matplotlib
     matplotlib.use("Agg", force=False)
