@@ -553,6 +553,7 @@ class _Validator:
             if len({lengths[n] for n in g}) > 1:
                 raise self.err("grid.combine", "zipped axes must have the same length: " +
                                ", ".join(f"{n} has {lengths[n]}" for n in g))
+        self._distinct(axes, combine, vdps)
         n = 1
         for g in combine:
             n *= len(axes[[a.name for a in axes].index(g[0])])
@@ -624,9 +625,28 @@ class _Validator:
             b = _number(rng["stop"], dps, w + " stop")
             out = tuple(self._choice(name, _coerce(x, typ, w, dps), w)
                         for x in _linspace(a, b, num, spacing, dps, w))
-        if len(set(value_json(v, dps) for v in out)) != len(out):
-            raise self.err(dotted, "the axis repeats a value")
         return Axis(name, out)
+
+    def _distinct(self, axes, combine, dps) -> None:
+        """Refuse a grid that would compute the same point twice: a plain axis may not repeat a
+        value; axes zipped together may (a state axis [0, 1, 2] beside orders [40, 40, 60]), as
+        long as their combined tuples differ."""
+        by_name = {a.name: a for a in axes}
+        for group in combine:
+            rows = list(zip(*(by_name[n].values for n in group)))
+            seen = {}
+            for i, row in enumerate(rows):
+                key = tuple(value_json(v, dps) for v in row)
+                if key not in seen:
+                    seen[key] = i
+                    continue
+                if len(group) == 1:
+                    raise self.err(f"axes.{group[0]}", "the axis repeats a value "
+                                   f"({value_text(row[0])} at positions {seen[key]} and {i})")
+                combo = ", ".join(f"{n}={value_text(v)}" for n, v in zip(group, row))
+                raise self.err("grid.combine", f"the zipped axes {', '.join(group)} repeat the "
+                               f"point ({combo}) at positions {seen[key]} and {i}; change one "
+                               "of the values or drop the duplicate")
 
     def _choice(self, name, value, where):
         """``value`` if the source accepts it for ``name`` (listed choices, minimum, maximum)."""

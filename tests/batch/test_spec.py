@@ -56,6 +56,23 @@ def test_zipped_axes():
     assert [p.params["exponent"] for p in spec.points()] == [1, 2, 3]
 
 
+def test_zipped_axes_may_repeat_a_value_but_not_a_point():
+    # zipped axes walk together: only their combined tuples name a point, so one of them may
+    # repeat a value (common practice, no source)
+    text = GOOD.replace('exponent = { values = ["1/2", 2] }', 'exponent = { values = [1, 1, 2] }')
+    text += '\n[grid]\ncombine = [["radius", "exponent"]]\n'
+    spec = parse(text)
+    assert [p.params["exponent"] for p in spec.points()] == [1, 1, 2]
+    same = text.replace('range = { start = 1, stop = "pi/2", num = 3 }', 'values = [1, 1, 2]')
+    with pytest.raises(InputError) as err:
+        parse(same)
+    msg = str(err.value)
+    assert "grid.combine" in msg and "radius=1, exponent=1" in msg and "\n" not in msg
+    # a plain axis still may not repeat a value
+    with pytest.raises(InputError, match="axes.exponent: the axis repeats a value"):
+        parse(GOOD.replace('["1/2", 2]', '[2, 2]'))
+
+
 def test_digest_ignores_comments_and_layout():
     a = parse(GOOD)
     b = parse("# a comment\n" + GOOD.replace("dps = 30", "dps   =   30   # digits"))
