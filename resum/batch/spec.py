@@ -546,6 +546,8 @@ class _Validator:
                 raise self.err(f"axes.{k}", f"{k!r} is both fixed and an axis")
             axes.append(self._axis(k, spec, params[k][0], vdps))
 
+        self._carried_digits(dps, fixed, axes, params)
+
         # grid
         combine = self._combine(raw.get("grid", {}), [a.name for a in axes])
         lengths = {a.name: len(a) for a in axes}
@@ -626,6 +628,26 @@ class _Validator:
             out = tuple(self._choice(name, _coerce(x, typ, w, dps), w)
                         for x in _linspace(a, b, num, spacing, dps, w))
         return Axis(name, out)
+
+    def _carried_digits(self, dps, fixed, axes, params) -> None:
+        """Refuse a source ``dps`` (the digits its coefficients carry) below the study's ``dps``:
+        every task would work at digits the series does not have, while the record claims them
+        (``resum evaluate --dps`` refuses the same mismatch)."""
+        if "dps" not in params:
+            return
+        where, given = None, []
+        if "dps" in fixed:
+            where, given = "fixed.dps", [fixed["dps"]]
+        for a in axes:
+            if a.name == "dps":
+                where, given = "axes.dps", list(a.values)
+        low = [d for d in given if isinstance(d, int) and not isinstance(d, bool) and d < dps]
+        if not low:
+            return
+        carried = min(low)
+        fix = ("raise it to" if where == "fixed.dps" else "give every value") + f" at least {dps}"
+        raise self.err(where, f"the series carries only {carried} digits but study.dps = {dps} "
+                       f"was asked; {fix}, or lower study.dps to at most {carried}")
 
     def _distinct(self, axes, combine, dps) -> None:
         """Refuse a grid that would compute the same point twice: a plain axis may not repeat a

@@ -73,6 +73,37 @@ def test_zipped_axes_may_repeat_a_value_but_not_a_point():
         parse(GOOD.replace('["1/2", 2]', '[2, 2]'))
 
 
+@pytest.mark.parametrize("table, value, field", [
+    ("fixed", "dps = 20", "fixed.dps"),
+    ("axes", "dps = { values = [40, 20] }", "axes.dps"),
+])
+def test_source_digits_below_the_study_dps_are_refused(table, value, field):
+    # a series generated at 20 digits cannot support a study at 30; resum evaluate --dps
+    # refuses the same request (DEVELOPERS.md, precision rules)
+    axes = "angle = { values = [0.1, 0.2] }"
+    text = f"""
+    [study]
+    name = "b"
+    source = "bes"
+    dps = 30
+    [fixed]
+    loops = 20
+    {value if table == "fixed" else ""}
+    [axes]
+    {axes}
+    {value if table == "axes" else ""}
+    [tasks.analyze]
+    """
+    with pytest.raises(InputError) as err:
+        parse(text)
+    msg = str(err.value)
+    assert field in msg and "only 20 digits" in msg and "study.dps = 30" in msg
+    assert "at most 20" in msg and "\n" not in msg
+    # as many digits as the study, or more, is fine
+    spec = parse(text.replace("20]", "30]").replace("dps = 20", "dps = 30"))
+    assert spec.dps == 30
+
+
 def test_digest_ignores_comments_and_layout():
     a = parse(GOOD)
     b = parse("# a comment\n" + GOOD.replace("dps = 30", "dps   =   30   # digits"))
