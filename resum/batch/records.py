@@ -239,12 +239,59 @@ def _values_fields(prefix, values, row):
                                                              if "im_lo" in v else {})}, row)
 
 
-def flatten_record(rec: dict, n_sing: int = 2) -> dict:
-    """One summary-table row (strings) from a point record."""
-    row = {"key": rec["key"], "index": rec["index"], "status": rec.get("status", "")}
+# columns of the summary table that are not parameters: fixed names, and the families of names
+# whose members depend on the results (sing2_re_lo, strong_truth_leading, ...)
+_RESULT_COLUMNS = {"key", "index", "status", "error", "seconds", "n_terms", "ratio_growth",
+                   "ratio_status", "analyze_status", "analyze_growth"}
+_RESULT_FAMILIES = re.compile(r"^((radius|ratio_radius|ratio_borel_distance|borel_A|borel_b)"
+                              r"(_lo|_hi)?|sing\d+_.*|strong_(resummed|truth)_.*|(value|truth)(_im)?@.*)$")
+PARAM_PREFIX = "param_"
+
+
+def param_columns(names, taken=()) -> dict:
+    """``{parameter name: column name}`` for the summary table.
+
+    A parameter keeps its name as its column unless that name is also a result column (a
+    source parameter called ``radius`` beside the analysis estimate ``radius``, or any name in
+    ``taken``): then its column is ``param_<name>``. Result columns keep their names in every
+    study, and no value hides another.
+    """
+    taken = set(taken)
+    out = {}
+    for n in names:
+        col = n
+        while col in _RESULT_COLUMNS or col in taken or _RESULT_FAMILIES.match(col):
+            col = PARAM_PREFIX + col
+        out[n] = col
+    return out
+
+
+def flatten_record(rec: dict, n_sing: int = 2, columns: Optional[dict] = None) -> dict:
+    """One summary-table row (strings) from a point record.
+
+    ``columns`` maps parameter names to column names (default: :func:`param_columns`, so that
+    a parameter named like a result column is ``param_<name>``)."""
+    results = _result_fields(rec, n_sing)
     labels = rec.get("labels", {})
-    for k in rec.get("axes", sorted(labels)):
-        row[k] = labels.get(k)
+    names = rec.get("axes", sorted(labels))
+    if columns is None:
+        columns = param_columns(names, results)
+    row = {"key": rec["key"], "index": rec["index"], "status": rec.get("status", "")}
+    for k in names:
+        row[columns.get(k, k)] = labels.get(k)
+    row.update(results)
+    err = rec.get("error")
+    if err:
+        row["error"] = f"{err.get('step')}: {err.get('type')}: {err.get('message')}"
+    secs = (rec.get("run") or {}).get("seconds", {})
+    if "total" in secs:
+        row["seconds"] = secs["total"]
+    return row
+
+
+def _result_fields(rec: dict, n_sing: int) -> dict:
+    """The columns of a record's task results, in table order."""
+    row = {}
     tasks = rec.get("tasks", {})
     co = tasks.get("coefficients")
     if co:
@@ -287,17 +334,21 @@ def flatten_record(rec: dict, n_sing: int = 2) -> dict:
             for label, e in co.items():
                 if "." not in label:     # a power read as a decimal is no stable column name
                     _est(f"strong_{kind}_{label.replace(' ', '_')}", e, row)
-    err = rec.get("error")
-    if err:
-        row["error"] = f"{err.get('step')}: {err.get('type')}: {err.get('message')}"
-    secs = (rec.get("run") or {}).get("seconds", {})
-    if "total" in secs:
-        row["seconds"] = secs["total"]
     return row
 
 
 def summary_rows(records: Iterable[dict]) -> list:
-    return [flatten_record(r) for r in records]
+    """The summary table's rows; a parameter's column is the same in every row (decided over
+    the result columns of all records, see :func:`param_columns`)."""
+    records = list(records)
+    taken, names = set(), []
+    for r in records:
+        taken.update(_result_fields(r, 2))
+        for k in r.get("axes", sorted(r.get("labels", {}))):
+            if k not in names:
+                names.append(k)
+    columns = param_columns(names, taken)
+    return [flatten_record(r, columns=columns) for r in records]
 
 
 def rows_to_csv(rows: list) -> str:

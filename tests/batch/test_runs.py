@@ -79,7 +79,7 @@ def test_serial_run_records_and_truth(tmp_path):
     summary = json.loads((tmp_path / "o" / "summary.json").read_text())
     assert summary["counts"]["failed"] == 2 and len(summary["rows"]) == 8
     csv = (tmp_path / "o" / "summary.csv").read_text().splitlines()
-    assert csv[0].startswith("key,index,status,radius,exponent") and len(csv) == 9
+    assert csv[0].startswith("key,index,status,param_radius,exponent") and len(csv) == 9
 
 
 def test_runners_give_identical_records(tmp_path):
@@ -369,3 +369,33 @@ def test_summary_columns_of_old_and_new_point_spellings_agree():
     rows = summary_rows([old, new])
     assert [r.get("value@3") for r in rows] == ["1.5", "2.5"]
     assert not any("value@3.0" in r for r in rows)
+
+
+def test_an_axis_named_like_a_result_column_keeps_its_own_column(tmp_path):
+    # the source's parameter `radius` is an axis and the analysis estimates a radius: both must
+    # reach the summary, the parameter as param_radius (the radius of (1 - x/R)^-a is R, closed
+    # form, common practice, no source)
+    text = f"""
+[study]
+name = "clash"
+source = "{SRC}"
+dps = 20
+[fixed]
+orders = 20
+[axes]
+radius = {{ values = [2, 3, -1] }}
+[tasks.analyze]
+methods = ["ratio"]
+verify = false
+"""
+    spec = parse_spec(text, path="spec.toml")
+    run_family(spec, tmp_path / "o", runner=SerialRunner(), quiet=True, plots=False)
+    rows = json.loads((tmp_path / "o" / "summary.json").read_text())["rows"]
+    assert [r["param_radius"] for r in rows] == ["2", "3", "-1"]   # failed rows too
+    for r, R in zip(rows[:2], (2, 3)):
+        assert r["status"] == "ok"
+        assert mpmath.mpf(r["radius_lo"]) <= R <= mpmath.mpf(r["radius_hi"])
+    assert rows[2]["status"] == "failed" and "radius" not in rows[2]
+    header = (tmp_path / "o" / "summary.csv").read_text().splitlines()[0].split(",")
+    assert header[:4] == ["key", "index", "status", "param_radius"]
+    assert header.count("radius") == 1 and "radius_lo" in header
