@@ -18,9 +18,14 @@ their ``run`` part (host, process, timings).
   killed with SIGKILL.
 * :class:`DaskRunner` -- a dask.distributed cluster: ``address`` joins a
   running scheduler (``tcp://host:8786``); ``local:N`` starts a LocalCluster
-  with N single-threaded worker processes for the span of the run. Dask
-  retries tasks of dead workers itself; a point it gives up on is recorded
-  as failed.
+  with N single-threaded worker processes for the span of the run. Every
+  task carries the spec itself (a few kilobytes), so no task depends on
+  data held by one worker, and a worker that dies takes only the points it
+  held with it. A point dask gives up on (``KilledWorker``) while other
+  points ran is computed once more alone, and recorded as failed if its
+  worker dies again, as with :class:`ProcessRunner`; a local cluster gives
+  up at the first death (a remote scheduler after its own
+  ``allowed-failures``).
 """
 from __future__ import annotations
 
@@ -209,8 +214,15 @@ class DaskRunner:
     def _client(self):
         from distributed import Client, LocalCluster
         if self.address.startswith("local:"):
-            cluster = LocalCluster(n_workers=self.jobs, threads_per_worker=1, processes=True,
-                                   dashboard_address=None, silence_logs=40)
+            import dask
+            # one point at a time on each worker, and the scheduler gives up on a point at the
+            # first death of its worker: run() decides, as ProcessRunner does, whether the point
+            # is tried once more alone (dask's own retries would blame the points queued beside
+            # a crashing one as well)
+            with dask.config.set({"distributed.scheduler.allowed-failures": 0,
+                                  "distributed.scheduler.worker-saturation": 1.0}):
+                cluster = LocalCluster(n_workers=self.jobs, threads_per_worker=1, processes=True,
+                                       dashboard_address=None, silence_logs=50)
             return Client(cluster), cluster
         try:
             return Client(self.address, timeout="10s"), None
@@ -237,39 +249,55 @@ class DaskRunner:
 
     def run(self, spec, indices: Sequence[int], on_start: Callable, on_record: Callable) -> None:
         from distributed import as_completed
+        from distributed.scheduler import KilledWorker
         self.prepare()
         client, cluster = self._conn
         self._conn = None
         try:
             remote = not self.address.startswith("local:")
-            spec_f = client.scatter(spec, broadcast=True)
             pending = list(indices)
             pending.reverse()          # pop() from the end keeps the spec's order
-            futs = {}
+            suspects = []              # their worker died beside others: rerun one at a time
+            futs = {}                  # future -> (index, ran alone)
             done = as_completed()
+            tries = [0]
 
-            def submit():
-                i = pending.pop()
-                f = client.submit(_cluster_point, spec_f, i, self.name, pure=False,
-                                  key=f"resum-{spec.name}-{i}-{os.getpid()}-{id(self)}")
-                futs[f] = i
+            def submit(i, alone):
+                # the spec goes with every task (no scattered copy: losing the worker that held
+                # it lost every point); a fresh key per try, as a key that erred stays erred
+                tries[0] += 1
+                f = client.submit(_cluster_point, spec, i, self.name, pure=False,
+                                  key=f"resum-{spec.name}-{i}-{os.getpid()}-{id(self)}-{tries[0]}")
+                futs[f] = (i, alone)
                 done.add(f)
                 on_start(i)
 
             def fill():
+                if suspects:
+                    if not futs:       # isolate: only once nothing else runs
+                        submit(suspects.pop(0), True)
+                    return
                 # at most one point per worker thread in flight, so that "running" in the
                 # progress line is exact and an interrupt abandons only what really runs;
                 # a remote cluster's threads are counted again as workers come and go
                 limit = self.jobs if not remote else _threads(client)
                 while pending and len(futs) < max(1, limit):
-                    submit()
+                    submit(pending.pop(), False)
 
             fill()
             for fut in done:
-                i = futs.pop(fut)
+                i, alone = futs.pop(fut)
                 try:
                     rec = fut.result()
-                except Exception as exc:   # KilledWorker, lost connection
+                except KilledWorker:
+                    if not alone:
+                        suspects.append(i)
+                        fill()
+                        continue
+                    rec = failure_record(spec, i, "the worker process died while computing this "
+                                         "point alone (killed, crashed or out of memory)",
+                                         runner=self.name)
+                except Exception as exc:   # lost connection, cancelled
                     rec = failure_record(spec, i, f"dask gave up on this point: "
                                          f"{type(exc).__name__}: {exc}".splitlines()[0],
                                          kind=type(exc).__name__, runner=self.name)

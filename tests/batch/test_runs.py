@@ -141,6 +141,32 @@ def test_dead_worker_is_recorded_and_the_rest_finish(tmp_path):
     assert multiprocessing.active_children() == []
 
 
+def test_dead_dask_worker_fails_only_its_own_point(tmp_path):
+    # a point that ends its worker process must not take the others with it (a spec scattered
+    # to one worker once made every point fail with "lost dependencies"); retrying the failed
+    # points computes only those
+    pytest.importorskip("distributed")
+    from resum.batch import DaskRunner
+    from resum.batch.records import RunFolder
+    from resum.batch.scan import plan
+    text = spec_text([2], orders=20).replace(
+        'exponent = { values = ["1/2", 2] }',
+        'exponent = { values = ["1/2", 2, 3] }\ncrash = { values = [false, true, false] }\n'
+        '[grid]\ncombine = ["radius", ["exponent", "crash"]]')
+    spec = parse_spec(text, path="spec.toml")
+    out = run_family(spec, tmp_path / "o", runner=DaskRunner("local:2"), quiet=True, plots=False)
+    recs = records(tmp_path / "o")
+    assert len(recs) == 3 and out.counts["ok"] == 2 and out.counts["failed"] == 1
+    for r in recs.values():
+        if r["params"]["crash"]:
+            assert r["status"] == "failed" and r["error"]["type"] == "WorkerLost", r["error"]
+            assert "died" in r["error"]["message"]
+        else:
+            assert r["status"] == "ok", r["error"]
+    todo, skipped = plan(spec, RunFolder(tmp_path / "o"), retry_failed=True)
+    assert todo == sorted(r["index"] for r in recs.values() if r["params"]["crash"])
+
+
 def test_bad_worker_count_stops_the_run_before_any_point(tmp_path, monkeypatch):
     # common practice, no source: a bad setting is reported once, before work starts
     monkeypatch.setenv("RESUM_JOBS", "two")
