@@ -63,7 +63,7 @@ def run(args) -> int:
     if args.check:
         pts = spec.points()
         if args.json:
-            _emit({"study": spec.name, "n_points": len(pts),
+            _emit({"study": spec.name, "n_points": str(len(pts)),
                    "points": [{"key": p.key, "label": p.label()} for p in pts]})
         else:
             print(f"{spec.name}: {len(pts)} points, tasks: {', '.join(spec.tasks)}")
@@ -83,8 +83,9 @@ def run(args) -> int:
             plot_error = f"{type(exc).__name__}: {exc}".splitlines()[0]
     c = outcome.counts
     if args.json:
-        _emit({"study": spec.name, "folder": outcome.folder, "counts": c,
-               "computed": len(outcome.computed), "skipped": len(outcome.skipped),
+        # every number a decimal string, as in the other commands' JSON
+        _emit({"study": spec.name, "folder": outcome.folder, "counts": {k: str(v) for k, v in c.items()},
+               "computed": str(len(outcome.computed)), "skipped": str(len(outcome.skipped)),
                "interrupted": outcome.interrupted, "plots": [str(p) for p in plots],
                "plot_error": plot_error, "summary": f"{outcome.folder}/summary.csv"})
     else:

@@ -284,7 +284,7 @@ def test_cli_exit_codes(tmp_path, capsys):
     assert main([str(spec_path), "-o", str(tmp_path / "a"), "--jobs", "1", "--no-plots",
                  "--json"]) == 1          # two points fail
     doc = json.loads(capsys.readouterr().out)
-    assert doc["counts"]["failed"] == 2
+    assert doc["counts"]["failed"] == "2" and doc["computed"] == "8"    # decimal strings, as elsewhere
     spec_path.write_text(spec_text([1, 2]))
     assert main([str(spec_path), "-o", str(tmp_path / "b"), "--jobs", "1", "--no-plots"]) == 0
     capsys.readouterr()
