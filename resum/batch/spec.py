@@ -436,6 +436,9 @@ def parse_spec(text: str, path: str = "<spec>", sources=None) -> FamilySpec:
     except tomllib.TOMLDecodeError as exc:
         m = re.search(r"at line (\d+)", str(exc))
         where = f"{path}:{m.group(1)}" if m else path
+        if text.lstrip().startswith(("{", "[{")) or str(path).lower().endswith(".json"):
+            raise InputError("a family spec is a TOML file (see studies/*/spec.toml), not JSON; write "
+                             "it as [study], [axes], [tasks.NAME] tables", where=path) from None
         raise InputError(f"TOML syntax error: {exc}", where=where) from None
     v = _Validator(raw, text, path, sources)
     return v.run()

@@ -153,6 +153,13 @@ def test_toml_syntax_error_has_line(tmp_path):
         load_spec(p)
 
 
+def test_json_spec_is_told_specs_are_toml(tmp_path):
+    p = tmp_path / "spec.json"
+    p.write_text('{"study": {"name": "x", "source": "bes"}}')
+    with pytest.raises(InputError, match=r"spec.json: a family spec is a TOML file"):
+        load_spec(p)
+
+
 def test_grid_errors():
     with pytest.raises(InputError, match="grid.combine.*not combined"):
         parse(GOOD + '\n[grid]\ncombine = ["radius"]\n')
