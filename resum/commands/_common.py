@@ -10,7 +10,7 @@ from typing import Optional, Tuple
 from ..context import DEFAULT, Context
 from ..errors import InputError
 from ..series.core import Series
-from ..series.io import atomic_write_text, least_precise_location, read_series
+from ..series.io import atomic_write_text, double_location, least_precise_location, read_series
 
 __all__ = ["add_common_options", "load_series", "context_for", "emit_json", "atomic_write",
            "fail", "log", "prepare_plot_dir", "require_power_series", "at_file", "write_figures"]
@@ -76,6 +76,10 @@ def note_limited_precision(series: Series) -> Optional[str]:
     text = (f"{loc}: the least precise coefficient carries only {n} significant "
             f"digit{'' if n == 1 else 's'}, which limits every result; declare 'digits: N' or "
             "'exact: true' in the file if its decimals are known better")
+    if double_location(series):
+        text = (f"{double_location(series)} and the other coefficients written as JSON numbers are read "
+                f"as doubles ({n} significant digits), which limits every result; write them as strings "
+                "to give more digits, or declare 'digits: N' or 'exact: true' in the file")
     log("note: " + text)
     return text
 

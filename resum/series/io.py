@@ -11,7 +11,9 @@ example ``"x = g^2"`` or ``{"symbol": "g", "power": 2, "scale": "1"}``),
 literals show), ``exact`` (true: decimal literals are exact values),
 ``provenance`` (object), ``metadata`` (free-form object, kept). Any other key
 is refused. Coefficients are strings (expressions allowed) or JSON integers;
-JSON floats are read from their text, digit for digit.
+JSON numbers with a fraction or exponent are read from their text; with at
+most 17 significant digits (a double's shortest text) they carry double
+precision (``DOUBLE_DIGITS``), unless ``digits`` is declared.
 
 CSV (``.csv``)::
 
@@ -282,18 +284,34 @@ def series_from_dict(doc: dict, ctx: Optional[Context] = None, where: str = "") 
         raise InputError("must be an object", where=_w(where, "provenance"))
     coeffs, digs = [], []
     dps = _parse_dps(doc.get("digits"), ctx)
+    first_double = None
     for k, c in enumerate(cs):
-        if isinstance(c, _JsonFloat):
-            c = str(c)
-        v, d = _parse_coefficient(c, _w(where, f"coefficients[{k}]"), dps, exact_dec)
+        double = isinstance(c, _JsonFloat)
+        v, d = _parse_coefficient(str(c) if double else c, _w(where, f"coefficients[{k}]"), dps, exact_dec)
+        if double and d is not None and d <= 17:
+            # a JSON number with a fraction or exponent, short enough to be a double's shortest
+            # text, is a double, whatever that text shows ("0.5": one digit as a string, a
+            # double's digits as a number); a longer one was written with its digits on purpose
+            d = DOUBLE_DIGITS
+            first_double = k if first_double is None else first_double
         coeffs.append(v)
         digs.append(d)
     s = _build(coeffs, digs, doc, lambda key: _w(where, key or "coefficients"), ctx)
-    return _keep_where(s, digs, lambda i: _w(where, f"coefficients[{i}]"))
+    s = _keep_where(s, digs, lambda i: _w(where, f"coefficients[{i}]"))
+    if first_double is not None and s.digits == DOUBLE_DIGITS and "digits" not in doc:
+        s = Series(s.coefficients, s.variable, s.start, s.digits, s.coupling, s.name, s.description,
+                   {**s.provenance, _DOUBLE_KEY: _w(where, f"coefficients[{first_double}]")})
+    return s
 
 
 class _JsonFloat(str):
     """A JSON number with a fraction or exponent, kept as its text."""
+
+
+#: digits a JSON number that is not an integer carries: it is an IEEE double (53 bits, 15.95
+#: digits), and its shortest text may sit up to half a unit in the last place from it, so 15
+#: digits are sure (common practice, no source)
+DOUBLE_DIGITS = 15
 
 
 def _w(where, key):
@@ -301,6 +319,7 @@ def _w(where, key):
 
 
 _WHERE_KEY = "least_precise_at"      # provenance key; not written back to files
+_DOUBLE_KEY = "json_doubles_at"       # where the first JSON number read as a double sits; not written back
 
 
 def _keep_where(series, digs, loc):
@@ -316,6 +335,12 @@ def _keep_where(series, digs, loc):
 def least_precise_location(series) -> Optional[str]:
     """Where the least precise coefficient of a series read from a file sits (file and line/field)."""
     return series.provenance.get(_WHERE_KEY)
+
+
+def double_location(series) -> Optional[str]:
+    """Where the first coefficient written as a JSON number (read as a double) sits, when such
+    numbers set the digits of a series read from a JSON file; else None."""
+    return series.provenance.get(_DOUBLE_KEY)
 
 
 def _read_text_file(path: Path) -> str:
@@ -528,7 +553,7 @@ def series_to_dict(series: Series) -> dict:
         d["coupling"] = series.coupling.describe(series.variable)
     if series.digits is not None:
         d["digits"] = series.digits
-    prov = {k: v for k, v in series.provenance.items() if k not in ("metadata", _WHERE_KEY)}
+    prov = {k: v for k, v in series.provenance.items() if k not in ("metadata", _WHERE_KEY, _DOUBLE_KEY)}
     if prov:
         from ..results import jsonable
         d["provenance"] = jsonable(prov)

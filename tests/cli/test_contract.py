@@ -218,3 +218,25 @@ def test_evaluate_echoes_whole_numbers_as_given(tmp_path, capsys):
         for v, x in zip(doc["values"], (3, -0.5, 10 ** 6, mpmath.sqrt(2), 1)):
             truth = 1 / (1 + mpmath.mpf(x))
             assert mpmath.mpf(v["lo"]) <= truth <= mpmath.mpf(v["hi"])
+
+
+def test_json_numbers_evaluate_at_double_precision(tmp_path, capsys):
+    # log(1+x)/x as written by json.dump of Python floats (sum (-1)^k x^k/(k+1), common practice,
+    # no source): the doubles' digits, not the one digit of "0.5", limit the value and the
+    # optimal-truncation baseline beside it; one note says so (mpmath log as reference)
+    p = tmp_path / "floats.json"
+    p.write_text(json.dumps({"variable": "x", "coefficients": [(-1) ** k / (k + 1) for k in range(40)]}))
+    code = main(["evaluate", str(p), "--at", "0.5", "--no-verify"])
+    out, err = capsys.readouterr()
+    assert code == 0
+    assert err.count("note:") == 1 and "JSON numbers are read as doubles (15 significant digits)" in err
+    row = next(line for line in out.splitlines() if line.startswith("0.5 "))
+    value, digits, base = row.split()[1:4]
+    assert float(digits) >= 13
+    with workdps(30):
+        truth = mpmath.log(mpmath.mpf("1.5")) / mpmath.mpf("0.5")
+        for txt in (value, base):
+            v, e = txt.rstrip(")").split("(")
+            ulp = mpmath.mpf(10) ** -len(v.split(".")[1])
+            assert abs(mpmath.mpf(v) - truth) <= int(e) * ulp
+            assert int(e) * ulp < mpmath.mpf(10) ** -12      # 1 digit would be a band of 0.1

@@ -56,6 +56,31 @@ def test_json_floats_keep_their_text(tmp_path):
     assert s.digits == 29
 
 
+def _log1p_over_x(n):
+    # log(1+x)/x = sum (-1)^k x^k/(k+1) (common practice, no source), as Python floats
+    return [(-1) ** k / (k + 1) for k in range(n)]
+
+
+def test_json_numbers_are_doubles(tmp_path):
+    # json.dump writes Python floats as their shortest text (0.5, -1.0, 0.3333333333333333): a
+    # double carries 15.95 digits whatever that text shows (IEEE 754 binary64, 53-bit significand;
+    # common practice, no source)
+    p = tmp_path / "f.json"
+    p.write_text(json.dumps({"variable": "x", "coefficients": _log1p_over_x(20)}))
+    s = read_series(p)
+    assert s.digits == 15
+    assert s.coefficients[1] == mpmath.mpf("-0.5")
+    with workdps(40):
+        assert abs(s.coefficients[2] - mpmath.mpf(1) / 3) < mpmath.mpf(10) ** -16
+    # the same numbers as strings keep the digits their text shows; a declaration wins
+    p.write_text(json.dumps({"coefficients": [repr(c) for c in _log1p_over_x(20)]}))
+    assert read_series(p).digits == 1
+    p.write_text(json.dumps({"digits": 16, "coefficients": _log1p_over_x(20)}))
+    assert read_series(p).digits == 16
+    p.write_text(json.dumps({"exact": True, "coefficients": _log1p_over_x(4)}))
+    assert read_series(p).coefficients[1] == Fraction(-1, 2)
+
+
 def test_text_header_and_comments(tmp_path):
     p = tmp_path / "h.txt"
     p.write_text("# a comment\nname: demo\ncoupling: x = 4*g^2\n1   # constant\n-1/3\n\n2.5\n")
