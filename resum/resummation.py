@@ -69,7 +69,7 @@ from .errors import InputError
 from .results import Estimate, Provenance, Status, num_to_str, jsonable, point_label
 from .series.core import Series
 from .estimators.resum_band import PointOutcome, rational_fit
-from .estimators.resum_truncation import optimal_truncation
+from .estimators.resum_truncation import optimal_truncation, polynomial_degree
 from .estimators._common import first_term_scale
 from .estimators.resum_ode import equation_shape
 from .transforms.conformal import ConformalMap, PairMap, RayMap, StarMap, choose_map, crosses_pair_cut
@@ -409,25 +409,6 @@ def _series_singularities(c):
     if isinstance(z, mpmath.mpc):
         return [z, mpmath.conj(z)]
     return [z]
-
-
-def polynomial_degree(coefficients) -> Optional[int]:
-    """Degree of the series read as an exact polynomial, or ``None``.
-
-    The coefficients (from ``x^0``) are taken to be those of a polynomial
-    when they vanish exactly (zero, not merely small) from some power ``k + 1``
-    to the last term given, and those known zeros are at least as many as
-    the polynomial's own terms (``k + 1``) and at least 4: a series known to
-    twice the degree that stops there. Common practice, no source. An
-    all-zero series has degree 0.
-    """
-    c = list(coefficients)
-    nz = [k for k, v in enumerate(c) if v != 0]
-    k = nz[-1] if nz else 0
-    zeros = len(c) - 1 - k
-    if zeros >= max(4, k + 1):
-        return k
-    return None
 
 
 #: estimators the plan runs: enough to find the growth, the nearest singularities
@@ -1288,7 +1269,9 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                 checks[j] = [("higher precision", o2[j]), (f"{nf} terms", o3[j])]
         baselines = []
         for x in xs:
-            t = optimal_truncation(c, x, wd)
+            # the input's digits (those reported, for exact coefficients) bound the sum's band
+            t = optimal_truncation(c, x, wd, digits=ctx.dps if series.digits is None
+                                   else min(ctx.dps, series.digits))
             baselines.append(Baseline(t["value"], t["imag"], t["n_terms"], t["smallest_term"],
                                       t["reached"], t["how"]))
         pts = []

@@ -17,13 +17,13 @@ is returned and the last term is the error estimate.
 """
 from __future__ import annotations
 
-from typing import Sequence
+from typing import Optional, Sequence
 
 import mpmath
 
 from ..results import Estimate
 
-__all__ = ["optimal_truncation", "partial_sums"]
+__all__ = ["optimal_truncation", "partial_sums", "polynomial_degree"]
 
 
 def partial_sums(c: Sequence, x) -> list:
@@ -36,7 +36,29 @@ def partial_sums(c: Sequence, x) -> list:
     return out
 
 
-def optimal_truncation(c: Sequence, x, dps: int) -> dict:
+def polynomial_degree(coefficients) -> Optional[int]:
+    """Degree of the series read as an exact polynomial, or ``None``.
+
+    The coefficients (from ``x^0``) are taken to be those of a polynomial
+    when they vanish exactly (zero, not merely small) from some power ``k + 1``
+    to the last term given, and those known zeros are at least as many as
+    the polynomial's own terms (``k + 1``) and at least 4: a series known to
+    twice the degree that stops there. Common practice, no source. An
+    all-zero series has degree 0.
+
+    >>> polynomial_degree([1, 2, 3, 0, 0, 0, 0]), polynomial_degree([1, 2, 3, 0, 0])
+    (2, None)
+    """
+    c = list(coefficients)
+    nz = [k for k, v in enumerate(c) if v != 0]
+    k = nz[-1] if nz else 0
+    zeros = len(c) - 1 - k
+    if zeros >= max(4, k + 1):
+        return k
+    return None
+
+
+def optimal_truncation(c: Sequence, x, dps: int, digits: Optional[float] = None) -> dict:
     """Sum up to the smallest term; the band is +- the smallest term.
 
     Parameters
@@ -44,11 +66,15 @@ def optimal_truncation(c: Sequence, x, dps: int) -> dict:
     c : coefficients from ``x^0`` (mpmath numbers or exact)
     x : point (real or complex)
     dps : digits to work at (the caller enters a matching working precision)
+    digits : digits the coefficients carry (``None``: exact, rounded at
+        ``dps``); ``10^-digits`` times the sum of the moduli of the terms
+        summed bounds the band from below
 
     Returns
     -------
     dict with ``value`` (Estimate of the real part), ``imag`` (Estimate or
-    None), ``n_terms`` (terms summed), ``smallest_term`` (its modulus),
+    None), ``n_terms`` (terms summed), ``smallest_term`` (the modulus of the term
+    the band stands for; 0 for an exact polynomial),
     ``reached`` (False when the terms were still decreasing at the last
     order, so the error is the last term and the series may not have reached
     its best), and ``how``.
@@ -56,9 +82,14 @@ def optimal_truncation(c: Sequence, x, dps: int) -> dict:
     Notes
     -----
     The band is the modulus of the smallest term (common practice, no
-    source); a term that vanishes (odd terms of an even function, leading
-    zeros, the gaps of a series in x^m) takes the size of the next non-zero
-    term, the one a stop there leaves out.
+    source). Only non-zero terms compete: a term that vanishes exactly (odd
+    terms of an even function, leading zeros, the gaps of a series in x^m)
+    is no estimate of the error, and a stop there leaves out the next
+    non-zero term. An exact polynomial (:func:`polynomial_degree`) is summed
+    whole, with the band of the input's precision alone. When the first
+    non-zero term is already the smallest (the terms grow from the start,
+    beyond the radius of convergence), nothing is summed: the baseline then
+    says no more than the size of that term.
     """
     x = mpmath.mpmathify(x)
     terms = []
@@ -68,35 +99,28 @@ def optimal_truncation(c: Sequence, x, dps: int) -> dict:
         xp *= x
     mods = [abs(t) for t in terms]
     n = len(terms)
-    # stopping before a vanishing term (odd terms of an even function, the leading zeros of a
-    # series that starts at x^2, the gaps of a series in x^3) leaves out the next non-zero
-    # term, so the vanishing term takes that term's size; zeros at the very end take the size
-    # of the last non-zero term before them
-    sm = list(mods)
-    nxt = None
-    for k in range(n - 1, -1, -1):
-        if mods[k] != 0:
-            nxt = mods[k]
-        elif nxt is not None:
-            sm[k] = nxt
-    prev = None
-    for k in range(n):
-        if mods[k] != 0:
-            prev = mods[k]
-        elif sm[k] == 0 and prev is not None:
-            sm[k] = prev
-    kmin = min(range(n), key=lambda k: (sm[k], -k))      # ties: the later term
-    reached = kmin < n - 2
-    if not reached:
-        kmin = n
-        err = sm[n - 1]
+    nz = [k for k in range(n) if mods[k] != 0]
+    deg = polynomial_degree(c)
+    if deg is not None or not nz:
+        # every term after the degree is exactly zero: the sum is exact
+        stop, small, reached = (deg + 1 if nz else n), mpmath.mpf(0), True
+        how = "exact polynomial: all its terms summed; band from the input's precision"
     else:
-        err = sm[kmin]
-    s = sum(terms[:kmin], mpmath.mpf(0))
+        kmin = min(nz, key=lambda k: (mods[k], -k))      # ties: the later term
+        reached = kmin not in nz[-2:]
+        if not reached:
+            stop, small = n, mods[nz[-1]]
+            how = "terms still decreasing at the last order: all terms summed; band = +- the last term"
+        else:
+            stop, small = kmin, mods[kmin]
+            how = ("sum up to the smallest term; band = +- that term" if kmin > nz[0] else
+                   "terms growing from the first non-zero one: nothing summed; band = +- that term")
+    s = sum(terms[:stop], mpmath.mpf(0))
+    # the input's own precision (or, for exact coefficients, the rounding of the sum)
+    err = max(small, sum(mods[:stop], mpmath.mpf(0)) * mpmath.mpf(10) ** (
+        -mpmath.mpf(digits) if digits is not None else 1 - dps))
     re, im = mpmath.re(s), mpmath.im(s)
     est = Estimate(re, re - err, re + err)
     imag = Estimate(im, im - err, im + err) if isinstance(s, mpmath.mpc) else None
-    how = ("sum up to the smallest term; band = +- that term" if reached else
-           "terms still decreasing at the last order: all terms summed; band = +- the last term")
-    return {"value": est, "imag": imag, "n_terms": kmin, "smallest_term": err, "reached": reached,
+    return {"value": est, "imag": imag, "n_terms": stop, "smallest_term": small, "reached": reached,
             "how": how}

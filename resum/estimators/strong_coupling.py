@@ -213,7 +213,7 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
             raise InputError(f"strong-coupling couplings must be distinct; {mpmath.nstr(dup[0], 8)} is given "
                              "more than once", where="couplings")
         if values is None and series.start >= 0:
-            from ..resummation import polynomial_degree
+            from .resum_truncation import polynomial_degree
             c = series.dense(Context(dps=ctx.work_dps, guard=0))
             deg = polynomial_degree(c)
             if deg is not None:
