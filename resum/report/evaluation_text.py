@@ -24,7 +24,8 @@ BAND_MEANING = (
     "higher precision (inexact coefficients moved by 10^-digits relative, up to a unit in their last digit). A rerun with fewer "
     "terms must reach the value within its own band. For a conformal map, a point closer to the rim of "
     "the disk than 1/(terms) has its band widened by 1/((1 - |w|) x terms). It is an estimate, not a "
-    "proof. Optimal truncation sums up to the smallest term; its band is +- that term.")
+    "proof. Optimal truncation sums up to the smallest non-zero term (an exact polynomial: all its "
+    "terms); its band is +- that term, never below the input's precision.")
 
 
 BAND_MEANING_ODE = (
@@ -33,8 +34,9 @@ BAND_MEANING_ODE = (
     "Taylor steps along the straight line from 0, each step at most half the distance to the nearest "
     "zero of the leading coefficient. The band is 10 x the larger change when the continuation is rerun "
     "with 20 more digits and from the series with five fewer terms, widened to cover the reruns of the "
-    "whole evaluation. It is an estimate, not a proof. Optimal truncation sums up to the smallest term; "
-    "its band is +- that term.")
+    "whole evaluation. It is an estimate, not a proof. Optimal truncation sums up to the smallest "
+    "non-zero term (an exact polynomial: all its terms); its band is +- that term, never below the "
+    "input's precision.")
 
 
 BAND_MEANING_BOREL_ODE = (
