@@ -8,6 +8,7 @@ from __future__ import annotations
 import argparse
 import importlib
 import re
+import signal
 import sys
 from typing import List, Optional
 
@@ -84,13 +85,22 @@ def main(argv: Optional[List[str]] = None) -> int:
         print(f"resum {args.command}: error: {exc}", file=sys.stderr)
         return 2
     except KeyboardInterrupt:
+        if _CONSOLE:
+            # the program ends here: a second Ctrl-C must not interrupt the exit (joining the
+            # threads of worker pools), which would print a traceback and leak semaphores
+            signal.signal(signal.SIGINT, signal.SIG_IGN)
         print("resum: interrupted", file=sys.stderr)
         return 130
     except BrokenPipeError:
         return 0
 
 
+_CONSOLE = False        # set by run(): main() then owns the process, not a caller's
+
+
 def run() -> None:  # console-script entry point
+    global _CONSOLE
     from .parallel import allow_auto
     allow_auto()       # long analyses may use worker processes (resum.parallel)
+    _CONSOLE = True
     sys.exit(main())

@@ -23,7 +23,9 @@ the first call starting them costs milliseconds. Each task runs at the mpmath an
 FLINT precisions of the caller. Results are the same as in one process (the same
 computations); anything that goes wrong with the processes themselves (a worker
 killed, an object that cannot be sent) makes the caller fall back to running the
-tasks one after the other.
+tasks one after the other. Ctrl-C belongs to the caller: the fork server and its workers
+ignore it, and the caller ends the workers and waits for them before its
+KeyboardInterrupt goes on.
 """
 from __future__ import annotations
 
@@ -31,7 +33,9 @@ import multiprocessing
 import os
 import pickle
 import signal
+import threading
 from concurrent.futures import ProcessPoolExecutor
+from contextlib import contextmanager
 from typing import Callable, Optional, Sequence
 
 import flint
@@ -109,21 +113,76 @@ def _mp_context():
     return _CONTEXT
 
 
+@contextmanager
+def _sigint_ignored():
+    """Ctrl-C (SIGINT) ignored for the span, in the main thread (elsewhere Python cannot set
+    signal handlers, and nothing is changed)."""
+    if threading.current_thread() is not threading.main_thread():
+        yield
+        return
+    old = signal.signal(signal.SIGINT, signal.SIG_IGN)
+    try:
+        yield
+    finally:
+        signal.signal(signal.SIGINT, signal.SIG_DFL if old is None else old)
+
+
+@contextmanager
+def _sigint_deferred():
+    """Ctrl-C held back for the span and raised (KeyboardInterrupt) at its end, in the main
+    thread: a worker whose start is cut short would still be forked, after its pool is gone."""
+    if threading.current_thread() is not threading.main_thread():
+        yield
+        return
+    got = []
+    if signal.getsignal(signal.SIGINT) is signal.SIG_IGN:      # ignored already: left so
+        yield
+        return
+    old = signal.signal(signal.SIGINT, lambda signum, frame: got.append(signum))
+    try:
+        yield
+    finally:
+        signal.signal(signal.SIGINT, signal.SIG_DFL if old is None else old)
+    if got:
+        raise KeyboardInterrupt
+
+
+def _start_server() -> None:
+    """Start the fork server (and multiprocessing's resource tracker) with Ctrl-C ignored.
+
+    A terminal sends Ctrl-C to every process of the foreground group: the caller decides what
+    it means. An ignored signal stays ignored across exec, and Python then installs no handler
+    of its own, so the server, and every worker it forks, ignores it from its first instruction
+    on (the server would otherwise print a traceback when Ctrl-C comes while it imports resum).
+    """
+    if _mp_context().get_start_method() != "forkserver":   # pragma: no cover - not Linux
+        return
+    from multiprocessing import forkserver
+    with _sigint_ignored():
+        forkserver.ensure_running()
+
+
 def _quiet_worker():
     """Workers leave Ctrl-C to the caller, which stops them (no traceback from each)."""
     signal.signal(signal.SIGINT, signal.SIG_IGN)
 
 
 def _stop(pool) -> None:
-    """End a pool's workers now (their tasks are abandoned)."""
+    """End a pool's workers now (their tasks are abandoned) and wait until they are gone."""
     # ProcessPoolExecutor keeps its worker processes in _processes; terminating them is the
     # only way to abandon running tasks (shutdown waits for them)
-    for proc in list((getattr(pool, "_processes", None) or {}).values()):
+    procs = list((getattr(pool, "_processes", None) or {}).values())
+    for proc in procs:
         try:
             proc.terminate()
         except (OSError, AttributeError):  # pragma: no cover - already gone
             pass
-    pool.shutdown(wait=False, cancel_futures=True)
+    pool.shutdown(wait=True, cancel_futures=True)
+    for proc in procs:
+        try:
+            proc.join(5)
+        except (OSError, AttributeError, ValueError):  # pragma: no cover - already reaped
+            pass
 
 
 class _Unsendable(Exception):
@@ -158,17 +217,20 @@ def run_tasks(fn: Callable, arg_lists: Sequence[tuple], jobs: int) -> Optional[l
     except Exception:                            # noqa: BLE001 - any object pickle refuses
         return None
     try:
+        _start_server()
         pool = ProcessPoolExecutor(max_workers=jobs, mp_context=_mp_context(), initializer=_quiet_worker)
     except (OSError, ValueError):
         return None
     try:
-        futs = [pool.submit(_call, fn, args, mpmath.mp.prec, flint.ctx.prec) for args in arg_lists]
+        with _sigint_deferred():   # submit starts the workers
+            futs = [pool.submit(_call, fn, args, mpmath.mp.prec, flint.ctx.prec) for args in arg_lists]
         return [pickle.loads(f.result()) for f in futs]
     except (BrokenProcessPool, pickle.PicklingError, OSError, _Unsendable):
         _stop(pool)
         return None
     except BaseException:          # Ctrl-C, or an exception of fn itself: stop the others first
-        _stop(pool)
+        with _sigint_ignored():    # (a second Ctrl-C must not cut that short: leaked processes)
+            _stop(pool)
         raise
     finally:
         pool.shutdown(wait=True, cancel_futures=True)
