@@ -1217,7 +1217,7 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                      analysis=analysis)
         loss = {}
         extra = _reexpansion_guard(plan, c, series, wd, loss) if work_dps is None else 0
-        if series.digits is not None and loss.get("loss", 0) >= series.digits - 10:
+        if series.digits is not None and "loss" in loss and loss["loss"] >= max(series.digits - 10, 5):
             # the mapped coefficients of the top orders keep (almost) none of the input's digits
             warnings.append(
                 f"the re-expansion in the disk variable cancels about {loss['loss']} digits by the top "
