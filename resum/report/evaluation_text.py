@@ -25,7 +25,8 @@ BAND_MEANING = (
     "terms must reach the value within its own band. For a conformal map, a point closer to the rim of "
     "the disk than 1/(terms) has its band widened by 1/((1 - |w|) x terms). It is an estimate, not a "
     "proof. Optimal truncation sums up to the smallest non-zero term (an exact polynomial: all its "
-    "terms); its band is +- that term, never below the input's precision.")
+    "terms; 'none' where the terms grow from the first); its band is +- that term, never below the "
+    "input's precision.")
 
 
 BAND_MEANING_ODE = (
@@ -174,7 +175,10 @@ def _render(result, title, reference):
         rows[0] = rows[0] + ("method",)
     for p in result.points:
         base = "-"
-        if p.baseline is not None:
+        if p.baseline is not None and p.baseline.n_terms == 0:
+            # the terms grow from the first: nothing is summed, and "0 +- the first term" is no value
+            base = "none (terms grow)"
+        elif p.baseline is not None:
             base = f"{_fmt(p.baseline.value)} ({p.baseline.n_terms}{'' if p.baseline.reached else ', not reached'})"
         dig = "-" if p.value is None else (f"{p.value.digits():.1f}" if p.value.error != 0 else "all")
         val = _fmt(p.value)

@@ -67,3 +67,12 @@ def test_pair_map_in_words():
     assert ConformalMap.from_dict(d) == PairMap(mpmath.mpmathify(d["s"]))
     assert describe_map(d) == m.describe()
     assert describe_map(d).endswith("along Re x = 0.5 to infinity")
+
+
+def test_baseline_column_says_none_when_the_terms_grow_from_the_first():
+    # log(1+x)/x = sum (-1)^k x^k/(k+1) at x = 3: |x^k/(k+1)| grows from k = 0 (common practice,
+    # no source), so optimal truncation sums nothing; the column must not print 0 +- 1 as a value
+    s = Series([Fraction((-1) ** k, k + 1) for k in range(30)])
+    res = evaluate(s, ["3", "1/2"], Context(dps=15), method="pade", verify=False)
+    rows = [ln for ln in render_evaluation(res).splitlines() if ln.startswith(("3", "0.5"))]
+    assert "none (terms grow)" in rows[0] and "none" not in rows[1]
