@@ -106,14 +106,16 @@ def laplace(F: Callable, x, b, dps: int, *, theta=0, scale=1, s_max=None):
     with mpmath.workdps(min(int(dps) + LAPLACE_GUARD, mpmath.mp.dps)):
         pts = [+p for p in pts]
         v = None
-        if b == 0 and theta == 0:
-            # the integrand is analytic at u = 0 and, on the real ray, its Borel-plane singularities
-            # lie off the panels (each panel [a, 4a] sits at least its own length from them):
-            # Gauss-Legendre converges geometrically there and needs about half of tanh-sinh's
-            # nodes (oscillator from 100 terms at 30 digits, 5 points: 36 000 integrand calls
-            # against 74 000, every value and band the same to 30 digits). It is kept only when
-            # its error estimate meets the digits asked; otherwise tanh-sinh, as off the real ray
-            # or with u^b (an end-point singularity for non-integer b), where it copes better.
+        if b == 0:
+            # the integrand is analytic at u = 0 and its Borel-plane singularities lie off the
+            # panels (each panel [a, 4a] sits at least its own length from them on the real ray;
+            # on a turned ray, for the lateral sums, at a fixed angle from them): Gauss-Legendre
+            # converges geometrically there and needs about half of tanh-sinh's nodes (oscillator
+            # from 100 terms at 30 digits, 5 points: 36 000 integrand calls against 74 000, every
+            # value and band the same to 30 digits; Euler's series at x = -0.2 and 0.5, lateral
+            # sums included: 21 s against 30 s, the same values and bands). It is kept only when
+            # its error estimate meets the digits asked; otherwise tanh-sinh, as with u^b (an
+            # end-point singularity for non-integer b), where it copes better.
             v, err = mpmath.quad(integrand, pts, error=True, method="gauss-legendre",
                                  maxdegree=6 + int(dps) // 40)
             if not err <= abs(v) * mpmath.mpf(10) ** (-dps):
