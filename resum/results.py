@@ -54,6 +54,20 @@ def point_label(text: str) -> str:
     return m.group(1) + m.group(2) if m else text
 
 
+def point_text(z, digits: int = 10) -> str:
+    """A point as people read it and as ``--at`` takes it: ``2.5``, ``0.3*I``, ``1.0e-6 + 0.3*I``
+    (mpmath writes a complex number as ``(0.0 + 0.3j)``)."""
+    if isinstance(z, (mpmath.mpc, complex)):
+        re_, im = mpmath.mpf(z.real), mpmath.mpf(z.imag)
+        if im == 0:
+            return mpmath.nstr(re_, digits)
+        imt = f"{mpmath.nstr(abs(im), digits)}*I"
+        if re_ == 0:
+            return imt if im > 0 else "-" + imt
+        return f"{mpmath.nstr(re_, digits)} {'+' if im > 0 else '-'} {imt}"
+    return mpmath.nstr(z, digits)
+
+
 def row_point(row: dict) -> str:
     """The point of a JSON value row (``at``, and ``at_im`` for a complex point) as one label,
     e.g. ``"3"`` or ``"3+2i"``."""

@@ -66,7 +66,7 @@ import mpmath
 
 from .context import DEFAULT, Context
 from .errors import InputError
-from .results import Estimate, Provenance, Status, num_to_str, jsonable, point_label
+from .results import Estimate, Provenance, Status, num_to_str, jsonable, point_label, point_text
 from .series.core import Series
 from .estimators.resum_band import PointOutcome, rational_fit
 from .estimators.resum_truncation import optimal_truncation, polynomial_degree
@@ -897,7 +897,7 @@ def _cut_advice_in_coupling(o, a, x, cpl, cut_map):
     step = off_cut_step(cut_map, cpl.to_variable, a)
     if step is None:
         return
-    o.reason = (f"{cpl.symbol} = {mpmath.nstr(a, 10)} (x = {mpmath.nstr(x, 10)}) lies on the cut of the map "
+    o.reason = (f"{cpl.symbol} = {point_text(a)} (x = {point_text(x)}) lies on the cut of the map "
                 f"({cut_map.describe()}); to pick a side of the cut, add {step} to "
                 f"{cpl.symbol}, or, if the function has no cut there, choose another method with --method")
 
@@ -1219,11 +1219,13 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
         extra = _reexpansion_guard(plan, c, series, wd, loss) if work_dps is None else 0
         if series.digits is not None and "loss" in loss and loss["loss"] >= max(series.digits - 10, 5):
             # the mapped coefficients of the top orders keep (almost) none of the input's digits
+            left = max(0, series.digits - loss["loss"])
             warnings.append(
                 f"the re-expansion in the disk variable cancels about {loss['loss']} digits by the top "
-                f"order, about as many as the coefficients carry ({series.digits}): the highest orders add "
-                f"little, and more terms at {series.digits} digits would add little more; coefficients with "
-                f"about {loss['loss'] + ctx.dps} digits would let every term count")
+                f"order, leaving {'none' if left == 0 else f'about {left}'} of the {series.digits} the "
+                f"coefficients carry: the highest orders add little, and more terms at {series.digits} "
+                f"digits would add little more; coefficients with about {loss['loss'] + ctx.dps} digits "
+                "would let every term count")
         if extra:
             # precision plan of the conformal re-expansion: its sums cancel about `extra`
             # digits, which the Padé step in the disk variable must not pay for
@@ -1285,7 +1287,7 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
             pdiag.pop("method", None)        # a fallback point's method: PointResult.method
             if o.info.get("rim_layer"):
                 rl = o.info["rim_layer"]
-                warnings.append(f"at {mpmath.nstr(a, 10)}: the point lies closer to the rim of the mapped disk "
+                warnings.append(f"at {point_text(a)}: the point lies closer to the rim of the mapped disk "
                                 f"than 1/(terms) ((1 - |w|) x terms = {rl['layer']}), where the approximants' "
                                 f"spread understates the error; band widened {rl['factor']} x")
             parts = {}      # half-width of the band after each widening step (diagnostics)
@@ -1350,7 +1352,7 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                         re = _cover(re, [oc.re for oc in lost])
                         if im is not None:
                             im = _cover(im, [oc.im for oc in lost])
-                        warnings.append(f"at {mpmath.nstr(a, 10)}: the rerun at higher precision (input moved "
+                        warnings.append(f"at {point_text(a)}: the rerun at higher precision (input moved "
                                         "in its last digit) supports no digit here; band widened to cover it")
                     parts["precision rerun"] = mpmath.nstr(re.error, 5)
                     for oc in few:
@@ -1363,13 +1365,13 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                             w = min(dev, re.error * short)
                             re = Estimate(re.value, min(re.lower, re.value - w), max(re.upper, re.value + w))
                             parts["fewer terms"] = mpmath.nstr(re.error, 5)
-                            warnings.append(f"at {mpmath.nstr(a, 10)}: the band with fewer terms falls short of "
+                            warnings.append(f"at {point_text(a)}: the band with fewer terms falls short of "
                                             f"the full-order value by a factor {mpmath.nstr(short, 3)}; "
                                             "band widened by that factor")
                     pdiag["verification"] = agree
                 if not success:
                     n_fail += 1
-                    warnings.append(f"at {mpmath.nstr(a, 10)}: {msg}")
+                    warnings.append(f"at {point_text(a)}: {msg}")
             # never report more digits than the input carries or than were asked for
             if re is not None:
                 d_rep = ctx.dps if series.digits is None else min(ctx.dps, series.digits)
@@ -1392,7 +1394,7 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                     err = re.error if im is None else max(re.error, im.error)
                     pdiag["absolute"] = {"bound": mpmath.nstr(err, 5), "scale": mpmath.nstr(zero_scale, 5)}
                     pdiag.pop("reach", None)     # a count of terms for relative digits means nothing here
-                    warnings.append(f"at {mpmath.nstr(a, 10)}: the value is zero to within "
+                    warnings.append(f"at {point_text(a)}: the value is zero to within "
                                     f"{mpmath.nstr(err, 3)} (absolute; the first term of the series there is "
                                     f"{mpmath.nstr(zero_scale, 3)}): the band is an absolute error, it supports "
                                     "no relative digit")
@@ -1407,7 +1409,7 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                         msg = (f"the band [{mpmath.nstr(re.lower, 2)}, {mpmath.nstr(re.upper, 2)}] supports no "
                                f"significant digit: {o.info['cut_hint']}")
                     n_fail += 1
-                    warnings.append(f"at {mpmath.nstr(a, 10)}: {msg}")
+                    warnings.append(f"at {point_text(a)}: {msg}")
             p_method = o.info.get("method", plan.method)
             p_plan = plan.fallback if p_method != plan.method else plan
             if re is not None and p_method in _CONFORMAL:
@@ -1415,15 +1417,15 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                 if o.info.get("map", {}).get("kind") == "star":
                     used = StarMap(p_plan.cmap.s)
                     pdiag["map"] = o.info["map"]
-                    warnings.append(f"at {mpmath.nstr(a, 10)}: evaluated with radial cuts from the pair "
+                    warnings.append(f"at {point_text(a)}: evaluated with radial cuts from the pair "
                                     f"({used.describe()}): the straight line from 0 crosses the pair map's "
                                     "vertical cut, and this is the continuation along that line")
                 note = branch_note(used, p_plan.singularities, x)
                 if note:
                     pdiag["branch"] = note
-                    warnings.append(f"at {mpmath.nstr(a, 10)}: {note}")
+                    warnings.append(f"at {point_text(a)}: {note}")
             if o.info.get("ode_refused") and plan.method in ("ode", "borel-ode"):
-                warnings.append(f"at {mpmath.nstr(a, 10)}: the differential equation was not followed "
+                warnings.append(f"at {point_text(a)}: the differential equation was not followed "
                                 f"({o.info['ode_refused']}); {p_method} instead")
             pts.append(PointResult(a, x, re, im, p_method, success, status, msg, baselines[j], pdiag))
     if n_fail == 0:

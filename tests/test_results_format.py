@@ -40,3 +40,17 @@ def test_value_deep_inside_a_band_around_zero_prints_as_zero():
         assert str(Estimate(mpmath.mpf("-1.5e-45"), mpmath.mpf("-1e-27"), mpmath.mpf("1e-27"))) \
             == "0 [-1.0e-27, 1.0e-27]"
         assert str(Estimate(mpmath.mpf("0.5"), mpmath.mpf("-0.3"), mpmath.mpf("1.4"))).startswith("0.5 [")
+
+
+def test_points_are_written_as_the_input_grammar_reads_them():
+    # "0.3*I" and "1.0e-6 + 0.3*I" are what --at accepts; "(0.0 + 0.3j)" is not
+    from resum.results import point_text
+    from resum.resummation import parse_points
+    with workdps(30):
+        for z in (mpmath.mpc(0, "0.3"), mpmath.mpc("1e-6", "0.3"), mpmath.mpc(2, -1), mpmath.mpf("2.5")):
+            text = point_text(z)
+            assert "j" not in text
+            back = parse_points([text], 30)[0]
+            assert abs(back - z) <= abs(z) * mpmath.mpf(10) ** -9, (text, back)
+        assert point_text(mpmath.mpc(0, "0.3")) == "0.3*I"
+        assert point_text(mpmath.mpc(2, -1)) == "2.0 - 1.0*I"

@@ -18,6 +18,7 @@ import os
 import sys
 
 from ..errors import InputError
+from ..results import point_text
 from ._common import (with_input_notes, AT_HELP_RANGE, add_common_options, at_file, emit_json, expand_points, load_series, log,
                       prepare_plot_dir, require_power_series, stage_log, write_figures)
 
@@ -201,12 +202,11 @@ def _failure_notes(result) -> list:
     """Why each failed point failed, as warnings (``at X: reason``), unless a warning of the
     result already says it: a point printed as "nan" in the JSON document must not be left
     without its reason."""
-    import mpmath
     notes = []
     for p in result.points:
         if p.success or not p.message:
             continue
         if any(w.endswith(p.message) for w in result.warnings):
             continue
-        notes.append(f"at {mpmath.nstr(p.at, 12)}: {p.message}")
+        notes.append(f"at {point_text(p.at, 12)}: {p.message}")
     return notes

@@ -13,7 +13,7 @@ from typing import Optional, Sequence
 import mpmath
 
 from ..context import workdps
-from ..results import format_value_error
+from ..results import format_value_error, point_text
 
 __all__ = ["render_evaluation", "describe_map", "BAND_MEANING", "BAND_MEANING_ODE", "BAND_MEANING_BOREL_ODE"]
 
@@ -175,7 +175,8 @@ def _render(result, title, reference):
         rows[0] = rows[0] + ("method",)
     for p in result.points:
         base = "-"
-        if p.baseline is not None and p.baseline.n_terms == 0:
+        if p.baseline is not None and (p.baseline.n_terms == 0 or
+                                       (p.baseline.value.value == 0 and p.baseline.value.error > 0)):
             # the terms grow from the first: nothing is summed, and "0 +- the first term" is no value
             base = "none (terms grow)"
         elif p.baseline is not None:
@@ -186,7 +187,7 @@ def _render(result, title, reference):
             # at a complex point the imaginary part is part of the value, not an ambiguity
             val = f"{val} {'-' if p.imag.value < 0 else '+'} i*{_fmt(_abs_est(p.imag))}"
             dig = _complex_digits(p)
-        rows.append((mpmath.nstr(p.at, 12), val, dig, base, p.status.value) + ((p.method,) if mixed else ()))
+        rows.append((point_text(p.at, 12), val, dig, base, p.status.value) + ((p.method,) if mixed else ()))
     widths = [max(len(r[i]) for r in rows) for i in range(len(rows[0]))]
     for k, r in enumerate(rows):
         lines.append("  ".join(c.ljust(w) for c, w in zip(r, widths)).rstrip())
@@ -195,7 +196,7 @@ def _render(result, title, reference):
     deriv = [p for p in result.points if p.diagnostics.get("variant") == "derivative"]
     if deriv:
         lines.append("")
-        lines.append("Derivative variant at " + ", ".join(mpmath.nstr(p.at, 12) for p in deriv) + ": there the "
+        lines.append("Derivative variant at " + ", ".join(point_text(p.at, 12) for p in deriv) + ": there the "
                      "approximants resum f' in the mapped variable and integrate it from 0 (exactly, by partial "
                      "fractions); chosen because its band was narrower than that of the approximants to f itself, "
                      "and widened to cover their band if the two bands did not overlap.")
@@ -203,7 +204,7 @@ def _render(result, title, reference):
             and p.method == "conformal-pade"]
     if quad:
         lines.append("")
-        lines.append("Quadratic variant at " + ", ".join(mpmath.nstr(p.at, 12) for p in quad) + ": near the rim "
+        lines.append("Quadratic variant at " + ", ".join(point_text(p.at, 12) for p in quad) + ": near the rim "
                      "of the mapped disk, with the growth at large x known, quadratic approximants P + Q f + R f^2 "
                      "= 0 of the mapped function were tried as well (the root that equals the series at 0 followed "
                      "to the point); chosen because their band was narrower, and widened to cover the Padé band "
@@ -211,7 +212,7 @@ def _render(result, title, reference):
     rim = [p for p in result.points if p.diagnostics.get("rim_power_alpha")]
     if rim:
         lines.append("")
-        lines.append("Growth divided out at " + ", ".join(mpmath.nstr(p.at, 12) for p in rim) + ": the power of x "
+        lines.append("Growth divided out at " + ", ".join(point_text(p.at, 12) for p in rim) + ": the power of x "
                      "at large x read from the series (method line) was divided out there, the mapped function "
                      "multiplied by (1 - w/w_inf)^alpha, alpha = " + rim[0].diagnostics["rim_power_alpha"] +
                      ", before the approximants; the other points were resummed without it.")
@@ -222,7 +223,7 @@ def _render(result, title, reference):
                      "converged at each point, extrapolated in n and in sqrt(n), the larger count kept; not a promise):")
         for p in short:
             r = p.diagnostics["reach"]
-            head = (f"  {mpmath.nstr(p.at, 12)}: {r['digits']} digits; about {r['digits_per_term']} digits per "
+            head = (f"  {point_text(p.at, 12)}: {r['digits']} digits; about {r['digits_per_term']} digits per "
                     f"added term ({r['terms_per_digit']} terms per digit); ")
             if r.get("terms_needed"):
                 lines.append(head + f"{r['asked_digits']} digits would need about {r['terms_needed']} terms "
@@ -238,7 +239,7 @@ def _render(result, title, reference):
             extra = ""
             if p.diagnostics.get("exp(-A/x)"):
                 extra = f"; exp(-A/x) = {p.diagnostics['exp(-A/x)']} for A = {p.diagnostics.get('ray_singularity')}"
-            lines.append(f"  {mpmath.nstr(p.at, 12)}: imag = {_fmt(p.imag)}{extra}")
+            lines.append(f"  {point_text(p.at, 12)}: imag = {_fmt(p.imag)}{extra}")
     if reference:
         lines.append("")
         lines.append("Reference values:")
@@ -257,7 +258,7 @@ def _render(result, title, reference):
         lines.append("")
         lines.append("Warnings:")
         for p in fails:
-            lines.append(f"  {mpmath.nstr(p.at, 12)}: {p.message}")
+            lines.append(f"  {point_text(p.at, 12)}: {p.message}")
         for w in result.warnings:
             if not any(w.endswith(p.message) for p in fails if p.message):
                 lines.append(f"  {w}")

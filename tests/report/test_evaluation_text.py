@@ -54,7 +54,7 @@ def test_complex_point_shows_its_imaginary_part_in_the_value():
         truth = mpmath.log(1 + z) / z
         assert p.value.contains(truth.real) and p.imag.contains(truth.imag)
     text = render_evaluation(res)
-    row = next(line for line in text.splitlines() if line.startswith("(3.0 + 2.0j)"))
+    row = next(line for line in text.splitlines() if line.startswith("3.0 + 2.0*I"))
     assert " - i*0.1234453420424" in row            # Im = -0.12344534204242866498...
     assert "lateral" not in text
 
