@@ -294,8 +294,11 @@ def estimate_ratio(series, ctx=None, step=None):
                 rel = r["mu_s_half"] / abs(r["mu_s"])
                 cands.append((rel, r))
         if not cands:
+            n_zero = sum(1 for v in c if v == 0)
             why = (f"the coefficients carry only {prep.digits} digit{'s' if prep.digits != 1 else ''}"
-                   if prep.digits is not None and prep.digits < 6 else "zero coefficients?")
+                   if prep.digits is not None and prep.digits < 6 else
+                   f"{n_zero} zero coefficient{'s' if n_zero != 1 else ''} among {len(c)}" if n_zero else
+                   f"{len(c)} terms are too few for the ratio fits; give more terms")
             return failed(method, Status.TOO_FEW_TERMS, f"too few usable ratios ({why})", prep)
         cands.sort(key=lambda t: t[0])
         rel, r = cands[0]
@@ -417,7 +420,11 @@ def estimate_root_test(series, ctx=None):
         N = len(c)
         pts = [(n, mpmath.log(abs(c[n]))) for n in range(N // 3, N) if c[n] != 0]
         if len(pts) < 8:
-            return failed(method, Status.TOO_FEW_TERMS, "too few non-zero coefficients", prep)
+            zeros = N - N // 3 - len(pts)
+            return failed(method, Status.TOO_FEW_TERMS,
+                          f"only {len(pts)} non-zero coefficients from order {N // 3} on (the upper two "
+                          f"thirds{f', {zeros} of them zero' if zeros else ''}); the root test needs 8: "
+                          "give more terms", prep)
         fit = _root_fits(pts)
         envelope = None
         if fit is None or fit[1] > fit[0] * ROOT_ENVELOPE_SPREAD:

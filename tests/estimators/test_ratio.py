@@ -200,3 +200,15 @@ def test_growth_class_survives_a_crossover_of_two_terms():
 def test_not_applicable_is_reported_not_raised():
     r = estimate_ratio(Series(euler_series(30)), CTX)
     assert not r.success and r.status.value == "not applicable"
+
+
+def test_short_series_is_told_it_is_short_not_that_it_has_zeros():
+    # -log(1 - x)/x = sum x^k/(k + 1) (common practice, no source): 10 terms, none zero; the
+    # messages used to ask about zero coefficients
+    s = Series([Fraction(1, k + 1) for k in range(10)])
+    r = estimate_root_test(s, CTX)
+    assert not r.success and "needs 8" in r.message and "give more terms" in r.message
+    assert "of them zero" not in r.message
+    q = estimate_ratio(s, CTX)
+    if not q.success:
+        assert "zero coefficient" not in q.message and "give more terms" in q.message
