@@ -546,6 +546,7 @@ def plot_strong(records, key, x=None, ax=None):
     source's finite-coupling values (open)."""
     x = family_x(records, x)
     ax = _ax(ax)
+    drawn = False
     for kind, label, mk, colour in _STRONG_KINDS:
         def get(r, kind=kind):
             d = (_task(r, "strong") or {}).get(kind)
@@ -560,6 +561,11 @@ def plot_strong(records, key, x=None, ax=None):
                 return _band(next(iter(co.values()))) if co else None
             return _band(co[key]) if key in co else None     # absent: that form had no such term
         _draw(ax, _series(records, x, get, "strong"), label, mk, color=colour)
+        drawn = drawn or _has(records, get)
+    if not drawn:
+        # an empty frame reads as a plotting bug: say why there is nothing
+        ax.text(0.5, 0.5, "no point's fit converged\n(see each record's strong-coupling message)",
+                transform=ax.transAxes, ha="center", va="center", fontsize=9, color="0.4")
     return _finish(ax, x, "leading power" if key == "leading_power" else
                    "leading coefficient" if key == "leading" else f"coefficient of {key}")
 

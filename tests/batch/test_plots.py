@@ -77,3 +77,21 @@ def test_a_whole_number_axis_gets_whole_number_ticks():
     fig, ax = plt.subplots()
     assert not integer_ticks(fig, frac, "angle")
     plt.close(fig)
+
+
+def test_strong_panel_says_why_it_is_empty():
+    """Records whose strong-coupling fits all failed: the panel says so instead of an empty frame
+    (the leading power still has its band, so the panel exists)."""
+    import matplotlib.pyplot as plt
+    from resum.plots.family import plot_strong, strong_keys
+    recs = [{"index": i, "key": f"p{i:05d}", "status": "ok", "params": {"angle": str(a)},
+             "labels": {"angle": str(a)}, "axes": ["angle"],
+             "tasks": {"strong": {"resummed": {
+                 "success": False, "status": "not converged", "coefficients": {},
+                 "leading_power": {"value": "1.0", "lo": "0.95", "hi": "1.05"},
+                 "power_source": "log-derivative 1.0 rounded to 1; not confirmed by a fit"}}}}
+            for i, a in enumerate((0.1, 0.2))]
+    assert strong_keys(recs) == ["leading_power"]
+    ax = plot_strong(recs, "leading_power", x="angle")
+    assert any("no point's fit converged" in t.get_text() for t in ax.texts)
+    plt.close("all")
