@@ -68,7 +68,7 @@ from .context import DEFAULT, Context
 from .errors import InputError
 from .results import Estimate, Provenance, Status, num_to_str, jsonable, point_label, point_text
 from .series.core import Series
-from .estimators.resum_band import PointOutcome, rational_fit
+from .estimators.resum_band import PointOutcome, rational_fit, supports_no_digit as _supports_no_digit
 from .estimators.resum_truncation import optimal_truncation, polynomial_degree
 from .estimators._common import first_term_scale
 from .estimators.resum_ode import equation_shape
@@ -1456,15 +1456,6 @@ def _zero_within(re: Estimate, im: Optional[Estimate], scale) -> bool:
     err = re.error if im is None else max(re.error, im.error)
     inside = re.contains(0) and (im is None or im.contains(0))
     return bool(inside and scale > 0 and err <= ZERO_FRACTION * scale)
-
-
-def _supports_no_digit(re: Estimate, im: Optional[Estimate]) -> bool:
-    """True when the band supports less than one significant digit of the value (relative to
-    its modulus, so that a value with a tiny real part and a large imaginary part is judged as
-    the complex number it is). An exact zero with any band is left alone."""
-    size = abs(re.value) if im is None else mpmath.hypot(re.value, im.value)
-    err = re.error if im is None else max(re.error, im.error)
-    return size != 0 and err * 10 > size
 
 
 def _reach(info: dict, est: Estimate, asked: int, n_terms: int) -> Optional[dict]:

@@ -560,6 +560,15 @@ class PointOutcome:
     info: dict = field(default_factory=dict)
 
 
+def supports_no_digit(re: Estimate, im: Optional[Estimate]) -> bool:
+    """True when the band supports less than one significant digit of the value (relative to
+    its modulus, so that a value with a tiny real part and a large imaginary part is judged as
+    the complex number it is). An exact zero with any band is left alone."""
+    size = abs(re.value) if im is None else mpmath.hypot(re.value, im.value)
+    err = re.error if im is None else max(re.error, im.error)
+    return size != 0 and err * 10 > size
+
+
 def outcomes_from_table(table, n_used, *, floors=None, safety=4, min_core=3):
     """Band every point of a candidate table ``table[point][candidate]``."""
     out = []

@@ -43,7 +43,7 @@ import flint
 import mpmath
 
 from ..transforms._arb import flint_precision, to_acb
-from .resum_band import candidate_orders, fit_candidates, outcomes_from_table
+from .resum_band import candidate_orders, fit_candidates, outcomes_from_table, supports_no_digit
 
 __all__ = ["pade_evaluate", "partial_sum_evaluate"]
 
@@ -113,13 +113,6 @@ def pade_evaluate(c: Sequence, zs: Sequence, dps: int, *, n_orders: int = 7,
     return outs, {"n_singular_systems": singular, "orders": [list(o) for o in orders]}
 
 
-def _poor(o) -> bool:
-    """No result, or a band wider than a tenth of the value."""
-    if not o.ok or o.re is None:
-        return True
-    return o.re.error > abs(o.re.value) / 10
-
-
 def _mark_cut_points(fits, zs, outs, dps, keep_poles_beyond=None):
     """Where the approximants gave no usable value at a real point, say whether the point
     lies among the real poles of the approximant with the most terms: poles on both sides of
@@ -129,7 +122,8 @@ def _mark_cut_points(fits, zs, outs, dps, keep_poles_beyond=None):
     approached from. Sets ``info["cut_hint"]`` (a sentence) on those outcomes. The roots are
     computed only when a real point failed (they cost more than the evaluation)."""
     poor = [j for j, (z, o) in enumerate(zip(zs, outs))
-            if _poor(o) and not isinstance(z, mpmath.mpc) and z != 0
+            if (not o.ok or o.re is None or supports_no_digit(o.re, o.im))
+            and not isinstance(z, mpmath.mpc) and z != 0
             and (keep_poles_beyond is None or abs(z) < keep_poles_beyond)]
     if not poor or not fits:
         return

@@ -212,8 +212,7 @@ def _at_key(a) -> str:
 
 def _values(r, task):
     t = _task(r, task)
-    return {_at_key(v.get("at")) + (f"+{v['at_im']}i" if v.get("at_im") else ""): v
-            for v in (t or {}).get("values", []) if isinstance(v, dict)}
+    return {_at_key(v.get("at")): v for v in (t or {}).get("values", []) if isinstance(v, dict)}
 
 
 # ----------------------------------------------------------------------------
