@@ -53,6 +53,8 @@ behaviour of perturbation theory).
 """
 from __future__ import annotations
 
+import math
+
 import mpmath
 
 from ..results import Estimate, Singularity, Status
@@ -85,8 +87,9 @@ def classify_growth(c):
     ``kappa`` is the slope of ``log |c_n / c_(n-2)|^(1/2)`` against ``log n``
     over the second half of the coefficients: about 1 for ``c_n ~ Gamma(n)``
     growth (factorial, radius 0), about 0 for a finite radius, negative for
-    an entire-like function. ``kind`` is ``"factorial"`` (kappa > 0.6),
-    ``"entire-like"`` (kappa < -0.5) or ``"finite radius"``.
+    an entire-like function (-1/rho for order rho). ``kind`` is ``"factorial"`` (kappa > 0.6),
+    ``"entire-like"`` (kappa < -0.3 and the apparent radius ``|c_n|^(-1/n)`` growing, see
+    :func:`_apparent_radius_grows`; exp(-x^2) has kappa -1/2 exactly) or ``"finite radius"``.
     # common practice, no source (thresholds chosen here)
 
     The slope is the median of the slopes between all pairs of points
@@ -112,9 +115,36 @@ def classify_growth(c):
     kappa = mpmath.mpf(slopes[m // 2] if m % 2 else (slopes[m // 2 - 1] + slopes[m // 2]) / 2)
     if kappa > 0.6:
         return "factorial", kappa
-    if kappa < -0.5:
+    if kappa < -0.3 and _apparent_radius_grows(c):
         return "entire-like", kappa
     return "finite radius", kappa
+
+
+def _apparent_radius_grows(c) -> bool:
+    """Whether the apparent radius ``|c_n|^(-1/n)`` grows with ``n`` over the second half, as
+    for an entire function (like ``n^(1/rho)`` for order rho: ``exp x`` slope 1 of its log
+    against ``log n``, ``exp(-x^2)`` slope 1/2), rather than settling (finite radius: slope near
+    0). The coefficients' envelope (the largest ``|c_m|`` over the last few ``m <= n``) stands
+    in for ``|c_n|``, so that a slowly turning phase (a pair of poles at angle 0.1 from the real
+    axis: ``c_n = sin((n + 1) t)/sin t``) does not pass for decay. The ratio slope alone read
+    that pair, and its twin at radius 1/2 with coefficients growing like 2^n, as entire.
+    Threshold 1/4 (entire functions up to order 4); common practice, no source."""
+    N = len(c)
+    n0 = max(2, N // 2)
+    w = max(3, N // 12)
+    logs = [None if v == 0 else float(mpmath.log(abs(v))) for v in c]
+    xs, ys = [], []
+    for n in range(n0, N):
+        win = [v for v in logs[max(1, n - w):n + 1] if v is not None]
+        if win:
+            xs.append(math.log(n))
+            ys.append(-max(win) / n)
+    if len(xs) < 4:
+        return True
+    slopes = sorted((ys[j] - ys[i]) / (xs[j] - xs[i]) for i in range(len(xs)) for j in range(i + 1, len(xs)))
+    m = len(slopes)
+    slope = slopes[m // 2] if m % 2 else (slopes[m // 2 - 1] + slopes[m // 2]) / 2
+    return slope > 0.25
 
 
 # ---------------------------------------------------------------------------

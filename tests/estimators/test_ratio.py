@@ -212,3 +212,29 @@ def test_short_series_is_told_it_is_short_not_that_it_has_zeros():
     q = estimate_ratio(s, CTX)
     if not q.success:
         assert "zero coefficient" not in q.message and "give more terms" in q.message
+
+
+@pytest.mark.parametrize("R", ["1", "0.5", "2"])
+def test_slowly_turning_pole_pair_is_not_entire(R):
+    # 1/(1 - 2 cos(t) x/R + x^2/R^2) = sum U_n(cos t) (x/R)^n with U_n(cos t) = sin((n+1)t)/sin t
+    # (Chebyshev polynomials of the second kind; common practice, no source): poles at R e^(+-it).
+    # With t = 0.1 the phase turns so slowly over 60 terms that the ratio slope read the series
+    # as entire (radius infinite), even at R = 1/2 where the coefficients grow like 2^n.
+    with workdps(40):
+        t, r = mpmath.mpf("0.1"), mpmath.mpf(R)
+        c = [mpmath.sin((n + 1) * t) / mpmath.sin(t) / r ** n for n in range(60)]
+    assert classify_growth(c)[0] == "finite radius"
+
+
+@pytest.mark.parametrize("f", ["exp", "gauss", "cos"])
+def test_entire_functions_stay_entire(f):
+    # exp(x) (order 1), exp(-x^2) (order 2, every other coefficient zero), cos x: coefficients
+    # 1/n!, (-1)^k/k! at x^(2k), (-1)^k/(2k)! (common practice, no source)
+    with workdps(40):
+        if f == "exp":
+            c = [1 / mpmath.factorial(n) for n in range(60)]
+        elif f == "gauss":
+            c = [(-1) ** (n // 2) / mpmath.factorial(n // 2) if n % 2 == 0 else mpmath.mpf(0) for n in range(60)]
+        else:
+            c = [(-1) ** (n // 2) / mpmath.factorial(n) if n % 2 == 0 else mpmath.mpf(0) for n in range(60)]
+    assert classify_growth(c)[0] == "entire-like"
