@@ -281,8 +281,8 @@ class Estimate:
             return dict(texts)
         with workprec(self._prec()):
             dps = _dps_for_band(self)
-            return {"value": num_to_str(self.value, dps), "lo": num_to_str(self.lower, dps),
-                    "hi": num_to_str(self.upper, dps)}
+            return {"value": num_to_str(self.value, dps), "lo": _end_to_str(self.lower, dps, up=False),
+                    "hi": _end_to_str(self.upper, dps, up=True)}
 
     @classmethod
     def from_dict(cls, d: dict) -> "Estimate":
@@ -334,6 +334,26 @@ def _span_prec(*xs) -> int:
     if not tops:
         return mpmath.mp.prec
     return int(min(max(mpmath.mp.prec, max(tops) - min(bottoms) + 20), 200000))
+
+
+def _end_to_str(x, dps: int, up: bool) -> str:
+    """A band end written with ``dps`` digits, rounded outward (``hi`` up, ``lo`` down): rounded
+    to nearest, the upper end of the radius of tan x + (1 - x/2)^(-1/2) came out
+    1.5707963267948966192313, just below pi/2 = 1.57079632679489661923132..., which the band held."""
+    x = mpmath.mpmathify(x)
+    text = num_to_str(x, dps)
+    if not mpmath.isfinite(x) or x == 0:
+        return text
+    with workprec(max(_prec_of(x), 64) + 20):
+        step = mpmath.mpf(10) ** (int(mpmath.floor(mpmath.log10(abs(x)))) - dps + 1)
+        y = x
+        for _ in range(3):
+            v = mpmath.mpf(text)
+            if (v >= x) if up else (v <= x):
+                return text
+            y = y + step / 2 if up else y - step / 2
+            text = num_to_str(y, dps)
+    return text
 
 
 def _dps_for_band(e: Estimate) -> int:

@@ -54,3 +54,16 @@ def test_points_are_written_as_the_input_grammar_reads_them():
             assert abs(back - z) <= abs(z) * mpmath.mpf(10) ** -9, (text, back)
         assert point_text(mpmath.mpc(0, "0.3")) == "0.3*I"
         assert point_text(mpmath.mpc(2, -1)) == "2.0 - 1.0*I"
+
+
+def test_band_ends_are_written_rounded_outward():
+    # rounded to nearest, the written upper end of a band reaching pi/2 + 1.3e-23 came out below
+    # pi/2 + 1.3e-23 and, in one analysis, below pi/2 itself (common practice, no source:
+    # outward rounding of interval ends)
+    with workdps(60):
+        for lo, hi in ((mpmath.pi / 2 - mpmath.mpf("1e-19"), mpmath.pi / 2 + mpmath.mpf("1.3e-23")),
+                       (mpmath.mpf("-3.00000123456789"), mpmath.mpf("-2.99999987654321")),
+                       (mpmath.mpf("0.12344"), mpmath.mpf("0.12346"))):
+            e = Estimate((lo + hi) / 2, lo, hi)
+            d = e.to_dict()
+            assert mpmath.mpf(d["lo"]) <= lo and mpmath.mpf(d["hi"]) >= hi, d
