@@ -117,3 +117,18 @@ def test_double_pole_band_covers_the_split_of_the_root():
     s0 = r.methods["pade"].singularities[0]
     assert s0.kind == "pole" and s0.exponent.value == -2
     assert s0.re.contains(1) and s0.im.contains(0)
+
+
+def test_equation_of_a_series_in_x_squared_is_written_in_u():
+    # (1 - x^2)^(-1/3) = sum binom(-1/3, k) (-x^2)^k (binomial series, common practice, no source):
+    # F(u) = (1 - u)^(-1/3) obeys (1 - u) F' - F/3 = 0 with u = x^2; f itself does not obey
+    # (1 - x) f' - f/3 = 0 (its x^0 coefficient: f'(0) - f(0)/3 = -1/3), which used to be printed
+    c = []
+    b = Fraction(1)
+    for k in range(40):
+        c += [b * (-1) ** k, Fraction(0)]
+        b = b * (Fraction(-1, 3) - k) / (k + 1)
+    res = analyze(Series(c[:80]), Context(dps=30), verify=False)
+    eq = res.contract_dict().get("equation", "")
+    assert "u = x^2" in eq and "F(u)" in eq, eq
+    assert "[1 - u] F'" in eq and "[-1/3] F" in eq, eq

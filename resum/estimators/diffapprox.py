@@ -596,7 +596,17 @@ def estimate_diffapprox(series, ctx=None, order=1, count=16, max_radius_factor=2
                 P0.pop()
             if len(P0) == 1 and abs(P0[0]) <= mpmath.mpf(10) ** (-prep.dps // 2):
                 P0 = [mpmath.mpf(0)]
-            diag["equation"] = equation_text(Q0, P0, "x", prep.digits)
+            if prep.stride > 1 or prep.offset:
+                # the fit ran on F with f(x) = x^offset F(x^stride): its equation is in u, not x
+                # ((1 - x^2)^(-1/3) printed "[1 - x] f' + [-1/3] f = 0", which f does not obey)
+                u = "x" if prep.stride == 1 else f"x^{prep.stride}"
+                xr = "" if not prep.offset else (" x" if prep.offset == 1 else f" x^{prep.offset}")
+                diag["equation"] = (equation_text(Q0, P0, "u" if prep.stride > 1 else "x", prep.digits)
+                                    .replace("f'", "F'").replace("] f", "] F")
+                                    + (f", with u = {u} and f(x) ={xr} F(u)" if prep.stride > 1
+                                       else f", with f(x) ={xr} F(x)"))
+            else:
+                diag["equation"] = equation_text(Q0, P0, "x", prep.digits)
         if probed and ens and not exact_eq:
             diag["note"] = ("the highest orders are ill-conditioned at this precision; lower orders were used "
                             "(more digits would use more terms)")
