@@ -165,11 +165,13 @@ class AnalysisResult:
                             "gamma_multiple": str(int(ld.get("gamma_multiple", 1))),
                             "stride": str(int(ld.get("stride", 1)))}
         # each method's own verdict (as in the text report's method table): the radius as
-        # {"value", "lo", "hi"} decimal strings, and as value(error) text
-        out["methods"] = {k: {"status": m.status.value, "message": m.message,
-                              "radius": None if m.radius is None else m.radius.to_dict(),
-                              "radius_text": None if m.radius is None else str(m.radius)}
-                          for k, m in self.methods.items()}
+        # {"value", "lo", "hi"} decimal strings, and as value(error) text of that written band
+        # (its ends rounded outward), so that the two say the same and survive a round trip
+        out["methods"] = {}
+        for k, m in self.methods.items():
+            rd = None if m.radius is None else m.radius.to_dict()
+            out["methods"][k] = {"status": m.status.value, "message": m.message, "radius": rd,
+                                 "radius_text": None if rd is None else str(Estimate.from_dict(rd))}
         eq = [m.diagnostics.get("equation") for m in self.methods.values()
               if (m.diagnostics or {}).get("exact_equation") and m.diagnostics.get("equation")]
         if eq:
