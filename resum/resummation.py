@@ -1269,11 +1269,12 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
             o2, o3 = done[1][0], done[2][0]
             for j in range(len(xs)):
                 checks[j] = [("higher precision", o2[j]), (f"{nf} terms", o3[j])]
+        # the digits the input carries (those asked, for exact coefficients): they bound the
+        # baseline's band, the agreement asked of the reruns and the digits reported
+        d_in = ctx.dps if series.digits is None else min(ctx.dps, series.digits)
         baselines = []
         for x in xs:
-            # the input's digits (those reported, for exact coefficients) bound the sum's band
-            t = optimal_truncation(c, x, wd, digits=ctx.dps if series.digits is None
-                                   else min(ctx.dps, series.digits))
+            t = optimal_truncation(c, x, wd, digits=d_in)
             baselines.append(Baseline(t["value"], t["imag"], t["n_terms"], t["smallest_term"],
                                       t["reached"], t["how"]))
         pts = []
@@ -1317,7 +1318,6 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                     agree[name + " band"] = mpmath.nstr(oc.re.error, 5)
                     # the input's own digits limit agreement too: a perturbation in the last
                     # digit of the coefficients may move the value by that much
-                    d_in = ctx.dps if series.digits is None else min(ctx.dps, series.digits)
                     tol = 100 * max(re.error + oc.re.error, abs(re.value) * mpmath.mpf(10) ** (3 - wd),
                                     abs(re.value) * mpmath.mpf(10) ** (-d_in))
                     if dev > tol:
@@ -1374,17 +1374,16 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                     warnings.append(f"at {point_text(a)}: {msg}")
             # never report more digits than the input carries or than were asked for
             if re is not None:
-                d_rep = ctx.dps if series.digits is None else min(ctx.dps, series.digits)
-                fl = abs(re.value) * mpmath.mpf(10) ** (-d_rep)
+                fl = abs(re.value) * mpmath.mpf(10) ** (-d_in)
                 if re.error < fl:
                     re = Estimate(re.value, min(re.lower, re.value - fl), max(re.upper, re.value + fl))
                     parts["digits floor"] = mpmath.nstr(re.error, 5)
                 pdiag["band_steps"] = parts
-                reach = _reach(o.info, re, d_rep, series.n_terms)
+                reach = _reach(o.info, re, d_in, series.n_terms)
                 if reach is not None:
                     pdiag["reach"] = reach
                 if im is not None:
-                    fli = max(abs(im.value), abs(re.value)) * mpmath.mpf(10) ** (-d_rep)
+                    fli = max(abs(im.value), abs(re.value)) * mpmath.mpf(10) ** (-d_in)
                     if im.error < fli:
                         im = Estimate(im.value, min(im.lower, im.value - fli), max(im.upper, im.value + fli))
                 zero_scale = first_term_scale(c, x)
@@ -1403,11 +1402,10 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                     # approximants looked (Padé at (1+x)^(-1/3), x = 1e6: -99 [-500, 300])
                     status, success = Status.NOT_CONVERGED, False
                     msg = (f"the band [{mpmath.nstr(re.lower, 2)}, {mpmath.nstr(re.upper, 2)}] supports no "
-                           "significant digit (more terms or another method, --method, may help; if the "
-                           "function vanishes near this point, the band is still an absolute error estimate)")
-                    if o.info.get("cut_hint"):
-                        msg = (f"the band [{mpmath.nstr(re.lower, 2)}, {mpmath.nstr(re.upper, 2)}] supports no "
-                               f"significant digit: {o.info['cut_hint']}")
+                           "significant digit")
+                    msg += (f": {o.info['cut_hint']}" if o.info.get("cut_hint") else
+                            " (more terms or another method, --method, may help; if the function vanishes "
+                            "near this point, the band is still an absolute error estimate)")
                     n_fail += 1
                     warnings.append(f"at {point_text(a)}: {msg}")
             p_method = o.info.get("method", plan.method)

@@ -390,7 +390,7 @@ def conformal_evaluate(c: Sequence, xs: Sequence, cmap: ConformalMap, dps: int, 
             outs[j] = PointOutcome(None, None, False,
                                    f"x = {mpmath.nstr(xs[j], 10)} lies on the cut of the map "
                                    f"({cmap.describe()}){ON_CUT_ADVICE}",
-                                   {"on_cut": True, "cut_map": cmap})
+                                   {"cut_map": cmap})
         else:
             _widen_in_rim_layer(o, ws[j], len(cw))
             o.info["w"] = mpmath.nstr(ws[j], 20)
