@@ -129,6 +129,12 @@ def source_choices(source) -> dict:
     return out
 
 
+def source_text_params(source) -> set:
+    """Names of the ``float`` parameters whose build() takes an expression text (``takes_text``)."""
+    return {str(_get(p, "name")) for p in _get(source, "params", ()) or ()
+            if not isinstance(p, (tuple, list)) and _get(p, "takes_text", False)}
+
+
 def source_limits(source) -> dict:
     """``{name: (minimum, maximum)}`` of the parameters with a lower or upper limit
     (inclusive; None where there is none)."""
@@ -269,6 +275,9 @@ class Axis:
 
     name: str
     values: tuple
+    #: expression text per value (None where there is none), for a parameter that takes it:
+    #: ``"pi/2"`` reaches the source as that text, not as its rounded value
+    texts: tuple = ()
 
     def __len__(self):
         return len(self.values)
@@ -325,6 +334,7 @@ class FamilySpec:
     raw: Mapping = field(repr=False)
     text: str = field(default="", repr=False)
     path: str = ""
+    fixed_texts: Mapping = field(default_factory=dict)
 
     @property
     def digest(self) -> str:
@@ -372,7 +382,12 @@ class FamilySpec:
     def source_kwargs(self, point: Point) -> dict:
         """Keyword arguments for the source's ``build`` at ``point``."""
         kw = dict(self.fixed)
+        kw.update(self.fixed_texts)
         kw.update(point.params)
+        for a in self.axes:
+            t = a.texts[point.axis_index[a.name]] if a.texts else None
+            if t is not None:
+                kw[a.name] = t
         return kw
 
 
@@ -531,11 +546,15 @@ class _Validator:
 
         # fixed parameters
         fixed = {}
+        fixed_texts = {}
+        self.text_params = source_text_params(source)
         fixed_raw = self.table(raw.get("fixed", {}), "fixed", set(params))
         for k, val in fixed_raw.items():
             fixed[k] = self._choice(k, _param_value(val, params[k][0], vdps,
                                                     self.where(f"fixed.{k}")),
                                     self.where(f"fixed.{k}"))
+            if k in self.text_params and _is_expression(val):
+                fixed_texts[k] = val.strip()
 
         # axes
         axes_raw = raw.get("axes")
@@ -592,7 +611,8 @@ class _Validator:
                            f"{plot_against!r} is not an axis; axes: {', '.join(a.name for a in axes)}")
         return FamilySpec(name=name, description=study.get("description", ""), source=src_name,
                           dps=dps, fixed=fixed, axes=tuple(axes), combine=combine, tasks=tasks,
-                          plot_against=plot_against, raw=raw, text=self.text, path=self.path)
+                          plot_against=plot_against, raw=raw, text=self.text, path=self.path,
+                          fixed_texts=fixed_texts)
 
     def _axis(self, name, spec, typ, dps) -> Axis:
         dotted = f"axes.{name}"
@@ -611,6 +631,7 @@ class _Validator:
                 w = self.where(f"{dotted}.values") + f"[{i}]"
                 out.append(self._choice(name, _param_value(v, typ, dps, w), w))
             out = tuple(out)
+            texts = tuple(v.strip() if _is_expression(v) else None for v in vals)
         else:
             rng = self.table(spec["range"], f"{dotted}.range", _RANGE_KEYS,
                              required=("start", "stop", "num"))
@@ -630,7 +651,12 @@ class _Validator:
             b = _number(rng["stop"], dps, w + " stop")
             out = tuple(self._choice(name, _coerce(x, typ, w, dps), w)
                         for x in _linspace(a, b, num, spacing, dps, w))
-        return Axis(name, out)
+            texts = ()
+            if spacing == "linear" and (_is_expression(rng["start"]) or _is_expression(rng["stop"])):
+                texts = _range_texts(rng["start"], rng["stop"], a, num)
+        if name not in getattr(self, "text_params", ()) or not any(t is not None for t in texts):
+            texts = ()
+        return Axis(name, out, texts)
 
     def _carried_digits(self, dps, fixed, axes, params) -> None:
         """Refuse a source ``dps`` (the digits its coefficients carry) below the study's ``dps``:
@@ -714,6 +740,36 @@ class _Validator:
             raise self.err("grid.combine", f"axes {', '.join(missing)} are not combined; "
                            "list every axis")
         return tuple(groups)
+
+
+def _is_expression(raw) -> bool:
+    """A TOML string that is not a plain decimal literal (``"pi/2"``, ``"3*pi/8"``)."""
+    if not isinstance(raw, str):
+        return False
+    try:
+        Fraction(raw.strip())
+        return False
+    except ValueError:
+        return True
+
+
+def _range_texts(start, stop, a, num):
+    """Expression text of each point of a linear range whose ends are expressions: the ends
+    as written, the interior ``start + k/(num-1)*((stop) - (start))`` (``k/(num-1)*(stop)``
+    when the start is 0), so every point is exact for a source that evaluates it."""
+    s0, s1 = str(start).strip(), str(stop).strip()
+    if num == 1:
+        return (s0,)
+    out = []
+    for k in range(num):
+        if k == 0:
+            out.append(s0)
+        elif k == num - 1:
+            out.append(s1)
+        else:
+            f = Fraction(k, num - 1)
+            out.append(f"{f}*({s1})" if a == 0 else f"({s0}) + {f}*(({s1}) - ({s0}))")
+    return tuple(out)
 
 
 def _linspace(a, b, num, spacing, dps, where):

@@ -301,6 +301,15 @@ def _result_json(res) -> dict:
 
 def _run_analyze(series, params, ctx, opts, source):
     from ..analysis import analyze
+    from ..estimators._common import polynomial_degree
+    deg = None if series.is_zero() else polynomial_degree(series, ctx)
+    if deg is not None:
+        # a point of a family where the series is a polynomial (the bes angle pi/2: 4 g^2) is an
+        # answer, not a failure: entire, no singularity (the analysis itself refuses the input)
+        return {"radius": {"value": "inf", "lo": "inf", "hi": "inf"}, "singularities": [],
+                "warnings": [f"the series is a polynomial of degree {deg} in {series.variable}: "
+                             "entire, no singularity"],
+                "growth": "polynomial", "status": "converged", "methods": {}}
     kw = {}
     if "methods" in opts:
         kw["methods"] = opts["methods"]

@@ -66,6 +66,21 @@ def _detect_stride(nz_idx):
     return max(g, 1), r
 
 
+def polynomial_degree(series, ctx: Optional[Context] = None, min_terms: int = MIN_TERMS) -> Optional[int]:
+    """The degree when ``series`` is a polynomial by the analysis's rule (fewer than
+    ``min_terms`` non-zero coefficients in the variable of its stride, followed by at least
+    ``min_terms`` zero ones: the zeros at the top are data, not missing terms); else None."""
+    dense = series.dense(ctx or DEFAULT)
+    nz = [i for i, c in enumerate(dense) if c != 0]
+    if not nz or len(dense) - 1 - nz[-1] < min_terms:
+        return None
+    k, r = _detect_stride(nz)
+    if k == 1:
+        r = 0
+    n_nonzero = sum(1 for m in range((len(dense) - 1 - r) // k + 1) if dense[r + m * k] != 0)
+    return series.start + nz[-1] if n_nonzero < min_terms else None
+
+
 def prepare(series, ctx: Optional[Context], min_terms: int = MIN_TERMS) -> Prepared:
     """Validate ``series`` and build the :class:`Prepared` coefficient list.
 

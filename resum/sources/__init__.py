@@ -62,6 +62,10 @@ class Param:
     choices: Optional[tuple] = None
     minimum: Any = None
     maximum: Any = None
+    #: a ``float`` parameter whose build() evaluates an expression text itself: a family grid
+    #: given by expressions (``stop = "pi/2"``) hands it the text of each point
+    #: (``"5/24*(pi/2)"``), so the value is exact at the source's own precision
+    takes_text: bool = False
 
     def check(self, value, where: Optional[str] = None):
         """``value`` if this parameter accepts it; else an InputError naming
@@ -213,7 +217,7 @@ SOURCES = {
         "bes", "angle-deformed BES kernel quantity F_a(g) = 4 g^2 [(1+K(a))^-1]_11, "
                "series in x = g^2 (a = pi/4: cusp anomalous dimension)",
         (Param("angle", "float", "pi/4", "deformation angle a in radians (a number or an "
-                                         "expression such as pi/3)"),
+                                         "expression such as pi/3)", takes_text=True),
          Param("loops", "int", 60, "number of loops: highest power g^(2 loops)",
                minimum=1, maximum=BES_MAX_LOOPS),
          Param("dps", "int", None, "correct significant digits of every coefficient "

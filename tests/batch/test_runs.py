@@ -425,3 +425,19 @@ verify = false
     header = (tmp_path / "o" / "summary.csv").read_text().splitlines()[0].split(",")
     assert header[:4] == ["key", "index", "status", "param_radius"]
     assert header.count("radius") == 1 and "radius_lo" in header
+
+
+def test_a_polynomial_point_of_a_family_is_an_answer_not_a_failure(tmp_path):
+    # at a = pi/2 the kernel K(a) = 2 cos(a) [...] vanishes and F = 4 g^2 (the definition of the
+    # family; common practice, no source): with the grid's text "pi/2" the series is that exact
+    # polynomial, and the analyze task records an entire function instead of failing the point
+    spec = parse_spec('[study]\nname = "p"\nsource = "bes"\ndps = 30\n[fixed]\nloops = 16\n'
+                      '[axes]\nangle = { range = { start = "3*pi/8", stop = "pi/2", num = 2 } }\n'
+                      '[tasks.analyze]\nverify = false\n[tasks.evaluate]\nat = [5]\n', path="spec.toml")
+    out = run_family(spec, tmp_path / "o", runner=SerialRunner(), quiet=True, plots=False)
+    assert out.counts["ok"] == 2 and out.counts["failed"] == 0
+    last = records(tmp_path / "o")["p00001.json"]["tasks"]
+    assert last["analyze"]["growth"] == "polynomial"
+    assert last["analyze"]["radius"]["value"] == "inf" and last["analyze"]["singularities"] == []
+    v = last["evaluate"]["values"][0]
+    assert mpmath.mpf(v["lo"]) <= 100 <= mpmath.mpf(v["hi"])      # 4 g^2 at g = 5

@@ -262,3 +262,36 @@ def test_expression_values_carry_the_largest_precision_a_point_asks_for():
                     "[axes]\nangle = [\"pi/8\"]\n[tasks.analyze]\n")
     with mpmath.workdps(80):
         assert abs(sp.axes[0].values[0] - mpmath.pi / 8) < mpmath.mpf(10) ** -65
+
+
+def test_expression_grid_points_reach_a_text_taking_source_exactly():
+    # a range written with expressions hands the bes source (whose angle takes a text) the
+    # text of each point; at a = pi/2 the kernel K(a) = 2 cos(a) [...] vanishes, so F = 4 g^2
+    # exactly (the definition of the family; common practice, no source). The rounded value
+    # pi/2 (mpf) left terms of size cos(a)^2 ~ 1e-100 in every coefficient.
+    sp = parse_spec("[study]\nname = \"t\"\nsource = \"bes\"\ndps = 30\n[fixed]\nloops = 6\n"
+                    "[axes]\nangle = { range = { start = 0, stop = \"pi/2\", num = 5 } }\n"
+                    "[tasks.analyze]\n")
+    assert sp.axes[0].texts == ("0", "1/4*(pi/2)", "1/2*(pi/2)", "3/4*(pi/2)", "pi/2")
+    pts = sp.points()
+    kw = sp.source_kwargs(pts[-1])
+    assert kw["angle"] == "pi/2"
+    from resum.sources import SOURCES
+    series = SOURCES["bes"].build(sp.context, **kw)
+    assert [float(c) for c in series.coefficients] == [0, 4, 0, 0, 0, 0, 0]
+    assert all(c == 0 for c in series.coefficients[2:])
+    # the numeric values (records, plots) are unchanged: the middle point is pi/4 to 30 digits
+    # (mpmath.pi, reference library), and its series starts 4 g^2 - (4/3) pi^2 g^4 (Beisert,
+    # Eden, Staudacher, J. Stat. Mech. (2007) P01021)
+    with mpmath.workdps(40):
+        assert abs(pts[2].params["angle"] - mpmath.pi / 4) < mpmath.mpf(10) ** -35
+        mid = SOURCES["bes"].build(sp.context, **sp.source_kwargs(pts[2]))
+        assert abs(mid.coefficients[2] + 4 * mpmath.pi ** 2 / 3) < mpmath.mpf(10) ** -25
+
+
+def test_sources_without_text_parameters_get_numbers():
+    # the test source's float parameters do not declare takes_text: they get the values
+    spec = parse(GOOD)
+    kw = spec.source_kwargs(spec.points()[-1])
+    assert not isinstance(kw["radius"], str) and not isinstance(kw["exponent"], str)
+    assert spec.axes[0].texts == ()
