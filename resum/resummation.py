@@ -1467,24 +1467,39 @@ def _reach(info: dict, est: Estimate, asked: int, n_terms: int) -> Optional[dict
     projects more terms, that larger number is given. None when the band already supports the digits asked or
     the approximants did not converge steadily; ``terms_needed`` is None beyond 3 x the
     terms at hand."""
-    rate = info.get("decay_digits_per_term")
-    if rate is None or not info.get("converging", False):
-        return None
-    rate = float(mpmath.mpf(rate))
     have = est.digits()
-    if rate < 0.002 or not math.isfinite(have) or have >= asked - 0.5:
+    if not math.isfinite(have) or have >= asked - 0.5:
         return None
-    need = n_terms + math.ceil((asked - have) / rate)
-    rate2 = info.get("decay_digits_per_sqrt_term")
-    if rate2 is not None and float(mpmath.mpf(rate2)) > 0:
-        # approximants of functions with cuts often converge like exp(-c sqrt(n)): the same
-        # fit in sqrt(n) gives the slower (larger) projection, which is the one kept
-        r2 = float(mpmath.mpf(rate2))
-        need = max(need, math.ceil((math.sqrt(n_terms) + (asked - have) / r2) ** 2))
+    need = terms_for_digits(info, have, asked, n_terms)
+    if need is None:
+        return None
+    rate = float(mpmath.mpf(info["decay_digits_per_term"]))
     # beyond 3 x the terms at hand a straight line says little: no number then
     return {"digits": round(have, 1), "digits_per_term": round(rate, 4), "asked_digits": asked,
             "terms_now": n_terms, "terms_needed": need if need <= 3 * n_terms else None,
             "terms_per_digit": math.ceil(1 / rate)}
+
+
+def terms_for_digits(info: dict, have: float, goal: float, n_terms: int) -> Optional[int]:
+    """Terms a point would need for ``goal`` digits, projected from how fast its approximants
+    converged (``info``: a point's diagnostics, with ``decay_digits_per_term`` and
+    ``decay_digits_per_sqrt_term`` from
+    :func:`~resum.estimators.resum_band.band_from_candidates`): ``(goal - have) / rate`` more
+    terms, or the larger number the same fit in ``sqrt(n)`` gives (approximants of functions
+    with cuts often converge like ``exp(-c sqrt(n))``). None when the approximants did not
+    converge steadily. A projection, not a promise."""
+    rate = info.get("decay_digits_per_term")
+    if rate is None or not info.get("converging", False):
+        return None
+    rate = float(mpmath.mpf(rate))
+    if rate < 0.002:
+        return None
+    need = n_terms + math.ceil(max(goal - have, 0) / rate)
+    rate2 = info.get("decay_digits_per_sqrt_term")
+    if rate2 is not None and float(mpmath.mpf(rate2)) > 0:
+        r2 = float(mpmath.mpf(rate2))
+        need = max(need, math.ceil((math.sqrt(n_terms) + max(goal - have, 0) / r2) ** 2))
+    return need
 
 
 def _wd(d):

@@ -315,6 +315,10 @@ def _result_fields(rec: dict, n_sing: int) -> dict:
     ev = tasks.get("evaluate")
     if isinstance(ev, dict):
         _values_fields("value", ev.get("values"), row)
+        search = ev.get("order_search")
+        if isinstance(search, dict):
+            row["value_terms_used"] = search.get("terms_used", "")
+            row["value_goal_reached"] = search.get("reached", "")
     tr = tasks.get("truth")
     if isinstance(tr, dict):
         _values_fields("truth", tr.get("values"), row)

@@ -49,6 +49,8 @@ class TaskDef:
     options: Mapping          # option -> kind: "numbers", "number", "int", "ints", "bool", "str", "strs"
     run: Callable
     required: tuple = ()
+    #: the worker passes ``rebuild(n_terms) -> Series`` (the point's series with another length)
+    wants_rebuild: bool = False
 
 
 # ----------------------------------------------------------------------------
@@ -321,11 +323,72 @@ def _points_arg(vals):
     return list(vals)
 
 
-def _run_evaluate(series, params, ctx, opts, source):
+def _run_evaluate(series, params, ctx, opts, source, rebuild=None):
     from ..resummation import evaluate
-    res = evaluate(series, _points_arg(opts["at"]), ctx=ctx, method=opts.get("method", "auto"),
-                   verify=opts.get("verify", True))
-    return _result_json(res)
+
+    def run(s):
+        return evaluate(s, _points_arg(opts["at"]), ctx=ctx, method=opts.get("method", "auto"),
+                        verify=opts.get("verify", True))
+    res = run(series)
+    if opts.get("goal_digits") is None or rebuild is None:
+        return _result_json(res)
+    res, search = _search_terms(series, res, run, rebuild, float(opts["goal_digits"]),
+                                opts.get("max_terms"))
+    out = _result_json(res)
+    out["order_search"] = search
+    return out
+
+
+#: rounds of "project, rebuild, evaluate again" at most; and the margin put on a projection
+_SEARCH_ROUNDS = 3
+_SEARCH_MARGIN = 1.15
+
+
+def _search_terms(series, res, run, rebuild, goal, max_terms):
+    """Rebuild the series with as many terms as the points short of ``goal`` digits project
+    they need (:func:`resum.resummation.terms_for_digits`, times a margin), evaluate again, at
+    most ``_SEARCH_ROUNDS`` times, never beyond ``max_terms`` (default 3 x the terms given).
+    Returns the last result and a record of the rounds. The projection is a straight line
+    through how fast the approximants converged at each point: an estimate, so each round
+    checks it by the evaluation itself."""
+    from ..resummation import terms_for_digits
+    n = series.n_terms
+    cap = int(max_terms) if max_terms else 3 * n
+    rounds = []
+    note = ""
+    for _ in range(_SEARCH_ROUNDS + 1):
+        digs = [(p, p.value.digits() if p.value is not None else -math.inf) for p in res.points]
+        low = min(d for _, d in digs)
+        rounds.append({"terms": n, "min_digits": f"{low:.1f}" if math.isfinite(low) else "none"})
+        short = [(p, d) for p, d in digs if d < goal - 0.05]
+        if not short:
+            note = f"every point reached {goal:g} digits"
+            break
+        if len(rounds) > _SEARCH_ROUNDS:
+            note = f"stopped after {_SEARCH_ROUNDS} rebuilds"
+            break
+        needs = [terms_for_digits(p.diagnostics, d, goal, n) if math.isfinite(d) else None
+                 for p, d in short]
+        if any(k is None for k in needs):
+            note = "a point short of the goal did not converge steadily: no projection"
+            break
+        want = max(int(math.ceil(max(needs) * _SEARCH_MARGIN)), n + max(4, n // 10))
+        if n >= cap:
+            note = f"the goal needs more than max_terms = {cap} terms"
+            break
+        want = min(want, cap)
+        try:
+            s2 = rebuild(want)
+        except InputError as exc:
+            note = f"the source cannot give {want} terms: {exc}"
+            break
+        n = s2.n_terms
+        res = run(s2)
+    return res, {"goal_digits": f"{goal:g}", "rounds": rounds, "terms_used": rounds[-1]["terms"],
+                 "reached": not short, "note": note,
+                 "how": "terms projected from each short point's convergence rate (digits per "
+                        f"term, or per sqrt(term) if slower) times {_SEARCH_MARGIN}, then checked by "
+                        "evaluating again; an estimate, not a promise"}
 
 
 def _strong_json(res) -> dict:
@@ -448,6 +511,23 @@ def _check_truth_task(opts, source_name, source):
         raise InputError("dps out of range; use 5..1000")
 
 
+def _check_evaluate(opts, source_name, source):
+    _check_module("resummation", "evaluate")(opts, source_name, source)
+    if opts.get("goal_digits") is not None:
+        g = opts["goal_digits"]
+        if not 0 < float(g) <= 1000:
+            raise InputError("goal_digits must be a number of digits from 1 to 1000")
+        if not _get_attr(source, "length"):
+            raise InputError(f"goal_digits: source {source_name!r} does not say which parameter sets "
+                             "its number of terms (a 'length' entry), so it cannot be asked for more")
+    if opts.get("max_terms") is not None and opts["max_terms"] < 3:
+        raise InputError("max_terms must be at least 3")
+
+
+def _get_attr(obj, key):
+    return obj.get(key) if isinstance(obj, dict) else getattr(obj, key, None)
+
+
 def _check_coefficients(opts, source_name, source):
     if opts.get("tail", 8) < 3:
         raise InputError("tail must be at least 3")
@@ -460,9 +540,10 @@ TASKS = {
                             {"at": "numbers", "tail": "int", "order": "int"}, _run_coefficients),
     "analyze": TaskDef("analyze", "radius, singularities and exponents with bands",
                        {"methods": "strs", "verify": "bool"}, _run_analyze),
-    "evaluate": TaskDef("evaluate", "resummed values at given couplings",
-                        {"at": "numbers", "method": "str", "verify": "bool"}, _run_evaluate,
-                        required=("at",)),
+    "evaluate": TaskDef("evaluate", "resummed values at given couplings (goal_digits: "
+                        "regenerate the series with the terms projected to reach them)",
+                        {"at": "numbers", "method": "str", "verify": "bool", "goal_digits": "number",
+                         "max_terms": "int"}, _run_evaluate, required=("at",), wants_rebuild=True),
     "strong": TaskDef("strong", "strong-coupling probe",
                       {"couplings": "numbers", "method": "str", "leading_power": "number",
                        "log_terms": "bool", "n_terms_fit": "ints", "max_rel_band": "number",
@@ -475,7 +556,7 @@ TASKS = {
 _CHECKS = {
     "coefficients": _check_coefficients,
     "analyze": _check_module("analysis", "analyze"),
-    "evaluate": _check_module("resummation", "evaluate"),
+    "evaluate": _check_evaluate,
     "strong": _check_strong,
     "truth": _check_truth_task,
 }

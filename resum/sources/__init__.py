@@ -96,6 +96,9 @@ class SourceSpec:
     build: Callable
     truth: Optional[Callable] = None
     truth_help: str = ""
+    #: (parameter, offset): the series built has ``value + offset`` coefficients, so a family
+    #: task that needs more terms (``evaluate`` with ``goal_digits``) can ask for them
+    length: Optional[tuple] = None
 
     def __post_init__(self):
         # every call of build: unknown parameters and a context beyond MAX_DPS are input errors
@@ -225,7 +228,8 @@ SOURCES = {
                minimum=MIN_DPS, maximum=MAX_DPS),
          Param("exact", "bool", False, "also store the exact coefficients (pi, zeta values) in "
                                        "the provenance")),
-        _bes_build, _bes_truth, "F_a(g) at couplings g by a truncated matrix and quadrature"),
+        _bes_build, _bes_truth, "F_a(g) at couplings g by a truncated matrix and quadrature",
+        ("loops", 1)),
     "oscillator": SourceSpec(
         "oscillator", "energy levels of p^2 + x^2 + g x^4 as exact Rayleigh-Schrodinger series in g",
         (Param("state", "int", 0, "level: 0 ground state, 1 first excited, ...", minimum=0,
@@ -234,17 +238,19 @@ SOURCES = {
                                      "recursion's cost grows about like orders^4: 300 orders take "
                                      "about 8 s, 400 about 35 s",
                minimum=1, maximum=OSC_MAX_ORDERS)),
-        _osc_build, _osc_truth, "energy at couplings g by diagonalisation in an oscillator basis"),
+        _osc_build, _osc_truth, "energy at couplings g by diagonalisation in an oscillator basis",
+        ("orders", 0)),
     "phi4": SourceSpec(
         "phi4", "zero-dimensional phi^4 integral Z(g) = (2 pi)^(-1/2) Int exp(-x^2/2 - g x^4/4) dx",
         (Param("orders", "int", 60, "number of coefficients (g^0 .. g^(orders-1))",
                minimum=1, maximum=MAX_ORDERS),),
-        _phi4_build, _phi4_truth, "Z(g) from its modified-Bessel closed form"),
+        _phi4_build, _phi4_truth, "Z(g) from its modified-Bessel closed form", ("orders", 0)),
     "euler": SourceSpec(
         "euler", "Euler's series sum (sign)^n n! x^n",
         (Param("orders", "int", 50, "number of coefficients", minimum=1, maximum=MAX_ORDERS),
          Param("sign", "int", -1, "-1: alternating (Borel summable), 1: same sign", (-1, 1))),
-        _euler_build, _euler_truth, "Borel sum e^(1/x) E_1(1/x)/x (alternating series only)"),
+        _euler_build, _euler_truth, "Borel sum e^(1/x) E_1(1/x)/x (alternating series only)",
+        ("orders", 0)),
 }
 
 

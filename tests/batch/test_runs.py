@@ -441,3 +441,69 @@ def test_a_polynomial_point_of_a_family_is_an_answer_not_a_failure(tmp_path):
     assert last["analyze"]["radius"]["value"] == "inf" and last["analyze"]["singularities"] == []
     v = last["evaluate"]["values"][0]
     assert mpmath.mpf(v["lo"]) <= 100 <= mpmath.mpf(v["hi"])      # 4 g^2 at g = 5
+
+
+GOAL_SPEC = """
+[study]
+name = "goal"
+source = "bes"
+dps = 30
+[fixed]
+loops = 30
+dps = 45
+[axes]
+angle = ["0"]
+[tasks.evaluate]
+at = [2]
+verify = false
+goal_digits = %s
+%s
+"""
+
+
+def test_evaluate_with_a_goal_regenerates_the_series_with_the_projected_terms(tmp_path):
+    # at a = 0, F = (2/pi^2) log cosh(2 pi g) (Belitsky and Korchemsky, arXiv:1907.13131;
+    # mpmath as the reference). 30 loops give about 9 digits at g = 2; asked for 14, the task
+    # rebuilds the series with the terms its convergence rate projects and evaluates again
+    spec = parse_spec(GOAL_SPEC % (14, ""), path="spec.toml")
+    run_family(spec, tmp_path / "o", runner=SerialRunner(), quiet=True, plots=False)
+    ev = records(tmp_path / "o")["p00000.json"]["tasks"]["evaluate"]
+    search = ev["order_search"]
+    assert search["reached"] is True
+    assert search["rounds"][0]["terms"] == 31 and float(search["rounds"][0]["min_digits"]) < 14
+    assert 31 < search["terms_used"] <= 93
+    v = ev["values"][0]
+    assert float(v["digits"]) >= 14
+    with mpmath.workdps(40):
+        truth = 2 / mpmath.pi ** 2 * mpmath.log(mpmath.cosh(4 * mpmath.pi))
+        lo, hi = mpmath.mpf(v["lo"]), mpmath.mpf(v["hi"])
+        assert lo <= truth <= hi
+        assert abs(mpmath.mpf(v["value"]) - truth) < truth * mpmath.mpf(10) ** -14
+    from resum.batch.records import summary_rows
+    row = summary_rows(records(tmp_path / "o").values())[0]
+    assert row["value_terms_used"] == search["terms_used"]
+
+
+def test_a_goal_beyond_max_terms_stops_there_and_says_so(tmp_path):
+    spec = parse_spec(GOAL_SPEC % (29, "max_terms = 40"), path="spec.toml")
+    run_family(spec, tmp_path / "o", runner=SerialRunner(), quiet=True, plots=False)
+    search = records(tmp_path / "o")["p00000.json"]["tasks"]["evaluate"]["order_search"]
+    assert search["reached"] is False
+    assert search["terms_used"] == 40 and "max_terms = 40" in search["note"]
+
+
+@pytest.mark.parametrize("opts,words", [
+    ('goal_digits = 0', "goal_digits"),
+    ('goal_digits = 10\nmax_terms = 2', "max_terms"),
+])
+def test_goal_options_are_checked_before_any_work(opts, words):
+    text = GOAL_SPEC.replace("goal_digits = %s\n%s\n", opts + "\n")
+    with pytest.raises(InputError, match=words):
+        parse_spec(text, path="spec.toml")
+
+
+def test_a_goal_needs_a_source_that_names_its_length():
+    text = spec_text([1]).replace("[tasks.coefficients]\nat = [0.5]",
+                                  "[tasks.evaluate]\nat = [0.5]\ngoal_digits = 10")
+    with pytest.raises(InputError, match="length"):
+        parse_spec(text, path="spec.toml")
