@@ -75,7 +75,8 @@ from .estimators.resum_ode import equation_shape
 from .transforms.conformal import ConformalMap, PairMap, RayMap, StarMap, choose_map, crosses_pair_cut
 
 __all__ = ["METHODS", "evaluate", "EvaluationResult", "PointResult", "Baseline",
-           "probe_strong_coupling", "parse_points", "polynomial_degree"]
+           "probe_strong_coupling", "parse_points", "polynomial_degree", "evaluate_with_goal",
+           "terms_for_digits"]
 
 METHODS = ("auto", "partial-sum", "pade", "conformal-pade", "conformal-quadratic", "borel-pade",
            "borel-conformal-pade", "ode", "borel-ode")
@@ -1478,6 +1479,73 @@ def _reach(info: dict, est: Estimate, asked: int, n_terms: int) -> Optional[dict
     return {"digits": round(have, 1), "digits_per_term": round(rate, 4), "asked_digits": asked,
             "terms_now": n_terms, "terms_needed": need if need <= 3 * n_terms else None,
             "terms_per_digit": math.ceil(1 / rate)}
+
+
+#: rounds of "project, rebuild, evaluate again" at most; and the margin put on a projection
+GOAL_ROUNDS = 3
+GOAL_MARGIN = 1.15
+
+
+def evaluate_with_goal(series: Series, points, goal_digits: float, rebuild, ctx: Optional[Context] = None,
+                       max_terms: Optional[int] = None, first: Optional["EvaluationResult"] = None,
+                       **kwargs):
+    """:func:`evaluate`, and again with a longer series until every point's band supports
+    ``goal_digits`` digits.
+
+    ``rebuild(n) -> Series`` gives the same quantity's series with ``n`` coefficients (a source
+    asked for more loops or orders). Where a point falls short, the terms it needs are projected
+    from how fast its approximants converged (:func:`terms_for_digits`, times
+    :data:`GOAL_MARGIN`); the series is rebuilt with the largest projection and evaluated again,
+    at most :data:`GOAL_ROUNDS` times and never beyond ``max_terms`` (default 3 x the terms
+    given). ``first``: an evaluation of ``series`` already made; ``kwargs`` go to
+    :func:`evaluate`.
+
+    Returns ``(result, search)``: the last evaluation, and ``search`` = ``{"goal_digits",
+    "rounds": [{"terms", "min_digits"}], "terms_used", "reached", "note", "how"}``. The
+    projection is an estimate; the bands reported are those of the last evaluation, made as
+    usual.
+    """
+    def run(s):
+        return evaluate(s, points, ctx, **kwargs)
+    res = first if first is not None else run(series)
+    goal = float(goal_digits)
+    n = series.n_terms
+    cap = int(max_terms) if max_terms else 3 * n
+    rounds = []
+    note = ""
+    short = []
+    for _ in range(GOAL_ROUNDS + 1):
+        digs = [(p, p.value.digits() if p.value is not None else -math.inf) for p in res.points]
+        low = min(d for _, d in digs)
+        rounds.append({"terms": n, "min_digits": f"{low:.1f}" if math.isfinite(low) else "none"})
+        short = [(p, d) for p, d in digs if d < goal - 0.05]
+        if not short:
+            note = f"every point reached {goal:g} digits"
+            break
+        if len(rounds) > GOAL_ROUNDS:
+            note = f"stopped after {GOAL_ROUNDS} rebuilds"
+            break
+        needs = [terms_for_digits(p.diagnostics, d, goal, n) if math.isfinite(d) else None
+                 for p, d in short]
+        if any(k is None for k in needs):
+            note = "a point short of the goal did not converge steadily: no projection"
+            break
+        if n >= cap:
+            note = f"the goal needs more than max_terms = {cap} terms"
+            break
+        want = min(max(int(math.ceil(max(needs) * GOAL_MARGIN)), n + max(4, n // 10)), cap)
+        try:
+            longer = rebuild(want)
+        except InputError as exc:
+            note = f"the source cannot give {want} terms: {exc}"
+            break
+        n = longer.n_terms
+        res = run(longer)
+    return res, {"goal_digits": f"{goal:g}", "rounds": rounds, "terms_used": rounds[-1]["terms"],
+                 "reached": not short, "note": note,
+                 "how": "terms projected from each short point's convergence rate (digits per "
+                        f"term, or per sqrt(term) if slower) times {GOAL_MARGIN}, then checked by "
+                        "evaluating again; an estimate, not a promise"}
 
 
 def terms_for_digits(info: dict, have: float, goal: float, n_terms: int) -> Optional[int]:

@@ -303,8 +303,8 @@ def _result_json(res) -> dict:
 
 def _run_analyze(series, params, ctx, opts, source):
     from ..analysis import analyze
-    from ..estimators._common import polynomial_degree
-    deg = None if series.is_zero() else polynomial_degree(series, ctx)
+    from ..estimators._common import refused_polynomial_degree
+    deg = None if series.is_zero() else refused_polynomial_degree(series, ctx)
     if deg is not None:
         # a point of a family where the series is a polynomial (the bes angle pi/2: 4 g^2) is an
         # answer, not a failure: entire, no singularity (the analysis itself refuses the input)
@@ -324,71 +324,15 @@ def _points_arg(vals):
 
 
 def _run_evaluate(series, params, ctx, opts, source, rebuild=None):
-    from ..resummation import evaluate
-
-    def run(s):
-        return evaluate(s, _points_arg(opts["at"]), ctx=ctx, method=opts.get("method", "auto"),
-                        verify=opts.get("verify", True))
-    res = run(series)
+    from ..resummation import evaluate, evaluate_with_goal
+    kw = {"method": opts.get("method", "auto"), "verify": opts.get("verify", True)}
     if opts.get("goal_digits") is None or rebuild is None:
-        return _result_json(res)
-    res, search = _search_terms(series, res, run, rebuild, float(opts["goal_digits"]),
-                                opts.get("max_terms"))
+        return _result_json(evaluate(series, _points_arg(opts["at"]), ctx=ctx, **kw))
+    res, search = evaluate_with_goal(series, _points_arg(opts["at"]), float(opts["goal_digits"]),
+                                     rebuild, ctx=ctx, max_terms=opts.get("max_terms"), **kw)
     out = _result_json(res)
     out["order_search"] = search
     return out
-
-
-#: rounds of "project, rebuild, evaluate again" at most; and the margin put on a projection
-_SEARCH_ROUNDS = 3
-_SEARCH_MARGIN = 1.15
-
-
-def _search_terms(series, res, run, rebuild, goal, max_terms):
-    """Rebuild the series with as many terms as the points short of ``goal`` digits project
-    they need (:func:`resum.resummation.terms_for_digits`, times a margin), evaluate again, at
-    most ``_SEARCH_ROUNDS`` times, never beyond ``max_terms`` (default 3 x the terms given).
-    Returns the last result and a record of the rounds. The projection is a straight line
-    through how fast the approximants converged at each point: an estimate, so each round
-    checks it by the evaluation itself."""
-    from ..resummation import terms_for_digits
-    n = series.n_terms
-    cap = int(max_terms) if max_terms else 3 * n
-    rounds = []
-    note = ""
-    for _ in range(_SEARCH_ROUNDS + 1):
-        digs = [(p, p.value.digits() if p.value is not None else -math.inf) for p in res.points]
-        low = min(d for _, d in digs)
-        rounds.append({"terms": n, "min_digits": f"{low:.1f}" if math.isfinite(low) else "none"})
-        short = [(p, d) for p, d in digs if d < goal - 0.05]
-        if not short:
-            note = f"every point reached {goal:g} digits"
-            break
-        if len(rounds) > _SEARCH_ROUNDS:
-            note = f"stopped after {_SEARCH_ROUNDS} rebuilds"
-            break
-        needs = [terms_for_digits(p.diagnostics, d, goal, n) if math.isfinite(d) else None
-                 for p, d in short]
-        if any(k is None for k in needs):
-            note = "a point short of the goal did not converge steadily: no projection"
-            break
-        want = max(int(math.ceil(max(needs) * _SEARCH_MARGIN)), n + max(4, n // 10))
-        if n >= cap:
-            note = f"the goal needs more than max_terms = {cap} terms"
-            break
-        want = min(want, cap)
-        try:
-            s2 = rebuild(want)
-        except InputError as exc:
-            note = f"the source cannot give {want} terms: {exc}"
-            break
-        n = s2.n_terms
-        res = run(s2)
-    return res, {"goal_digits": f"{goal:g}", "rounds": rounds, "terms_used": rounds[-1]["terms"],
-                 "reached": not short, "note": note,
-                 "how": "terms projected from each short point's convergence rate (digits per "
-                        f"term, or per sqrt(term) if slower) times {_SEARCH_MARGIN}, then checked by "
-                        "evaluating again; an estimate, not a promise"}
 
 
 def _strong_json(res) -> dict:

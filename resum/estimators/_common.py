@@ -66,10 +66,12 @@ def _detect_stride(nz_idx):
     return max(g, 1), r
 
 
-def polynomial_degree(series, ctx: Optional[Context] = None, min_terms: int = MIN_TERMS) -> Optional[int]:
-    """The degree when ``series`` is a polynomial by the analysis's rule (fewer than
+def refused_polynomial_degree(series, ctx: Optional[Context] = None, min_terms: int = MIN_TERMS) -> Optional[int]:
+    """The degree when the analysis refuses ``series`` as a polynomial (fewer than
     ``min_terms`` non-zero coefficients in the variable of its stride, followed by at least
-    ``min_terms`` zero ones: the zeros at the top are data, not missing terms); else None."""
+    ``min_terms`` zero ones: the zeros at the top are data, not missing terms); else None.
+    (Evaluation sums a polynomial by its own rule,
+    :func:`resum.estimators.resum_truncation.polynomial_degree`.)"""
     dense = series.dense(ctx or DEFAULT)
     nz = [i for i, c in enumerate(dense) if c != 0]
     if not nz or len(dense) - 1 - nz[-1] < min_terms:
@@ -111,7 +113,7 @@ def prepare(series, ctx: Optional[Context], min_terms: int = MIN_TERMS) -> Prepa
         else:
             cplx = False
     n_nonzero = sum(1 for v in c if v != 0)
-    if n_nonzero < min_terms and nz and len(dense) - 1 - nz[-1] >= min_terms:
+    if refused_polynomial_degree(series, ctx, min_terms) is not None:
         # a polynomial: the many zero coefficients at the top are data, not missing terms
         raise InputError(f"the series is a polynomial of degree {series.start + nz[-1]} in {series.variable} "
                          f"(the {len(dense) - 1 - nz[-1]} coefficients above it are zero): an entire function "
