@@ -1500,10 +1500,10 @@ def evaluate_with_goal(series: Series, points, goal_digits: float, rebuild, ctx:
     given). ``first``: an evaluation of ``series`` already made; ``kwargs`` go to
     :func:`evaluate`.
 
-    Returns ``(result, search)``: the last evaluation, and ``search`` = ``{"goal_digits",
-    "rounds": [{"terms", "min_digits"}], "terms_used", "reached", "note", "how"}``. The
-    projection is an estimate; the bands reported are those of the last evaluation, made as
-    usual.
+    Returns ``(result, search, series_used)``: the last evaluation, ``search`` =
+    ``{"goal_digits", "rounds": [{"terms", "min_digits"}], "terms_used", "reached", "note",
+    "how"}``, and the series that evaluation used. The projection is an estimate; the bands
+    reported are those of the last evaluation, made as usual.
     """
     def run(s):
         return evaluate(s, points, ctx, **kwargs)
@@ -1541,11 +1541,12 @@ def evaluate_with_goal(series: Series, points, goal_digits: float, rebuild, ctx:
             break
         n = longer.n_terms
         res = run(longer)
+        series = longer
     return res, {"goal_digits": f"{goal:g}", "rounds": rounds, "terms_used": rounds[-1]["terms"],
                  "reached": not short, "note": note,
                  "how": "terms projected from each short point's convergence rate (digits per "
                         f"term, or per sqrt(term) if slower) times {GOAL_MARGIN}, then checked by "
-                        "evaluating again; an estimate, not a promise"}
+                        "evaluating again; an estimate, not a promise"}, series
 
 
 def terms_for_digits(info: dict, have: float, goal: float, n_terms: int) -> Optional[int]:

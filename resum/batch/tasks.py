@@ -328,7 +328,7 @@ def _run_evaluate(series, params, ctx, opts, source, rebuild=None):
     kw = {"method": opts.get("method", "auto"), "verify": opts.get("verify", True)}
     if opts.get("goal_digits") is None or rebuild is None:
         return _result_json(evaluate(series, _points_arg(opts["at"]), ctx=ctx, **kw))
-    res, search = evaluate_with_goal(series, _points_arg(opts["at"]), float(opts["goal_digits"]),
+    res, search, _ = evaluate_with_goal(series, _points_arg(opts["at"]), float(opts["goal_digits"]),
                                      rebuild, ctx=ctx, max_terms=opts.get("max_terms"), **kw)
     out = _result_json(res)
     out["order_search"] = search

@@ -55,6 +55,12 @@ def add_arguments(parser) -> None:
     parser.add_argument("--large-power", default=None, metavar="P",
                         help="expected power p of f ~ x^p at large x (conformal maps absorb it; default: read from "
                              "the series when it is clearly a simple fraction; 0 turns that off)")
+    parser.add_argument("--goal", default=None, metavar="D",
+                        help="digits wanted at every point: where a band falls short, regenerate the series "
+                             "with the terms its convergence projects (a file written by 'resum generate' "
+                             "names its source) and evaluate again, at most three times")
+    parser.add_argument("--max-terms", default=None, metavar="N",
+                        help="with --goal: never more terms than N (default 3 x the terms in FILE)")
     parser.add_argument("--no-verify", action="store_true",
                         help="skip the reruns at higher precision and with fewer terms (faster, less safe)")
     add_common_options(parser)
@@ -154,6 +160,7 @@ def run(args) -> int:
             large = parse_points([args.large_power], ctx.work_dps)[0]
         except InputError as exc:
             raise InputError(exc.bare, where="--large-power") from None
+    goal, max_terms, rebuild = _goal_options(args, series, ctx)
     n_curve = _curve_count(args.curve)     # None: the default, chosen from the method below
     if args.curve is not None and args.plot is None:
         raise InputError("the curve is drawn into the figure: give --plot DIR as well", where="--curve")
@@ -164,9 +171,16 @@ def run(args) -> int:
             raise InputError(f"--plot needs matplotlib ({exc}); install resum[plot]", where="--plot") from None
         prepare_plot_dir(args.plot)
     log(f"evaluating {series.n_terms} terms of {args.file} at {len(points)} point(s), {ctx.dps} digits")
+    search = None
     try:
-        result = evaluate(series, points, ctx, method=args.method, verify=not args.no_verify,
-                          large_x_power=large, progress=stage_log(args))
+        if goal is None:
+            result = evaluate(series, points, ctx, method=args.method, verify=not args.no_verify,
+                              large_x_power=large, progress=stage_log(args))
+        else:
+            from ..resummation import evaluate_with_goal
+            result, search, series = evaluate_with_goal(
+                series, points, goal, _logged(rebuild), ctx, max_terms=max_terms, method=args.method,
+                verify=not args.no_verify, large_x_power=large, progress=stage_log(args))
     except InputError as exc:
         raise at_file(exc, args.file) from None
     if args.plot is not None:
@@ -180,6 +194,8 @@ def run(args) -> int:
     if args.json:
         doc = result.contract_dict()
         doc["warnings"] = list(doc["warnings"]) + failed
+        if search is not None:
+            doc["order_search"] = search
         with_input_notes(doc, series)
         if reference:
             from ..report.evaluation_text import compare_reference
@@ -193,9 +209,59 @@ def run(args) -> int:
         from ..report.evaluation_text import render_evaluation
         sys.stdout.write(render_evaluation(result, title=series.name or os.path.basename(args.file),
                                            reference=reference))
+        if search is not None:
+            sys.stdout.write(_goal_text(search))
     for w in list(result.warnings) + failed:
         log(f"warning: {w}")
     return 0 if result.success else 1
+
+
+def _goal_options(args, series, ctx):
+    """(goal digits, max terms, rebuild) from --goal/--max-terms; (None, None, None) without."""
+    if args.goal is None:
+        if args.max_terms is not None:
+            raise InputError("--max-terms bounds the search of --goal: give --goal D as well",
+                             where="--max-terms")
+        return None, None, None
+    try:
+        goal = float(args.goal)
+    except ValueError:
+        goal = float("nan")
+    if not 0 < goal <= ctx.dps:
+        raise InputError(f"expected a number of digits from 1 to the --dps asked ({ctx.dps}), got "
+                         f"{args.goal!r}", where="--goal")
+    max_terms = None
+    if args.max_terms is not None:
+        try:
+            max_terms = int(args.max_terms)
+        except ValueError:
+            max_terms = 0
+        if max_terms < series.n_terms:
+            raise InputError(f"expected a whole number of terms, at least the {series.n_terms} in the "
+                             f"file, got {args.max_terms!r}", where="--max-terms")
+    from ..sources import rebuilder_from_provenance
+    try:
+        rebuild = rebuilder_from_provenance(series, ctx)
+    except InputError as exc:
+        raise InputError(exc.bare, where=f"{args.file}: --goal") from None
+    return goal, max_terms, rebuild
+
+
+def _logged(rebuild):
+    def run(n):
+        log(f"--goal: regenerating the series with {n} terms")
+        return rebuild(n)
+    return run
+
+
+def _goal_text(search) -> str:
+    rounds = "; ".join(f"{r['terms']} terms: {r['min_digits']} digits" for r in search["rounds"])
+    verdict = "reached" if search["reached"] else "not reached"
+    return (f"\nGoal {search['goal_digits']} digits at every point: {verdict} ({search['note']}). "
+            f"Rounds (terms: fewest digits a band supports): {rounds}. The terms of each round were "
+            f"projected from how fast the approximants converged at the points short of the goal "
+            f"(an estimate); the values above are the evaluation of the last round, with its own "
+            f"bands.\n")
 
 
 def _failure_notes(result) -> list:

@@ -254,6 +254,34 @@ SOURCES = {
 }
 
 
+def rebuilder_from_provenance(series, ctx: Optional[Context] = None):
+    """``n -> Series``: the series rebuilt with ``n`` coefficients by the built-in source its
+    provenance names (as ``resum generate`` writes it: the source and every parameter), through
+    the parameter that source names as its length; a ``dps`` parameter grows in proportion to
+    the terms (longer series lose more digits when re-expanded). Raises InputError when the
+    series does not come from a built-in source that names its length."""
+    prov = dict(getattr(series, "provenance", {}) or {})
+    name = prov.get("source")
+    if name not in SOURCES:
+        raise InputError("the series does not say which built-in source made it (its provenance has no "
+                         "'source'); write it with 'resum generate', or give more terms yourself")
+    src = SOURCES[name]
+    if not src.length:
+        raise InputError(f"source {name!r} does not name the parameter that sets its number of terms")
+    pname, offset = src.length
+    kw = {p.name: prov[p.name] for p in src.params if p.name in prov}
+    n0 = series.n_terms
+
+    def rebuild(n: int):
+        k = dict(kw)
+        k[pname] = int(n) - int(offset)
+        if k.get("dps"):
+            k["dps"] = max(int(k["dps"]), -(-int(k["dps"]) * int(n) // n0))
+        src.check(**k)
+        return src.build(ctx, **k)
+    return rebuild
+
+
 def get_source(name: str) -> SourceSpec:
     """The registered source ``name``; an unknown name is an input error listing the known ones."""
     try:

@@ -132,7 +132,7 @@ def goal_rows(cache, ctx, verify, t0):
             def rebuild(n, a=a):
                 return weak_coupling_series(a, n - 1, Context(dps=max(150, -(-150 * n // 101))))
             s = weak_coupling_series(a, 100, Context(dps=150))
-            r, search = evaluate_with_goal(s, [g], goal, rebuild, ctx, max_terms=cap, verify=verify)
+            r, search, _ = evaluate_with_goal(s, [g], goal, rebuild, ctx, max_terms=cap, verify=verify)
             base = row(f"bes a={a}", search["terms_used"], g, r.points[0], tv, None, td)
             rounds = ", ".join(f"{x['terms']}: {x['min_digits']}" for x in search["rounds"])
             rows.append([base[0], g, goal, search["terms_used"] - 1, rounds, base[4], base[5], base[7],

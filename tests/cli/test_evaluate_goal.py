@@ -1,0 +1,46 @@
+"""`resum evaluate --goal D`: a series written by `resum generate` is regenerated with the terms
+its convergence projects until every band supports D digits. Truth at angle 0:
+F_0(g) = (2/pi^2) log cosh(2 pi g) (Belitsky and Korchemsky, arXiv:1907.13131; the sources tests
+check it order by order), evaluated by mpmath."""
+import json
+
+import mpmath
+
+from resum.cli import main
+
+
+def test_goal_regenerates_and_reaches_the_digits(tmp_path, capsys):
+    f = tmp_path / "a0.json"
+    assert main(["generate", "bes", "--angle", "0", "--loops", "30", "--dps", "45", "-o", str(f)]) == 0
+    capsys.readouterr()
+    code = main(["evaluate", str(f), "--at", "2", "--goal", "14", "--no-verify", "--json"])
+    doc = json.loads(capsys.readouterr().out)
+    assert code == 0
+    search = doc["order_search"]
+    assert search["reached"] is True and search["rounds"][0]["terms"] == 31
+    assert float(search["rounds"][0]["min_digits"]) < 14 <= float(doc["values"][0]["digits"])
+    with mpmath.workdps(40):
+        truth = 2 / mpmath.pi ** 2 * mpmath.log(mpmath.cosh(4 * mpmath.pi))
+        v = doc["values"][0]
+        assert mpmath.mpf(v["lo"]) <= truth <= mpmath.mpf(v["hi"])
+        assert abs(mpmath.mpf(v["value"]) / truth - 1) < mpmath.mpf(10) ** -14
+
+
+def test_goal_needs_a_series_from_a_source(tmp_path, capsys):
+    f = tmp_path / "s.txt"
+    f.write_text("\n".join(str(k + 1) for k in range(20)) + "\n")       # 1/(1-x)^2
+    assert main(["evaluate", str(f), "--at", "2", "--goal", "10"]) == 2
+    err = capsys.readouterr().err.strip().splitlines()
+    assert len(err) == 1 and "--goal" in err[0] and "resum generate" in err[0]
+
+
+def test_goal_option_values_are_checked(tmp_path, capsys):
+    f = tmp_path / "a0.json"
+    assert main(["generate", "bes", "--angle", "0", "--loops", "20", "-o", str(f)]) == 0
+    capsys.readouterr()
+    for extra, words in ((["--goal", "0"], "--goal"), (["--goal", "ten"], "--goal"),
+                         (["--max-terms", "50"], "give --goal"),
+                         (["--goal", "10", "--max-terms", "5"], "at least the 21")):
+        assert main(["evaluate", str(f), "--at", "1", *extra]) == 2
+        err = capsys.readouterr().err
+        assert words in err and "Traceback" not in err
