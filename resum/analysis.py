@@ -92,6 +92,11 @@ class AnalysisResult:
         ``"finite radius"``, ``"factorial"`` or ``"entire-like"``.
     borel_singularity, borel_exponent : Estimate or None
         ``A`` and ``b`` of ``c_n ~ S A^-n Gamma(n+b)`` for factorial growth.
+    natural_boundary : Estimate or None
+        Radius ``R`` of a circle ``|x| = R`` along which the poles and zeros of the Padé
+        approximants crowd (a natural boundary is suspected there: an estimate, not a
+        proof; see :mod:`resum.estimators.boundary`); then ``radius`` is this band and no
+        singularity is reported. None otherwise.
     methods : dict
         Method name -> :class:`MethodResult`.
     warnings : tuple of str
@@ -113,6 +118,7 @@ class AnalysisResult:
     warnings: tuple = ()
     diagnostics: dict = field(default_factory=dict)
     provenance: Optional[Provenance] = None
+    natural_boundary: Optional[Estimate] = None
 
     def to_dict(self) -> dict:
         est = lambda e: None if e is None else e.to_dict()  # noqa: E731
@@ -122,7 +128,8 @@ class AnalysisResult:
                 "borel_exponent": est(self.borel_exponent),
                 "methods": {k: v.to_dict() for k, v in self.methods.items()},
                 "warnings": list(self.warnings), "diagnostics": _jsonable(self.diagnostics),
-                "provenance": None if self.provenance is None else self.provenance.to_dict()}
+                "provenance": None if self.provenance is None else self.provenance.to_dict(),
+                "natural_boundary": est(self.natural_boundary)}
 
     @classmethod
     def from_dict(cls, d: dict) -> "AnalysisResult":
@@ -132,7 +139,8 @@ class AnalysisResult:
                    d.get("growth", ""), est("borel_singularity"), est("borel_exponent"),
                    {k: MethodResult.from_dict(v) for k, v in d.get("methods", {}).items()},
                    tuple(d.get("warnings", [])), dict(d.get("diagnostics", {})),
-                   None if d.get("provenance") is None else Provenance.from_dict(d["provenance"]))
+                   None if d.get("provenance") is None else Provenance.from_dict(d["provenance"]),
+                   est("natural_boundary"))
 
     def contract_dict(self) -> dict:
         """The stable JSON contract: radius, singularities, warnings (plus extra keys).
@@ -143,7 +151,10 @@ class AnalysisResult:
         ``growth``, ``status``, ``borel`` (A, b, gamma_multiple m and stride for
         factorial growth c_n ~ S A^-n Gamma(m n + b)), ``methods`` (each estimator's status,
         message, radius as {"value", "lo", "hi"} and as value(error) text ``radius_text``), ``equation`` (a linear differential
-        equation the series obeys exactly, when one was found).
+        equation the series obeys exactly, when one was found), ``natural_boundary`` (when one is
+        suspected: ``{"radius": {"value", "lo", "hi"}, "radius_text", "evidence"}``, the circle
+        along which the Padé poles and zeros crowd; ``radius`` is then the same band and
+        ``singularities`` is empty).
         """
         if self.radius is None:
             rad = {"value": "nan", "lo": "nan", "hi": "nan"}
@@ -176,6 +187,11 @@ class AnalysisResult:
               if (m.diagnostics or {}).get("exact_equation") and m.diagnostics.get("equation")]
         if eq:
             out["equation"] = str(eq[0])
+        if self.natural_boundary is not None:
+            nb = self.natural_boundary.to_dict()
+            out["natural_boundary"] = {"radius": nb, "radius_text": str(Estimate.from_dict(nb)),
+                                       "evidence": str((self.diagnostics.get("natural_boundary") or {})
+                                                       .get("reason", ""))}
         return out
 
 
@@ -839,6 +855,119 @@ def _verify(series, ctx, names, base, warnings, progress=None):
             "combined": combined}, info
 
 
+def _boundary_probe(series, ctx, results=None):
+    """The natural-boundary probe (:mod:`resum.estimators.boundary`) on ``series``, its radius
+    in the series' variable; None when it does not apply.
+
+    With the main run's ``results``: skipped when a method found a linear differential equation
+    the series obeys exactly (its solutions have finitely many singular points), and run only
+    when the highest near-diagonal approximant of the Padé estimator has at least
+    ``MIN_RING_POLES`` poles (reused as the probe's top order: a table of a rational function
+    with a handful of poles is degenerate, and solving it again would cost seconds)."""
+    from .estimators._common import lift_radius
+    from .estimators.boundary import MIN_ORDER, MIN_RING_POLES, probe_natural_boundary
+    top = None
+    if results is not None:
+        if any(r.success and (r.diagnostics or {}).get("exact_equation") for r in results.values()):
+            return None
+        pade = results.get("pade")
+        if pade is not None:
+            apps = [a for a in (pade.diagnostics or {}).get("approximants", [])
+                    if abs(a["L"] - a["M"]) <= 1 and a["L"] + a["M"] >= MIN_ORDER]
+            if not apps:
+                return None
+            a = max(apps, key=lambda a: (a["L"] + a["M"], -abs(a["L"] - a["M"])))
+            if len(a["poles"]) < MIN_RING_POLES:
+                return None
+            top = {"L": a["L"], "M": a["M"], "poles": [(z, None) for z in a["poles"]], "zeros": list(a["zeros"])}
+    try:
+        prep = prepare(series, ctx)
+        with prep.ctx.working():
+            out = probe_natural_boundary(prep.c, prep.dps, prep.digits, top=top)
+    except (InputError, ZeroDivisionError, ValueError, ArithmeticError) as exc:
+        return {"suspected": False, "radius": None, "reason": f"probe failed: {exc}", "orders": []}
+    if out["radius"] is not None:
+        out["radius"] = lift_radius(out["radius"], prep.stride)
+    if prep.stride > 1:
+        out["reason"] += f" (in u = x^{prep.stride})"
+    return out
+
+
+def _mark_essential(series, ctx, sings, radius):
+    """Singularities of undetermined kind, real and nearest, whose coefficient ratios carry a
+    ``1/sqrt(n)`` term (:mod:`resum.estimators.essential`) become kind ``essential`` (no
+    exponent; location band unchanged). Returns (singularities, probe record or None)."""
+    from .estimators.essential import probe_essential
+    cand = [i for i, s in enumerate(sings) if s.exponent is None and s.kind == "unknown"
+            and s.im.value == 0 and radius is not None and abs(s.location) <= radius.upper]
+    if not cand:
+        return sings, None
+    try:
+        prep = prepare(series, ctx)
+    except InputError:
+        return sings, None
+    if prep.stride != 1 or prep.is_complex:
+        return sings, None
+    with prep.ctx.working():
+        out = probe_essential(prep.c)
+    rec = {k: v for k, v in out.items() if k not in ("beta", "location")}
+    rec["beta"] = None if out["beta"] is None else out["beta"].to_dict()
+    if not out["essential"]:
+        return sings, rec
+    loc = out["location"]
+    new = list(sings)
+    for i in cand:
+        s = sings[i]
+        if _overlap(s.re, loc):
+            note = (s.note + "; " if s.note else "") + \
+                f"essential: c_n ~ x_c^-n exp(beta sqrt(n)), beta = {out['beta']} (1/sqrt(n) term of the ratios)"
+            new[i] = replace(s, kind="essential", note=note)
+    return new, rec
+
+
+def _boundary_verdict(series, ctx, base, probe, verify, progress=None):
+    """The verdict when a natural boundary is suspected: the probe's band as the radius (widened
+    by its reruns with fewer terms and at higher precision), no singularities (the points the
+    estimators found are where the approximants' crowd happened to recur), one warning."""
+    say = progress or (lambda msg: None)
+    rad = probe["radius"]
+    info = {}
+    warnings = []
+    if verify:
+        n = series.n_terms
+        drop = max(2, n // 10)
+        reruns = {}
+        if n - drop >= MIN_TERMS + 4:
+            reruns["fewer_terms"] = (series.truncate(n - drop), ctx, FEWER_TERMS_FACTOR)
+        pkey, ps, pc = _precision_rerun(series, ctx)
+        reruns[pkey] = (ps, pc, SAFETY)
+        for key, (s2, c2, factor) in reruns.items():
+            say(f"verification, natural-boundary probe, {key.replace('_', ' ')}")
+            with c2.working():
+                p2 = _boundary_probe(s2, c2)
+            entry = {"n_terms": s2.n_terms, "dps": c2.dps,
+                     "natural_boundary": bool(p2 is not None and p2["suspected"])}
+            if p2 is not None and p2["radius"] is not None:
+                entry["radius_digits_agree"] = digits_agree(rad.value, p2["radius"].value)
+                rad = _widen(rad, p2["radius"], factor)
+            else:
+                warnings.append(f"the rerun with {key.replace('_', ' ')} does not see the crowd of poles "
+                                f"({(p2 or {}).get('reason', 'probe not applicable')}): the natural boundary "
+                                "rests on the full series alone")
+            info[key] = entry
+    pts = list(base["singularities"])
+    var = series.variable
+    text = (f"natural boundary suspected at |{var}| ~ {rad} [{mpmath.nstr(rad.lower, 3)}, "
+            f"{mpmath.nstr(rad.upper, 3)}]: {probe['reason']}; an estimate from the approximants' poles, "
+            "not a proof")
+    if pts:
+        text += (f"; not reported as singularities: {_points_by([(s, [s.method]) for s in pts[:6]])}"
+                 + (f" and {len(pts) - 6} more" if len(pts) > 6 else "")
+                 + " (points of that crowd that recur across orders, not isolated singularities)")
+    return {"radius": rad, "singularities": (), "borel": None, "borel_b": None,
+            "combined": {"radius": "natural-boundary probe"}}, info, [text] + warnings
+
+
 def analyze(series, ctx: Optional[Context] = None, methods=None, verify: bool = True,
             progress=None) -> AnalysisResult:
     """Radius, leading singularities and growth type of a power series, with bands.
@@ -876,11 +1005,18 @@ def _analyze(series, ctx, names, verify, prep, progress=None):
     results = _run(series, ctx, names, progress, "main run")
     warnings = []
     base = _reconcile(series, results, warnings)
-    if not verify:
+    probe = _boundary_probe(series, ctx, results) if base["growth"] == "finite radius" else None
+    boundary = None
+    if probe is not None and probe["suspected"]:
+        # the estimators' points and the warnings about them are superseded by the probe
+        final, verification, warnings = _boundary_verdict(series, ctx, base, probe, verify, progress)
+        boundary = final["radius"]
+    elif not verify:
         base = _screen_artifacts(series, ctx, base, warnings, progress)
-    verification = {}
-    final = dict(base)
-    if verify and base["radius"] is not None:
+    if boundary is None:
+        verification = {}
+        final = dict(base)
+    if boundary is None and verify and base["radius"] is not None:
         # rerun only the methods whose estimates made it into the verdict
         used = {s.method for s in base["singularities"]}
         used |= {m for c in base["combined"].get("singularities", []) for m in c.get("used", [])}
@@ -893,6 +1029,10 @@ def _analyze(series, ctx, names, verify, prep, progress=None):
         final_v, verification = _verify(series, ctx, contributing, base, warnings, progress)
         final.update(final_v)
     growth = base["growth"]
+    essential = None
+    if boundary is None and growth == "finite radius" and final["singularities"]:
+        sings, essential = _mark_essential(series, ctx, list(final["singularities"]), final["radius"])
+        final["singularities"] = tuple(sings)
     rad = final["radius"]
     if rad is not None and rad.lower < 0:
         final["radius"] = Estimate(rad.value, 0, rad.upper)     # widened by reruns: a modulus stays >= 0
@@ -907,6 +1047,8 @@ def _analyze(series, ctx, names, verify, prep, progress=None):
         msg = f"{n_ok} of {len(results)} methods converged"
         if n_ok == 0 and growth == "factorial":
             msg = "factorial growth, radius 0; no method located the Borel-plane singularity"
+        if boundary is not None:
+            msg += "; natural boundary suspected"
         if any(w.startswith("methods disagree") for w in warnings):
             status = Status.DISAGREE
         if any(w.startswith("precision limits") for w in warnings):
@@ -923,14 +1065,22 @@ def _analyze(series, ctx, names, verify, prep, progress=None):
                 + (" and at higher precision" if series.digits is None else " and with input perturbed in the last digit")
                 + "; bands widened to cover the changes (x" f"{FEWER_TERMS_FACTOR}" " the fewer-terms change, x"
                 f"{SAFETY}" " the precision change).")
+    if boundary is not None:
+        how += (" Natural boundary: " + probe["how"] + "; reruns with fewer terms and at higher precision "
+                "widen the band as above.")
     diag = {"how": how, "verification": verification, "combined": final["combined"],
             "seconds": round(time.perf_counter() - t0, 3), "dps": ctx.dps, "n_terms": series.n_terms,
             "variable": series.variable}
     if series.coupling is not None:
         diag["coupling"] = series.coupling.describe(series.variable)
+    if probe is not None:
+        diag["natural_boundary"] = {k: v for k, v in probe.items() if k != "radius"}
+    if essential is not None:
+        diag["essential"] = essential
     prov = Provenance("analyze", {"methods": names, "verify": verify}, series.n_terms, ctx.dps,
                       series.input_hash(), __version__)
     return AnalysisResult(success=success, status=status, message=msg, radius=final["radius"],
                           singularities=tuple(final["singularities"]), growth=growth,
                           borel_singularity=final["borel"], borel_exponent=final["borel_b"],
-                          methods=results, warnings=tuple(warnings), diagnostics=diag, provenance=prov)
+                          methods=results, warnings=tuple(warnings), diagnostics=diag, provenance=prov,
+                          natural_boundary=boundary)

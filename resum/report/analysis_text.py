@@ -46,6 +46,8 @@ def _fmt(e):
 
 def _theta(s):
     # (a bare "theta = -" read as a minus sign with its number lost)
+    if s.exponent is None and s.kind == "essential":
+        return "no exponent (the coefficients grow faster than any power times x_c^-n)"
     return "exponent not determined" if s.exponent is None else f"theta = {_fmt(s.exponent)}"
 
 
@@ -104,6 +106,11 @@ def _render(r, title):
                 lines.append("  (A: nearest singularity of the Borel transform; A < 0 means alternating signs)")
     else:
         lines.append(f"radius of convergence in {var}: {_fmt(r.radius)}")
+    nb = getattr(r, "natural_boundary", None)
+    if nb is not None:
+        lines.append(f"  natural boundary suspected at |{var}| ~ {_fmt(nb)}: the poles and zeros of the Padé "
+                     "approximants crowd along this circle, more of them at higher orders (an estimate, "
+                     "not a proof; no isolated singularity is reported)")
     if r.singularities:
         lines.append("")
         lines.append(f"leading singularities, f ~ A (1 - {var}/{var}_c)^theta near each:")
