@@ -44,8 +44,8 @@ Notes
 -----
 This is an estimate from the geometry of the approximants' poles, not a proof:
 a function with more poles or branch points on one circle than the orders can
-resolve (``1/(1 - x^60)`` from 100 terms) looks the same, and is reported the
-same way (the tell-tale is that the count keeps growing when terms are added).
+resolve could look the same (not measured; ``1/(1 - x^60) + 1/(2 - x)`` from 100
+exact terms gives no verdict, its table being degenerate); adding terms tells them apart.
 The radius band holds the middle 80 % of the ring points' moduli at the top
 order and twice the change of the median modulus across the orders.
 
