@@ -165,6 +165,18 @@ def _ring_stats(app):
             "inner_poles": [z for z in poles if abs(z) < lo]}
 
 
+def _crowd_fault(st):
+    """Why one approximant's poles and zeros do not crowd along a circle (None if they do)."""
+    tag = f"[{st['L']}/{st['M']}]"
+    if st["ring_fraction"] < RING_FRACTION:
+        return f"{tag}: only {st['ring']} of {st['points']} poles and zeros near one circle"
+    if st["max_gap_deg"] > MAX_GAP_DEG:
+        return f"{tag}: the poles near the circle leave an arc of {st['max_gap_deg']:.0f} deg empty"
+    if st["distinct_angles"] < DISTINCT_FRACTION * st["ring_poles"]:
+        return f"{tag}: the poles near the circle line up at {st['distinct_angles']} angles"
+    return None
+
+
 def probe_natural_boundary(c, dps: int, digits: int, top=None) -> dict:
     """Whether the poles and zeros of near-diagonal Padé approximants crowd along a circle.
 
@@ -216,20 +228,18 @@ def probe_natural_boundary(c, dps: int, digits: int, top=None) -> dict:
             out["reason"] = f"the [{app['L']}/{app['M']}] approximant has no poles"
             return out
         stats.append(st)
+        if len(stats) == 1 and (_crowd_fault(st) or st["ring_poles"] < MIN_RING_POLES):
+            # the highest order shows no crowd: no verdict, whatever the lower ones show, so they
+            # are not computed (the common case: a series with a few singularities or cuts)
+            break
     out["orders"] = [{k: (float(v) if isinstance(v, mpmath.mpf) else v) for k, v in st.items()
                       if k not in ("moduli", "poles", "ring_pole_list", "inner_poles")} for st in stats]
+    if len(stats) == 1:
+        st = stats[0]
+        out["reason"] = _crowd_fault(st) or f"only {st['ring_poles']} poles near the circle"
+        return out
 
-    def crowd_fault(st):
-        tag = f"[{st['L']}/{st['M']}]"
-        if st["ring_fraction"] < RING_FRACTION:
-            return f"{tag}: only {st['ring']} of {st['points']} poles and zeros near one circle"
-        if st["max_gap_deg"] > MAX_GAP_DEG:
-            return f"{tag}: the poles near the circle leave an arc of {st['max_gap_deg']:.0f} deg empty"
-        if st["distinct_angles"] < DISTINCT_FRACTION * st["ring_poles"]:
-            return f"{tag}: the poles near the circle line up at {st['distinct_angles']} angles"
-        return None
-
-    faults = [crowd_fault(st) for st in stats]
+    faults = [_crowd_fault(st) for st in stats]
     crowd = [st for st, f in zip(stats, faults) if f is None]
     t0, t1 = stats[0], stats[1]
     why = []
