@@ -1,5 +1,7 @@
 """Series with closed forms, shared by the tests.
 
+partition_numbers(n): coefficients of prod_k 1/(1 - x^k) (natural boundary on |x| = 1).
+
 binomial_series(p, n, scale=1): (1 + x/scale)^p = sum_k binom(p, k) (x/scale)^k, exact
 rationals; one branch point at x = -scale (cut (-inf, -scale]), radius |scale| (common
 practice, no source).
@@ -29,3 +31,13 @@ def quadratic_series(p, a1, a2, n: int) -> list:
             v += (2 * p - (m - 2)) * a2 * c[m - 2]
         c[m] = v / m
     return c
+
+
+def partition_numbers(n: int) -> list:
+    """p(0..n-1), the coefficients of prod_k 1/(1 - x^k) (Euler's recurrence by parts; common
+    practice, no source): exact integers."""
+    p = [1] + [0] * (n - 1)
+    for k in range(1, n):
+        for m in range(k, n):
+            p[m] += p[m - k]
+    return p

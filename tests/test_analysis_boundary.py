@@ -13,25 +13,18 @@ import pytest
 from resum.analysis import AnalysisResult, analyze
 from resum.report.analysis_text import render_analysis
 from resum.series import Series
-
-
-def _partitions(n):
-    p = [1] + [0] * (n - 1)
-    for k in range(1, n):
-        for m in range(k, n):
-            p[m] += p[m - k]
-    return p
+from tests.known_series import partition_numbers
 
 
 def test_partition_function_boundary_with_fast_methods():
-    res = analyze(Series(_partitions(100)), methods=["ratio", "root-test", "pade"], verify=False)
+    res = analyze(Series(partition_numbers(100)), methods=["ratio", "root-test", "pade"], verify=False)
     assert res.natural_boundary is not None and res.radius.contains(1)
     assert res.singularities == ()
 
 
 @pytest.mark.slow
 def test_partition_function_natural_boundary_verdict():
-    res = analyze(Series(_partitions(100)))
+    res = analyze(Series(partition_numbers(100)))
     assert res.natural_boundary is not None
     assert res.natural_boundary.contains(1) and res.radius.contains(1)
     assert res.singularities == ()          # no confident points inside the circle

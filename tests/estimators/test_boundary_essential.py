@@ -14,14 +14,7 @@ import mpmath
 
 from resum.estimators.boundary import probe_natural_boundary
 from resum.estimators.essential import probe_essential
-
-
-def _partitions(n):
-    p = [1] + [0] * (n - 1)
-    for k in range(1, n):
-        for m in range(k, n):
-            p[m] += p[m - k]
-    return p
+from tests.known_series import partition_numbers
 
 
 def _mp(c):
@@ -35,7 +28,7 @@ def _probe(c, dps=70):
 
 def test_partition_function_crowds_on_unit_circle():
     # natural boundary |x| = 1 (Flajolet, Fusy, Gourdon, Panario, Pouyanne, EJC 13 (2006) R103)
-    out = _probe(_partitions(120))
+    out = _probe(partition_numbers(120))
     assert out["suspected"], out["reason"]
     assert out["radius"].contains(1)
     assert out["radius"].width < 0.2          # sharp enough to say |x| ~ 1
@@ -83,7 +76,7 @@ def test_seven_poles_on_the_circle_are_not_a_boundary():
 
 
 def test_few_terms_give_no_verdict():
-    out = _probe(_partitions(30))
+    out = _probe(partition_numbers(30))
     assert not out["suspected"] and "too low" in out["reason"]
 
 
