@@ -95,9 +95,10 @@ def compute_point(spec: FamilySpec, index: int, runner: str = "") -> dict:
             # number is the same whichever process computed it
             with workdps(ctx.work_dps):
                 if TASKS[name].wants_rebuild:
+                    from ..sources import rebuilder
+                    rebuild = rebuilder(source, spec.source_kwargs(point), series.n_terms, ctx, build)
                     rec["tasks"][name] = TASKS[name].run(series, point.params, ctx, opts, source,
-                                                         rebuild=_rebuilder(spec, point, source, build,
-                                                                            ctx, series.n_terms))
+                                                         rebuild=rebuild)
                 else:
                     rec["tasks"][name] = TASKS[name].run(series, point.params, ctx, opts, source)
             seconds[name] = time.perf_counter() - t
@@ -109,27 +110,6 @@ def compute_point(spec: FamilySpec, index: int, runner: str = "") -> dict:
     seconds["total"] = time.time() - started
     rec["run"] = _run_info(started, seconds, runner)
     return rec
-
-
-def _rebuilder(spec, point, source, build, ctx, n_terms):
-    """``n -> Series``: the point's series rebuilt with ``n`` coefficients, through the
-    parameter the source names as its length (None when it names none). A ``dps`` the spec
-    gives the source grows in proportion (longer series lose more digits when re-expanded)."""
-    length = source.get("length") if isinstance(source, dict) else getattr(source, "length", None)
-    if not length:
-        return None
-    pname, offset = length
-
-    def rebuild(n):
-        kw = spec.source_kwargs(point)
-        kw[pname] = int(n) - int(offset)
-        if kw.get("dps"):
-            kw["dps"] = max(int(kw["dps"]), -(-int(kw["dps"]) * int(n) // n_terms))
-        check = getattr(source, "check", None)
-        if callable(check):
-            check(**kw)
-        return build(ctx, **kw)
-    return rebuild
 
 
 def failure_record(spec: FamilySpec, index: int, message: str, kind: str = "WorkerLost",

@@ -254,32 +254,46 @@ SOURCES = {
 }
 
 
+def rebuilder(source, kwargs: dict, n_terms: int, ctx: Optional[Context] = None, build=None):
+    """``n -> Series``: the series ``build(ctx, **kwargs)`` gave (``n_terms`` coefficients)
+    rebuilt with ``n`` coefficients, through the parameter the source names as its length
+    (``length = (parameter, offset)``: the series has ``value + offset`` terms); a ``dps`` in
+    ``kwargs`` grows in proportion to the terms (longer series lose more digits when
+    re-expanded). None when the source names no length. ``source``: a :class:`SourceSpec`, or
+    an object or dict of one's own with ``build`` and optionally ``length`` and ``check``."""
+    get = (lambda k: source.get(k)) if isinstance(source, dict) else (lambda k: getattr(source, k, None))
+    length = get("length")
+    if not length:
+        return None
+    pname, offset = length
+    build = build or get("build")
+    check = get("check")
+
+    def rebuild(n: int):
+        k = dict(kwargs)
+        k[pname] = int(n) - int(offset)
+        if k.get("dps"):
+            k["dps"] = max(int(k["dps"]), -(-int(k["dps"]) * int(n) // int(n_terms)))
+        if callable(check):
+            check(**k)
+        return build(ctx, **k)
+    return rebuild
+
+
 def rebuilder_from_provenance(series, ctx: Optional[Context] = None):
-    """``n -> Series``: the series rebuilt with ``n`` coefficients by the built-in source its
-    provenance names (as ``resum generate`` writes it: the source and every parameter), through
-    the parameter that source names as its length; a ``dps`` parameter grows in proportion to
-    the terms (longer series lose more digits when re-expanded). Raises InputError when the
-    series does not come from a built-in source that names its length."""
+    """:func:`rebuilder` for a series whose provenance names the built-in source that made it
+    and its parameters (as ``resum generate`` writes them). Raises InputError when it does not,
+    or when that source names no length."""
     prov = dict(getattr(series, "provenance", {}) or {})
     name = prov.get("source")
     if name not in SOURCES:
         raise InputError("the series does not say which built-in source made it (its provenance has no "
                          "'source'); write it with 'resum generate', or give more terms yourself")
     src = SOURCES[name]
-    if not src.length:
+    out = rebuilder(src, {p.name: prov[p.name] for p in src.params if p.name in prov}, series.n_terms, ctx)
+    if out is None:
         raise InputError(f"source {name!r} does not name the parameter that sets its number of terms")
-    pname, offset = src.length
-    kw = {p.name: prov[p.name] for p in src.params if p.name in prov}
-    n0 = series.n_terms
-
-    def rebuild(n: int):
-        k = dict(kw)
-        k[pname] = int(n) - int(offset)
-        if k.get("dps"):
-            k["dps"] = max(int(k["dps"]), -(-int(k["dps"]) * int(n) // n0))
-        src.check(**k)
-        return src.build(ctx, **k)
-    return rebuild
+    return out
 
 
 def get_source(name: str) -> SourceSpec:
