@@ -470,6 +470,7 @@ class _Plan:
     equation_shape: Any = None           # the equation's shape as the plan found it (ode, borel-ode)
     alpha_from_w: Any = None             # alpha read from the series: used only where |w| >= this
     reach: Any = None                    # pade for poles: |x| below which the poles are resolved
+    boundary: Any = None                 # pade inside a suspected natural boundary: its radius band
 
 
 def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map, alpha,
@@ -556,6 +557,13 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
         z = sings[0]
         radius = abs(z.location if hasattr(z, "location") else z)
     chosen = cmap if cmap is not None else (choose_map(sings) if sings else None)
+    nb = getattr(an, "natural_boundary", None) if an is not None else None
+    if method == "auto" and nb is not None and cmap is None and not singularities:
+        # the approximants' poles crowd along a circle: the series defines the function inside it
+        # only (no continuation to map); Padé approximants inside, no value beyond the circle
+        return _Plan("pade", why=f"natural boundary suspected at |{series.variable}| ~ {nb} (the analysis: "
+                                 "the approximants' poles and zeros crowd along that circle); no continuation "
+                                 "beyond it to map, Padé approximants inside", reach=nb.lower, boundary=nb)
     if method == "auto":
         if radius is not None and all(abs(x) < radius / 4 for x in xs):
             plan = _Plan("partial-sum", why=f"all points inside a quarter of the radius {mpmath.nstr(radius, 8)}")
@@ -928,7 +936,10 @@ def _run(plan: _Plan, c, xs, dps, n_orders, quad_dps=None, target=None):
         full = [PointOutcome(None, None, False, (
             f"x = {mpmath.nstr(x, 8)} lies beyond the poles the approximants resolve (|x| < "
             f"{mpmath.nstr(plan.reach, 4)}, where the top two orders stop agreeing): their values there are "
-            "extrapolation; more terms reach farther"), {}) for x in xs]
+            "extrapolation; more terms reach farther") if plan.boundary is None else (
+            f"x = {mpmath.nstr(x, 8)} lies at or beyond the natural boundary suspected at |x| ~ {plan.boundary} "
+            f"(from {mpmath.nstr(plan.boundary.lower, 4)}): the series defines no value there, so none is "
+            "given"), {}) for x in xs]
         for j, o in zip(inside, outs):
             full[j] = o
         return full, diag
