@@ -233,6 +233,16 @@ def _draw(ax, series, label_prefix="", marker="o", color=None, offset=0.0, lines
     n = 0
     for g, (xs, vs, los, his, miss) in series.items():
         lab = ", ".join(t for t in (label_prefix, g) if t)
+        top = [xv for xv, v in zip(xs, vs) if v == math.inf]
+        if top:
+            # an infinite value (the radius of an entire function, a polynomial): an arrow at the
+            # top edge, not a point the axis would have to reach
+            keep = [i for i, v in enumerate(vs) if v != math.inf]
+            xs, vs, los, his = ([t[i] for i in keep] for t in (xs, vs, los, his))
+            seen = "infinite (entire)" in ax.get_legend_handles_labels()[1]
+            ax.plot(top, [1] * len(top), "^", color=color or "0.3", transform=ax.get_xaxis_transform(),
+                    clip_on=False, ms=6, label=None if seen else "infinite (entire)")
+            n += len(top)
         if xs:
             n += len(xs)
             if lines and miss:
@@ -295,6 +305,8 @@ def plot_band_digits(records, x=None, ax=None):
             e = raw(r)
             with mpmath.workdps(max(60, *(len(str(e.get(k, ""))) + 10 for k in ("value", "lo", "hi")))):
                 v, lo, hi = (mpmath.mpf(str(e[k])) for k in ("value", "lo", "hi"))
+                if mpmath.isinf(v):
+                    return None       # an infinite radius (entire function): no digits to show
                 err = max(hi - v, v - lo)
                 if err > 0 and v != 0:
                     d = float(-mpmath.log10(err / abs(v)))

@@ -95,3 +95,25 @@ def test_strong_panel_says_why_it_is_empty():
     ax = plot_strong(recs, "leading_power", x="angle")
     assert any("no point's fit converged" in t.get_text() for t in ax.texts)
     plt.close("all")
+
+
+def test_an_infinite_radius_is_an_arrow_at_the_top_not_a_number_of_digits():
+    """A polynomial point (the bes angle pi/2: F = 4 g^2) has radius inf: drawn as a marker at
+    the top edge of the radius panel, and left out of the digits panel (it was drawn as 3 digits,
+    the length of the text 'inf')."""
+    import matplotlib.pyplot as plt
+    from resum.plots.family import plot_band_digits, plot_radius
+
+    def rec(i, angle, radius):
+        return {"index": i, "status": "ok", "params": {"angle": angle}, "axes": ["angle"],
+                "task_names": ["analyze"], "labels": {},
+                "tasks": {"analyze": {"radius": radius, "singularities": [], "growth": "finite radius"}}}
+    recs = [rec(0, "0.5", {"value": "0.0625", "lo": "0.06249", "hi": "0.06251"}),
+            rec(1, "1.5", {"value": "inf", "lo": "inf", "hi": "inf"})]
+    ax = plot_radius(recs, x="angle")
+    tops = [x for ln in ax.get_lines() if ln.get_marker() == "^" for x in ln.get_xdata()]
+    assert tops == [1.5]
+    ax2 = plot_band_digits(recs, x="angle")
+    drawn = [x for ln in ax2.get_lines() if ln.get_marker() == "o" for x in ln.get_xdata()]
+    assert drawn == [0.5]
+    plt.close("all")
