@@ -19,6 +19,7 @@ out of the line and marked with a cross at the bottom of the panel.
 * :func:`plot_value_errors` -- resummed minus true values in units of the band;
 * :func:`plot_value_digits` -- digits claimed by the bands and digits that agree with the truth;
 * :func:`plot_strong` -- one strong-coupling coefficient;
+* :func:`plot_terms_used` -- terms each point ended with when a goal in digits was asked;
 * :func:`write_family_plots` -- all figures that have data, as PNG and PDF.
 """
 from __future__ import annotations
@@ -31,7 +32,7 @@ from typing import Callable, Optional
 from . import save_figure
 
 __all__ = ["plot_radius", "plot_band_digits", "plot_singularity_locations", "plot_exponents",
-           "plot_borel", "plot_borel_exponent", "plot_values", "plot_value_errors", "plot_value_digits", "plot_strong", "write_family_plots",
+           "plot_borel", "plot_borel_exponent", "plot_values", "plot_value_errors", "plot_value_digits", "plot_strong", "plot_terms_used", "write_family_plots",
            "family_x"]
 
 
@@ -585,6 +586,35 @@ def plot_strong(records, key, x=None, ax=None):
 # all figures
 # ----------------------------------------------------------------------------
 
+def _search(r):
+    ev = _task(r, "evaluate")
+    return ev.get("order_search") if ev is not None and isinstance(ev.get("order_search"), dict) else None
+
+
+def plot_terms_used(records, x=None, ax=None):
+    """Terms each point's evaluation ended with when a goal in digits was asked
+    (``goal_digits``): filled where the goal was reached, open where the search stopped short
+    (at ``max_terms``, or without a projection); the first round's terms as a dashed line."""
+    x = family_x(records, x)
+    ax = _ax(ax)
+    rows = sorted((_f(r.get("params", {}).get(x)), s) for r in records if r.get("status") == "ok"
+                  for s in [_search(r)] if s is not None)
+    if not rows:
+        return _finish(ax, x, "terms used")
+    xs = [xv for xv, _ in rows]
+    used = [float(s["terms_used"]) for _, s in rows]
+    first = [float(s["rounds"][0]["terms"]) for _, s in rows]
+    ax.plot(xs, first, "--", color="0.6", lw=1, label="terms given")
+    ok = [(xv, u) for (xv, s), u in zip(rows, used) if s.get("reached")]
+    short = [(xv, u) for (xv, s), u in zip(rows, used) if not s.get("reached")]
+    goal = rows[0][1].get("goal_digits", "?")
+    if ok:
+        ax.plot(*zip(*ok), "o", color="C0", label=f"goal of {goal} digits reached")
+    if short:
+        ax.plot(*zip(*short), "o", mfc="none", color="C3", label="goal not reached (search stopped)")
+    return _finish(ax, x, "terms used")
+
+
 def _has(records, get):
     return any(r.get("status") == "ok" and get(r) not in (None, MISS) for r in records)
 
@@ -669,6 +699,10 @@ def write_family_plots(records, outdir, x=None, title="") -> list:
             fig, ax = plt.subplots(figsize=(6.4, 4.2))
             plot_value_errors(records, x, ax)
             save(fig, "value_errors")
+    if any(_search(r) for r in records):
+        fig, ax = plt.subplots(figsize=(6.4, 4.2))
+        plot_terms_used(records, x, ax)
+        save(fig, "terms_used")
     keys = strong_keys(records)
     if keys:
         fig, axs = plt.subplots(len(keys), 1, figsize=(6.4, 2.6 * len(keys) + 0.8), sharex=True,

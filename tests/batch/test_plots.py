@@ -117,3 +117,27 @@ def test_an_infinite_radius_is_an_arrow_at_the_top_not_a_number_of_digits():
     drawn = [x for ln in ax2.get_lines() if ln.get_marker() == "o" for x in ln.get_xdata()]
     assert drawn == [0.5]
     plt.close("all")
+
+
+def test_terms_used_marks_reached_and_stopped_goals(tmp_path):
+    """The goal search's record (order_search) drawn against the axis: filled where the goal
+    was reached, open where the search stopped short."""
+    import matplotlib.pyplot as plt
+    from resum.plots.family import plot_terms_used, write_family_plots
+
+    def rec(i, a, used, reached):
+        search = {"goal_digits": "10", "rounds": [{"terms": 31, "min_digits": "5.0"},
+                                                  {"terms": used, "min_digits": "11.0"}],
+                  "terms_used": used, "reached": reached, "note": ""}
+        return {"index": i, "status": "ok", "params": {"angle": a}, "axes": ["angle"], "labels": {},
+                "task_names": ["evaluate"],
+                "tasks": {"evaluate": {"values": [], "warnings": [], "order_search": search}}}
+    recs = [rec(0, "0", 51, True), rec(1, "0.5", 70, False)]
+    ax = plot_terms_used(recs, x="angle")
+    lines = {ln.get_label(): (list(ln.get_xdata()), list(ln.get_ydata())) for ln in ax.get_lines()}
+    assert lines["goal of 10 digits reached"] == ([0.0], [51.0])
+    assert lines["goal not reached (search stopped)"] == ([0.5], [70.0])
+    assert lines["terms given"][1] == [31.0, 31.0]
+    names = sorted(p.name for p in write_family_plots(recs, tmp_path))
+    assert "terms_used.png" in names
+    plt.close("all")
