@@ -20,6 +20,14 @@ def test_partition_function_boundary_with_fast_methods():
     res = analyze(Series(partition_numbers(100)), methods=["ratio", "root-test", "pade"], verify=False)
     assert res.natural_boundary is not None and res.radius.contains(1)
     assert res.singularities == ()
+    # the complex-plane figure draws the circle as a suspected boundary, not a disk of convergence
+    pytest.importorskip("matplotlib")
+    import matplotlib.pyplot as plt
+    from resum.plots.analysis import plot_complex_plane
+    ax = plot_complex_plane(res)
+    labels = [p.get_label() for p in ax.patches]
+    assert "natural boundary suspected" in labels and "disk of convergence" not in labels
+    plt.close("all")
 
 
 @pytest.mark.slow

@@ -154,7 +154,12 @@ def plot_complex_plane(result, ax=None, method=None):
     scale = 1.0
     if rad is not None and mpmath.isfinite(rad.value) and rad.value > 0:
         rv, lo, hi = float(rad.value), float(rad.lower), float(rad.upper)
-        ax.add_patch(Circle((0, 0), rv, fill=False, color="C2", lw=1, label="disk of convergence"))
+        nb = getattr(result, "natural_boundary", None) is not None
+        ax.add_patch(Circle((0, 0), rv, fill=False, color="C2", lw=2 if nb else 1, ls="--" if nb else "-",
+                            label="natural boundary suspected" if nb else "disk of convergence"))
+        if nb and hi > lo:
+            from matplotlib.patches import Annulus
+            ax.add_patch(Annulus((0, 0), hi, hi - max(lo, 0), color="C2", alpha=0.12, lw=0))
         if hi > lo:
             ax.add_patch(Circle((0, 0), hi, fill=False, color="C2", lw=0.5, ls=":"))
             ax.add_patch(Circle((0, 0), max(lo, 0), fill=False, color="C2", lw=0.5, ls=":"))
