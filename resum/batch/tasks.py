@@ -38,6 +38,7 @@ import mpmath
 from ..context import Context
 from ..errors import InputError
 from ..results import Estimate, Status, num_to_str
+from .spec import _get
 
 __all__ = ["TASKS", "TaskDef", "validate_task", "ratio_estimate", "estimate_json"]
 
@@ -373,7 +374,7 @@ def _run_strong(series, params, ctx, opts, source):
 def truth_function(source):
     """The source's finite-coupling evaluator, or None."""
     for attr in ("truth", "exact", "finite_coupling"):
-        f = source.get(attr) if isinstance(source, Mapping) else getattr(source, attr, None)
+        f = _get(source, attr)
         if callable(f):
             return f
     return None
@@ -461,15 +462,11 @@ def _check_evaluate(opts, source_name, source):
         g = opts["goal_digits"]
         if not 0 < float(g) <= 1000:
             raise InputError("goal_digits must be a number of digits from 1 to 1000")
-        if not _get_attr(source, "length"):
+        if not _get(source, "length"):
             raise InputError(f"goal_digits: source {source_name!r} does not say which parameter sets "
                              "its number of terms (a 'length' entry), so it cannot be asked for more")
     if opts.get("max_terms") is not None and opts["max_terms"] < 3:
         raise InputError("max_terms must be at least 3")
-
-
-def _get_attr(obj, key):
-    return obj.get(key) if isinstance(obj, dict) else getattr(obj, key, None)
 
 
 def _check_coefficients(opts, source_name, source):
