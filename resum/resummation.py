@@ -1498,8 +1498,7 @@ GOAL_MARGIN = 1.15
 
 
 def evaluate_with_goal(series: Series, points, goal_digits: float, rebuild, ctx: Optional[Context] = None,
-                       max_terms: Optional[int] = None, first: Optional["EvaluationResult"] = None,
-                       **kwargs):
+                       max_terms: Optional[int] = None, **kwargs):
     """:func:`evaluate`, and again with a longer series until every point's band supports
     ``goal_digits`` digits.
 
@@ -1508,8 +1507,7 @@ def evaluate_with_goal(series: Series, points, goal_digits: float, rebuild, ctx:
     from how fast its approximants converged (:func:`terms_for_digits`, times
     :data:`GOAL_MARGIN`); the series is rebuilt with the largest projection and evaluated again,
     at most :data:`GOAL_ROUNDS` times and never beyond ``max_terms`` (default 3 x the terms
-    given). ``first``: an evaluation of ``series`` already made; ``kwargs`` go to
-    :func:`evaluate`.
+    given). ``kwargs`` go to :func:`evaluate`.
 
     Returns ``(result, search, series_used)``: the last evaluation, ``search`` =
     ``{"goal_digits", "rounds": [{"terms", "min_digits"}], "terms_used", "reached", "note",
@@ -1518,7 +1516,7 @@ def evaluate_with_goal(series: Series, points, goal_digits: float, rebuild, ctx:
     """
     def run(s):
         return evaluate(s, points, ctx, **kwargs)
-    res = first if first is not None else run(series)
+    res = run(series)
     goal = float(goal_digits)
     n = series.n_terms
     cap = int(max_terms) if max_terms else 3 * n
