@@ -307,6 +307,9 @@ def _result_fields(rec: dict, n_sing: int) -> dict:
             if k in an:
                 row[f"analyze_{k}"] = an[k]
         _est("radius", an.get("radius"), row)
+        if isinstance(an.get("natural_boundary"), dict):
+            # the radius is then the circle along which the approximants' poles crowd
+            row["analyze_natural_boundary"] = True
         borel = an.get("borel") if isinstance(an.get("borel"), dict) else {}
         _est("borel_A", borel.get("A", an.get("borel_singularity")), row)
         _est("borel_b", borel.get("b", an.get("borel_exponent")), row)

@@ -507,3 +507,14 @@ def test_a_goal_needs_a_source_that_names_its_length():
                                   "[tasks.evaluate]\nat = [0.5]\ngoal_digits = 10")
     with pytest.raises(InputError, match="length"):
         parse_spec(text, path="spec.toml")
+
+
+def test_summary_flags_a_suspected_natural_boundary():
+    from resum.batch.records import flatten_record
+    band = {"value": "0.99", "lo": "0.94", "hi": "1.03"}
+    rec = {"key": "p00000", "index": 0, "status": "ok", "params": {}, "axes": [], "labels": {},
+           "tasks": {"analyze": {"radius": band, "singularities": [], "natural_boundary": {"radius": band}}}}
+    row = flatten_record(rec)
+    assert row["analyze_natural_boundary"] is True and row["radius"] == "0.99"
+    rec["tasks"]["analyze"].pop("natural_boundary")
+    assert "analyze_natural_boundary" not in flatten_record(rec)
