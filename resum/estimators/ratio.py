@@ -225,7 +225,7 @@ def _ratio_step(c, step, eps, parity=None):
 DRIFT_Q_MAX = mpmath.mpf("0.8")
 
 
-def drift_extension(v_half, v_mid, v_full, noise=0):
+def drift_extension(v_half, v_mid, v_full, noise=0, n_full=None):
     """Room left by a steady drift of an estimate with the number of terms.
 
     ``v_half``, ``v_mid``, ``v_full`` are the estimates from ``N/2``,
@@ -238,7 +238,12 @@ def drift_extension(v_half, v_mid, v_full, noise=0):
     (before the safety factor); ``(0, 0, False)`` when there is no steady drift.
 
     ``slow`` (third value) is True when the changes do not shrink by at least
-    :data:`DRIFT_Q_MAX` per step: the extension is then a guess, not a fit.
+    :data:`DRIFT_Q_MAX` per step. With ``n_full`` (``N``) such a drift is then also
+    extrapolated as a correction falling like ``1/log N`` (a logarithmic correction, the
+    slowest common kind: ``c_n ~ mu^n n^-1/log n``, whose exponent estimates creep towards -1
+    like ``1/log n``): what is left of it is ``d log(N/sqrt 2)/log(sqrt 2)`` (the change over
+    the last step ``d`` carried on as ``a/log N``), about 11 ``d`` at N = 60 against 4 ``d``
+    from the geometric cap; the larger is kept.
 
     Corrections of non-integer order (confluent singularities whose exponents
     differ by a small amount) are what the Neville tables in ``1/n`` and
@@ -252,6 +257,9 @@ def drift_extension(v_half, v_mid, v_full, noise=0):
     q = min(abs(d2 / d1), DRIFT_Q_MAX)
     rest = abs(d2) * q / (1 - q)
     slow = abs(d2 / d1) >= DRIFT_Q_MAX
+    if slow and n_full is not None and n_full > 4:
+        # v = v_inf + a/log n through the last two estimates: what is left is a/log N
+        rest = max(rest, abs(d2) * mpmath.log(n_full / mpmath.sqrt(2)) / mpmath.log(mpmath.sqrt(2)))
     return (0, rest, slow) if d2 > 0 else (rest, 0, slow)
 
 
@@ -345,8 +353,9 @@ def estimate_ratio(series, ctx=None, step=None):
         short = [_ratio_step(c[:m], s, prep.eps) for m in (N // 2, int(N / mpmath.sqrt(2)))]
         short = [t if t is not None and t["step"] == s else None for t in short]
         get = lambda key: [None if t is None else t[key] for t in short]  # noqa: E731
-        mu_dn, mu_up, mu_slow = drift_extension(*get("mu_s"), r["mu_s"], noise=prep.eps * 16 * abs(r["mu_s"]))
-        th_dn, th_up, th_slow = drift_extension(*get("theta"), r["theta"], noise=prep.eps * 16 * N)
+        mu_dn, mu_up, mu_slow = drift_extension(*get("mu_s"), r["mu_s"], noise=prep.eps * 16 * abs(r["mu_s"]),
+                                                n_full=N)
+        th_dn, th_up, th_slow = drift_extension(*get("theta"), r["theta"], noise=prep.eps * 16 * N, n_full=N)
         drift = {"mu_s": [t for t in get("mu_s")] + [r["mu_s"]],
                  "theta": [t for t in get("theta")] + [r["theta"]],
                  "n_terms": [N // 2, int(N / mpmath.sqrt(2)), N]}
@@ -383,7 +392,8 @@ def estimate_ratio(series, ctx=None, step=None):
                f"agree best; band = {SAFETY} x (spread of those entries, change to the next order, "
                "noise floor); exponent band includes the intercept's band; a steady drift of either "
                f"between N/2, N/sqrt(2) and N terms extends the band (x {SAFETY}) in its direction by what "
-               "is left of it if it shrinks geometrically (by at most 0.8 per step).")
+               "is left of it if it shrinks geometrically (by at most 0.8 per step), or, if it shrinks "
+               "more slowly, like 1/log N, whichever is more.")
         diag = {"how": how, "step": s, "kappa": kappa, "ratios": [(n, z) for n, z in zip(r["ns"], r["z"])],
                 "neville_intercept": r["table_mu"], "neville_exponent": r["table_theta"],
                 "steps_tried": [{"step": t[1]["step"], "rel_half_width": t[0]} for t in cands],

@@ -238,3 +238,17 @@ def test_entire_functions_stay_entire(f):
         else:
             c = [(-1) ** (n // 2) / mpmath.factorial(n) if n % 2 == 0 else mpmath.mpf(0) for n in range(60)]
     assert classify_growth(c)[0] == "entire-like"
+
+
+def test_a_logarithmic_correction_keeps_the_exponent_in_the_band():
+    # sum x^n / log(n + 2): c_n ~ 1/log n, i.e. f ~ 1/((1 - x) log(1/(1 - x))) near x = 1, exponent
+    # -1 with a logarithmic correction (singularity analysis, Flajolet and Odlyzko, SIAM J. Discrete
+    # Math. 3 (1990) 216; from memory). The exponent estimates creep towards -1 like 1/log n (-0.86
+    # from 120 terms): the band, extended for a drift that barely slows, must reach -1
+    with workdps(60):
+        c = [1 / mpmath.log(n + 2) for n in range(120)]
+    res = estimate_ratio(Series(c, digits=55), Context(dps=50))
+    s = res.singularities[0]
+    assert s.re.contains(1)
+    assert s.exponent.contains(-1) and s.exponent.width < 1
+    assert "still drifting" in s.note
