@@ -96,7 +96,8 @@ def compute_point(spec: FamilySpec, index: int, runner: str = "") -> dict:
             with workdps(ctx.work_dps):
                 if TASKS[name].wants_rebuild:
                     from ..sources import rebuilder
-                    rebuild = rebuilder(source, spec.source_kwargs(point), series.n_terms, ctx, build)
+                    rebuild = rebuilder(source, spec.source_kwargs(point), series.n_terms, ctx, build,
+                                        digits=series.digits)
                     rec["tasks"][name] = TASKS[name].run(series, point.params, ctx, opts, source,
                                                          rebuild=rebuild)
                 else:

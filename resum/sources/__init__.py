@@ -254,12 +254,15 @@ SOURCES = {
 }
 
 
-def rebuilder(source, kwargs: dict, n_terms: int, ctx: Optional[Context] = None, build=None):
+def rebuilder(source, kwargs: dict, n_terms: int, ctx: Optional[Context] = None, build=None,
+              digits: Optional[int] = None):
     """``n -> Series``: the series ``build(ctx, **kwargs)`` gave (``n_terms`` coefficients)
     rebuilt with ``n`` coefficients, through the parameter the source names as its length
-    (``length = (parameter, offset)``: the series has ``value + offset`` terms); a ``dps`` in
-    ``kwargs`` grows in proportion to the terms (longer series lose more digits when
-    re-expanded). None when the source names no length. ``source``: a :class:`SourceSpec`, or
+    (``length = (parameter, offset)``: the series has ``value + offset`` terms); the source's
+    ``dps`` parameter (the one in ``kwargs``, or else ``digits``, what the given series carries)
+    grows in proportion to the terms (longer series lose more digits when re-expanded: the
+    conformal re-expansion of the kernel family's 100 loops cancels about 40). None when the
+    source names no length. ``source``: a :class:`SourceSpec`, or
     an object or dict of one's own with ``build`` and optionally ``length`` and ``check``."""
     get = (lambda k: source.get(k)) if isinstance(source, dict) else (lambda k: getattr(source, k, None))
     length = get("length")
@@ -268,12 +271,14 @@ def rebuilder(source, kwargs: dict, n_terms: int, ctx: Optional[Context] = None,
     pname, offset = length
     build = build or get("build")
     check = get("check")
+    names = {p[0] if isinstance(p, (tuple, list)) else getattr(p, "name", None) for p in get("params") or ()}
+    base = kwargs.get("dps") or (digits if "dps" in names else None)
 
     def rebuild(n: int):
         k = dict(kwargs)
         k[pname] = int(n) - int(offset)
-        if k.get("dps"):
-            k["dps"] = max(int(k["dps"]), -(-int(k["dps"]) * int(n) // int(n_terms)))
+        if base:
+            k["dps"] = max(int(base), -(-int(base) * int(n) // int(n_terms)))
         if callable(check):
             check(**k)
         return build(ctx, **k)
@@ -290,7 +295,8 @@ def rebuilder_from_provenance(series, ctx: Optional[Context] = None):
         raise InputError("the series does not say which built-in source made it (its provenance has no "
                          "'source'); write it with 'resum generate', or give more terms yourself")
     src = SOURCES[name]
-    out = rebuilder(src, {p.name: prov[p.name] for p in src.params if p.name in prov}, series.n_terms, ctx)
+    out = rebuilder(src, {p.name: prov[p.name] for p in src.params if p.name in prov}, series.n_terms, ctx,
+                    digits=series.digits)
     if out is None:
         raise InputError(f"source {name!r} does not name the parameter that sets its number of terms")
     return out

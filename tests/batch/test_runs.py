@@ -518,3 +518,16 @@ def test_summary_flags_a_suspected_natural_boundary():
     assert row["analyze_natural_boundary"] is True and row["radius"] == "0.99"
     rec["tasks"]["analyze"].pop("natural_boundary")
     assert "analyze_natural_boundary" not in flatten_record(rec)
+
+
+def test_rebuilder_grows_the_source_digits_with_the_terms():
+    # the kernel family's conformal re-expansion cancels digits in proportion to the terms (about
+    # 40 at 100 loops; common practice, no source): a series rebuilt twice as long carries twice the
+    # digits, whether the spec gave the source a dps or the series carried it by default
+    from resum.sources import SOURCES, rebuilder
+    ctx = parse_spec(GOAL_SPEC % (10, ""), path="spec.toml").context
+    for kw, digits in (({"angle": "0", "loops": 10, "dps": 40}, None), ({"angle": "0", "loops": 10}, 40)):
+        rebuild = rebuilder(SOURCES["bes"], kw, 11, ctx, digits=digits)
+        s = rebuild(22)
+        assert s.n_terms == 22 and s.digits == 80
+    assert rebuilder(SOURCES["bes"], {"angle": "0", "loops": 10}, 11, ctx)(22).digits < 80
