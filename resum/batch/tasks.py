@@ -136,6 +136,10 @@ def validate_task(name: str, opts: dict, dps: int, source_name: str, source) -> 
     check = _CHECKS.get(name)
     if check:
         check(out, source_name, source)
+    if out.get("goal_digits") is not None and float(out["goal_digits"]) > dps:
+        # a band is never narrower than the digits the study works at: the goal could not be met
+        raise InputError(f"goal_digits = {float(out['goal_digits']):g} is more than the study's dps = {dps}; "
+                         "raise dps or lower the goal")
     return out
 
 

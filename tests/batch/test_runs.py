@@ -495,6 +495,7 @@ def test_a_goal_beyond_max_terms_stops_there_and_says_so(tmp_path):
 @pytest.mark.parametrize("opts,words", [
     ('goal_digits = 0', "goal_digits"),
     ('goal_digits = 10\nmax_terms = 2', "max_terms"),
+    ('goal_digits = 40', "more than the study's dps"),
 ])
 def test_goal_options_are_checked_before_any_work(opts, words):
     text = GOAL_SPEC.replace("goal_digits = %s\n%s\n", opts + "\n")
