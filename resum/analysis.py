@@ -855,7 +855,7 @@ def _verify(series, ctx, names, base, warnings, progress=None):
             "combined": combined}, info
 
 
-def _boundary_probe(series, ctx, results=None):
+def _boundary_probe(series, ctx, results=None, prep=None):
     """The natural-boundary probe (:mod:`resum.estimators.boundary`) on ``series``, its radius
     in the series' variable; None when it does not apply.
 
@@ -881,7 +881,7 @@ def _boundary_probe(series, ctx, results=None):
                 return None
             top = {"L": a["L"], "M": a["M"], "poles": [(z, None) for z in a["poles"]], "zeros": list(a["zeros"])}
     try:
-        prep = prepare(series, ctx)
+        prep = prep or prepare(series, ctx)
         with prep.ctx.working():
             out = probe_natural_boundary(prep.c, prep.dps, prep.digits, top=top)
     except (InputError, ZeroDivisionError, ValueError, ArithmeticError) as exc:
@@ -893,7 +893,7 @@ def _boundary_probe(series, ctx, results=None):
     return out
 
 
-def _mark_essential(series, ctx, sings, radius):
+def _mark_essential(series, ctx, sings, radius, prep=None):
     """Singularities of undetermined kind, real and nearest, whose coefficient ratios carry a
     ``1/sqrt(n)`` term (:mod:`resum.estimators.essential`) become kind ``essential`` (no
     exponent; location band unchanged). Returns (singularities, probe record or None)."""
@@ -903,7 +903,7 @@ def _mark_essential(series, ctx, sings, radius):
     if not cand:
         return sings, None
     try:
-        prep = prepare(series, ctx)
+        prep = prep or prepare(series, ctx)
     except InputError:
         return sings, None
     if prep.stride != 1 or prep.is_complex:
@@ -1005,7 +1005,7 @@ def _analyze(series, ctx, names, verify, prep, progress=None):
     results = _run(series, ctx, names, progress, "main run")
     warnings = []
     base = _reconcile(series, results, warnings)
-    probe = _boundary_probe(series, ctx, results) if base["growth"] == "finite radius" else None
+    probe = _boundary_probe(series, ctx, results, prep) if base["growth"] == "finite radius" else None
     boundary = None
     if probe is not None and probe["suspected"]:
         # the estimators' points and the warnings about them are superseded by the probe
@@ -1031,7 +1031,7 @@ def _analyze(series, ctx, names, verify, prep, progress=None):
     growth = base["growth"]
     essential = None
     if boundary is None and growth == "finite radius" and final["singularities"]:
-        sings, essential = _mark_essential(series, ctx, list(final["singularities"]), final["radius"])
+        sings, essential = _mark_essential(series, ctx, list(final["singularities"]), final["radius"], prep)
         final["singularities"] = tuple(sings)
     rad = final["radius"]
     if rad is not None and rad.lower < 0:
