@@ -10,7 +10,8 @@ from typing import Optional, Tuple
 from ..context import DEFAULT, Context
 from ..errors import InputError
 from ..series.core import Series
-from ..series.io import atomic_write_text, double_location, least_precise_location, read_series
+from ..series.io import (atomic_write_text, declared_digits_location, double_location,
+                         least_precise_location, read_series)
 
 __all__ = ["add_common_options", "load_series", "context_for", "emit_json", "atomic_write",
            "fail", "log", "prepare_plot_dir", "require_power_series", "at_file", "write_figures"]
@@ -57,6 +58,14 @@ def context_for(series: Optional[Series], dps: Optional[int], where: str = "") -
         d = DEFAULT.dps if carried is None else min(DEFAULT.dps, carried)
         return Context(dps=max(5, d))
     if carried is not None and carried < dps:
+        declared = declared_digits_location(series)
+        if declared is not None:
+            # the file says how many digits its coefficients carry: declaring more would be
+            # untrue, so the advice is a lower --dps or a longer-digit series
+            more = ("regenerate it with 'resum generate ... --dps N'"
+                    if series.provenance.get("source") else "write the coefficients with more digits")
+            raise InputError(f"the file declares {carried} digit{'' if carried == 1 else 's'} but --dps {dps} "
+                             f"was asked; lower --dps to at most {carried}, or {more}", where=declared)
         loc = least_precise_location(series) or where or "input"
         lower = f"lower --dps to at most {carried}, " if carried >= 5 else ""
         raise InputError(f"coefficient carries only {carried} digit{'' if carried == 1 else 's'} but --dps {dps} was "

@@ -243,6 +243,10 @@ def _build(coeffs, digits_list, meta, where_of, ctx):
     if "metadata" in meta:
         s = Series(s.coefficients, s.variable, s.start, s.digits, s.coupling, s.name, s.description,
                    {**s.provenance, "metadata": meta["metadata"]})
+    if meta.get("digits") is not None and s.digits is not None:
+        # the declaration, not a literal, sets what the series carries: say where it sits
+        s = Series(s.coefficients, s.variable, s.start, s.digits, s.coupling, s.name, s.description,
+                   {**s.provenance, _DECLARED_KEY: where_of("digits")})
     return s
 
 
@@ -320,6 +324,7 @@ def _w(where, key):
 
 _WHERE_KEY = "least_precise_at"      # provenance key; not written back to files
 _DOUBLE_KEY = "json_doubles_at"       # where the first JSON number read as a double sits; not written back
+_DECLARED_KEY = "digits_declared_at"   # where a 'digits' declaration sets the digits; not written back
 
 
 def _keep_where(series, digs, loc):
@@ -335,6 +340,12 @@ def _keep_where(series, digs, loc):
 def least_precise_location(series) -> Optional[str]:
     """Where the least precise coefficient of a series read from a file sits (file and line/field)."""
     return series.provenance.get(_WHERE_KEY)
+
+
+def declared_digits_location(series) -> Optional[str]:
+    """Where the file's 'digits' declaration sits (file and field or header), when that
+    declaration sets the digits of a series read from a file; else None."""
+    return series.provenance.get(_DECLARED_KEY)
 
 
 def double_location(series) -> Optional[str]:
@@ -553,7 +564,8 @@ def series_to_dict(series: Series) -> dict:
         d["coupling"] = series.coupling.describe(series.variable)
     if series.digits is not None:
         d["digits"] = series.digits
-    prov = {k: v for k, v in series.provenance.items() if k not in ("metadata", _WHERE_KEY, _DOUBLE_KEY)}
+    prov = {k: v for k, v in series.provenance.items() if k not in ("metadata", _WHERE_KEY, _DOUBLE_KEY,
+                                                                   _DECLARED_KEY)}
     if prov:
         from ..results import jsonable
         d["provenance"] = jsonable(prov)

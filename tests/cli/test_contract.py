@@ -133,6 +133,23 @@ def test_non_utf8_and_precision_too_low(tmp_path, capsys):
     assert "only 10 digits" in err and "line 1" in err
 
 
+@pytest.mark.parametrize("ext,field", [("json", "digits"), ("csv", "digits"), ("txt", "digits")])
+def test_precision_above_a_digits_declaration_names_the_declaration(tmp_path, capsys, ext, field):
+    # a file that declares 'digits: 20' and is asked for 30: the one-line error points at the
+    # declaration and does not advise declaring more digits than the file says it carries
+    # (common practice, no source)
+    with workdps(30):
+        s = Series([mpmath.mpf(1) / (k + 3) for k in range(20)], digits=20, name="decl")
+    p = write_series(s, tmp_path / f"decl.{ext}")
+    assert main(["analyze", str(p), "--dps", "30"]) == 2
+    cap = capsys.readouterr()
+    lines = cap.err.strip().splitlines()
+    assert cap.out == "" and len(lines) == 1 and "Traceback" not in cap.err
+    assert f"decl.{ext}: {field}:" in lines[0]
+    assert "declares 20 digits" in lines[0] and "at most 20" in lines[0]
+    assert "declare 'digits" not in lines[0]
+
+
 def test_unknown_option_and_method(tmp_path, capsys):
     p = write_series(catalan_series(), tmp_path / "c.json")
     assert main(["analyze", str(p), "--frobnicate"]) == 2
