@@ -28,4 +28,5 @@ def test_values_beyond_an_essential_singularity():
         for p, x in zip(res.points, ("2", "-3", "0.5")):
             truth = mpmath.exp(1 / (1 - mpmath.mpf(x)))
             assert p.value is not None and p.value.contains(truth)
-            assert p.value.digits() >= 15
+            assert p.value.digits() >= 29   # the README's figure: the 30 digits asked (measured
+            # 30.0 at each point, errors 1e-35 to 1e-50)
