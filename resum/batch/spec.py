@@ -417,7 +417,8 @@ def load_spec(path, sources=None) -> FamilySpec:
     except OSError as exc:
         raise InputError(f"cannot read the spec: {exc.strerror}", where=path) from None
     try:
-        text = data.decode("utf-8")
+        # a byte-order mark (as some Windows editors write) is not part of the TOML text
+        text = data.decode("utf-8-sig")
     except UnicodeDecodeError:
         raise InputError("the spec is not UTF-8 text", where=path) from None
     return parse_spec(text, path=path, sources=sources)

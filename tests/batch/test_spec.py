@@ -295,3 +295,14 @@ def test_sources_without_text_parameters_get_numbers():
     kw = spec.source_kwargs(spec.points()[-1])
     assert not isinstance(kw["radius"], str) and not isinstance(kw["exponent"], str)
     assert spec.axes[0].texts == ()
+
+
+def test_byte_order_mark_and_crlf_are_read_like_plain_utf8(tmp_path):
+    # the UTF-8 byte-order mark EF BB BF (Unicode Standard, section 23.8 "Byte Order Mark")
+    # is written by some Windows editors; CRLF line ends are valid TOML (TOML 1.0, "Spec":
+    # "Newline means LF (0x0A) or CRLF (0x0D 0x0A)")
+    plain = tmp_path / "plain.toml"
+    plain.write_text(textwrap.dedent(GOOD))
+    marked = tmp_path / "bom.toml"
+    marked.write_bytes(b"\xef\xbb\xbf" + textwrap.dedent(GOOD).replace("\n", "\r\n").encode())
+    assert load_spec(marked).digest == load_spec(plain).digest
