@@ -48,6 +48,24 @@ def _number(text, dps, where):
     return v.value
 
 
+def _couplings(texts, dps):
+    """The ``--at`` couplings, each refused (naming its ``--at``) before any work unless real,
+    positive and not given twice: the probe follows the function out along the positive axis."""
+    out, seen = [], {}
+    for text in texts:
+        for g in expand_points([text], dps):
+            if isinstance(g, mpmath.mpc) or not g > 0:
+                raise InputError("a strong-coupling coupling must be real and positive; give "
+                                 "couplings beyond the nearest singularity on the positive axis",
+                                 where=f"--at {text[:40]}")
+            if g in seen:
+                raise InputError(f"coupling {mpmath.nstr(g, 8)} is given twice (also by --at "
+                                 f"{seen[g][:40]}); give each coupling once", where=f"--at {text[:40]}")
+            seen[g] = text
+            out.append(g)
+    return out
+
+
 def run(args) -> int:
     from ..estimators.strong_coupling import probe_strong_coupling
     from ..resummation import _check_method
@@ -57,8 +75,10 @@ def run(args) -> int:
         raise InputError(exc.bare, where="--method") from None
     series, ctx = load_series(args.file, args.dps)
     require_power_series(series, args.file, 6, "the strong-coupling probe (a resummation)")
-    couplings = None if not args.at else expand_points(args.at, ctx.work_dps)
+    couplings = None if not args.at else _couplings(args.at, ctx.work_dps)
     power = None if args.power is None else _number(args.power, ctx.work_dps, "--power")
+    if isinstance(power, mpmath.mpc):
+        raise InputError(f"the leading power must be a real number, got {args.power!r}", where="--power")
     extra = {}
     if args.max_band is not None:
         band = _number(args.max_band, ctx.work_dps, "--max-band")

@@ -101,3 +101,17 @@ def test_generate_long_exact_coefficients_round_trip(tmp_path, capsys):
     s = read_series(p)
     assert s.coefficients[1999] == -math.factorial(1999)
     assert s.coefficients[10] == math.factorial(10)
+
+
+@pytest.mark.parametrize("extra, needle", [
+    (["--at", "2", "--at", "-1"], "--at -1: a strong-coupling coupling must be real and positive"),
+    (["--at", "0"], "--at 0: a strong-coupling coupling must be real and positive"),
+    (["--at", "1+I"], "--at 1+I: a strong-coupling coupling must be real and positive"),
+    (["--at", "3:-1:5"], "--at 3:-1:5: a strong-coupling coupling must be real and positive"),
+    (["--at", "2", "--at", "1:3:3"], "coupling 2.0 is given twice (also by --at 2)"),
+    (["--power", "1+I"], "--power: the leading power must be a real number"),
+])
+def test_strong_couplings_and_power_refused_before_any_work(files, capsys, extra, needle):
+    # _refused also checks there is no progress line before the error
+    _, good = files
+    _refused(["strong", good, *extra], capsys, needle)
