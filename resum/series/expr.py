@@ -360,4 +360,12 @@ def evaluate_expression(text: str, dps: int = 30) -> ExprValue:
                 v = v.real
             if not mpmath.isfinite(v):
                 raise InputError(f"{_show(text)} is not finite")
+            if v != 0 and abs(mpmath.mag(v)) > MAX_EXACT_BITS:
+                # the same bound as for exact numbers: 1e999999 or exp(1e30) is no perturbative
+                # coefficient, and every method would only carry its exponent around
+                lim = MAX_EXACT_BITS * 30103 // 100000
+                with workdps(30):
+                    e10 = int(mpmath.floor(mpmath.log10(abs(v))))
+                raise InputError(f"{_show(text)} is about 10^{e10} in size, outside 10^-{lim} .. 10^{lim}; "
+                                 "rescale the variable so that the numbers stay inside")
     return ExprValue(v, exact, p.digits)

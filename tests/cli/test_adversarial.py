@@ -115,3 +115,10 @@ def test_strong_couplings_and_power_refused_before_any_work(files, capsys, extra
     # _refused also checks there is no progress line before the error
     _, good = files
     _refused(["strong", good, *extra], capsys, needle)
+
+
+def test_huge_exponent_coefficient_names_its_line(tmp_path, capsys):
+    p = tmp_path / "huge.txt"
+    p.write_text("1\n2\n1e999999\n" + "".join(f"{k}\n" for k in range(4, 30)))
+    line = _refused(["analyze", str(p)], capsys, "huge.txt: line 3: '1e999999' is about 10^999999 in size")
+    assert "rescale" in line

@@ -124,3 +124,20 @@ def test_int_decimal_round_trip():
         assert decimal_to_int(s) == n
     # against Python's own conversion below its limit
     assert int_to_decimal(math.factorial(1000)) == str(math.factorial(1000))
+
+
+@pytest.mark.parametrize("text, size", [
+    ("1e999999", "10^999999 "), ("-1e99999999999999999999", "10^99999999999999999999 "),
+    ("2.5e-400000", "10^-400000 "), ("(1+I)*1e999999", "10^999999 "),
+    # exp(10^30) = 10^(10^30 / ln 10), and 10^30 / ln 10 = 4.342944819...e29 (ln 10 = 2.302585093)
+    ("exp(1e30)", "10^434294481903251827651128918916 "),
+])
+def test_inexact_numbers_far_beyond_the_exact_size_limit_are_refused(text, size):
+    # the bound of exact numbers (MAX_EXACT_BITS) holds for decimals and expressions too:
+    # such a number only drags its exponent through every method
+    with pytest.raises(InputError, match=r"outside 10\^-315652 \.\. 10\^315652") as e:
+        ev(text)
+    assert size in str(e.value)
+    v = ev("1e300000").value                                  # inside the bound: kept
+    with workdps(30):
+        assert abs(v / mpmath.mpf(10) ** 300000 - 1) < mpmath.mpf(10) ** -15
