@@ -95,7 +95,7 @@ def _values(spec, args, dps_for_parse: int) -> dict:
 
 def run(args) -> int:
     from ..context import DEFAULT, Context
-    from ..series.io import write_series
+    from ..series.io import check_output_file, write_series
     from ..sources import SOURCES, get_source
     if not getattr(args, "source", None):
         raise InputError("name a source: " + ", ".join(sorted(SOURCES)))
@@ -106,6 +106,7 @@ def run(args) -> int:
             p.check(getattr(args, p.name, None), f"--{p.name}")
     ctx = Context(dps=dps) if dps is not None else DEFAULT
     kw = _values(spec, args, ctx.work_dps + 10)
+    check_output_file(args.out)       # a mistyped -o is told before the (maybe long) computation
     from ..progress import listening
     from ._common import FractionBar
     bar = FractionBar(f"resum generate {spec.name}")

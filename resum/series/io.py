@@ -640,20 +640,7 @@ def atomic_write_text(path, text: str) -> None:
     (:data:`TEMP_NAME`); :func:`clean_temp_files` removes those an
     interrupted write left behind.
     """
-    if not str(path).strip():
-        raise InputError("empty output file name; give a file name", where="output")
-    path = Path(path)
-    folder = path.parent if str(path.parent) else Path(".")
-    if not folder.exists():
-        raise InputError("folder does not exist; create it first or choose another place",
-                         where=str(folder))
-    if not folder.is_dir():
-        raise InputError("is not a folder; choose another place for the output", where=str(folder))
-    if path.is_dir():
-        raise InputError("is a folder; give a file name for the output", where=str(path))
-    if path.exists() and not path.is_file():
-        # renaming over a device, pipe or socket would replace it with a plain file
-        raise InputError("is not a regular file; give a file name for the output", where=str(path))
+    path, folder = _output_place(path)
     try:
         old_mode = stat.S_IMODE(os.stat(path).st_mode)
     except OSError:
@@ -680,6 +667,42 @@ def atomic_write_text(path, text: str) -> None:
             raise InputError(f"cannot write ({exc.strerror or exc}); choose another place for the output",
                              where=str(path)) from None
         raise
+
+
+def check_output_file(path) -> None:
+    """Refuse, before any work, an output ``path`` that :func:`atomic_write_text` could not write:
+    an empty name, a missing folder, a folder or device in its place, a folder without write
+    permission (tried with a temporary file of the atomic write's pattern, removed at once)."""
+    path, folder = _output_place(path)
+    try:
+        fd, tmp = _open_temp(folder, path.name)
+    except OSError as e:
+        raise InputError(f"cannot write here ({e.strerror}); choose another place for the output",
+                         where=str(path)) from None
+    os.close(fd)
+    try:
+        os.unlink(tmp)
+    except OSError:
+        pass
+
+
+def _output_place(path):
+    """``(path, folder)`` of an output file, refused (one line) when it cannot be one."""
+    if not str(path).strip():
+        raise InputError("empty output file name; give a file name", where="output")
+    path = Path(path)
+    folder = path.parent if str(path.parent) else Path(".")
+    if not folder.exists():
+        raise InputError("folder does not exist; create it first or choose another place",
+                         where=str(folder))
+    if not folder.is_dir():
+        raise InputError("is not a folder; choose another place for the output", where=str(folder))
+    if path.is_dir():
+        raise InputError("is a folder; give a file name for the output", where=str(path))
+    if path.exists() and not path.is_file():
+        # renaming over a device, pipe or socket would replace it with a plain file
+        raise InputError("is not a regular file; give a file name for the output", where=str(path))
+    return path, folder
 
 
 def write_series(series: Series, path, fmt: Optional[str] = None) -> Path:

@@ -122,3 +122,20 @@ def test_huge_exponent_coefficient_names_its_line(tmp_path, capsys):
     p.write_text("1\n2\n1e999999\n" + "".join(f"{k}\n" for k in range(4, 30)))
     line = _refused(["analyze", str(p)], capsys, "huge.txt: line 3: '1e999999' is about 10^999999 in size")
     assert "rescale" in line
+
+
+@pytest.mark.parametrize("out, needle", [("missing/x.json", "folder does not exist"),
+                                         ("afile/x.json", "is not a folder"),
+                                         ("folder", "is a folder")])
+def test_generate_checks_the_output_before_computing(files, capsys, monkeypatch, out, needle):
+    # a mistyped -o must not cost the (possibly long) computation of the series first
+    import dataclasses
+    from resum.sources import SOURCES
+    d, _ = files
+    (d / "folder").mkdir()
+
+    def no_build(*a, **k):
+        raise AssertionError("the series was computed before the output was checked")
+    monkeypatch.setitem(SOURCES, "euler", dataclasses.replace(SOURCES["euler"], build=no_build))
+    _refused(["generate", "euler", "--orders", "5", "-o", str(d / out)], capsys, needle)
+    assert list((d / "folder").iterdir()) == []
