@@ -40,8 +40,12 @@ _NEGATIVE_VALUE = _negative_value_pattern()
 
 
 class _Parser(argparse.ArgumentParser):
+    last_error = None     # the last usage error (for the JSON error document of main)
+
     def error(self, message):  # one line, exit 2
-        self.exit(2, f"{self.prog}: error: {message} (see '{self.prog} --help')\n")
+        line = f"{message} (see '{self.prog} --help')"
+        _Parser.last_error = line
+        self.exit(2, f"{self.prog}: error: {line}\n")
 
     def _parse_optional(self, arg_string):
         # a negative number or expression is a value, never an option (no option of ours
@@ -69,20 +73,49 @@ def build_parser() -> argparse.ArgumentParser:
     return p
 
 
+def _json_asked(argv) -> bool:
+    """Whether ``--json`` is among the options (before a ``--`` that ends them)."""
+    argv = sys.argv[1:] if argv is None else list(argv)
+    if "--" in argv:
+        argv = argv[:argv.index("--")]
+    return "--json" in argv
+
+
+def _json_error(message: str, code: int, where: str = "") -> None:
+    """Under ``--json`` an error is also the one JSON document on stdout (unless the command
+    already wrote its document): ``{"error": {"message", "where", "exit_code"}}``, the exit code
+    a decimal string like every number of the JSON documents."""
+    from .commands import _common
+    if _common.json_emitted():
+        return
+    _common.emit_json({"error": {"message": message, "where": where, "exit_code": str(code)}})
+
+
 def main(argv: Optional[List[str]] = None) -> int:
     """Run the command line with ``argv``; returns the exit code."""
+    from .commands import _common
+    _common.reset_json_emitted()
+    as_json = _json_asked(argv)
     parser = build_parser()
+    _Parser.last_error = None
     try:
         args = parser.parse_args(argv)
     except SystemExit as exc:
-        return int(exc.code or 0)
+        code = int(exc.code or 0)
+        if code and as_json and _Parser.last_error:
+            _json_error(_Parser.last_error, code)
+        return code
     if not getattr(args, "_run", None):
         parser.print_help(sys.stderr)
+        if as_json:
+            _json_error("name a command: " + ", ".join(COMMANDS), 2)
         return 2
     try:
         return int(args._run(args) or 0)
     except InputError as exc:
         print(f"resum {args.command}: error: {exc}", file=sys.stderr)
+        if as_json:
+            _json_error(str(exc), 2, exc.where)
         return 2
     except KeyboardInterrupt:
         if _CONSOLE:
@@ -90,6 +123,11 @@ def main(argv: Optional[List[str]] = None) -> int:
             # threads of worker pools), which would print a traceback and leak semaphores
             signal.signal(signal.SIGINT, signal.SIG_IGN)
         print("resum: interrupted", file=sys.stderr)
+        if as_json:
+            try:
+                _json_error("interrupted", 130)
+            except (BrokenPipeError, KeyboardInterrupt):
+                pass
         return 130
     except BrokenPipeError:
         return 0

@@ -168,10 +168,23 @@ def write_figures(folder: str, writer) -> list:
     return paths
 
 
+_JSON_EMITTED = [False]
+
+
 def emit_json(obj) -> None:
     """Write one JSON document to stdout."""
+    _JSON_EMITTED[0] = True
     sys.stdout.write(json.dumps(obj, indent=1) + "\n")
     sys.stdout.flush()
+
+
+def json_emitted() -> bool:
+    """Whether :func:`emit_json` wrote a document since :func:`reset_json_emitted`."""
+    return _JSON_EMITTED[0]
+
+
+def reset_json_emitted() -> None:
+    _JSON_EMITTED[0] = False
 
 
 def fail(message: str, where: str = ""):

@@ -10,7 +10,6 @@ incomplete), 2 spec or usage error, 130 interrupted (finished points kept).
 from __future__ import annotations
 
 import argparse
-import json
 import sys
 from typing import List, Optional
 
@@ -102,8 +101,8 @@ def run(args) -> int:
 
 
 def _emit(obj) -> None:
-    sys.stdout.write(json.dumps(obj, indent=1) + "\n")
-    sys.stdout.flush()
+    from ._common import emit_json
+    emit_json(obj)
 
 
 def main(argv: Optional[List[str]] = None) -> int:

@@ -115,10 +115,30 @@ def test_bad_input_exit_2_one_line(tmp_path, capsys, cmd, fname, text, needle):
     argv = [cmd, str(p), "--json"] + (["--at", "0.1"] if cmd == "evaluate" else [])
     assert main(argv) == 2
     cap = capsys.readouterr()
-    assert cap.out == ""
     lines = cap.err.strip().splitlines()
     assert len(lines) == 1 and needle in lines[0] and fname in lines[0]
     assert "Traceback" not in cap.err
+    # under --json stdout holds one JSON document, on errors too: the error with the same line
+    doc = json.loads(cap.out)
+    assert list(doc) == ["error"] and doc["error"]["exit_code"] == "2"
+    assert lines[0].endswith(doc["error"]["message"]) and fname in doc["error"]["where"]
+
+
+@pytest.mark.parametrize("argv", [
+    ["analyze", "--json"],                                     # FILE missing (argparse)
+    ["evaluate", "x.json", "--json", "--at", "1", "--bogus"],   # unknown option
+    ["tour", "--json"],                                        # a command without --json
+    ["evaluate", "x.json", "--json", "--at", "1", "--method", "nope"],
+    ["scan", "missing-spec.toml", "-o", "out", "--json"],
+])
+def test_usage_errors_under_json_are_one_json_document(tmp_path, capsys, monkeypatch, argv):
+    monkeypatch.chdir(tmp_path)
+    assert main(argv) == 2
+    cap = capsys.readouterr()
+    doc = json.loads(cap.out)              # exactly one document, nothing else
+    assert doc["error"]["exit_code"] == "2" and doc["error"]["message"]
+    assert len(cap.err.strip().splitlines()) == 1 and doc["error"]["message"] in cap.err
+    assert not (tmp_path / "out").exists()
 
 
 def test_non_utf8_and_precision_too_low(tmp_path, capsys):
