@@ -118,22 +118,41 @@ def main(argv: Optional[List[str]] = None) -> int:
             _json_error(str(exc), 2, exc.where)
         return 2
     except KeyboardInterrupt:
-        if _CONSOLE:
-            # the program ends here: a second Ctrl-C must not interrupt the exit (joining the
-            # threads of worker pools), which would print a traceback and leak semaphores
-            signal.signal(signal.SIGINT, signal.SIG_IGN)
-        print("resum: interrupted", file=sys.stderr)
+        code = _interrupted()
         if as_json:
             try:
-                _json_error("interrupted", 130)
+                _json_error("terminated" if code == 143 else "interrupted", code)
             except (BrokenPipeError, KeyboardInterrupt):
                 pass
-        return 130
+        return code
     except BrokenPipeError:
         return 0
 
 
 _CONSOLE = False        # set by run(): main() then owns the process, not a caller's
+_TERMINATED = []        # SIGTERM received (run() turns it into the path of Ctrl-C)
+
+
+class Terminated(KeyboardInterrupt):
+    """SIGTERM (``kill PID``, a batch system's time limit): ends a command like Ctrl-C does, so
+    that a scan keeps its finished points and ends its workers (exit code 143)."""
+
+
+def _on_sigterm(signum, frame):
+    if not _TERMINATED:
+        _TERMINATED.append(signum)
+        raise Terminated()
+
+
+def _interrupted() -> int:
+    """Say why the command ended early; the exit code (130 Ctrl-C, 143 SIGTERM)."""
+    if _CONSOLE:
+        # the program ends here: a second Ctrl-C or SIGTERM must not interrupt the exit
+        # (joining the threads of worker pools), which would print a traceback and leak semaphores
+        signal.signal(signal.SIGINT, signal.SIG_IGN)
+        signal.signal(signal.SIGTERM, signal.SIG_IGN)
+    print("resum: terminated" if _TERMINATED else "resum: interrupted", file=sys.stderr)
+    return 143 if _TERMINATED else 130
 
 
 def run() -> None:  # console-script entry point
@@ -141,4 +160,8 @@ def run() -> None:  # console-script entry point
     from .parallel import allow_auto
     allow_auto()       # long analyses may use worker processes (resum.parallel)
     _CONSOLE = True
-    sys.exit(main())
+    signal.signal(signal.SIGTERM, _on_sigterm)
+    code = main()
+    if _TERMINATED and code == 130:     # a scan reports its interruption as 130 itself
+        code = 143
+    sys.exit(code)

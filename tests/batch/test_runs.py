@@ -532,3 +532,36 @@ def test_rebuilder_grows_the_source_digits_with_the_terms():
         s = rebuild(22)
         assert s.n_terms == 22 and s.digits == 80
     assert rebuilder(SOURCES["bes"], {"angle": "0", "loops": 10}, 11, ctx)(22).digits < 80
+
+
+def test_sigterm_ends_a_scan_like_ctrl_c(tmp_path):
+    # SIGTERM (kill PID, a batch system's time limit) must not lose the run's bookkeeping: the
+    # finished points and the summary stay, the workers end, --resume goes on. Exit code
+    # 128 + 15 for a program ended by SIGTERM: common practice, no source.
+    spec_path = tmp_path / "spec.toml"
+    spec_path.write_text(spec_text([1, 2, 3, 4, 5], delay=0.3))
+    out = tmp_path / "o"
+    env = {**os.environ, "PYTHONPATH": str(ROOT)}
+    proc = subprocess.Popen([sys.executable, "-m", "resum", "scan", str(spec_path), "-o", str(out),
+                             "--jobs", "2", "--no-plots"], cwd=tmp_path, env=env,
+                            stdout=subprocess.PIPE, stderr=subprocess.PIPE, start_new_session=True)
+    try:
+        deadline = time.time() + 60
+        while time.time() < deadline and len(list((out / "points").glob("p*.json"))) < 3:
+            time.sleep(0.05)
+        proc.send_signal(signal.SIGTERM)
+        _, err = proc.communicate(timeout=30)
+    finally:
+        if proc.poll() is None:
+            os.killpg(proc.pid, signal.SIGKILL)
+            proc.communicate()
+    err = err.decode()
+    assert proc.returncode == 143, err
+    assert "Traceback" not in err and "rerun with --resume" in err
+    summary = json.loads((out / "summary.json").read_text())      # written on the way out
+    before = {p.name: p.read_bytes() for p in (out / "points").glob("p*.json")}
+    assert 3 <= len(before) < 10 and summary["counts"]["recorded"] == len(before)
+    assert not list((out / "points").glob(".*.tmp"))
+    assert main([str(spec_path), "-o", str(out), "--jobs", "1", "--resume", "--no-plots", "--json"]) == 0
+    after = {p.name: p.read_bytes() for p in (out / "points").glob("p*.json")}
+    assert len(after) == 10 and all(after[k] == v for k, v in before.items())
