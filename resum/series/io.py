@@ -382,9 +382,12 @@ def read_series(path, ctx: Optional[Context] = None, fmt: Optional[str] = None) 
     if fmt == "json":
         try:
             doc = json.loads(text, parse_float=_JsonFloat, parse_int=_json_int,
-                             parse_constant=_refuse_constant)
+                             parse_constant=_refuse_constant, object_pairs_hook=_unique_keys)
         except json.JSONDecodeError as e:
             raise InputError(f"line {e.lineno}: malformed JSON ({e.msg})", where=str(path)) from None
+        except RecursionError:
+            raise InputError("malformed JSON (nested too deeply); a series document is an object "
+                             "with a list of coefficients", where=str(path)) from None
         except InputError as e:
             raise e.at(str(path)) from None
         s = series_from_dict(doc, ctx, where=str(path))
@@ -405,6 +408,16 @@ def _json_int(text):
     if len(text) > 20000:      # as for an expression (resum.series.expr.MAX_LENGTH)
         raise InputError(f"integer with {len(text)} digits; at most 20000")
     return decimal_to_int(text)
+
+
+def _unique_keys(pairs):
+    """A JSON object as a dict, refusing a key given twice (json keeps the last one silently)."""
+    out = {}
+    for k, v in pairs:
+        if k in out:
+            raise InputError(f"key {k!r} given twice in one object; keep one")
+        out[k] = v
+    return out
 
 
 def _refuse_constant(name):
@@ -438,7 +451,7 @@ def _header_line(line, meta, where):
     if key == "provenance":
         try:
             value = json.loads(value)
-        except ValueError:
+        except (ValueError, RecursionError):
             value = None
         if not isinstance(value, dict):
             raise InputError("provenance must be a JSON object on one line, e.g. {\"source\": \"bes\"}",

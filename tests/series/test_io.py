@@ -130,6 +130,10 @@ BAD = [
     ("longint.json", '{"coefficients": [' + "9" * 30000 + ']}', "at most 20000"),
     ("twice.txt", "variable: x\nvariable: y\n1\n2\n", "given twice"),
     ("prov.txt", "provenance: [1, 2]\n1\n2\n", "provenance must be a JSON object"),
+    # a key twice: json.loads keeps the last one silently; too deep: RecursionError traceback
+    ("dupkey.json", '{"coefficients": ["1", "2", "3"], "coefficients": ["1"]}', "'coefficients' given twice"),
+    ("deep.json", '{"coefficients": ' + "[" * 100000 + "]" * 100000 + "}", "nested too deeply"),
+    ("deepprov.txt", "provenance: " + "[" * 100000 + "]" * 100000 + "\n1\n2\n", "provenance must be a JSON object"),
 ]
 
 
