@@ -456,6 +456,9 @@ def parse_spec(text: str, path: str = "<spec>", sources=None) -> FamilySpec:
             raise InputError("a family spec is a TOML file (see studies/*/spec.toml), not JSON; write "
                              "it as [study], [axes], [tasks.NAME] tables", where=path) from None
         raise InputError(f"TOML syntax error: {exc}", where=where) from None
+    except RecursionError:
+        raise InputError("TOML nested too deeply; a spec is a few flat tables (see "
+                         "studies/*/spec.toml)", where=path) from None
     v = _Validator(raw, text, path, sources)
     return v.run()
 

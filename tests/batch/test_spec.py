@@ -306,3 +306,11 @@ def test_byte_order_mark_and_crlf_are_read_like_plain_utf8(tmp_path):
     marked = tmp_path / "bom.toml"
     marked.write_bytes(b"\xef\xbb\xbf" + textwrap.dedent(GOOD).replace("\n", "\r\n").encode())
     assert load_spec(marked).digest == load_spec(plain).digest
+
+
+def test_nesting_too_deep_for_the_toml_reader_is_an_input_error(tmp_path):
+    # tomllib recurses per nested array: 100000 levels ended in a RecursionError traceback
+    p = tmp_path / "deep.toml"
+    p.write_text("a = " + "[" * 100000 + "]" * 100000 + "\n")
+    with pytest.raises(InputError, match=r"deep.toml: TOML nested too deeply"):
+        load_spec(p)
