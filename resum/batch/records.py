@@ -161,21 +161,10 @@ class RunFolder:
         return path
 
     def read_record(self, key: str) -> Optional[dict]:
-        path = self.record_path(key)
-        try:
-            return json.loads(path.read_text(encoding="utf-8"))
-        except FileNotFoundError:
-            return None
-        except ValueError:  # cannot happen with atomic writes; treat as missing
-            return None
+        return _load_record(self.record_path(key))
 
     def records(self) -> list:
-        out = []
-        for p in self.record_paths():
-            try:
-                out.append(json.loads(p.read_text(encoding="utf-8")))
-            except ValueError:
-                continue
+        out = [r for r in map(_load_record, self.record_paths()) if r is not None]
         return sorted(out, key=lambda r: r["index"])
 
     def statuses(self) -> dict:
@@ -195,6 +184,20 @@ class RunFolder:
              "counts": counts, "rows": rows}))
         atomic_write_text(self.path / "summary.csv", rows_to_csv(rows))
         return counts
+
+
+def _load_record(path: Path) -> Optional[dict]:
+    """The point record in ``path``, or None when it is missing or not a record of ours (cut
+    short, edited by hand: not a JSON object, or without its own key, an integer index and a
+    status); such a point counts as not computed and a resumed run computes it again."""
+    try:
+        rec = json.loads(path.read_text(encoding="utf-8"))
+    except (OSError, ValueError, RecursionError):   # not with atomic writes: treat as missing
+        return None
+    if not isinstance(rec, dict) or rec.get("key") != path.stem or not isinstance(rec.get("status"), str) \
+            or not isinstance(rec.get("index"), int) or isinstance(rec.get("index"), bool):
+        return None
+    return rec
 
 
 # ----------------------------------------------------------------------------

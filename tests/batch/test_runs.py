@@ -565,3 +565,24 @@ def test_sigterm_ends_a_scan_like_ctrl_c(tmp_path):
     assert main([str(spec_path), "-o", str(out), "--jobs", "1", "--resume", "--no-plots", "--json"]) == 0
     after = {p.name: p.read_bytes() for p in (out / "points").glob("p*.json")}
     assert len(after) == 10 and all(after[k] == v for k, v in before.items())
+
+
+@pytest.mark.parametrize("damage", ["[]", '"text"', "{}", "wrong key", "index not a number"])
+def test_resume_recomputes_a_record_that_is_not_one(tmp_path, damage):
+    # a record file edited by hand or replaced: valid JSON that is no record of its point used to
+    # end --resume in a TypeError traceback (or be kept under the wrong key)
+    spec = parse_spec(spec_text([1, 2]), path="spec.toml")
+    out = tmp_path / "o"
+    run_family(spec, out, runner=SerialRunner(), quiet=True, plots=False)
+    p = sorted((out / "points").glob("p*.json"))[0]
+    good = json.loads(p.read_text())
+    if damage == "wrong key":
+        text = json.dumps({**good, "key": "p09999"})
+    elif damage == "index not a number":
+        text = json.dumps({**good, "index": "0"})
+    else:
+        text = damage
+    p.write_text(text)
+    again = run_family(spec, out, runner=SerialRunner(), resume=True, quiet=True, plots=False)
+    assert again.computed == (good["index"],) and again.counts["ok"] == 4
+    assert json.loads(p.read_text())["key"] == p.stem
