@@ -129,6 +129,26 @@ def require_power_series(series: Series, path: str, min_terms: int, what: str) -
                          "coefficients", where=str(path))
 
 
+def check_plan_terms(series: Series, ctx: Context, method: str, path: str) -> None:
+    """``--method auto`` and the conformal methods choose their map from a singularity analysis,
+    which needs more terms than the resummation itself: refuse too few before the progress line,
+    naming the file and what to do (the analysis refused them after it, in its own words)."""
+    from ..estimators._common import MIN_TERMS as ANALYSIS_TERMS, prepare
+    from ..resummation import _CONFORMAL, polynomial_degree
+    if method not in ("auto",) + _CONFORMAL:
+        return
+    if polynomial_degree(series.dense(Context(dps=ctx.work_dps, guard=0))) is not None:
+        return              # summed exactly, no analysis
+    try:
+        prepare(series, ctx)
+    except InputError as exc:
+        if "usable terms" not in exc.bare:
+            return          # the evaluation says it in its own words
+        raise InputError(f"{exc.bare.split(';')[0]}; --method {method} chooses its map from a singularity "
+                         f"analysis, which needs at least {ANALYSIS_TERMS}: give more coefficients, or use "
+                         "--method pade or borel-pade", where=str(path)) from None
+
+
 def at_file(exc: InputError, path: str) -> InputError:
     """An input error about the series itself (``series...``) relocated to its file."""
     if not exc.where or exc.where.startswith("series"):

@@ -20,7 +20,7 @@ import sys
 from ..errors import InputError
 from ..results import point_text
 from ._common import (with_input_notes, AT_HELP_RANGE, add_common_options, at_file, emit_json, expand_points, load_series, log,
-                      prepare_plot_dir, require_power_series, stage_log, write_figures)
+                      prepare_plot_dir, require_power_series, check_plan_terms, stage_log, write_figures)
 
 MIN_TERMS = 6       # resum.resummation.evaluate refuses fewer terms
 
@@ -152,6 +152,7 @@ def run(args) -> int:
         raise InputError(exc.bare, where="--method") from None
     series, ctx = load_series(args.file, args.dps)
     require_power_series(series, args.file, MIN_TERMS, "resummation")
+    check_plan_terms(series, ctx, args.method, args.file)
     points = expand_points(args.at, ctx.work_dps + series.n_terms)
     reference = read_reference(args.reference, ctx.work_dps) if args.reference else None
     large = None

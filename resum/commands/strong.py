@@ -15,7 +15,7 @@ import mpmath
 
 from ..errors import InputError
 from ..series.expr import evaluate_expression
-from ._common import (with_input_notes, AT_HELP_RANGE, add_common_options, at_file, emit_json, expand_points, load_series, log,
+from ._common import (check_plan_terms, with_input_notes, AT_HELP_RANGE, add_common_options, at_file, emit_json, expand_points, load_series, log,
                       require_power_series)
 
 HELP = "strong-coupling probe: fit the asymptotic form of the resummed function, with bands"
@@ -75,6 +75,7 @@ def run(args) -> int:
         raise InputError(exc.bare, where="--method") from None
     series, ctx = load_series(args.file, args.dps)
     require_power_series(series, args.file, 6, "the strong-coupling probe (a resummation)")
+    check_plan_terms(series, ctx, args.method, args.file)
     couplings = None if not args.at else _couplings(args.at, ctx.work_dps)
     power = None if args.power is None else _number(args.power, ctx.work_dps, "--power")
     if isinstance(power, mpmath.mpc):

@@ -139,3 +139,27 @@ def test_generate_checks_the_output_before_computing(files, capsys, monkeypatch,
     monkeypatch.setitem(SOURCES, "euler", dataclasses.replace(SOURCES["euler"], build=no_build))
     _refused(["generate", "euler", "--orders", "5", "-o", str(d / out)], capsys, needle)
     assert list((d / "folder").iterdir()) == []
+
+
+@pytest.mark.parametrize("cmd", [["evaluate", "--at", "0.5"], ["strong"],
+                                 ["evaluate", "--at", "0.5", "--method", "conformal-pade"]])
+def test_too_few_terms_for_the_planning_analysis_refused_first(tmp_path, capsys, cmd):
+    # 1/(1-x) to 6 terms: enough for a resummation (6), not for the singularity analysis
+    # (8 usable terms) that auto and the conformal methods plan with; it used to be refused
+    # after the progress line, in the analysis's words
+    p = tmp_path / "six.txt"
+    p.write_text("1\n" * 6)
+    line = _refused([cmd[0], str(p), *cmd[1:]], capsys, "six.txt: only 6 usable terms")
+    assert "needs at least 8" in line and "--method pade" in line
+
+
+def test_few_terms_still_fine_for_methods_without_the_analysis(tmp_path, capsys):
+    # 1/(1-x) at x = 1/2 is 2 (geometric series, common practice, no source); [2/2] Padé of six
+    # terms of 1/(1-x) is exact
+    import json
+    import mpmath
+    p = tmp_path / "six.txt"
+    p.write_text("1\n" * 6)
+    assert main(["evaluate", str(p), "--at", "1/2", "--method", "pade", "--json", "--no-verify"]) == 0
+    v = json.loads(capsys.readouterr().out)["values"][0]
+    assert mpmath.mpf(v["lo"]) <= 2 <= mpmath.mpf(v["hi"])
