@@ -109,11 +109,15 @@ def _curve(series, ctx, points, n, args, large):
 def read_reference(path: str, dps: int) -> list:
     """Read a reference file: list of ``(at, value, error_or_None)`` (mpmath numbers)."""
     from ..resummation import parse_points
+    import mpmath
     try:
-        with open(path, encoding="utf-8") as fh:
+        with open(path, encoding="utf-8-sig") as fh:      # a byte-order mark is no part of the text
             text = fh.read()
     except OSError as exc:
         raise InputError(f"cannot read reference file ({exc.strerror}); check the path", where=path) from None
+    except UnicodeDecodeError as exc:
+        raise InputError(f"not UTF-8 text (bad byte at offset {exc.start}); save the file as UTF-8",
+                         where=path) from None
     out = []
     for k, line in enumerate(text.splitlines(), start=1):
         line = line.split("#", 1)[0].strip()
@@ -126,6 +130,12 @@ def read_reference(path: str, dps: int) -> list:
             nums = parse_points(parts, dps)
         except InputError as exc:
             raise InputError(exc.bare, where=f"{path}:{k}") from None
+        if isinstance(nums[1], mpmath.mpc):
+            raise InputError(f"the reference value {parts[1]!r} is complex; the comparison is of real "
+                             "values: give the real part", where=f"{path}:{k}")
+        if len(nums) == 3 and (isinstance(nums[2], mpmath.mpc) or nums[2] < 0):
+            raise InputError(f"the error {parts[2]!r} must be a real number >= 0 (the half-width of the "
+                             "reference's band)", where=f"{path}:{k}")
         err = nums[2] if len(nums) == 3 else _literal_error(parts[1], nums[1])
         out.append((nums[0], nums[1], err))
     if not out:

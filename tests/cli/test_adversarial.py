@@ -163,3 +163,28 @@ def test_few_terms_still_fine_for_methods_without_the_analysis(tmp_path, capsys)
     assert main(["evaluate", str(p), "--at", "1/2", "--method", "pade", "--json", "--no-verify"]) == 0
     v = json.loads(capsys.readouterr().out)["values"][0]
     assert mpmath.mpf(v["lo"]) <= 2 <= mpmath.mpf(v["hi"])
+
+
+@pytest.mark.parametrize("raw, needle", [
+    (b"0.1 1.2\n0.2 \xe9\n", "ref.txt: not UTF-8 text"),
+    (b"0.1 1.2 -0.1\n", "ref.txt:1: the error '-0.1' must be a real number >= 0"),
+    (b"0.1 1.2 I\n", "ref.txt:1: the error 'I' must be a real number >= 0"),
+    (b"0.1 1.2+0.1*I\n", "ref.txt:1: the reference value '1.2+0.1*I' is complex"),
+])
+def test_reference_file_refused_in_one_line(files, capsys, raw, needle):
+    # each of these ended in a traceback (UnicodeDecodeError, TypeError in the comparison) or
+    # was taken silently (a negative error)
+    d, good = files
+    (d / "ref.txt").write_bytes(raw)
+    _refused(["evaluate", good, "--at", "0.1", "--method", "pade", "--reference", str(d / "ref.txt")],
+             capsys, needle)
+
+
+def test_reference_file_with_byte_order_mark_and_crlf(files, capsys):
+    import json
+    d, good = files
+    (d / "ref.txt").write_bytes(b"\xef\xbb\xbf0.1 1.2\r\n")
+    assert main(["evaluate", good, "--at", "0.1", "--method", "pade", "--no-verify", "--json",
+                 "--reference", str(d / "ref.txt")]) in (0, 1)
+    ref = json.loads(capsys.readouterr().out)["reference"]
+    assert ref[0]["at"] == "0.1" and ref[0]["value"].startswith("1.2")
