@@ -56,6 +56,9 @@ def add_arguments(parser) -> None:
 
 def run(args) -> int:
     from ..batch import load_spec, make_runner, run_family
+    if args.out is not None and not str(args.out).strip():
+        # Path("") is the current folder: an unset variable in '-o "$DIR"' must not fill it
+        raise InputError("empty folder name; give a folder for the results", where="-o")
     spec = load_spec(args.spec)
     if args.retry_failed and not args.resume:
         raise InputError("--retry-failed continues an earlier run; give --resume too")

@@ -52,6 +52,9 @@ def run(args) -> int:
     from ..resummation import evaluate
     from ..sources import get_source
 
+    if not str(args.output).strip():
+        # Path("") is the current folder: an unset variable in '-o "$DIR"' must not fill it
+        raise InputError("empty folder name; give a folder for the report", where="--output")
     out = Path(args.output)
     if out.exists() and not out.is_dir():
         raise InputError("exists and is not a folder; choose another --output", where=str(out))

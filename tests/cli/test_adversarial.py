@@ -188,3 +188,18 @@ def test_reference_file_with_byte_order_mark_and_crlf(files, capsys):
                  "--reference", str(d / "ref.txt")]) in (0, 1)
     ref = json.loads(capsys.readouterr().out)["reference"]
     assert ref[0]["at"] == "0.1" and ref[0]["value"].startswith("1.2")
+
+
+@pytest.mark.parametrize("argv, needle", [
+    (["scan", "spec.toml", "-o", ""], "-o: empty folder name"),
+    (["scan", "spec.toml", "-o", "  ", "--jobs", "1"], "-o: empty folder name"),
+    (["tour", "-o", ""], "--output: empty folder name"),
+])
+def test_empty_output_folder_does_not_mean_the_current_one(tmp_path, capsys, monkeypatch, argv, needle):
+    # Path("") is ".": an unset variable in -o "$DIR" filled the current folder with a run or
+    # a tour's report and figures
+    monkeypatch.chdir(tmp_path)
+    (tmp_path / "spec.toml").write_text('[study]\nname = "e"\nsource = "euler"\ndps = 15\n[axes]\n'
+                                        'orders = { values = [10, 12] }\n[tasks.coefficients]\n')
+    _refused(argv, capsys, needle)
+    assert [p.name for p in tmp_path.iterdir()] == ["spec.toml"]
