@@ -363,9 +363,17 @@ def _read_text_file(path: Path) -> str:
         raise InputError(f"cannot read file ({e.strerror})", where=str(path)) from None
     if path.is_dir():
         raise InputError("is a directory, not a series file", where=str(path))
+    too_big = InputError(f"file larger than {MAX_FILE_BYTES // 2**20} MiB", where=str(path))
     if size > MAX_FILE_BYTES:
-        raise InputError(f"file larger than {MAX_FILE_BYTES // 2**20} MiB", where=str(path))
-    raw = path.read_bytes()
+        raise too_big
+    try:
+        # bounded: a device or pipe (/dev/zero, /dev/stdin) reports size 0 and may never end
+        with open(path, "rb") as fh:
+            raw = fh.read(MAX_FILE_BYTES + 1)
+    except OSError as e:
+        raise InputError(f"cannot read file ({e.strerror})", where=str(path)) from None
+    if len(raw) > MAX_FILE_BYTES:
+        raise too_big
     try:
         return raw.decode("utf-8-sig")
     except UnicodeDecodeError as e:

@@ -1,5 +1,6 @@
 """File formats: round trips without losing a digit, and one-line errors for bad input."""
 import json
+import os
 from fractions import Fraction
 
 import mpmath
@@ -283,3 +284,12 @@ def test_description_and_provenance_survive_csv_and_text(tmp_path, ext):
     t = read_series(write_series(s, tmp_path / f"s.{ext}"))
     assert t.description == s.description
     assert {k: t.provenance[k] for k in ("source", "orders", "note")} == dict(s.provenance)
+
+
+@pytest.mark.skipif(not os.path.exists("/dev/zero"), reason="needs /dev/zero")
+def test_a_device_without_end_is_read_bounded(monkeypatch):
+    # /dev/zero reports size 0 and never ends: it used to be read until memory ran out
+    import resum.series.io as io
+    monkeypatch.setattr(io, "MAX_FILE_BYTES", 4096)
+    with pytest.raises(InputError, match=r"/dev/zero: file larger than"):
+        read_series("/dev/zero")
