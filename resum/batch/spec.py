@@ -400,6 +400,10 @@ def spec_digest(raw: Mapping) -> str:
 # reading and validating
 # ----------------------------------------------------------------------------
 
+#: Largest spec file read (a spec is a few tables; long value lists belong in ranges).
+MAX_SPEC_BYTES = 16 * 2**20
+
+
 def load_spec(path, sources=None) -> FamilySpec:
     """Read and validate a family spec file.
 
@@ -413,9 +417,12 @@ def load_spec(path, sources=None) -> FamilySpec:
     path = str(path)
     try:
         with open(path, "rb") as fh:
-            data = fh.read()
+            data = fh.read(MAX_SPEC_BYTES + 1)     # bounded: /dev/zero or a pipe may never end
     except OSError as exc:
         raise InputError(f"cannot read the spec: {exc.strerror}", where=path) from None
+    if len(data) > MAX_SPEC_BYTES:
+        raise InputError(f"the spec is larger than {MAX_SPEC_BYTES // 2**20} MiB; a spec is a few "
+                         "tables (see studies/*/spec.toml)", where=path)
     try:
         # a byte-order mark (as some Windows editors write) is not part of the TOML text
         text = data.decode("utf-8-sig")

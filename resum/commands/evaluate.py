@@ -111,8 +111,12 @@ def read_reference(path: str, dps: int) -> list:
     from ..resummation import parse_points
     import mpmath
     try:
-        with open(path, encoding="utf-8-sig") as fh:      # a byte-order mark is no part of the text
-            text = fh.read()
+        from ..series.io import MAX_FILE_BYTES
+        with open(path, "rb") as fh:       # bounded: /dev/zero or a pipe may never end
+            raw = fh.read(MAX_FILE_BYTES + 1)
+        if len(raw) > MAX_FILE_BYTES:
+            raise InputError(f"file larger than {MAX_FILE_BYTES // 2**20} MiB", where=path)
+        text = raw.decode("utf-8-sig")      # a byte-order mark is no part of the text
     except OSError as exc:
         raise InputError(f"cannot read reference file ({exc.strerror}); check the path", where=path) from None
     except UnicodeDecodeError as exc:

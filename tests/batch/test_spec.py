@@ -314,3 +314,11 @@ def test_nesting_too_deep_for_the_toml_reader_is_an_input_error(tmp_path):
     p.write_text("a = " + "[" * 100000 + "]" * 100000 + "\n")
     with pytest.raises(InputError, match=r"deep.toml: TOML nested too deeply"):
         load_spec(p)
+
+
+@pytest.mark.skipif(not __import__("os").path.exists("/dev/zero"), reason="needs /dev/zero")
+def test_a_spec_device_without_end_is_read_bounded(monkeypatch):
+    import resum.batch.spec as spec_module
+    monkeypatch.setattr(spec_module, "MAX_SPEC_BYTES", 4096)
+    with pytest.raises(InputError, match=r"/dev/zero: the spec is larger than"):
+        load_spec("/dev/zero")

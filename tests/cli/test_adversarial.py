@@ -203,3 +203,12 @@ def test_empty_output_folder_does_not_mean_the_current_one(tmp_path, capsys, mon
                                         'orders = { values = [10, 12] }\n[tasks.coefficients]\n')
     _refused(argv, capsys, needle)
     assert [p.name for p in tmp_path.iterdir()] == ["spec.toml"]
+
+
+@pytest.mark.skipif(not __import__("os").path.exists("/dev/zero"), reason="needs /dev/zero")
+def test_reference_device_without_end_is_read_bounded(files, capsys, monkeypatch):
+    import resum.series.io as io
+    monkeypatch.setattr(io, "MAX_FILE_BYTES", 4096)
+    _, good = files
+    _refused(["evaluate", good, "--at", "0.1", "--reference", "/dev/zero"], capsys,
+             "/dev/zero: file larger than")
