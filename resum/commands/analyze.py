@@ -37,7 +37,11 @@ def add_arguments(parser) -> None:
 
 def run(args) -> int:
     from ..estimators._common import prepare
-    methods = validate_methods(args.methods) if args.methods else None
+    try:
+        # an empty --methods '' is a mistake (an unset variable), not the default methods
+        methods = validate_methods(args.methods) if args.methods is not None else None
+    except InputError as exc:
+        raise InputError(exc.bare, where="--methods") from None
     series, ctx = load_series(args.file, args.dps)
     if args.dps is None:
         ctx = default_context(series)

@@ -212,3 +212,11 @@ def test_reference_device_without_end_is_read_bounded(files, capsys, monkeypatch
     _, good = files
     _refused(["evaluate", good, "--at", "0.1", "--reference", "/dev/zero"], capsys,
              "/dev/zero: file larger than")
+
+
+@pytest.mark.parametrize("value, needle", [("", "--methods: no method given"),
+                                           ("ratio,bogus", "--methods: unknown method 'bogus'")])
+def test_analyze_methods_refused_naming_the_option(files, capsys, value, needle):
+    # --methods '' (an unset variable) ran the default methods silently
+    _, good = files
+    _refused(["analyze", good, "--methods", value], capsys, needle)
