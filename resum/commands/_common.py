@@ -175,17 +175,28 @@ def prepare_plot_dir(folder: str) -> str:
     return folder
 
 
-def write_figures(folder: str, writer) -> list:
-    """Run ``writer()`` (which returns the paths it wrote), log each path, and turn a
-    failure to write into a one-line input error naming ``--plot``."""
+def write_figures(folder: str, writer) -> Tuple[list, Optional[str]]:
+    """Run ``writer()`` (which returns the paths it wrote) and log each path: ``(paths, None)``.
+    A failure to write is a one-line input error naming ``--plot``; a failure to draw (numbers a
+    figure cannot hold, such as values beyond the range of doubles) is a warning logged here and
+    returned as ``([], warning)``: figures are extras, the results are printed all the same (the
+    command then ends with exit code 1, as a scan does)."""
+    import warnings
     try:
-        paths = writer()
+        with warnings.catch_warnings():
+            warnings.simplefilter("ignore")     # the plotting library's own, not ours
+            paths = writer()
     except OSError as e:
         raise InputError(f"cannot write figures ({e.strerror or e}); choose another folder",
                          where=f"--plot {folder}") from None
+    except Exception as e:  # noqa: BLE001 - a figure that cannot be drawn must not lose the results
+        why = (str(e).splitlines() or [""])[0][:200]
+        note = f"figures not drawn ({type(e).__name__}: {why}); the results are not affected"
+        log(f"warning: {note}")
+        return [], note
     for p in paths:
         log(f"wrote {p}")
-    return paths
+    return paths, None
 
 
 _JSON_EMITTED = [False]

@@ -60,14 +60,18 @@ def run(args) -> int:
         result = analyze(series, ctx, methods=methods, verify=not args.no_verify, progress=stage_log(args))
     except InputError as exc:
         raise at_file(exc, args.file) from None
+    plot_note = None
     if args.plot is not None:
-        write_figures(args.plot, lambda: write_analysis_plots(result, series, args.plot))
+        _, plot_note = write_figures(args.plot, lambda: write_analysis_plots(result, series, args.plot))
     if args.json:
-        emit_json(with_input_notes(result.contract_dict(), series))
+        doc = with_input_notes(result.contract_dict(), series)
+        if plot_note:
+            doc["warnings"] = list(doc["warnings"]) + [plot_note]
+        emit_json(doc)
     else:
         from ..report.analysis_text import render_analysis
         import sys
         sys.stdout.write(render_analysis(result, title=series.name or os.path.basename(args.file)))
     for w in result.warnings:
         log(f"warning: {w}")
-    return 0 if result.success else 1
+    return 0 if result.success and not plot_note else 1

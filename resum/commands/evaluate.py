@@ -198,14 +198,16 @@ def run(args) -> int:
                 verify=not args.no_verify, large_x_power=large, progress=stage_log(args))
     except InputError as exc:
         raise at_file(exc, args.file) from None
+    plot_note = None
     if args.plot is not None:
         if n_curve is None:
             # a Borel-plane method pays a Laplace integral per point (and approximant)
             meth = result.provenance.method if result.provenance else ""
             n_curve = CURVE_POINTS_BOREL if meth.startswith("borel") else CURVE_POINTS
         curve = _curve(series, ctx, points, n_curve, args, large)
-        write_figures(args.plot, lambda: write_evaluation_plots(result, series, ctx, args.plot, reference, curve))
-    failed = _failure_notes(result)
+        _, plot_note = write_figures(args.plot, lambda: write_evaluation_plots(result, series, ctx, args.plot,
+                                                                                reference, curve))
+    failed = _failure_notes(result) + ([plot_note] if plot_note else [])
     if args.json:
         doc = result.contract_dict()
         doc["warnings"] = list(doc["warnings"]) + failed
@@ -226,9 +228,9 @@ def run(args) -> int:
                                            reference=reference))
         if search is not None:
             sys.stdout.write(_goal_text(search))
-    for w in list(result.warnings) + failed:
+    for w in list(result.warnings) + [f for f in failed if f != plot_note]:     # plot_note: logged
         log(f"warning: {w}")
-    return 0 if result.success else 1
+    return 0 if result.success and not plot_note else 1
 
 
 def _goal_options(args, series, ctx):

@@ -220,3 +220,40 @@ def test_analyze_methods_refused_naming_the_option(files, capsys, value, needle)
     # --methods '' (an unset variable) ran the default methods silently
     _, good = files
     _refused(["analyze", good, "--methods", value], capsys, needle)
+
+
+def test_values_beyond_doubles_keep_the_results_when_figures_fail(tmp_path, capsys):
+    # a coefficient 1e300000 is a valid number, beyond the largest double (about 1.8e308,
+    # IEEE 754 binary64); the figure could not set its axis limits and the run ended in a
+    # matplotlib traceback, losing the results
+    import json
+    pytest.importorskip("matplotlib")
+    p = tmp_path / "big.txt"
+    p.write_text("1e300000\n" + "".join(f"{k}\n" for k in range(1, 11)))
+    code = main(["evaluate", str(p), "--at", "0.5", "--plot", str(tmp_path / "figs"), "--json", "--no-verify"])
+    cap = capsys.readouterr()
+    doc = json.loads(cap.out)
+    assert "Traceback" not in cap.err and doc["values"][0]["at"] == "0.5"
+    assert code == 1 and any(w.startswith("figures not drawn") for w in doc["warnings"])
+
+
+@pytest.mark.parametrize("cmd, module, name", [
+    (["analyze", "--no-verify", "--methods", "ratio"], "resum.plots.analysis", "write_analysis_plots"),
+    (["evaluate", "--at", "0.1", "--method", "pade", "--no-verify"], "resum.plots.evaluation",
+     "write_evaluation_plots"),
+])
+def test_a_figure_that_cannot_be_drawn_is_a_warning(files, capsys, monkeypatch, cmd, module, name):
+    import importlib
+    import json
+    pytest.importorskip("matplotlib")
+    d, good = files
+
+    def broken(*a, **k):
+        raise ValueError("cannot draw this")
+    monkeypatch.setattr(importlib.import_module(module), name, broken)
+    code = main([cmd[0], good, *cmd[1:], "--plot", str(d / "figs"), "--json"])
+    cap = capsys.readouterr()
+    doc = json.loads(cap.out)                   # the results, as without --plot
+    assert code == 1 and "Traceback" not in cap.err
+    assert "figures not drawn (ValueError: cannot draw this)" in cap.err
+    assert any("cannot draw this" in w for w in doc["warnings"])
