@@ -169,6 +169,9 @@ def resolve_source(name: str, sources=None):
     if ":" in name:
         import importlib
         mod, _, attr = name.partition(":")
+        dotted = r"[A-Za-z_]\w*(\.[A-Za-z_]\w*)*"
+        if not (re.fullmatch(dotted, mod) and re.fullmatch(dotted, attr)):
+            return None      # ':' or '.mod:x': import_module raises ValueError / TypeError
         try:
             obj = importlib.import_module(mod)
             for part in attr.split("."):

@@ -322,3 +322,10 @@ def test_a_spec_device_without_end_is_read_bounded(monkeypatch):
     monkeypatch.setattr(spec_module, "MAX_SPEC_BYTES", 4096)
     with pytest.raises(InputError, match=r"/dev/zero: the spec is larger than"):
         load_spec("/dev/zero")
+
+
+@pytest.mark.parametrize("name", [":", ".relative:x", "mod:", ":obj", "a b:c"])
+def test_source_names_that_are_no_module_path_are_unknown_sources(name):
+    # ':' reached importlib.import_module(''), whose ValueError was a traceback
+    with pytest.raises(InputError, match="study.source: unknown source"):
+        parse(GOOD.replace(f'source = "{SRC}"', f'source = "{name}"'))
