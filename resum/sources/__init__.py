@@ -139,6 +139,12 @@ OSC_MAX_ORDERS = 3000        # resum.sources.oscillator.MAX_ORDERS
 MAX_DPS = 5000               # as for a family spec's study.dps
 MIN_DPS = 5                  # resum.context.Context refuses fewer digits
 MAX_ORDERS = 100000          # resum.series.io.MAX_TERMS: a longer series file cannot be read back
+# the exact sources write every digit, and the readers take files up to 200 MiB
+# (resum.series.io.MAX_FILE_BYTES): Euler's n! make about 160 MiB at 10000 orders (the sum of
+# log10 k! for k < 10000), phi^4's rationals 173 MiB at 8000 (measured: 181074332 bytes, 41 s);
+# 100000 orders would be some 20 GB, built in memory first
+EULER_MAX_ORDERS = 10000
+PHI4_MAX_ORDERS = 8000
 
 
 def _checked(name: str, **params) -> dict:
@@ -243,11 +249,11 @@ SOURCES = {
     "phi4": SourceSpec(
         "phi4", "zero-dimensional phi^4 integral Z(g) = (2 pi)^(-1/2) Int exp(-x^2/2 - g x^4/4) dx",
         (Param("orders", "int", 60, "number of coefficients (g^0 .. g^(orders-1))",
-               minimum=1, maximum=MAX_ORDERS),),
+               minimum=1, maximum=PHI4_MAX_ORDERS),),
         _phi4_build, _phi4_truth, "Z(g) from its modified-Bessel closed form", ("orders", 0)),
     "euler": SourceSpec(
         "euler", "Euler's series sum (sign)^n n! x^n",
-        (Param("orders", "int", 50, "number of coefficients", minimum=1, maximum=MAX_ORDERS),
+        (Param("orders", "int", 50, "number of coefficients", minimum=1, maximum=EULER_MAX_ORDERS),
          Param("sign", "int", -1, "-1: alternating (Borel summable), 1: same sign", (-1, 1))),
         _euler_build, _euler_truth, "Borel sum e^(1/x) E_1(1/x)/x (alternating series only)",
         ("orders", 0)),

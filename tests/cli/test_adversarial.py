@@ -257,3 +257,20 @@ def test_a_figure_that_cannot_be_drawn_is_a_warning(files, capsys, monkeypatch, 
     assert code == 1 and "Traceback" not in cap.err
     assert "figures not drawn (ValueError: cannot draw this)" in cap.err
     assert any("cannot draw this" in w for w in doc["warnings"])
+
+
+@pytest.mark.parametrize("source, orders, needle", [("euler", "100000", "at most 10000"),
+                                                    ("phi4", "100000", "at most 8000")])
+def test_exact_sources_refuse_files_too_large_to_read_back(tmp_path, capsys, source, orders, needle):
+    # 100000 orders of n! (or of phi^4's rationals) is some 20 GB of digits, built in memory and
+    # then refused by the readers (200 MiB)
+    _refused(["generate", source, "--orders", orders, "-o", str(tmp_path / "x.txt")], capsys, needle)
+    assert not (tmp_path / "x.txt").exists()
+
+
+def test_euler_at_its_cap_fits_the_readers():
+    # digits of k! = floor(log10 k!) + 1 (common practice, no source); one line per coefficient
+    from resum.series.io import MAX_FILE_BYTES
+    from resum.sources import EULER_MAX_ORDERS
+    size = sum(math.floor(math.lgamma(k + 1) / math.log(10)) + 2 + (k % 2) for k in range(EULER_MAX_ORDERS))
+    assert size < MAX_FILE_BYTES
