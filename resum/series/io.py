@@ -438,9 +438,15 @@ def _guess_format(path: Path, text: str) -> str:
         return "json"
     if ext == ".csv":
         return "csv"
-    if ext in (".txt", ".dat", ".ser", ""):
-        return "json" if text.lstrip().startswith("{") else "text"
-    return "json" if text.lstrip().startswith("{") else "text"
+    if text.lstrip().startswith("{"):
+        return "json"
+    # the CSV header row (after any '# key: value' lines) is no line of the text format: a CSV
+    # file saved under another extension is read as CSV, not refused at its header
+    for line in text.splitlines():
+        line = line.strip()
+        if line and not line.startswith("#"):
+            return "csv" if line.replace(" ", "").lower() == "order,coefficient" else "text"
+    return "text"
 
 
 def _header_line(line, meta, where):

@@ -293,3 +293,12 @@ def test_a_device_without_end_is_read_bounded(monkeypatch):
     monkeypatch.setattr(io, "MAX_FILE_BYTES", 4096)
     with pytest.raises(InputError, match=r"/dev/zero: file larger than"):
         read_series("/dev/zero")
+
+
+@pytest.mark.parametrize("name", ["c.txt", "c.dat", "c"])
+def test_csv_content_under_another_extension_is_read_as_csv(tmp_path, name):
+    # it was read as the text format and refused at its header ("unknown name 'order'")
+    p = tmp_path / name
+    p.write_text("# name: cc\nOrder, Coefficient\n0,1\n1,1/2\n3,5\n")
+    s = read_series(p)
+    assert s.coefficients == (1, Fraction(1, 2), 0, 5) and s.name == "cc"
