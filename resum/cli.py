@@ -127,6 +127,28 @@ def main(argv: Optional[List[str]] = None) -> int:
         return code
     except BrokenPipeError:
         return 0
+    except OSError as exc:
+        # stdout or a file that could not be written at the last moment (a full disk, /dev/full):
+        # one line, not a traceback (files are written atomically: nothing half-written is left)
+        what = f" {exc.filename}" if getattr(exc, "filename", None) else " the output"
+        print(f"resum {args.command}: error: cannot write{what} ({exc.strerror or exc}); free space "
+              "or choose another place", file=sys.stderr)
+        _silence_stdout()
+        return 2
+
+
+def _silence_stdout() -> None:
+    """After stdout failed, drop what it still buffers so that the exit does not fail again
+    (only when the program owns the process: a caller's stdout is left alone)."""
+    if not _CONSOLE:
+        return
+    try:
+        import os
+        devnull = os.open(os.devnull, os.O_WRONLY)
+        os.dup2(devnull, sys.stdout.fileno())
+        os.close(devnull)
+    except (OSError, ValueError, AttributeError):
+        pass
 
 
 _CONSOLE = False        # set by run(): main() then owns the process, not a caller's

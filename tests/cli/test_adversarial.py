@@ -274,3 +274,21 @@ def test_euler_at_its_cap_fits_the_readers():
     from resum.sources import EULER_MAX_ORDERS
     size = sum(math.floor(math.lgamma(k + 1) / math.log(10)) + 2 + (k % 2) for k in range(EULER_MAX_ORDERS))
     assert size < MAX_FILE_BYTES
+
+
+def test_stdout_that_cannot_be_written_is_one_line(files, capsys, monkeypatch):
+    # a full disk (ENOSPC, as /dev/full gives) under the results ended in an OSError traceback
+    import errno
+    import io
+    import sys
+    _, good = files
+
+    class Full(io.StringIO):
+        def write(self, text):
+            raise OSError(errno.ENOSPC, "No space left on device")
+    monkeypatch.setattr(sys, "stdout", Full())
+    code = main(["analyze", good, "--methods", "ratio", "--no-verify", "--json"])
+    err = capsys.readouterr().err
+    assert code == 2 and "Traceback" not in err
+    assert err.strip().splitlines()[-1] == ("resum analyze: error: cannot write the output (No space left "
+                                            "on device); free space or choose another place")
