@@ -1423,8 +1423,12 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                     # a band wider than a tenth of the value is no result, however stable the
                     # approximants looked (Padé at (1+x)^(-1/3), x = 1e6: -99 [-500, 300])
                     status, success = Status.NOT_CONVERGED, False
-                    msg = (f"the band [{mpmath.nstr(re.lower, 2)}, {mpmath.nstr(re.upper, 2)}] supports no "
-                           "significant digit")
+                    # name the band that is wide: at a complex point the test is on the modulus,
+                    # and a narrow real band beside a wide imaginary one must not read as the cause
+                    band = f"[{mpmath.nstr(re.lower, 2)}, {mpmath.nstr(re.upper, 2)}]"
+                    if im is not None:
+                        band += f" + i [{mpmath.nstr(im.lower, 2)}, {mpmath.nstr(im.upper, 2)}]"
+                    msg = f"the band {band} supports no significant digit"
                     msg += (f": {o.info['cut_hint']}" if o.info.get("cut_hint") else
                             " (more terms or another method, --method, may help; if the function vanishes "
                             "near this point, the band is still an absolute error estimate)")

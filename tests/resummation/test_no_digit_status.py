@@ -44,3 +44,29 @@ def test_small_real_part_of_a_complex_value_is_judged_by_its_modulus():
         assert p.value.error * 10 > abs(p.value.value)       # the case this test is about
         assert p.imag.error < mpmath.mpf(10) ** -6
     assert p.success and p.status == Status.CONVERGED
+
+
+def test_message_names_the_wide_imaginary_band():
+    # (1 - x + x^2)^(-1/2) + (1 + x)^(3/2): a pair at exp(+-i pi/3) and a real point at -1, all
+    # on |x| = 1 (closed form, common practice, no source); 80 terms as 50-digit decimals. At
+    # x = 1 + 2i the real band alone holds about three digits and the imaginary one none: the
+    # message once printed only "[1.7, 1.7]" as the band that "supports no significant digit".
+    from tests.known_series import quadratic_series
+    n = 80
+    a = quadratic_series(Fraction(-1, 2), Fraction(-1), Fraction(1), n)
+    b = binomial_series(Fraction(3, 2), n).coefficients
+    with workdps(50):
+        c = [mpmath.mpf(u.numerator) / u.denominator for u in (p + q for p, q in zip(a, b))]
+    res = evaluate(Series(c, digits=50), ["1+2*I"], Context(dps=30))
+    p = res.points[0]
+    with workdps(50):
+        x = mpmath.mpc(1, 2)
+        s = mpmath.exp(1j * mpmath.pi / 3)     # the straight-line continuation: radial cuts
+        truth = ((1 - x / s) ** mpmath.mpf(-0.5) * (1 - x / mpmath.conj(s)) ** mpmath.mpf(-0.5)
+                 + (1 + x) ** mpmath.mpf(1.5))
+        assert p.value.contains(truth.real) and p.imag.contains(truth.imag)
+        assert p.value.error * 10 < abs(p.value.value)          # the real band alone has a digit
+        assert p.imag.error * 10 > abs(p.imag.value)            # the imaginary one has none
+    assert p.status == Status.NOT_CONVERGED
+    lo, hi = (mpmath.nstr(v, 2) for v in (p.imag.lower, p.imag.upper))
+    assert f"+ i [{lo}, {hi}]" in p.message
