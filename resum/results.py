@@ -95,7 +95,8 @@ def num_to_str(x, dps: Optional[int] = None) -> str:
     if isinstance(x, float):
         return repr(x)
     if isinstance(x, mpmath.mpc) or isinstance(x, complex):
-        x = mpmath.mpc(x)
+        if isinstance(x, complex):       # mpc(mpc) would round to the working precision
+            x = mpmath.mpc(x)
         re, im = num_to_str(x.real, dps), num_to_str(x.imag, dps)
         sign = "-" if im.startswith("-") else "+"
         return f"{re}{sign}{im.lstrip('-')}j"

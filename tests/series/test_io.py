@@ -41,6 +41,21 @@ def test_500_digit_roundtrip(tmp_path, ext):
     assert series_to_dict(t)["coefficients"] == series_to_dict(s)["coefficients"]
 
 
+
+@pytest.mark.parametrize("ext", FORMATS)
+def test_complex_coefficients_keep_their_digits(tmp_path, ext):
+    # (1 - x/(1+i))^(-1/3) = sum binom(-1/3, k) (-x/(1+i))^k (closed form, common practice, no
+    # source), 40 digits made under mpmath's default 15: the complex coefficients were written
+    # rounded to a double (0.16666666666666665741...), the real ones kept every digit
+    z = mpmath.mpc(1, 1)
+    with workdps(60):
+        cs = [mpmath.binomial(-mpmath.mpf(1) / 3, k) * (-1 / z) ** k for k in range(12)]
+        s = Series([+c for c in cs], digits=40)
+    t = read_series(write_series(s, tmp_path / f"s.{ext}"))
+    with workdps(60):
+        for a, b in zip(cs, t.coefficients):
+            assert abs(a - mpmath.mpc(b)) <= mpmath.mpf(10) ** -39 * abs(a)
+
 def test_minimal_json_and_expressions(tmp_path):
     p = tmp_path / "m.json"
     p.write_text(json.dumps({"variable": "x", "coefficients": ["1", "1/2", "pi^2/6", 3]}))
