@@ -682,7 +682,18 @@ def _only_poles(sings) -> bool:
         e = getattr(s, "exponent", None)
         if s.kind != "pole" or e is None or not any(e.contains(-k) for k in (1, 2, 3)):
             return False
+        if e.error > POLE_EXPONENT_BAND:
+            return False
     return True
+
+
+#: The widest exponent band (half-width) :func:`_only_poles` takes for a pole. The analysis'
+#: kind ``pole`` only asks that a band up to +-0.2 hold a negative integer, but a pole's exponent
+#: is a whole number, and the poles it finds (Padé, differential approximants) come with bands
+#: of 1e-14 from 16-digit input; a band like -1.07(11) is what a ratio fit gives for
+#: (1 - x)^(-1) sqrt(-log(1 - x)/x) (80 terms, 50 digits: a cut, where Padé failed at every
+#: point beyond the radius and a map from x = 1 gave 10-37 digits).
+POLE_EXPONENT_BAND = mpmath.mpf("0.01")
 
 
 def _obeys_equation(an) -> bool:

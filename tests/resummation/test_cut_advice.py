@@ -9,6 +9,7 @@ import mpmath
 
 from resum.context import Context, workdps
 from resum.resummation import evaluate
+from resum.series import Series
 from tests.known_series import binomial_series
 
 
@@ -88,3 +89,28 @@ def test_cut_advice_is_given_in_the_coupling():
         g = mpmath.mpc(mpmath.mpf(step), 2)
         truth = mpmath.power(1 + g * g, -mpmath.mpf(1) / 3)   # principal power, mpmath
         assert p.value.contains(truth.real) and p.imag.contains(truth.imag)
+
+
+def test_a_pole_times_a_root_of_a_log_is_not_summed_as_a_pole():
+    # f = (1 - x)^(-1) sqrt(-log(1 - x)/x): a cut from x = 1, no pole (closed form, common
+    # practice, no source); coefficients sum_{j<=k} s_j with s the series of sqrt(-log(1-x)/x),
+    # 80 terms at 50 digits. The analysis gives the exponent -1.07(11), kind "pole" (its band
+    # holds -1); method auto then took Padé as for a meromorphic function and failed at every
+    # point beyond the radius, where a map from x = 1 gives 10 to 37 digits.
+    n = 80
+    with workdps(90):
+        lg = [mpmath.mpf(1) / (k + 1) for k in range(n)]          # -log(1 - x)/x
+        s = [mpmath.mpf(1)]
+        for k in range(1, n):
+            s.append((lg[k] - sum(s[i] * s[k - i] for i in range(1, k))) / 2)
+        c = [sum(s[:k + 1]) for k in range(n)]
+    with workdps(50):
+        c = [+v for v in c]
+    res = evaluate(Series(c, digits=50), ["-3", "-30"], Context(dps=30))
+    with workdps(60):
+        for p in res.points:
+            x = mpmath.mpf(p.at)
+            truth = mpmath.sqrt(-mpmath.log(1 - x) / x) / (1 - x)
+            assert p.success and p.value.contains(truth), (p.at, p.message)
+            assert p.value.digits() > 15
+            assert p.method == "conformal-pade"
