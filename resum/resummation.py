@@ -556,6 +556,8 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
     if radius is None and sings:
         z = sings[0]
         radius = abs(z.location if hasattr(z, "location") else z)
+    if sings:
+        sings = _cut_first(sings)
     chosen = cmap if cmap is not None else (choose_map(sings) if sings else None)
     nb = getattr(an, "natural_boundary", None) if an is not None else None
     if method == "auto" and nb is not None and cmap is None and not singularities:
@@ -666,6 +668,29 @@ def _a_text(an, A) -> str:
     if est is not None:
         return str(est)
     return mpmath.nstr(A, 6) + " (rough)"
+
+
+def _is_clear_pole(s) -> bool:
+    """The analysis calls ``s`` a pole and its exponent band is a negative integer to within
+    :data:`POLE_EXPONENT_BAND`."""
+    e = getattr(s, "exponent", None)
+    return (getattr(s, "kind", None) == "pole" and e is not None and e.error <= POLE_EXPONENT_BAND
+            and any(e.contains(-k) for k in (1, 2, 3)))
+
+
+def _cut_first(sings) -> list:
+    """The points a map should cut from: ``sings`` without the clear poles
+    (:func:`_is_clear_pole`) when other singular points remain, so that
+    :func:`~resum.transforms.conformal.choose_map` cuts from a branch point and the approximants
+    in the mapped variable keep the poles as poles.
+    A map from a pole cuts the plane where the function has none: sqrt(1 + x)/(2 - e^x) from 80
+    terms at 50 digits, pole at log 2 and branch point -1, got a cut from log 2 to +infinity and no
+    value at x = 1, 1.5, 3, where the map from -1 gives 28-45 digits. Unchanged when every point
+    is a clear pole, or none is."""
+    poles = [z for z in sings if _is_clear_pole(z)]
+    if not poles or len(poles) == len(sings):
+        return list(sings)
+    return [z for z in sings if not _is_clear_pole(z)]
 
 
 def _only_poles(sings) -> bool:

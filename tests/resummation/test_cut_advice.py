@@ -114,3 +114,26 @@ def test_a_pole_times_a_root_of_a_log_is_not_summed_as_a_pole():
             assert p.success and p.value.contains(truth), (p.at, p.message)
             assert p.value.digits() > 15
             assert p.method == "conformal-pade"
+
+
+def test_no_cut_from_a_pole_when_a_branch_point_is_there_to_cut_from():
+    # f = sqrt(1 + x)/(2 - exp(x)): simple poles at log 2 + 2 pi i k, a branch point at -1, no
+    # cut on (log 2, +inf) (closed form, common practice, no source); 80 terms at 50 digits. The
+    # map once joined log 2 and -1 through infinity and x = 1, 1.5, 3 lay "on its cut".
+    n = 80
+    with workdps(90):
+        e = [1 / mpmath.factorial(k) for k in range(n)]
+        inv = [mpmath.mpf(1)]                       # 1/(2 - e^x) = 1/(1 - (e^x - 1))
+        for k in range(1, n):
+            inv.append(sum(e[i] * inv[k - i] for i in range(1, k + 1)))
+        sq = [mpmath.binomial(mpmath.mpf(1) / 2, k) for k in range(n)]
+        c = [sum(sq[i] * inv[k - i] for i in range(k + 1)) for k in range(n)]
+    with workdps(50):
+        c = [+v for v in c]
+    res = evaluate(Series(c, digits=50), ["1", "3"], Context(dps=30))
+    with workdps(60):
+        for p in res.points:
+            x = mpmath.mpf(p.at)
+            truth = mpmath.sqrt(1 + x) / (2 - mpmath.exp(x))
+            assert p.success and p.value.contains(truth), (p.at, p.message)
+            assert p.value.digits() > 20
