@@ -1000,6 +1000,21 @@ def analyze(series, ctx: Optional[Context] = None, methods=None, verify: bool = 
         return _analyze(series, ctx, names, verify, prep, progress)
 
 
+def _warn_complex_exponents(sings, results, warnings):
+    """A warning for each reported point without an exponent where an estimator found a complex
+    one (complex coefficients: the bands hold real exponents only)."""
+    for s in sings:
+        if s.exponent is not None:
+            continue
+        for r in results.values():
+            hit = [t for t in (r.singularities or ()) if "complex exponent" in (t.note or "")
+                   and abs(t.location - s.location) <= 0.01 * max(abs(s.location), mpmath.mpf(10) ** -30)]
+            if hit:
+                note = hit[0].note[hit[0].note.index("complex exponent"):]
+                warnings.append(f"at {mpmath.nstr(s.location, 8)} ({r.method}): {note}")
+                break
+
+
 def _analyze(series, ctx, names, verify, prep, progress=None):
     t0 = time.perf_counter()
     results = _run(series, ctx, names, progress, "main run")
@@ -1077,6 +1092,7 @@ def _analyze(series, ctx, names, verify, prep, progress=None):
         diag["natural_boundary"] = {k: v for k, v in probe.items() if k != "radius"}
     if essential is not None:
         diag["essential"] = essential
+    _warn_complex_exponents(final["singularities"], results, warnings)
     prov = Provenance("analyze", {"methods": names, "verify": verify}, series.n_terms, ctx.dps,
                       series.input_hash(), __version__)
     return AnalysisResult(success=success, status=status, message=msg, radius=final["radius"],

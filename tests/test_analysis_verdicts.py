@@ -132,3 +132,25 @@ def test_equation_of_a_series_in_x_squared_is_written_in_u():
     eq = res.contract_dict().get("equation", "")
     assert "u = x^2" in eq and "F(u)" in eq, eq
     assert "[1 - u] F'" in eq and "[-1/3] F" in eq, eq
+
+
+def test_complex_exponent_is_not_reported_as_its_real_part():
+    # 2F1(1/2 + i, 1/3; 3/2; x): its only finite singular point is x = 1, where it behaves like
+    # A + B (1 - x)^(c - a - b) with c - a - b = 2/3 - i (Gauss' connection formula, from
+    # memory); coefficients from the term ratio (a)_k (b)_k / ((c)_k k!), checked here against
+    # mpmath.hyp2f1 inside the disk. Every exponent estimator once gave the real part 2/3
+    # with a band of 1e-28 and no word of the imaginary part.
+    a, b, c = mpmath.mpc("0.5", 1), mpmath.mpf(1) / 3, mpmath.mpf("1.5")
+    with mpmath.workdps(60):
+        co = [mpmath.mpc(1)]
+        for k in range(69):
+            co.append(co[-1] * (a + k) * (b + k) / ((c + k) * (k + 1)))
+        assert abs(mpmath.polyval(co[::-1], mpmath.mpf("0.1")) - mpmath.hyp2f1(a, b, c, mpmath.mpf("0.1"))) < 1e-50
+    with mpmath.workdps(40):
+        co = [+v for v in co]
+    res = analyze(Series(co, digits=40), Context(dps=30))
+    assert res.radius.contains(1)
+    s = res.singularities[0]
+    assert s.re.contains(1) and s.im.contains(0)
+    assert s.exponent is None or (s.exponent.contains(mpmath.mpf(2) / 3) and s.exponent.width > 1)
+    assert any("complex exponent" in w and "0.66666667 - 1.0 i" in w for w in res.warnings)

@@ -176,6 +176,18 @@ def lift_radius(radius: Optional[Estimate], k: int) -> Optional[Estimate]:
     return Estimate(f(radius.value), f(radius.lower), f(radius.upper))
 
 
+def complex_exponent_note(theta_complex, half) -> Optional[str]:
+    """A note when an exponent estimate has an imaginary part its real band cannot hold, else
+    None. Complex coefficients can have a complex exponent: 2F1(1/2 + i, 1/3; 3/2; x) has
+    theta = c - a - b = 2/3 - i at x = 1 (Gauss' connection formula, from memory); its real part
+    alone, banded to 28 digits, was reported as the exponent."""
+    ti = mpmath.im(theta_complex) if isinstance(theta_complex, mpmath.mpc) else 0
+    if abs(ti) <= max(10 * half, mpmath.mpf(10) ** -8):
+        return None
+    return (f"complex exponent about {mpmath.nstr(mpmath.re(theta_complex), 8)} "
+            f"{'-' if ti < 0 else '+'} {mpmath.nstr(abs(ti), 8)} i: no real exponent is claimed")
+
+
 def classify_kind(theta: Optional[Estimate]) -> str:
     """Kind of singularity from its exponent band.
 

@@ -46,7 +46,7 @@ import mpmath
 
 from ..results import Estimate, Singularity, Status
 from ..uncertainty.ensemble import SAFETY, cluster_points, robust_center
-from ._common import classify_kind, failed, finish, prepare
+from ._common import classify_kind, complex_exponent_note, failed, finish, prepare
 from ._num import nearest_distances, pade_coeffs, poly_roots, polyder, polyval_many
 from .ratio import classify_growth
 
@@ -235,6 +235,7 @@ def clusters_to_singularities(ens, method, eps, residue_is_exponent=False, expon
         else:
             im = Estimate(center.imag, center.imag - half, center.imag + half)
         rvals = [mpmath.re(r) for r in res]
+        extra_note = ""
         rc = robust_center(rvals)
         rdev = max(abs(x - rc) for x in rvals)
         rel_rdev = rdev / max(abs(rc), mpmath.mpf(10) ** -30)
@@ -248,6 +249,12 @@ def clusters_to_singularities(ens, method, eps, residue_is_exponent=False, expon
             theta = Estimate(th, min(theta.lower, th - eps * 1000), max(theta.upper, th + eps * 1000))
             kind = classify_kind(theta)
             stable = rel_rdev < 0.05 or rdev < 0.01
+            ivals = [mpmath.im(r) for r in res]
+            ic = robust_center(ivals)
+            cnote = complex_exponent_note(mpmath.mpc(th, ic), max(theta.error, max(abs(v - ic) for v in ivals)))
+            if cnote:
+                theta, kind = None, "branch"
+                extra_note = cnote
         else:
             # multiplicity: poles of the same approximant that coincide with the member
             mults = []
@@ -274,6 +281,8 @@ def clusters_to_singularities(ens, method, eps, residue_is_exponent=False, expon
             theta = Estimate(-mult, -mult, -mult) if stable else None
             kind = "pole" if stable else ("branch" if on_cut else "unknown")
         note = f"{len(zs)} of {len(ens)} approximants" + ("; poles and zeros line up beyond it" if on_cut else "")
+        if extra_note:
+            note += f"; {extra_note}"
         sings.append(Singularity(re, im, kind, theta, method, note))
         info.append({"center": center, "members": len(zs), "fraction": cl["fraction"], "on_cut": on_cut,
                      "residues": rvals, "residue_spread": rdev, "stable_residue": stable})

@@ -59,7 +59,7 @@ import mpmath
 
 from ..results import Estimate, Singularity, Status
 from ..uncertainty.ensemble import SAFETY
-from ._common import classify_kind, failed, finish, prepare
+from ._common import classify_kind, complex_exponent_note, failed, finish, prepare
 from ._extrap import extrapolate
 from ._num import lu_solve
 
@@ -383,10 +383,14 @@ def estimate_ratio(series, ctx=None, step=None):
         th = mpmath.re(r["theta"])
         theta = Estimate(th, th - r["theta_half"] - SAFETY * th_dn, th + r["theta_half"] + SAFETY * th_up)
         kind = classify_kind(theta)
+        cnote = complex_exponent_note(r["theta"], theta.error)
+        if cnote:
+            theta, kind = None, "branch"
         slow = [w for w, f in (("location", mu_slow), ("exponent", th_slow)) if f]
         sing = Singularity(re, im, kind, theta, method,
                            f"ratio step {s}, Neville orders {r['k_mu']} (intercept) and {r['k_theta']} (exponent)"
-                           + (f"; {' and '.join(slow)} still drifting with the number of terms" if slow else ""))
+                           + (f"; {' and '.join(slow)} still drifting with the number of terms" if slow else "")
+                           + (f"; {cnote}" if cnote else ""))
         how = (f"Ratios z_n = c_n/c_(n-{s}) over n = {r['ns'][0]}..{r['ns'][-1]}; intercept mu^{s} and "
                f"exponent extrapolated in 1/n by Neville tables, order chosen where the last 4 entries "
                f"agree best; band = {SAFETY} x (spread of those entries, change to the next order, "
