@@ -178,3 +178,29 @@ def test_path_prefilter_keeps_every_near_segment():
             tol = mpmath.mpf("0.002") * abs(p)
             exact = [k for k in range(len(path) - 1) if _seg_dist(p, path[k], path[k + 1]) < tol]
             assert set(exact) <= set(_near_segments(p, path, tol))
+
+
+def test_pair_and_real_point_on_one_circle_take_the_pair_map():
+    # (1 - x + x^2)^(-1/2) + (1 + x)^(3/2): a pair at exp(+-i pi/3) and a real point at -1, all
+    # on |x| = 1 (closed form, common practice, no source). The order of the three came from
+    # rounding: a ray map from -1 left the pair to the approximants, and at x = 3 + 3i the value
+    # (band 0.036) was the other branch of the pair's root, 0.5 away from the truth.
+    from resum import Context, Series
+    from resum.resummation import evaluate
+    from tests.known_series import binomial_series, quadratic_series
+    s0 = mpmath.exp(1j * mpmath.pi / 3)
+    m = choose_map([-1 + mpmath.mpf(10) ** -11, s0, mpmath.conj(s0)])
+    assert isinstance(m, PairMap)
+    n = 80
+    a = quadratic_series(Fraction(-1, 2), Fraction(-1), Fraction(1), n)
+    b = binomial_series(Fraction(3, 2), n).coefficients
+    with mpmath.workdps(50):
+        c = [mpmath.mpf(u.numerator) / u.denominator for u in (p + q for p, q in zip(a, b))]
+    res = evaluate(Series(c, digits=50), ["3+3*I"], Context(dps=30))
+    p = res.points[0]
+    with mpmath.workdps(50):
+        x = mpmath.mpc(3, 3)
+        truth = ((1 - x / s0) ** mpmath.mpf(-0.5) * (1 - x / mpmath.conj(s0)) ** mpmath.mpf(-0.5)
+                 + (1 + x) ** mpmath.mpf(1.5))
+        assert p.value.contains(truth.real) and p.imag.contains(truth.imag)
+    assert p.success and p.value.digits() > 8
