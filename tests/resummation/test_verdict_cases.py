@@ -25,6 +25,7 @@ import mpmath
 import pytest
 
 from resum import Context, Series, analyze, evaluate
+from resum.errors import InputError
 from resum.estimators.strong_coupling import probe_strong_coupling
 
 
@@ -152,7 +153,7 @@ def test_far_points_do_not_hang_the_walk_and_are_not_put_on_a_cut():
     # exact log(1 + x) (common practice, no source): x = 1e300 once took 385 s on the walk and came
     # back wrong, 1e999999 never returned; the conformal fallback called 1e50 "on the cut"
     s = Series([Fraction(0)] + [Fraction((-1) ** (k + 1), k) for k in range(1, 40)])
-    r = evaluate(s, ["1e20", "1e50", "1e999999"], Context(dps=20))
+    r = evaluate(s, ["1e20", "1e50", "1e3000"], Context(dps=20))
     near, far, farther = r.points
     with mpmath.workdps(40):
         assert near.success and near.method == "ode" and near.value.contains(mpmath.log(1 + mpmath.mpf(10) ** 20))
@@ -160,6 +161,9 @@ def test_far_points_do_not_hang_the_walk_and_are_not_put_on_a_cut():
         assert not p.success and p.value is None
         assert "maps to the rim of the disk" in p.message and "on the cut" not in p.message
     assert sum("too far out for the walk" in w for w in r.warnings) == 2
+    # beyond the range exact numbers have (10^315652) a point is refused as input, naming it
+    with pytest.raises(InputError, match="point 2: .*outside 10"):
+        evaluate(s, ["1e20", "1e999999"], Context(dps=20))
 
 
 def test_repeated_approximants_of_an_odd_series_do_not_shrink_the_band():
