@@ -1275,9 +1275,11 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                      analysis=analysis)
         loss = {}
         extra = _reexpansion_guard(plan, c, series, wd, loss) if work_dps is None else 0
+        reexp_warning = None    # index of the warning below: dropped if no point used a map
         if series.digits is not None and "loss" in loss and loss["loss"] >= max(series.digits - 10, 5):
             # the mapped coefficients of the top orders keep (almost) none of the input's digits
             left = max(0, series.digits - loss["loss"])
+            reexp_warning = len(warnings)
             warnings.append(
                 f"the re-expansion in the disk variable cancels about {loss['loss']} digits by the top "
                 f"order, leaving {'none' if left == 0 else f'about {left}'} of the {series.digits} the "
@@ -1488,6 +1490,10 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                 warnings.append(f"at {point_text(a)}: the differential equation was not followed "
                                 f"({o.info['ode_refused']}); {p_method} instead")
             pts.append(PointResult(a, x, re, im, p_method, success, status, msg, baselines[j], pdiag))
+    if reexp_warning is not None and not any("conformal" in (p.method or "") for p in pts):
+        # every point was solved without the map (an exact equation followed, say): the
+        # re-expansion's cancellation did not touch any value reported
+        del warnings[reexp_warning]
     if n_fail == 0:
         status, success, message = Status.CONVERGED, True, f"{len(pts)} point(s) evaluated"
     else:

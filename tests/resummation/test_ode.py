@@ -206,3 +206,24 @@ def test_a_stand_in_equation_with_too_many_unknowns_is_not_followed_even_if_flag
     flagged = SimpleNamespace(methods={"diff-approx": SimpleNamespace(diagnostics={"exact_equation": True})})
     with workdps(90):
         assert not _follow_equation(Series(c, digits=60), c, Context(dps=30), flagged)
+
+
+def test_reexpansion_warning_only_when_a_point_used_the_map():
+    # x (1 + x)^(-1/4) from 60 terms rounded to 40 digits (binomial series, common practice, no
+    # source): auto follows the first-order equation the series obeys, so the conformal
+    # re-expansion's cancellation (about 42 digits here) touches no value and is not warned about;
+    # forced conformal-Padé still warns. Truth: the closed form, mpmath.
+    c = [Fraction(1)]
+    for k in range(1, 60):
+        c.append(c[-1] * (Fraction(-1, 4) - (k - 1)) / k)
+    with mpmath.workdps(40):
+        s = Series([mpmath.mpf(v.numerator) / v.denominator for v in c], start=1, digits=40)
+    r = evaluate(s, ["3", "10", "100"], Context(dps=30))
+    assert [p.method for p in r.points] == ["ode"] * 3
+    assert not any("re-expansion" in w for w in r.warnings)
+    with mpmath.workdps(40):
+        for p in r.points:
+            x = mpmath.mpf(p.at)
+            assert p.value.contains(x * (1 + x) ** (-mpmath.mpf(1) / 4))
+    forced = evaluate(s, ["3"], Context(dps=30), method="conformal-pade")
+    assert any("re-expansion in the disk variable cancels" in w for w in forced.warnings)
