@@ -105,8 +105,9 @@ class Series:
         Decimal digits each inexact coefficient is known to. ``None`` means the
         series is exact (or, for mpf input, that the caller vouches for the
         working precision at construction time).
-    coupling : Coupling or None
-        How the variable relates to the physical coupling.
+    coupling : Coupling, str or None
+        How the variable relates to the physical coupling (a text such as
+        ``"x = g^2"`` is read as in series files).
     name, description : str
     provenance : mapping
         Where the series came from (source, parameters, file).
@@ -135,6 +136,14 @@ class Series:
         object.__setattr__(self, "provenance", dict(self.provenance))
         if not isinstance(self.start, int):
             raise TypeError("start must be an integer")
+        if isinstance(self.coupling, str):
+            # the text form a series file uses ("x = g^2"); kept as a string, in_coupling() and
+            # evaluate() would fail far from here
+            from .io import parse_coupling
+            object.__setattr__(self, "coupling", parse_coupling(self.coupling, self.variable))
+        elif self.coupling is not None and not isinstance(self.coupling, Coupling):
+            raise InputError(f"coupling: expected a Coupling or a text such as "
+                             f"'{self.variable} = g^2', got {self.coupling!r}")
         if self.digits is not None and (isinstance(self.digits, bool) or not isinstance(self.digits, int)
                                         or self.digits < 1):
             raise InputError(f"digits must be a whole number >= 1, got {self.digits!r}")
@@ -228,7 +237,7 @@ class Series:
         with _working(ctx, self.digits):
             x = mpmath.mpmathify(x)
             s = 0
-            for k, c in enumerate(self.coefficients[: n or self.n_terms]):
+            for k, c in enumerate(self.coefficients[: self.n_terms if n is None else n]):
                 s += _to_mp(c) * x ** (self.start + k)
             return +s
 
@@ -244,7 +253,8 @@ class Series:
         if is_exact_number(c) and c == 1:
             return self
         with _working(ctx, self.digits):
-            cc = c if is_exact_number(c) else mpmath.mpmathify(c)
+            # an exact factor stays exact for negative powers too (int ** -1 would be a float)
+            cc = Fraction(c) if is_exact_number(c) else mpmath.mpmathify(c)
             return self._new([a * cc ** (self.start + k) for k, a in enumerate(self.coefficients)])
 
     def substitute_power(self, k: int) -> "Series":
@@ -355,10 +365,13 @@ class Series:
         other = _check_number(other, "scalar")
         if other == 0:
             raise InputError("division of a series by zero")
-        if is_exact_number(other):
-            return self._new([c / Fraction(other) if is_exact_number(c) else c / other
-                              for c in self.coefficients])
-        return self._new([c / other for c in self.coefficients])
+        # at the series' own precision, as in __mul__: c / other on an mpf rounds to mpmath's
+        # ambient precision
+        with _working(None, self.digits):
+            if is_exact_number(other):
+                return self._new([c / Fraction(other) if is_exact_number(c) else c / other
+                                  for c in self.coefficients])
+            return self._new([c / other for c in self.coefficients])
 
     def compose(self, inner: "Series", ctx: Optional[Context] = None) -> "Series":
         """f(inner(x)); ``inner`` must vanish at x = 0."""
@@ -430,9 +443,9 @@ class Series:
             b = int(b)
             if b < 0 and any(a[n] != 0 for n in range(min(len(a), -b))):
                 raise ValueError("Gamma(n+1+b) has poles for these n; choose b > -1")
-            import math
-            out = [(Fraction(c) / math.factorial(n + b) if is_exact_number(c) else c / math.factorial(n + b))
-                   if n + b >= 0 else 0 for n, c in enumerate(a)]
+            with _working(ctx, self.digits):      # mpf / int rounds to the ambient precision
+                out = [(Fraction(c) / math.factorial(n + b) if is_exact_number(c) else c / math.factorial(n + b))
+                       if n + b >= 0 else 0 for n, c in enumerate(a)]
             return self._from_native(out, name=self.name, provenance={**self.provenance, "borel_b": b})
         with _working(ctx, self.digits):
             out = [_to_mp(c) / mpmath.gamma(n + 1 + mpmath.mpmathify(b)) for n, c in enumerate(a)]

@@ -85,3 +85,59 @@ def test_rejects_non_finite():
         Series([1, mpmath.nan])
     with pytest.raises(TypeError):
         Series([1, "2"])
+
+
+def test_rescale_with_negative_powers_stays_exact():
+    # x^-1 (1 + x + x^2) with x -> 2x: (1/2) x^-1 + 1 + 2x (common practice, no source)
+    s = Series([1, 1, 1], start=-1).rescale(2)
+    assert s.is_exact and s.digits is None
+    assert s.coefficients == (Fraction(1, 2), 1, 2)
+
+
+def _exp_series(dps=60, n=25, digits=50):
+    with workdps(dps):
+        return Series([1 / mpmath.factorial(k) for k in range(n)], digits=digits)
+
+
+def test_scalar_division_keeps_the_series_digits_at_low_ambient_precision():
+    # e^x / 3 and e^x / mpf(2) against mpmath.taylor of the same closed forms, while the
+    # ambient precision is mpmath's default 15 digits
+    s = _exp_series()
+    assert mpmath.mp.dps == 15
+    for div, f in ((3, lambda x: mpmath.exp(x) / 3), (mpmath.mpf(2), lambda x: mpmath.exp(x) / 2)):
+        q = s / div
+        with workdps(60):
+            ref = mpmath.taylor(f, 0, s.n_terms - 1)
+            worst = max(abs(a - b) / abs(b) for a, b in zip(q.coefficients, ref))
+        assert worst < mpmath.mpf(10) ** -45, (div, worst)
+
+
+def test_borel_with_integer_b_keeps_the_series_digits_at_low_ambient_precision():
+    # Borel(-Le Roy) of e^x: c_n = 1/(n! Gamma(n + 1 + b)), b = 0 and 1 (mpmath.factorial)
+    s = _exp_series()
+    assert mpmath.mp.dps == 15
+    for b in (0, 1):
+        t = s.borel(b)
+        with workdps(60):
+            worst = max(abs(c - 1 / (mpmath.factorial(k) * mpmath.factorial(k + b)))
+                        * mpmath.factorial(k) * mpmath.factorial(k + b) for k, c in enumerate(t.coefficients))
+        assert worst < mpmath.mpf(10) ** -45, (b, worst)
+
+
+def test_evaluate_partial_with_zero_terms_is_zero():
+    # the empty partial sum (common practice, no source)
+    s = Series([1, 1, 1])
+    assert s.evaluate_partial(2, n=0) == 0
+    assert s.evaluate_partial(2, n=1) == 1
+    assert s.evaluate_partial(2) == 7
+
+
+def test_coupling_given_as_text_or_wrong_type():
+    s = Series([0, 4, -1], coupling="x = g^2")
+    assert s.coupling == Coupling("g", 2, 1)
+    assert s.in_coupling().coefficients == (0, 0, 4, 0, -1)
+    from resum.errors import InputError
+    with pytest.raises(InputError, match="coupling"):
+        Series([1, 2], coupling=2)
+    with pytest.raises(InputError, match="coupling"):
+        Series([1, 2], coupling="y = g^2")
