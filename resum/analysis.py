@@ -54,10 +54,11 @@ from typing import Optional
 import mpmath
 
 from ._version import __version__
-from .context import DEFAULT, Context
+from .context import DEFAULT, Context, checked_context
 from .errors import InputError
 from .estimators import METHODS, get_method, validate_methods  # noqa: F401  (METHODS re-exported)
 from .estimators._common import MIN_TERMS, classify_kind, prepare
+from .series.core import Series
 from .results import (Estimate, MethodResult, Provenance, Singularity, Status, _jsonable)
 from .uncertainty.ensemble import SAFETY, digits_agree, modulus_band
 
@@ -993,8 +994,11 @@ def analyze(series, ctx: Optional[Context] = None, methods=None, verify: bool = 
         See the module Notes on how to read its bands; ``diagnostics["how"]``
         repeats it for the result at hand.
     """
+    if not isinstance(series, Series):
+        raise InputError(f"expected a resum.Series, got {type(series).__name__}; build one with "
+                         "Series([c0, c1, ...])", where="series")
     names = validate_methods(methods)
-    ctx = ctx or default_context(series)
+    ctx = default_context(series) if ctx is None else checked_context(ctx)
     prep = prepare(series, ctx)          # input errors surface here
     with ctx.working():
         return _analyze(series, ctx, names, verify, prep, progress)

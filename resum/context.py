@@ -23,7 +23,7 @@ from dataclasses import dataclass, replace
 import mpmath
 from mpmath import mpf, mpc, nstr  # re-exported for convenience  # noqa: F401
 
-__all__ = ["Context", "DEFAULT", "workdps", "workprec", "bits_for", "mpf", "mpc", "nstr"]
+__all__ = ["Context", "DEFAULT", "workdps", "workprec", "bits_for", "checked_context", "mpf", "mpc", "nstr"]
 
 DEFAULT_DPS = 30
 DEFAULT_GUARD = 15
@@ -45,10 +45,11 @@ class Context:
     guard: int = DEFAULT_GUARD
 
     def __post_init__(self):
-        if not isinstance(self.dps, int) or self.dps < 5:
-            raise ValueError(f"dps must be an integer >= 5, got {self.dps!r}")
-        if not isinstance(self.guard, int) or self.guard < 0:
-            raise ValueError(f"guard must be a non-negative integer, got {self.guard!r}")
+        from .errors import InputError      # a ValueError, as before
+        if isinstance(self.dps, bool) or not isinstance(self.dps, int) or self.dps < 5:
+            raise InputError(f"must be an integer >= 5, got {self.dps!r}", where="dps")
+        if isinstance(self.guard, bool) or not isinstance(self.guard, int) or self.guard < 0:
+            raise InputError(f"must be a non-negative integer, got {self.guard!r}", where="guard")
 
     @property
     def work_dps(self) -> int:
@@ -73,6 +74,17 @@ class Context:
 
 
 DEFAULT = Context()
+
+
+def checked_context(ctx) -> Context:
+    """``ctx``, or :data:`DEFAULT` for None; anything else (a bare digit count, say) is an
+    :class:`~resum.errors.InputError` naming the field, not an AttributeError deep inside."""
+    if ctx is None:
+        return DEFAULT
+    if not isinstance(ctx, Context):
+        from .errors import InputError
+        raise InputError(f"expected a resum.Context such as Context(dps=30), got {ctx!r}", where="ctx")
+    return ctx
 
 
 def bits_for(dps: int) -> int:

@@ -144,17 +144,21 @@ def format_value_error(value, lower, upper, max_digits: int = 60) -> str:
     The error is the larger half-distance to the band ends, rounded to one
     (or two, if its first digit is 1) significant figures; the value is
     rounded to the same decimal place: ``0.250000(1)``. A zero-width band
-    prints ``max_digits`` digits. A band wider than the value prints the
+    prints ``max_digits`` digits (see below). A band wider than the value prints the
     value with two digits and the band explicitly, a value less than a tenth of
     its band's half-width as ``0`` and the band, and so does a zero whose band
-    is narrower than 1e-5: ``0 [-1.2e-49, 1.2e-49]``.
+    is narrower than 1e-5: ``0 [-1.2e-49, 1.2e-49]``. A zero-width band prints at most
+    ``max_digits`` digits and no more than the value's binary mantissa holds.
     """
     value, lower, upper = mpf(value), mpf(lower), mpf(upper)
     err = max(abs(upper - value), abs(value - lower))
     if not mpmath.isfinite(value):
         return num_to_str(value)
     if err == 0:
-        return mpmath.nstr(value, max_digits)
+        # no more digits than the binary number holds: 1/3 made at 53 bits would otherwise print
+        # 54 digits, 38 of them the expansion of its rounding error
+        held = int(abs(value._mpf_[1]).bit_length() * 0.30103) + 1 if value != 0 else 1
+        return mpmath.nstr(value, max(1, min(max_digits, held)))
     if not mpmath.isfinite(err):
         return f"{mpmath.nstr(value, 3)} (band unbounded)"
     e10 = int(mpmath.floor(mpmath.log10(err)))
@@ -221,6 +225,12 @@ class Estimate:
     def __post_init__(self):
         for f in ("value", "lower", "upper"):
             object.__setattr__(self, f, _real(getattr(self, f)))
+        if self.lower > self.upper:
+            # ends given the other way round (a band negated end by end, say): the same band;
+            # the hull below would otherwise shrink it to the bare value
+            lo, hi = self.upper, self.lower
+            object.__setattr__(self, "lower", lo)
+            object.__setattr__(self, "upper", hi)
         if self.lower > self.value or self.upper < self.value:
             lo, hi = min(self.lower, self.value), max(self.upper, self.value)
             object.__setattr__(self, "lower", lo)
@@ -300,12 +310,17 @@ class Estimate:
 
 
 def _real(x):
-    """An mpf from int, Fraction, float, str or mpf (Fractions exactly, at working precision)."""
+    """An mpf from int, Fraction, float, str or mpf (Fractions at working precision, a str with
+    all its digits)."""
     from fractions import Fraction
     if isinstance(x, Fraction):
         return mpf(x.numerator) / x.denominator
     if isinstance(x, mpf):
         return x            # already a number: keep all its digits (mpf() would round it)
+    if isinstance(x, str):
+        # a decimal text keeps the digits it was written with, whatever the ambient precision
+        with workdps(max(mpmath.mp.dps, sum(ch.isdigit() for ch in x) + 5)):
+            return mpf(x)
     return mpf(x)
 
 
@@ -411,9 +426,11 @@ class Singularity:
         return abs(self.location)
 
     def to_dict(self) -> dict:
-        return {"re": num_to_str(self.re.value, _dps_for_band(self.re)),
-                "im": num_to_str(self.im.value, _dps_for_band(self.im)),
-                "re_band": self.re.to_dict(), "im_band": self.im.to_dict(),
+        # "re"/"im" are the band's own value texts: written apart, they were rounded to the digits
+        # of the band as read back, which the outward-rounded ends can shift by one (2.004 -> 2.0)
+        re_band, im_band = self.re.to_dict(), self.im.to_dict()
+        return {"re": re_band["value"], "im": im_band["value"],
+                "re_band": re_band, "im_band": im_band,
                 "exponent": None if self.exponent is None else self.exponent.to_dict(),
                 "kind": self.kind, "method": self.method, "note": self.note}
 

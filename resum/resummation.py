@@ -64,7 +64,7 @@ from typing import Any, Optional
 
 import mpmath
 
-from .context import DEFAULT, Context
+from .context import DEFAULT, Context, checked_context
 from .errors import InputError
 from .results import Estimate, Provenance, Status, num_to_str, jsonable, point_label, point_text
 from .series.core import Series
@@ -1250,7 +1250,7 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
     _check_method(method)
     if lateral not in ("auto", "always", "never"):
         raise InputError(f"lateral must be 'auto', 'always' or 'never', got {lateral!r}", where="lateral")
-    ctx = ctx or DEFAULT
+    ctx = checked_context(ctx)
     if series.start < 0:
         raise InputError(f"series starts at {series.variable}^{series.start}; multiply by "
                          f"{series.variable}^{-series.start} first", where="series")

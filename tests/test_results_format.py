@@ -67,3 +67,63 @@ def test_band_ends_are_written_rounded_outward():
             e = Estimate((lo + hi) / 2, lo, hi)
             d = e.to_dict()
             assert mpmath.mpf(d["lo"]) <= lo and mpmath.mpf(d["hi"]) >= hi, d
+
+
+def test_band_given_upper_end_first_is_the_same_band():
+    # [2, 0] around 1 is the band [0, 2]; it used to collapse to the bare value 1, printed as
+    # if exact (common practice, no source)
+    e = Estimate(1, 2, 0)
+    assert (e.lower, e.upper) == (0, 2)
+    assert e.contains("0.5") and not e.contains(3)
+
+
+def test_band_from_decimal_texts_keeps_their_digits_at_low_ambient_precision():
+    # 30-digit texts read at mpmath's default 15 digits used to round to one number: a zero-width
+    # band printed with 56 digits (common practice, no source)
+    assert mpmath.mp.dps == 15
+    e = Estimate("0.123456789012345678901234567890", "0.123456789012345678901234567880",
+                 "0.123456789012345678901234567900")
+    assert e.lower < e.value < e.upper
+    with workdps(40):
+        assert abs(e.value - mpmath.mpf("0.123456789012345678901234567890")) < mpmath.mpf(10) ** -32
+    assert str(e).startswith("0.1234567890123456789012345678")
+
+
+def test_exact_estimate_prints_only_the_digits_its_number_holds():
+    # 1/3 rounded to 53 bits holds about 16 decimal digits; the rest of its binary expansion
+    # (0.3333333333333333148...) are not digits of 1/3 (mpmath reference at 60 digits)
+    with workdps(15):
+        e = Estimate.exact(mpmath.mpf(1) / 3)
+    text = str(e)
+    digits = text.replace("0.", "", 1)
+    assert len(digits) <= 17, text
+    with workdps(60):
+        unit = mpmath.mpf(10) ** -len(digits)
+        assert abs(mpmath.mpf(text) - mpmath.mpf(1) / 3) <= unit
+
+
+def test_singularity_dict_round_trip_is_stable():
+    # a wide band whose outward-rounded ends give one digit less on reading: "re" went 2.004 -> 2.0
+    import json
+    from resum.results import Singularity
+    with workdps(30):
+        s = Singularity(Estimate(mpmath.mpf("2.00381550669039"), mpmath.mpf("1.80343395602135"),
+                                 mpmath.mpf("2.20419705735943")), Estimate.exact(0), "branch")
+    d = json.loads(json.dumps(s.to_dict()))
+    back = Singularity.from_dict(d).to_dict()
+    assert back == d
+    assert d["re"] == d["re_band"]["value"]
+
+
+def test_strong_coupling_result_dict_round_trip_keeps_couplings():
+    # couplings such as 6.01 came back as 6.0099999999999997868 (read at 15 digits, written at 20)
+    import json
+    from resum.estimators.strong_coupling import StrongCouplingResult
+    from resum.results import Status
+    with workdps(30):
+        r = StrongCouplingResult(False, Status.TOO_FEW_TERMS, "", "g", (mpmath.mpf("6.01"), mpmath.mpf("8.01")),
+                                 (None, None), mpmath.mpf("6.01"), None, "", ())
+    text = json.dumps(r.to_dict())
+    back = StrongCouplingResult.from_dict(json.loads(text))
+    assert json.dumps(back.to_dict()) == text
+    assert json.loads(text)["couplings"] == ["6.01", "8.01"]

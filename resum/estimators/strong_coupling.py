@@ -41,7 +41,7 @@ from typing import Optional, Sequence
 
 import mpmath
 
-from ..context import DEFAULT, Context
+from ..context import DEFAULT, Context, checked_context, workdps
 from ..errors import InputError
 from ..results import Estimate, Provenance, Status, jsonable, num_to_str
 from ._num import lu_solve
@@ -98,6 +98,14 @@ class StrongCouplingResult:
 
     @classmethod
     def from_dict(cls, d: dict) -> "StrongCouplingResult":
+        # couplings are written with 20 digits: read them with all of those, not at the ambient
+        # precision (6.01 came back as 6.0099999999999997868)
+        with workdps(max([mpmath.mp.dps, 30] + [len(str(g)) + 5 for g in d["couplings"]]
+                         + [len(str(d.get("trusted_up_to") or "")) + 5])):
+            return cls._from_dict(d)
+
+    @classmethod
+    def _from_dict(cls, d: dict) -> "StrongCouplingResult":
         return cls(bool(d["success"]), Status(d["status"]), d.get("message", ""), d.get("variable", "g"),
                    tuple(mpmath.mpf(g) for g in d["couplings"]),
                    tuple(None if v is None else Estimate.from_dict(v) for v in d["values"]),
@@ -190,7 +198,7 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
     StrongCouplingResult
     """
     from ..resummation import evaluate, _nearest_singularity  # noqa: F401
-    ctx = ctx or DEFAULT
+    ctx = checked_context(ctx)
     n_terms_fit = tuple(int(k) for k in n_terms_fit)
     if not n_terms_fit or min(n_terms_fit) < 1:
         raise InputError("n_terms_fit must list positive integers", where="n_terms_fit")
