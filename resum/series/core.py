@@ -373,6 +373,12 @@ class Series:
                                   for c in self.coefficients])
             return self._new([c / other for c in self.coefficients])
 
+    def __rtruediv__(self, other):
+        """``c / f``: a number times the reciprocal (``1 / Series([1, -1])`` is 1/(1-x))."""
+        if isinstance(other, Series):
+            return NotImplemented
+        return self.reciprocal() * _check_number(other, "scalar")
+
     def compose(self, inner: "Series", ctx: Optional[Context] = None) -> "Series":
         """f(inner(x)); ``inner`` must vanish at x = 0."""
         b = inner._dense_native()

@@ -141,3 +141,11 @@ def test_coupling_given_as_text_or_wrong_type():
         Series([1, 2], coupling=2)
     with pytest.raises(InputError, match="coupling"):
         Series([1, 2], coupling="y = g^2")
+
+
+def test_number_divided_by_series():
+    # 2/(1 - x) = 2 + 2x + 2x^2 + ..., and 1/(x (1 - x)) = x^-1 + 1 + x + ... (geometric series,
+    # common practice, no source)
+    assert (2 / Series([1, -1, 0, 0])).coefficients == (2, 2, 2, 2)
+    q = Fraction(1) / Series([1, -1, 0], start=1)
+    assert q.start == -1 and q.coefficients == (1, 1, 1)
