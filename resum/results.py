@@ -182,14 +182,19 @@ def format_value_error(value, lower, upper, max_digits: int = 60) -> str:
         e = int(mpmath.floor(mpmath.log10(abs(value))))
         sc = mpf(10) ** e
         return f"{format_value_error(value / sc, lower / sc, upper / sc, max_digits)}e{e}"
-    # (less a hair: a band scaled by a power of ten is not exact in binary, and 10.0000001
-    # units must print as 10, not 11)
-    err_units = int(mpmath.ceil(err / mpf(10) ** place * (1 - mpf(10) ** (10 - mpmath.mp.dps))))
+    def units(rounded):
+        # the error in units of the last printed digit, measured from the value as printed, so
+        # that the printed band covers the whole band (1.0449 in [1.0049, 1.0849] is 1.04(5),
+        # not 1.04(4), which would stop at 1.08); less a hair: a band scaled by a power of ten
+        # is not exact in binary, and 10.0000001 units must print as 10, not 11
+        e = max(upper - rounded, rounded - lower)
+        return int(mpmath.ceil(e / mpf(10) ** place * (1 - mpf(10) ** (10 - mpmath.mp.dps))))
     if place >= 0:
         v = int(mpmath.nint(value / mpf(10) ** place)) * 10 ** place
-        return f"{v}({err_units * 10 ** place})"
+        return f"{v}({units(mpf(v)) * 10 ** place})"
     decimals = -place
     scaled = mpmath.nint(value * mpf(10) ** decimals)
+    err_units = units(scaled / mpf(10) ** decimals)
     sign = "-" if scaled < 0 else ""
     digits = str(abs(int(scaled))).rjust(decimals + 1, "0")
     txt = f"{sign}{digits[:-decimals]}.{digits[-decimals:]}"

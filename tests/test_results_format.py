@@ -1,5 +1,7 @@
 """Printing an estimate whose value is zero and whose band is tiny (the real part of a
 singularity on the imaginary axis, for example atan(x)/x at x = +-i)."""
+import random
+
 import mpmath
 
 from resum.context import workdps
@@ -27,7 +29,9 @@ def test_large_values_print_as_mantissa_and_exponent():
     # a band of 1e7 on a value of 1e11 printed an integer with all its zeros, and a band of 1e300
     # at zero a 300-digit integer (common practice, no source)
     with workdps(30):
-        assert str(Estimate(123456789012, 123456789012 - 10 ** 7, 123456789012 + 10 ** 7)) == "1.23457(10)e11"
+        # the error counts from the printed value 1.23457e11: the lower end 1.2344679e11 lies
+        # 10.2 units of 1e6 below it, so (11), not (10), which would stop at 1.23447e11
+        assert str(Estimate(123456789012, 123456789012 - 10 ** 7, 123456789012 + 10 ** 7)) == "1.23457(11)e11"
         text = str(Estimate(0, -mpmath.mpf("1e300"), mpmath.mpf("1e300")))
         assert text.startswith("0 [") and len(text) < 30
 
@@ -127,3 +131,24 @@ def test_strong_coupling_result_dict_round_trip_keeps_couplings():
     back = StrongCouplingResult.from_dict(json.loads(text))
     assert json.dumps(back.to_dict()) == text
     assert json.loads(text)["couplings"] == ["6.01", "8.01"]
+
+
+def test_printed_band_covers_the_whole_band():
+    # the value(error) text is a band of its own: value as printed +- error in units of the last
+    # digit. It must contain the band it stands for, also after the value is rounded
+    # (common practice, no source): 1.0449 in [1.0049, 1.0849] printed as 1.04(4) stopped at 1.08.
+    assert str(Estimate("1.0449", "1.0049", "1.0849")) == "1.04(5)"
+    rng = random.Random(7)
+    with workdps(30):
+        for _ in range(2000):
+            v = mpmath.mpf(rng.uniform(-10, 10))
+            lo = v - mpmath.mpf(10) ** rng.uniform(-8, 0) * rng.random()
+            hi = v + mpmath.mpf(10) ** rng.uniform(-8, 0) * rng.random()
+            text = str(Estimate(v, lo, hi))
+            if "[" in text or "e" in text:
+                continue
+            num, err = text[:-1].split("(")
+            dec = len(num.split(".")[1]) if "." in num else 0
+            e = mpmath.mpf(err) / mpmath.mpf(10) ** dec
+            tiny = mpmath.mpf(10) ** -25
+            assert mpmath.mpf(num) - e <= lo + tiny and mpmath.mpf(num) + e >= hi - tiny, (text, lo, hi)
