@@ -403,5 +403,7 @@ def _frequency(g):
     """Positive root of w^3 - w - 3 g = 0 (w = 1 at g = 0)."""
     if g == 0:
         return mpmath.mpf(1)
-    return mpmath.findroot(lambda w: w ** 3 - w - 3 * g, mpmath.mpf(1) + g)
+    # start at 1 + (3 g)^(1/3), just above the root (the cubic is positive and convex there), so
+    # Newton's steps descend to it monotonically; from 1 + g it ran out of steps at g = 1e6
+    return mpmath.findroot(lambda w: w ** 3 - w - 3 * g, 1 + mpmath.cbrt(3 * g))
 

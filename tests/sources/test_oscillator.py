@@ -69,6 +69,21 @@ def test_energy_g1_hioe_montroll():
         assert r.value.lower - mpmath.mpf(10) ** -33 <= ref <= r.value.upper + mpmath.mpf(10) ** -33
 
 
+def test_energy_at_large_g_strong_coupling_constant():
+    # E_0(g) = c g^(1/3) + c' g^(-1/3) + ... at large g, c = 1.0603620904 for p^2 + x^2 + g x^4
+    # (the pure quartic p^2 + x^4 ground state, from memory); g up to 1e8 is the documented range,
+    # and g = 1e6 used to fail in the frequency root-finder. Eliminating c' between g = 1e6
+    # and g = 1e8 leaves an O(g^(-4/3)) remainder, below 1e-8 here.
+    rs = {}
+    for g in (10 ** 6, 10 ** 8):
+        r = osc.energy(g, 0, Context(dps=20))
+        assert r.success, r.message
+        rs[g] = r.value.value / mpmath.cbrt(g)
+    t = mpmath.mpf(100) ** (mpmath.mpf(2) / 3)        # (1e8 / 1e6)^(2/3)
+    c = (t * rs[10 ** 8] - rs[10 ** 6]) / (t - 1)
+    assert abs(c - mpmath.mpf("1.0603620904")) < mpmath.mpf("1e-8")
+
+
 def test_energy_small_g_matches_series():
     # at g = 0.005 the optimally truncated series is accurate to ~exp(-1/(3g)) ~ 1e-29;
     # compare to 20 digits for the ground state and the first two excited levels
