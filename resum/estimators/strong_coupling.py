@@ -173,8 +173,9 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
         The weak-coupling series (its declared coupling, if any, is the ``g``).
     couplings : sequence, optional
         Couplings to evaluate at (default: 4, 6, 8, 12, 16, 24, 32, 48, 64, 80
-        times the distance to the nearest singularity in ``g``, rounded to three
-        significant digits).
+        times the distance to the nearest singularity in ``g``, or for a
+        factorially divergent series to the nearest singularity of its Borel
+        transform, rounded to three significant digits).
     method, evaluate_options :
         Passed to :func:`resum.resummation.evaluate`.
     leading_power : number, optional
@@ -362,15 +363,21 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
                 if lab not in labels:
                     labels.append(lab)
         coeffs = []
+        several_k = len({m["K"] for m in ok}) > 1
         for lab in labels:
-            samples, ses = [], []
+            samples, ses, ks = [], [], set()
             for m in ok:
                 for (pw, lg), v, s_ in zip(m["basis"], m["sol"], m["se"]):
                     if _label(_frac_or(pw), lg, var) == lab:
                         samples.append(v)
                         ses.append(s_)
-            if len(samples) < 2:
-                continue           # a term only the largest fits carry is not reported
+                        ks.add(m["K"])
+            if len(samples) < 2 or (several_k and len(ks) < 2):
+                # a term only the largest fits carry is not reported: it soaks up every term the
+                # form leaves out, and fits differing only in their window do not show that
+                # (log(1 + x)/x with log terms: the x^-4 pair from two four-term fits came out
+                # 0.27(3) and 0.13(4) against 1/3 and 0)
+                continue
             srt = sorted(samples)
             med = srt[len(srt) // 2]
             lo_q = srt[int(0.16 * (len(srt) - 1))]
@@ -508,10 +515,17 @@ def _frac_or(pw):
 
 
 def _default_grid(series, ctx):
-    from ..resummation import _series_singularities
+    from ..resummation import _borel_singularity, _growth, _series_singularities
     c = series.dense(Context(dps=ctx.work_dps, guard=0))
-    sing = _series_singularities(c)
-    r = abs(sing[0]) if sing else mpmath.mpf(1)
+    r = None
+    if _growth(c)["factorial"]:
+        # a factorially divergent series has radius zero (the ratio fit gives ~1e-6 for the
+        # oscillator, and a grid up to g ~ 1e-4); its scale is the Borel-plane singularity
+        z = _borel_singularity(c)
+        r = abs(z) if z is not None and z != 0 else None
+    if r is None:
+        sing = _series_singularities(c)
+        r = abs(sing[0]) if sing and sing[0] != 0 else mpmath.mpf(1)
     if series.coupling is not None:
         r = abs(series.coupling.from_variable(r))
     # the distance is an estimate (0.2500004... for 1/4): the grid is rounded to three

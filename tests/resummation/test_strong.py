@@ -125,3 +125,53 @@ def test_negative_powers_are_an_input_error():
     s = Series([1, 2, 3, 4, 5, 6, 7, 8], start=-1)
     with pytest.raises(InputError, match="starts at x"):
         probe_strong_coupling(s, ["1", "2"], Context(dps=20))
+
+
+def _log1p_over_x_expansion():
+    """log(1 + x)/x = log(x)/x + sum_{k>=2} (-1)^k x^-k/(k - 1) at large x (the Taylor series
+    of log(1 + 1/x), common practice, no source): x^-k log x vanishes for k >= 2."""
+    exp = {"x^-1": 0, "x^-1 log x": 1}
+    for k in range(2, 8):
+        exp[f"x^-{k}"] = mpmath.mpf((-1) ** k) / (k - 1)
+        exp[f"x^-{k} log x"] = 0
+    return exp
+
+
+def test_top_term_of_the_largest_fits_is_not_reported():
+    """With log terms the four-term fits (8 unknowns) fit only two windows of 10 values; their top
+    pair x^-4, x^-4 log x absorbs all the omitted terms, and the two windows agreed on 0.27(3) and
+    0.13(4) against the expansion's 1/3 and 0 (mpmath.log1p values). A term carried by one number
+    of terms only is not reported; every reported band holds the expansion."""
+    from resum.results import Estimate
+    from resum.series import Series
+    s = Series([mpmath.mpf(-1) ** k / (k + 1) for k in range(40)])
+    gs = [4, 6, 8, 12, 16, 24, 32, 48, 64, 80]
+    with workdps(40):
+        vals = []
+        for g in gs:
+            v = mpmath.log1p(g) / g
+            vals.append(Estimate(v, v - abs(v) * mpmath.mpf(10) ** -12, v + abs(v) * mpmath.mpf(10) ** -12))
+    r = probe_strong_coupling(s, couplings=gs, ctx=Context(dps=30), values=vals,
+                              leading_power=-1, log_terms=True)
+    assert r.success, r.message
+    exp = _log1p_over_x_expansion()
+    labels = [lab for lab, _ in r.coefficients]
+    assert "x^-1 log x" in labels and "x^-4" not in labels and "x^-4 log x" not in labels, labels
+    for lab, e in r.coefficients:
+        assert e.contains(exp[lab]), (lab, e, exp[lab])
+
+
+def test_default_grid_of_a_factorially_divergent_series():
+    """Radius zero: the default couplings scale with the Borel-plane singularity, not with the ~1e-6
+    a ratio fit gives (which put the oscillator's whole grid below g = 1.2e-4). Euler's
+    sum (-1)^n n! x^n has Borel transform 1/(1 + t), singular at distance 1 (common practice, no
+    source); the oscillator p^2 + x^2 + g x^4 has E_k ~ (-1)^(k+1) (3/2)^k Gamma(k + 1/2)
+    (Bender and Wu, Phys. Rev. D 7 (1973) 1620, in the normalisation of test_oscillator.py,
+    from memory), singular at distance 2/3."""
+    from resum.estimators.strong_coupling import _default_grid
+    from resum.sources import euler, oscillator
+    ctx = Context(dps=30)
+    g = _default_grid(euler.series(40, -1), ctx)
+    assert g == [4, 6, 8, 12, 16, 24, 32, 48, 64, 80], g
+    g = _default_grid(oscillator.series(0, 60), ctx)
+    assert abs(g[0] - mpmath.mpf(8) / 3) < 0.05 and abs(g[-1] - mpmath.mpf(160) / 3) < 1, g
