@@ -50,3 +50,19 @@ def test_strong_max_band_lets_less_sharp_values_in(tmp_path, capsys):
     assert main(["strong", str(f), "--max-band", "2"]) == 2
     err = capsys.readouterr().err
     assert "--max-band" in err and "between 0 and 1" in err and len(err.strip().splitlines()) == 1
+
+
+def test_strong_text_names_an_exact_power_as_its_fraction(tmp_path, capsys):
+    """(1 + x)^(1/3) = x^(1/3) + x^(-2/3)/3 + ... at large x (binomial series in 1/x, common
+    practice, no source): the text report names the power 1/3 as such, rounded or given, not as
+    0.3333...3335033, and the leading coefficient's band holds 1."""
+    with workdps(40):
+        cs = [mpmath.nstr(mpmath.binomial(mpmath.mpf(1) / 3, k), 35) for k in range(40)]
+    f = tmp_path / "cbrt.json"
+    f.write_text(json.dumps({"variable": "x", "coefficients": cs, "digits": 30}))
+    for extra in ([], ["--power", "1/3"]):
+        capsys.readouterr()
+        assert main(["strong", str(f), "--dps", "20", *extra, "--expect", "x^1/3=1"]) == 0
+        out = capsys.readouterr().out
+        assert "leading power p = 1/3 " in out, out
+        assert "x^1/3" in out and "expected 1.0: inside the band" in out, out
