@@ -26,7 +26,8 @@ def add_arguments(parser) -> None:
     parser.add_argument("file", metavar="FILE", help="series file (JSON, CSV or text)")
     parser.add_argument("--at", action="append", default=None, metavar="G",
                         help="coupling to resum at (repeat; default: a geometric ladder beyond "
-                             "the nearest singularity)" + AT_HELP_RANGE)
+                             "the nearest singularity, or of the Borel transform's for a "
+                             "factorially divergent series)" + AT_HELP_RANGE)
     parser.add_argument("--power", default=None, metavar="P",
                         help="leading power p in f ~ a g^p (default: estimated from x f'/f)")
     parser.add_argument("--logs", action="store_true", help="also fit g^(p-k) log g terms")
