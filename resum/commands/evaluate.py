@@ -207,7 +207,12 @@ def run(args) -> int:
         curve = _curve(series, ctx, points, n_curve, args, large)
         _, plot_note = write_figures(args.plot, lambda: write_evaluation_plots(result, series, ctx, args.plot,
                                                                                 reference, curve))
-    failed = _failure_notes(result) + ([plot_note] if plot_note else [])
+    goal_note = None
+    if search is not None and not search["reached"]:
+        # the user asked for these digits: not reaching them is a partial failure (exit 1)
+        goal_note = (f"--goal: {search['goal_digits']} digits not reached at every point with "
+                     f"{search['terms_used']} terms ({search['note']}); the bands are those of that run")
+    failed = _failure_notes(result) + ([plot_note] if plot_note else []) + ([goal_note] if goal_note else [])
     if args.json:
         doc = result.contract_dict()
         doc["warnings"] = list(doc["warnings"]) + failed
@@ -230,7 +235,7 @@ def run(args) -> int:
             sys.stdout.write(_goal_text(search))
     for w in list(result.warnings) + [f for f in failed if f != plot_note]:     # plot_note: logged
         log(f"warning: {w}")
-    return 0 if result.success and not plot_note else 1
+    return 0 if result.success and not plot_note and not goal_note else 1
 
 
 def _goal_options(args, series, ctx):

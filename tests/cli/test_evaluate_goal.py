@@ -44,3 +44,20 @@ def test_goal_option_values_are_checked(tmp_path, capsys):
         assert main(["evaluate", str(f), "--at", "1", *extra]) == 2
         err = capsys.readouterr().err
         assert words in err and "Traceback" not in err
+
+
+def test_goal_not_reached_is_a_warning_and_exit_code_1(tmp_path, capsys):
+    # angle 0, 30 loops, g = 8 asked to 20 digits with at most 40 terms: out of reach; the value
+    # is still reported with its honest band (truth: the closed form above, mpmath)
+    f = tmp_path / "a0.json"
+    assert main(["generate", "bes", "--angle", "0", "--loops", "30", "--dps", "40", "-o", str(f)]) == 0
+    capsys.readouterr()
+    code = main(["evaluate", str(f), "--at", "8", "--goal", "20", "--max-terms", "40", "--no-verify", "--json"])
+    doc = json.loads(capsys.readouterr().out)
+    assert code == 1
+    assert doc["order_search"]["reached"] is False
+    assert any(w.startswith("--goal: 20 digits not reached") for w in doc["warnings"])
+    with mpmath.workdps(40):
+        truth = 2 / mpmath.pi ** 2 * mpmath.log(mpmath.cosh(16 * mpmath.pi))
+        v = doc["values"][0]
+        assert mpmath.mpf(v["lo"]) <= truth <= mpmath.mpf(v["hi"])
