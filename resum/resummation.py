@@ -1256,12 +1256,18 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                          f"{series.variable}^{-series.start} first", where="series")
     if series.n_terms < 6:
         raise InputError(f"only {series.n_terms} terms; resummation needs at least 6", where="series")
+    lowered = None
     if series.digits is not None and series.digits < ctx.dps:
+        lowered = ctx.dps
         ctx = ctx.with_dps(max(5, series.digits))
     wd = work_dps or ctx.work_dps + series.n_terms // 2
     at = parse_points(points, wd)
     cpl = series.coupling
     warnings = []
+    if lowered is not None:
+        # the command line refuses this; from Python the digits asked are lowered, and said so
+        warnings.append(f"{lowered} digits asked, but the coefficients carry {series.digits}: values "
+                        f"and bands are worked out to at most {ctx.dps} digits")
     with _wd(wd):
         xs = [cpl.to_variable(a) if cpl is not None else a for a in at]
         xs = [mpmath.re(x) if isinstance(x, mpmath.mpc) and x.imag == 0 else x for x in xs]

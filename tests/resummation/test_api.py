@@ -138,3 +138,12 @@ def test_plan_analysis_reused_for_the_same_series(monkeypatch):
     with workdps(30):
         for r, x in ((r1, 2), (r2, 3)):
             assert r.points[0].value.contains(mpmath.log1p(x) / x)
+
+
+def test_digits_asked_beyond_the_coefficients_are_lowered_with_a_warning():
+    # geometric series 1/(1 - x) (common practice, no source) with coefficients declared to 10
+    # digits, 30 asked: the command line refuses this; from Python the digits are lowered and
+    # the result says so
+    r = evaluate(Series([mpmath.mpf(1)] * 20, digits=10), ["0.5"], Context(dps=30))
+    assert any("30 digits asked, but the coefficients carry 10" in w for w in r.warnings)
+    assert r.points[0].value.contains(2) and r.points[0].value.digits() <= 11
