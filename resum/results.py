@@ -138,6 +138,23 @@ def str_to_num(s: str):
 # value(error) formatting: one rounding rule for value and band
 # ----------------------------------------------------------------------------
 
+def held_digits(x) -> int:
+    """Significant decimal digits an mpf stands for: all digits of its exact decimal expansion
+    when that is short (0.25, 0.375, 3), otherwise the digits its binary mantissa holds (1/3 made
+    at 185 bits: 56, not the 61 printed before, whose tail was the expansion of its rounding)."""
+    if not isinstance(x, mpmath.mpf) or x == 0 or not mpmath.isfinite(x):
+        return 1
+    _, man, exp, bc = x._mpf_
+    held = int(bc * 0.30103) + 1
+    if exp >= 0:
+        n = len(str(int(man) << exp).rstrip("0")) if exp < 4000 else held + 10
+    elif bc * 0.30103 + (-exp) * 0.69897 <= held + 4:
+        n = len(str(int(man) * 5 ** (-exp)).rstrip("0"))    # the exact decimal digits of man 2^exp
+    else:
+        n = held + 10
+    return n if n <= held + 3 else held
+
+
 def format_value_error(value, lower, upper, max_digits: int = 60) -> str:
     """Format ``value`` with the digits supported by the band ``[lower, upper]``.
 
@@ -157,8 +174,7 @@ def format_value_error(value, lower, upper, max_digits: int = 60) -> str:
     if err == 0:
         # no more digits than the binary number holds: 1/3 made at 53 bits would otherwise print
         # 54 digits, 38 of them the expansion of its rounding error
-        held = int(abs(value._mpf_[1]).bit_length() * 0.30103) + 1 if value != 0 else 1
-        return mpmath.nstr(value, max(1, min(max_digits, held)))
+        return mpmath.nstr(value, max(1, min(max_digits, held_digits(value))))
     if not mpmath.isfinite(err):
         return f"{mpmath.nstr(value, 3)} (band unbounded)"
     e10 = int(mpmath.floor(mpmath.log10(err)))
@@ -379,6 +395,8 @@ def _end_to_str(x, dps: int, up: bool) -> str:
 
 def _dps_for_band(e: Estimate) -> int:
     """Digits to write: those supported by the band plus three guard digits."""
+    if e.error == 0 and e.value != 0:
+        return max(3, held_digits(e.value))      # an exact value: the digits its number holds
     if e.error == 0 or e.value == 0:
         return max(3, int(mpmath.mp.dps))
     d = e.digits()

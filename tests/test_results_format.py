@@ -152,3 +152,17 @@ def test_printed_band_covers_the_whole_band():
             e = mpmath.mpf(err) / mpmath.mpf(10) ** dec
             tiny = mpmath.mpf(10) ** -25
             assert mpmath.mpf(num) - e <= lo + tiny and mpmath.mpf(num) + e >= hi - tiny, (text, lo, hi)
+
+
+def test_exact_values_print_their_short_expansions_and_no_rounding_tail():
+    # an exact (zero-width) estimate prints the number it holds (common practice, no source):
+    # a short dyadic expansion in full (0.25, not 0.3), a long one to the digits its mantissa
+    # holds, so that 1/3 made at 55 digits shows only correct digits of 1/3
+    for v, text in (("0.25", "0.25"), ("0.375", "0.375"), ("-2.5", "-2.5"), ("12345.678", "12345.678")):
+        e = Estimate.exact(mpmath.mpf(v))
+        assert str(e) == text and e.to_dict()["value"] == text
+    with workdps(55):
+        third = mpmath.mpf(1) / 3
+    for text in (str(Estimate.exact(third)), Estimate.exact(third).to_dict()["value"]):
+        digits = text.split(".")[1]
+        assert 50 <= len(digits) <= 58 and set(digits[:-1]) == {"3"}

@@ -297,7 +297,10 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
                 source = "log-derivative (not a simple rational)"
                 warnings.append("the leading power is not close to a simple fraction; fitted with the estimate")
             else:
-                p_mp = mpmath.mpf(fr.numerator) / fr.denominator
+                # an exact fraction: made with more bits than the working precision, so that
+                # printing it (every digit its mantissa holds) gives correct digits of k/q only
+                with mpmath.workprec(mpmath.mp.prec + 64):
+                    p_mp = mpmath.mpf(fr.numerator) / fr.denominator
                 lp = Estimate.exact(p_mp)
                 source = f"log-derivative {mpmath.nstr(p_est.value, 6)} rounded to {fr}"
         # ensemble of fits
