@@ -7,7 +7,9 @@ that differ in other axes are drawn as separate lines, labelled by those
 values. Error bars are the recorded bands (estimates from the spread of
 stable approximations, not rigorous bounds); a band too narrow to see is
 still drawn. Failed points and estimates that did not converge are left
-out of the line and marked with a cross at the bottom of the panel.
+out of the line and marked with a cross at the bottom of the panel, in the
+colour of the estimate and named after it in the legend. A legend that
+would cover a point wherever it sat inside its panel is put beside it.
 
 * :func:`plot_radius` -- radius of convergence (analysis and/or ratio estimate);
 * :func:`plot_band_digits` -- digits supported by the radius band;
@@ -32,7 +34,7 @@ from typing import Callable, Optional
 from . import save_figure
 
 __all__ = ["plot_radius", "plot_band_digits", "plot_singularity_locations", "plot_exponents",
-           "plot_borel", "plot_borel_exponent", "plot_values", "plot_value_errors", "plot_value_digits", "plot_strong", "plot_terms_used", "write_family_plots",
+           "plot_borel", "plot_borel_exponent", "plot_values", "plot_value_errors", "plot_value_digits", "plot_strong", "strong_panels", "plot_terms_used", "write_family_plots",
            "family_x"]
 
 
@@ -254,12 +256,19 @@ def _draw(ax, series, label_prefix="", marker="o", color=None, offset=0.0, lines
             yerr = [[max(0.0, v - lo) for v, lo in zip(vs, los)],
                     [max(0.0, hi - v) for v, hi in zip(vs, his)]]
             xo = [xv + offset for xv in xs]
-            ax.errorbar(xo, vs, yerr=yerr, fmt=marker + ("-" if lines else ""), ms=4, lw=1,
-                        capsize=2.5, label=lab or None, color=color)
+            eb = ax.errorbar(xo, vs, yerr=yerr, fmt=marker + ("-" if lines else ""), ms=4, lw=1,
+                             capsize=2.5, label=lab or None, color=color)
+            drawn_colour = eb.lines[0].get_color()
+        else:
+            drawn_colour = color
         if miss:
-            seen = "failed or not converged" in ax.get_legend_handles_labels()[1]
-            ax.plot(miss, [0] * len(miss), "x", color="0.5", transform=ax.get_xaxis_transform(),
-                    clip_on=False, ms=6, label=None if seen else "failed or not converged")
+            # the cross says whose estimate is missing (in its colour): a bare "failed" under a
+            # panel with two estimates, or several groups, does not tell which one failed
+            miss_label = f"{lab}: failed or not converged" if lab else "failed or not converged"
+            seen = miss_label in ax.get_legend_handles_labels()[1]
+            ax.plot(miss, [0] * len(miss), "x", color=drawn_colour or "0.5",
+                    transform=ax.get_xaxis_transform(), clip_on=False, ms=6,
+                    label=None if seen else miss_label)
     return n
 
 
@@ -552,6 +561,32 @@ def strong_keys(records, max_terms: int = 3) -> list:
     return keys[:max_terms] + (["leading_power"] if power else [])
 
 
+def _strong_getter(kind, key):
+    """A getter for :func:`_series`: the coefficient ``key`` of the ``kind`` fit."""
+    def get(r):
+        d = (_task(r, "strong") or {}).get(kind)
+        if d is None:
+            return None
+        if d.get("success") is False:
+            return MISS
+        if key == "leading_power":
+            return _or_miss(_band(d.get("leading_power")))
+        co = d.get("coefficients") or {}
+        if key == "leading":
+            return _band(next(iter(co.values()))) if co else None
+        return _band(co[key]) if key in co else None     # absent: that form had no such term
+    return get
+
+
+def strong_panels(records, max_terms: int = 3) -> list:
+    """The keys of :func:`strong_keys` that some point has a value for; when none has, only
+    the first (one panel saying why it is empty, not a column of empty frames)."""
+    keys = strong_keys(records, max_terms)
+    drawn = [k for k in keys if any(_has(records, _strong_getter(kind, k))
+                                    for kind, *_ in _STRONG_KINDS)]
+    return drawn or keys[:1]
+
+
 def plot_strong(records, key, x=None, ax=None):
     """One strong-coupling coefficient (a label from :func:`strong_keys`) against
     ``x``: fitted to the resummed values (filled) and, where recorded, to the
@@ -560,18 +595,9 @@ def plot_strong(records, key, x=None, ax=None):
     ax = _ax(ax)
     drawn = False
     for kind, label, mk, colour in _STRONG_KINDS:
-        def get(r, kind=kind):
-            d = (_task(r, "strong") or {}).get(kind)
-            if d is None:
-                return None
-            if d.get("success") is False:
-                return MISS
-            if key == "leading_power":
-                return _or_miss(_band(d.get("leading_power")))
-            co = d.get("coefficients") or {}
-            if key == "leading":
-                return _band(next(iter(co.values()))) if co else None
-            return _band(co[key]) if key in co else None     # absent: that form had no such term
+        if not any((_task(r, "strong") or {}).get(kind) is not None for r in records):
+            continue    # a fit no point made (from_truth not asked): no crosses for failed points
+        get = _strong_getter(kind, key)
         _draw(ax, _series(records, x, get, "strong"), label, mk, color=colour)
         drawn = drawn or _has(records, get)
     if not drawn:
@@ -632,6 +658,51 @@ def integer_ticks(fig, records, x) -> bool:
     return True
 
 
+def _covered_points(ax, renderer) -> int:
+    """How many drawn data points (markers and line vertices, crosses and arrows at the
+    edges included) lie under the legend of ``ax``."""
+    import numpy as np
+    leg = ax.get_legend()
+    if leg is None:
+        return 0
+    box = leg.get_window_extent(renderer)
+    n = 0
+    for line in ax.get_lines():
+        xy = np.column_stack([np.asarray(line.get_xdata(), float),
+                              np.asarray(line.get_ydata(), float)])
+        if not len(xy):
+            continue
+        pts = line.get_transform().transform(xy)
+        pts = pts[np.isfinite(pts).all(axis=1)]
+        # a marker overlaps the legend when its edge does, not only its centre
+        r = (line.get_markersize() / 2 if line.get_marker() not in (None, "", "None", " ")
+             else 0.0) * ax.figure.dpi / 72
+        n += int(sum(box.x0 - r <= px <= box.x1 + r and box.y0 - r <= py <= box.y1 + r
+                     for px, py in pts))
+    return n
+
+
+def legends_clear_of_data(fig) -> list:
+    """Move every legend that covers a data point out of its panel, to the right of it.
+
+    A legend placed with ``loc="best"`` still covers data when no corner of the panel is
+    free (six entries over four columns of points); such a legend is put beside the panel
+    instead. Returns the axes whose legend was moved."""
+    fig.canvas.draw()
+    renderer = fig.canvas.get_renderer()
+    moved = []
+    for ax in fig.get_axes():
+        leg = ax.get_legend()
+        if leg is None or not _covered_points(ax, renderer):
+            continue
+        handles, labels = ax.get_legend_handles_labels()
+        ax.legend(handles, labels, fontsize=leg.get_texts()[0].get_fontsize() if leg.get_texts() else 7,
+                  loc="upper left", bbox_to_anchor=(1.01, 1.0), borderaxespad=0.0,
+                  framealpha=0.6)
+        moved.append(ax)
+    return moved
+
+
 def write_family_plots(records, outdir, x=None, title="") -> list:
     """Draw every family figure that has data into ``outdir`` (PNG and PDF).
 
@@ -652,9 +723,10 @@ def write_family_plots(records, outdir, x=None, title="") -> list:
         integer_ticks(fig, records, x)
         if title:
             fig.suptitle(title, fontsize=11)
-            fig.tight_layout(rect=(0, 0, 1, 0.97))
-        else:
-            fig.tight_layout()
+        rect = (0, 0, 1, 0.97) if title else (0, 0, 1, 1)
+        fig.tight_layout(rect=rect)
+        if legends_clear_of_data(fig):
+            fig.tight_layout(rect=rect)     # make room for the legends moved beside the panels
         for ext in ("png", "pdf"):
             p = outdir / f"{name}.{ext}"
             save_figure(fig, p, dpi=130)
@@ -703,7 +775,7 @@ def write_family_plots(records, outdir, x=None, title="") -> list:
         fig, ax = plt.subplots(figsize=(6.4, 4.2))
         plot_terms_used(records, x, ax)
         save(fig, "terms_used")
-    keys = strong_keys(records)
+    keys = strong_panels(records)
     if keys:
         fig, axs = plt.subplots(len(keys), 1, figsize=(6.4, 2.6 * len(keys) + 0.8), sharex=True,
                                 squeeze=False)

@@ -141,3 +141,71 @@ def test_terms_used_marks_reached_and_stopped_goals(tmp_path):
     names = sorted(p.name for p in write_family_plots(recs, tmp_path))
     assert "terms_used.png" in names
     plt.close("all")
+
+
+def test_a_cross_names_the_estimate_that_failed():
+    """Two estimates in one panel, one of them not converged at x = 2: the cross carries that
+    estimate's name and colour, so it is not read as a failure of the other one."""
+    import matplotlib.pyplot as plt
+    from resum.plots.family import _draw
+    fig, ax = plt.subplots()
+    _draw(ax, {"": ([1.0, 2.0], [1.0, 1.0], [0.9, 0.9], [1.1, 1.1], [])}, "analysis", "o")
+    _draw(ax, {"": ([1.0], [1.0], [0.9], [1.1], [2.0])}, "ratio estimate", "s", lines=False)
+    cross = [ln for ln in ax.get_lines() if ln.get_marker() == "x"]
+    assert len(cross) == 1 and list(cross[0].get_xdata()) == [2.0]
+    assert cross[0].get_label() == "ratio estimate: failed or not converged"
+    square = next(ln for ln in ax.get_lines() if ln.get_marker() == "s")
+    assert cross[0].get_color() == square.get_color()
+    plt.close(fig)
+
+
+def test_a_legend_that_would_cover_points_goes_beside_the_panel():
+    """Six series whose points fill the panel, so no corner is free for the legend: after
+    the layout no drawn point (marker edge included) lies under any legend."""
+    import matplotlib.pyplot as plt
+    from resum.plots.family import _covered_points, _draw, _finish, legends_clear_of_data
+    fig, ax = plt.subplots(figsize=(6.4, 3.2))
+    xs = [float(i) for i in range(8)]
+    for j in range(6):
+        ys = [j + 0.5 * (i % 2) for i in range(8)]
+        _draw(ax, {"": (xs, ys, ys, ys, [])}, f"band at {j}", "o")
+    _finish(ax, "state", "digits")
+    fig.tight_layout()
+    fig.canvas.draw()
+    covered_before = _covered_points(ax, fig.canvas.get_renderer())
+    moved = legends_clear_of_data(fig)
+    fig.canvas.draw()
+    assert covered_before > 0 and moved == [ax]     # the case this guards: "best" found no corner
+    assert _covered_points(ax, fig.canvas.get_renderer()) == 0
+    plt.close(fig)
+    # a panel with a free corner keeps its legend inside
+    fig, ax = plt.subplots()
+    ax.errorbar([1, 2], [1, 1.1], yerr=0.01, fmt="o", label="a")
+    ax.legend(loc="best")
+    assert legends_clear_of_data(fig) == []
+    plt.close(fig)
+
+
+def test_strong_figure_has_one_panel_when_no_fit_converged_and_no_unasked_fit():
+    """No point's fit converged: one panel with the reason, not a column of empty frames; a
+    failed point gets no cross for the fit to the source's values when no point made that fit."""
+    import matplotlib.pyplot as plt
+    from resum.plots.family import plot_strong, strong_keys, strong_panels
+    bad = {"success": False, "status": "not converged",
+           "coefficients": {"x^-3/4": {"value": "1.3", "lo": "1.2", "hi": "1.4"},
+                            "x^-7/4": {"value": "0", "lo": "-10", "hi": "10"}},
+           "leading_power": {"value": "-0.79", "lo": "-0.84", "hi": "-0.74"}}
+    recs = [{"index": i, "key": f"p{i:05d}", "status": "ok", "params": {"orders": str(n)},
+             "labels": {"orders": str(n)}, "axes": ["orders"], "task_names": ["strong"],
+             "tasks": {"strong": {"resummed": bad}}} for i, n in enumerate((15, 25))]
+    recs.append({"index": 2, "key": "p00002", "status": "failed", "params": {"orders": "40"},
+                 "labels": {"orders": "40"}, "axes": ["orders"], "task_names": ["strong"],
+                 "tasks": {}})
+    assert len(strong_keys(recs)) == 3 and strong_panels(recs) == ["x^-3/4"]
+    ax = plot_strong(recs, "x^-3/4", x="orders")
+    labels = [ln.get_label() for ln in ax.get_lines() if ln.get_marker() == "x"]
+    assert labels == ["from the resummed series: failed or not converged"]
+    plt.close("all")
+    good = dict(bad, success=True, status="converged")
+    recs[0]["tasks"]["strong"]["resummed"] = good
+    assert strong_panels(recs) == ["x^-3/4", "x^-7/4", "leading_power"]
