@@ -30,6 +30,7 @@ from pathlib import Path
 from typing import Iterable, Optional
 
 from ..errors import InputError
+from ..estimators.strong_coupling import leading_label
 from ..results import row_point
 from ..series.io import atomic_write_text, clean_temp_files, temp_target
 from .spec import FamilySpec, spec_digest, tomllib
@@ -337,10 +338,12 @@ def _result_fields(rec: dict, n_sing: int) -> dict:
             row[f"strong_{kind}_status"] = d.get("status", "")
             _est(f"strong_{kind}_power", d.get("leading_power"), row)
             co = d.get("coefficients") or {}
-            if co:
+            lead = leading_label(co)
+            if lead is not None:
                 # the leading coefficient under one name for every point (the fitted power, and so
-                # the label, can differ from point to point)
-                _est(f"strong_{kind}_leading", next(iter(co.values())), row)
+                # the label, can differ from point to point); found by its power, since the
+                # record's keys are sorted ("g^-1" before "g^1")
+                _est(f"strong_{kind}_leading", co[lead], row)
             for label, e in co.items():
                 if "." not in label:     # a power read as a decimal is no stable column name
                     _est(f"strong_{kind}_{label.replace(' ', '_')}", e, row)

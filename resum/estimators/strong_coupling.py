@@ -143,6 +143,26 @@ def _label(power, log, var="g"):
     return f"{var}^{txt}" + (f" log {var}" if log else "")
 
 
+def leading_label(labels):
+    """The label of the leading term among coefficient labels such as ``"g^1"``, ``"g^-1 log g"``,
+    ``"g^0.94526707"``: the highest power without a log (the term the fit's leading power
+    multiplies). Not the first label: a record written with sorted keys puts ``"g^-1"``
+    before ``"g^1"``. None when no label has that form."""
+    from fractions import Fraction
+    best = None
+    for lab in labels:
+        head, _, rest = str(lab).partition("^")
+        if not rest or " " in rest.strip():
+            continue                     # a log term, or not a power
+        try:
+            pw = Fraction(rest.strip())
+        except (ValueError, ZeroDivisionError):
+            continue
+        if best is None or pw > best[0]:
+            best = (pw, lab)
+    return None if best is None else best[1]
+
+
 def _lstsq(rows, rhs, weights):
     A = mpmath.matrix([[r * w for r in row] for row, w in zip(rows, weights)])
     b = mpmath.matrix([v * w for v, w in zip(rhs, weights)])

@@ -573,7 +573,9 @@ def _strong_getter(kind, key):
             return _or_miss(_band(d.get("leading_power")))
         co = d.get("coefficients") or {}
         if key == "leading":
-            return _band(next(iter(co.values()))) if co else None
+            from ..estimators.strong_coupling import leading_label
+            lead = leading_label(co)       # by power: the record's keys are sorted
+            return _band(co[lead]) if lead is not None else None
         return _band(co[key]) if key in co else None     # absent: that form had no such term
     return get
 

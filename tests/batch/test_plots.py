@@ -209,3 +209,27 @@ def test_strong_figure_has_one_panel_when_no_fit_converged_and_no_unasked_fit():
     good = dict(bad, success=True, status="converged")
     recs[0]["tasks"]["strong"]["resummed"] = good
     assert strong_panels(recs) == ["x^-3/4", "x^-7/4", "leading_power"]
+
+
+def test_strong_leading_panel_draws_the_highest_power():
+    """A point whose power was read as a decimal gets a "leading coefficient" panel; it must show
+    the coefficient of the highest power, not the first key of the sorted record."""
+    import matplotlib.pyplot as plt
+    from resum.plots.family import plot_strong, strong_keys
+
+    def rec(i, coeffs, power):
+        return {"index": i, "key": f"p{i:05d}", "status": "ok", "params": {"angle": str(i)},
+                "labels": {"angle": str(i)}, "axes": ["angle"], "task_names": ["strong"],
+                "tasks": {"strong": {"resummed": {
+                    "success": True, "status": "converged", "power_source": "log-derivative",
+                    "leading_power": {"value": power, "lo": power, "hi": power},
+                    "coefficients": dict(sorted(coeffs.items()))}}}}
+    recs = [rec(0, {"g^1": {"value": "1.27", "lo": "1.26", "hi": "1.28"},
+                    "g^-1": {"value": "0.0004", "lo": "-0.02", "hi": "0.02"}}, "1"),
+            rec(1, {"g^0.94526707": {"value": "4.79", "lo": "4.71", "hi": "4.88"},
+                    "g^-0.054732927": {"value": "-2.53", "lo": "-2.81", "hi": "-2.24"}}, "0.9453")]
+    assert strong_keys(recs)[0] == "leading"
+    ax = plot_strong(recs, "leading", x="angle")
+    ys = [y for ln in ax.get_lines() if ln.get_marker() == "o" for y in ln.get_ydata()]
+    assert ys == [1.27, 4.79]
+    plt.close("all")

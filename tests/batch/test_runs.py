@@ -586,3 +586,28 @@ def test_resume_recomputes_a_record_that_is_not_one(tmp_path, damage):
     again = run_family(spec, out, runner=SerialRunner(), resume=True, quiet=True, plots=False)
     assert again.computed == (good["index"],) and again.counts["ok"] == 4
     assert json.loads(p.read_text())["key"] == p.stem
+
+
+def test_strong_leading_column_is_the_highest_power_after_the_record_is_written():
+    # the fit lists its terms leading first; the record is written with sorted keys, which puts
+    # "g^-1" before "g^1" (and "g^-0.05" before "g^0.95"): the leading column must still be the
+    # coefficient of the highest power (plumbing, no numbers)
+    import json
+    from resum.batch.records import _dump, summary_rows
+    from resum.estimators.strong_coupling import leading_label
+
+    def rec(key, coeffs):
+        return json.loads(_dump({"key": key, "index": 0, "tasks": {"strong": {"resummed": {
+            "status": "converged", "success": True, "coefficients": dict(coeffs)}}}}))
+    one = rec("a", [("g^1", {"value": "1.27", "lo": "1.26", "hi": "1.28"}),
+                    ("g^0", {"value": "-0.14", "lo": "-0.15", "hi": "-0.13"}),
+                    ("g^-1", {"value": "0.0004", "lo": "-0.02", "hi": "0.02"}),
+                    ("g^-1 log g", {"value": "0.3", "lo": "0.2", "hi": "0.4"})])
+    dec = rec("b", [("g^0.94526707", {"value": "4.79", "lo": "4.71", "hi": "4.88"}),
+                    ("g^-0.054732927", {"value": "-2.53", "lo": "-2.81", "hi": "-2.24"})])
+    assert next(iter(one["tasks"]["strong"]["resummed"]["coefficients"])) == "g^-1"  # the trap
+    rows = summary_rows([one, dec])
+    assert [r["strong_resummed_leading"] for r in rows] == ["1.27", "4.79"]
+    assert leading_label(["g^-1/3", "g^1/3 log g", "g^-2/3"]) == "g^-1/3"
+    assert leading_label(["x^-3/4", "x^-7/4"]) == "x^-3/4"
+    assert leading_label([]) is None
