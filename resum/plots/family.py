@@ -4,7 +4,8 @@ Every function takes the point records of a run (the dicts in
 ``DIR/points/*.json``, e.g. ``RunFolder(DIR).records()``) and an axis name
 ``x``, draws on ``ax`` (a new figure if None) and returns ``ax``. Points
 that differ in other axes are drawn as separate lines, labelled by those
-values. Error bars are the recorded bands (estimates from the spread of
+values (where a colour stands for a coupling or a kind of fit, they differ
+in marker and line style). Error bars are the recorded bands (estimates from the spread of
 stable approximations, not rigorous bounds); a band too narrow to see is
 still drawn. Failed points and estimates that did not converge are left
 out of the line and marked with a cross at the bottom of the panel, in the
@@ -101,9 +102,11 @@ def _series(records, x, get: Callable, task: Optional[str] = None):
             b = get(r)
         else:   # a failed point: a cross where the task was asked for
             b = MISS if task is None or task in r.get("task_names", [task]) else None
+        # every group gets its entry (empty if it has nothing to draw), so that a group has the
+        # same position, and so the same style, in every quantity drawn from these records
+        xs, vs, los, his, miss = out.setdefault(g, ([], [], [], [], []))
         if b is None:
             continue
-        xs, vs, los, his, miss = out.setdefault(g, ([], [], [], [], []))
         if b is MISS:
             miss.append(xv)
             continue
@@ -231,11 +234,34 @@ def _ax(ax):
     return ax
 
 
+_GROUP_MARKERS = ("o", "s", "^", "v", "P", "X", "<", ">")
+_GROUP_LINES = ("-", "--", ":", "-.")
+
+
+def _open_marker(gi, n_groups):
+    """Marker of the open symbols (the source's values): a diamond with one group, else the
+    shape of the group's filled markers (drawn with base marker "o")."""
+    if n_groups <= 1:
+        return "D"
+    others = [m for m in _GROUP_MARKERS if m != "o"]
+    return "o" if gi == 0 else others[(gi - 1) % len(others)]
+
+
 def _draw(ax, series, label_prefix="", marker="o", color=None, offset=0.0, lines=True):
-    """Draw grouped (x, value, band) series; return the number of points drawn."""
+    """Draw grouped (x, value, band) series; return the number of points drawn.
+
+    With a fixed ``color`` (one colour per coupling, or per kind of fit) and several groups
+    (points differing in another axis), the groups differ in marker and line style: in one
+    colour they would be indistinguishable, in the figure and in the legend."""
     n = 0
-    for g, (xs, vs, los, his, miss) in series.items():
+    styled = color is not None and len(series) > 1
+    for gi, (g, (xs, vs, los, his, miss)) in enumerate(series.items()):
         lab = ", ".join(t for t in (label_prefix, g) if t)
+        mk, ls = marker, "-"
+        if styled:
+            others = [m for m in _GROUP_MARKERS if m != marker]
+            mk = marker if gi == 0 else others[(gi - 1) % len(others)]
+            ls = _GROUP_LINES[gi % len(_GROUP_LINES)]
         top = [xv for xv, v in zip(xs, vs) if v == math.inf]
         if top:
             # an infinite value (the radius of an entire function, a polynomial): an arrow at the
@@ -256,7 +282,7 @@ def _draw(ax, series, label_prefix="", marker="o", color=None, offset=0.0, lines
             yerr = [[max(0.0, v - lo) for v, lo in zip(vs, los)],
                     [max(0.0, hi - v) for v, hi in zip(vs, his)]]
             xo = [xv + offset for xv in xs]
-            eb = ax.errorbar(xo, vs, yerr=yerr, fmt=marker + ("-" if lines else ""), ms=4, lw=1,
+            eb = ax.errorbar(xo, vs, yerr=yerr, fmt=mk, ls=ls if lines else "none", ms=4, lw=1,
                              capsize=2.5, label=lab or None, color=color)
             drawn_colour = eb.lines[0].get_color()
         else:
@@ -266,7 +292,11 @@ def _draw(ax, series, label_prefix="", marker="o", color=None, offset=0.0, lines
             # panel with two estimates, or several groups, does not tell which one failed
             miss_label = f"{lab}: failed or not converged" if lab else "failed or not converged"
             seen = miss_label in ax.get_legend_handles_labels()[1]
-            ax.plot(miss, [0] * len(miss), "x", color=drawn_colour or "0.5",
+            # crosses of several estimates at one x are stacked upwards, not drawn over each other
+            # (only the last one would show)
+            before = [xv for ln in ax.get_lines() if ln.get_marker() == "x" for xv in ln.get_xdata()]
+            ys = [0.045 * before.count(xv) for xv in miss]
+            ax.plot(miss, ys, "x", color=drawn_colour or "0.5",
                     transform=ax.get_xaxis_transform(), clip_on=False, ms=6,
                     label=None if seen else miss_label)
     return n
@@ -410,9 +440,9 @@ def plot_values(records, x=None, ax=None, at=None):
             return _band(v) if v else None
         _draw(ax, _series(records, x, get, "evaluate"), f"resummed at {a}", "o", color=col)
         tr = _series(records, x, truth, "truth")
-        for g, (xs, vs, *_rest) in tr.items():
+        for gi, (g, (xs, vs, *_rest)) in enumerate(tr.items()):
             if xs:
-                ax.plot(xs, vs, "D", mfc="none", color=col, ms=7,
+                ax.plot(xs, vs, _open_marker(gi, len(tr)), mfc="none", color=col, ms=7, ls="none",
                         label=f"truth at {a}" + (f", {g}" if g else ""))
     return _finish(ax, x, "value")
 
@@ -524,9 +554,10 @@ def plot_value_digits(records, x=None, ax=None, at=None):
             d = _rel_digits(v, t)
             return None if d is None else (d, d, d)
         _draw(ax, _series(records, x, claimed, "evaluate"), f"band at {a}", "o", color=col)
-        for g, (xs, vs, *_rest) in _series(records, x, agree, "truth").items():
+        ag = _series(records, x, agree, "truth")
+        for gi, (g, (xs, vs, *_rest)) in enumerate(ag.items()):
             if xs:
-                ax.plot(xs, vs, "D", mfc="none", color=col, ms=7,
+                ax.plot(xs, vs, _open_marker(gi, len(ag)), mfc="none", color=col, ms=7, ls="none",
                         label=f"agreeing at {a}" + (f", {g}" if g else ""))
     return _finish(ax, x, "digits (relative)")
 

@@ -233,3 +233,44 @@ def test_strong_leading_panel_draws_the_highest_power():
     ys = [y for ln in ax.get_lines() if ln.get_marker() == "o" for y in ln.get_ydata()]
     assert ys == [1.27, 4.79]
     plt.close("all")
+
+
+def test_groups_in_one_colour_differ_in_marker_and_line():
+    """Values at one coupling share a colour; two states on the grid must still be told apart:
+    different markers and line styles for the resummed values, different open markers for the
+    source's values, each labelled with its state."""
+    import matplotlib.pyplot as plt
+    from resum.plots.family import plot_values
+
+    def rec(i, state, orders, v):
+        return {"index": i, "key": f"p{i:05d}", "status": "ok", "axes": ["state", "orders"],
+                "params": {"state": str(state), "orders": str(orders)},
+                "labels": {"state": str(state), "orders": str(orders)},
+                "task_names": ["evaluate", "truth"],
+                "tasks": {"evaluate": {"values": [{"at": "1", "value": v, "lo": v, "hi": v}]},
+                          "truth": {"values": [{"at": "1", "value": v, "lo": v, "hi": v}]}}}
+    recs = [rec(0, 0, 20, "1.39"), rec(1, 0, 30, "1.39"), rec(2, 1, 20, "4.65"),
+            rec(3, 1, 30, "4.65")]
+    ax = plot_values(recs, x="orders")
+    handles, labels = ax.get_legend_handles_labels()   # errorbar: the label is on the container
+    filled = {lab: h.lines[0] for h, lab in zip(handles, labels) if lab.startswith("resummed")}
+    a, b = filled["resummed at 1, state=0"], filled["resummed at 1, state=1"]
+    assert a.get_color() == b.get_color()
+    assert a.get_marker() != b.get_marker() and a.get_linestyle() != b.get_linestyle()
+    open_ = {ln.get_label(): ln.get_marker() for ln in ax.get_lines()
+             if ln.get_label().startswith("truth")}
+    assert set(open_) == {"truth at 1, state=0", "truth at 1, state=1"}
+    assert len(set(open_.values())) == 2
+    plt.close("all")
+
+
+def test_crosses_at_one_x_are_stacked():
+    """Two estimates missing at the same x: both crosses are visible, one above the other."""
+    import matplotlib.pyplot as plt
+    from resum.plots.family import _draw
+    fig, ax = plt.subplots()
+    _draw(ax, {"": ([1.0], [1.0], [1.0], [1.0], [2.0])}, "analysis", "o")
+    _draw(ax, {"": ([], [], [], [], [2.0])}, "ratio estimate", "s", lines=False)
+    ys = sorted(y for ln in ax.get_lines() if ln.get_marker() == "x" for y in ln.get_ydata())
+    assert len(ys) == 2 and ys[0] == 0 and ys[1] > 0.02
+    plt.close(fig)
