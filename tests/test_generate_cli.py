@@ -91,6 +91,8 @@ def test_exact_flag_stores_exact_forms(tmp_path):
     (["phi4", "--orders", "-2"], "--orders", "1"),
     (["phi4", "--orders", "8001"], "--orders", "8000"),
     (["euler", "--orders", "0"], "--orders", "1"),
+    (["catalan", "--orders", "0"], "--orders", "1"),
+    (["catalan", "--orders", "20001"], "--orders", "20000"),
 ])
 def test_out_of_range_parameters_name_the_option(tmp_path, capsys, args, option, bound):
     # the limits each source's build function accepts (bes: 1..400 loops, oscillator:

@@ -20,7 +20,9 @@ import sys
 
 from ..errors import InputError
 
-HELP = "write a series from a built-in source (BES kernel family, oscillator, phi^4, Euler)"
+from ..sources import SOURCES as _SOURCES     # the registry imports no numerics
+
+HELP = f"write a series from a built-in source ({', '.join(_SOURCES)})"
 DESCRIPTION = ("Compute the series of one built-in source and write it to FILE (.json, .csv or "
                "text by extension), atomically. Exit code 0 on success, 2 for a usage or input "
                "error.")

@@ -6,7 +6,7 @@ finite-coupling values, ``truth(ctx, points, **params) -> [Estimate]``).
 ``resum generate NAME`` and family studies use this registry.
 
 >>> sorted(SOURCES)
-['bes', 'euler', 'oscillator', 'phi4']
+['bes', 'catalan', 'euler', 'oscillator', 'phi4']
 >>> s = SOURCES["phi4"].build(Context(dps=20), orders=3)
 >>> [str(c) for c in s.coefficients]
 ['1', '-3/4', '105/32']
@@ -26,6 +26,10 @@ phi4
 euler
     Euler's series ``sum (sign)^n n! x^n`` (:mod:`resum.sources.euler`);
     ``truth`` (the Borel sum) for the alternating one.
+catalan
+    Generating function of the Catalan numbers ``(1 - sqrt(1 - 4x))/(2x)``
+    (:mod:`resum.sources.catalan`): convergent, radius ``1/4``, square-root
+    branch point; ``truth`` from the closed form at real ``x < 1/4``.
 
 Any analytic callable: :func:`resum.sources.cauchy.taylor_coefficients`.
 """
@@ -145,6 +149,7 @@ MAX_ORDERS = 100000          # resum.series.io.MAX_TERMS: a longer series file c
 # 100000 orders would be some 20 GB, built in memory first
 EULER_MAX_ORDERS = 10000
 PHI4_MAX_ORDERS = 8000
+CATALAN_MAX_ORDERS = 20000
 
 
 def _checked(name: str, **params) -> dict:
@@ -221,6 +226,19 @@ def _euler_truth(ctx: Context, points: Sequence, sign: int = -1, **_):
     return truth(ctx, points, sign=sign)
 
 
+# -------------------------------------------------------------------------- catalan
+
+def _catalan_build(ctx: Optional[Context] = None, orders: int = 60):
+    from .catalan import series
+    _checked("catalan", orders=orders)
+    return series(orders)
+
+
+def _catalan_truth(ctx: Context, points: Sequence, **_):
+    from .catalan import truth
+    return truth(ctx, points)
+
+
 SOURCES = {
     "bes": SourceSpec(
         "bes", "angle-deformed BES kernel quantity F_a(g) = 4 g^2 [(1+K(a))^-1]_11, "
@@ -256,6 +274,13 @@ SOURCES = {
         (Param("orders", "int", 50, "number of coefficients", minimum=1, maximum=EULER_MAX_ORDERS),
          Param("sign", "int", -1, "-1: alternating (Borel summable), 1: same sign", (-1, 1))),
         _euler_build, _euler_truth, "Borel sum e^(1/x) E_1(1/x)/x (alternating series only)",
+        ("orders", 0)),
+    "catalan": SourceSpec(
+        "catalan", "Catalan numbers' generating function (1 - sqrt(1 - 4x))/(2x): radius 1/4, "
+                   "square-root branch point",
+        (Param("orders", "int", 60, "number of coefficients (x^0 .. x^(orders-1))",
+               minimum=1, maximum=CATALAN_MAX_ORDERS),),
+        _catalan_build, _catalan_truth, "the closed form at real x < 1/4 (principal square root)",
         ("orders", 0)),
 }
 

@@ -260,7 +260,8 @@ def test_a_figure_that_cannot_be_drawn_is_a_warning(files, capsys, monkeypatch, 
 
 
 @pytest.mark.parametrize("source, orders, needle", [("euler", "100000", "at most 10000"),
-                                                    ("phi4", "100000", "at most 8000")])
+                                                    ("phi4", "100000", "at most 8000"),
+                                                    ("catalan", "100000", "at most 20000")])
 def test_exact_sources_refuse_files_too_large_to_read_back(tmp_path, capsys, source, orders, needle):
     # 100000 orders of n! (or of phi^4's rationals) is some 20 GB of digits, built in memory and
     # then refused by the readers (200 MiB)
@@ -273,6 +274,16 @@ def test_euler_at_its_cap_fits_the_readers():
     from resum.series.io import MAX_FILE_BYTES
     from resum.sources import EULER_MAX_ORDERS
     size = sum(math.floor(math.lgamma(k + 1) / math.log(10)) + 2 + (k % 2) for k in range(EULER_MAX_ORDERS))
+    assert size < MAX_FILE_BYTES
+
+
+def test_catalan_at_its_cap_fits_the_readers():
+    # digits of c_k = binomial(2k, k)/(k + 1) from lgamma: floor(log10 c_k) + 1 (common practice,
+    # no source), plus quotes, comma and space in JSON (measured at the cap: 120415297 bytes)
+    from resum.series.io import MAX_FILE_BYTES
+    from resum.sources import CATALAN_MAX_ORDERS
+    size = sum(math.floor((math.lgamma(2 * k + 1) - 2 * math.lgamma(k + 1) - math.log(k + 1)) / math.log(10))
+               + 1 + 4 for k in range(CATALAN_MAX_ORDERS))
     assert size < MAX_FILE_BYTES
 
 

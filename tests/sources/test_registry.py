@@ -14,6 +14,8 @@ def test_limits_match_the_build_functions():
     # the exact sources stop where their file would pass the readers' 200 MiB (before MAX_TERMS)
     assert SOURCES["phi4"].param("orders").maximum == PHI4_MAX_ORDERS <= MAX_TERMS
     assert SOURCES["euler"].param("orders").maximum == EULER_MAX_ORDERS <= MAX_TERMS
+    from resum.sources import CATALAN_MAX_ORDERS
+    assert SOURCES["catalan"].param("orders").maximum == CATALAN_MAX_ORDERS <= MAX_TERMS
 
 
 @pytest.mark.parametrize("name, params, word", [
