@@ -105,14 +105,16 @@ class SourceSpec:
     length: Optional[tuple] = None
 
     def __post_init__(self):
-        # every call of build: unknown parameters and a context beyond MAX_DPS are input errors
-        raw, names, src = self.build, {p.name for p in self.params}, self.name
+        # every call of build: unknown parameters, values outside their parameter's limits and
+        # a context beyond MAX_DPS are input errors (a build function need not check them again)
+        raw, names, src, check = self.build, {p.name for p in self.params}, self.name, self.check
 
         def build(ctx: Optional[Context] = None, **params):
             unknown = [k for k in params if k not in names]
             if unknown:
                 raise InputError(f"source {src!r} has no parameter {unknown[0]!r}; known: "
                                  f"{', '.join(sorted(names))}")
+            check(**params)
             if ctx is not None and ctx.dps > MAX_DPS:
                 raise InputError(f"dps: {ctx.dps} digits asked; at most {MAX_DPS}")
             return raw(ctx, **params)
@@ -152,10 +154,6 @@ PHI4_MAX_ORDERS = 8000
 CATALAN_MAX_ORDERS = 20000
 
 
-def _checked(name: str, **params) -> dict:
-    return SOURCES[name].check(**params)
-
-
 def _ctx_with(ctx: Optional[Context], dps: Optional[int]) -> Context:
     ctx = ctx or DEFAULT
     if dps is None:
@@ -170,7 +168,6 @@ def _ctx_with(ctx: Optional[Context], dps: Optional[int]) -> Context:
 def _bes_build(ctx: Optional[Context] = None, angle="pi/4", loops: int = 60,
                dps: Optional[int] = None, exact: bool = False):
     from .bes import weak_coupling_series
-    _checked("bes", loops=loops, dps=dps)
     return weak_coupling_series(angle, loops, _ctx_with(ctx, dps), exact=bool(exact))
 
 
@@ -187,7 +184,6 @@ def _bes_truth(ctx: Context, points: Sequence, angle="pi/4", dps: Optional[int] 
 
 def _osc_build(ctx: Optional[Context] = None, state: int = 0, orders: int = 100):
     from .oscillator import series
-    _checked("oscillator", state=state, orders=orders)
     return series(state, orders)
 
 
@@ -204,7 +200,6 @@ def _osc_truth(ctx: Context, points: Sequence, state: int = 0, **_):
 
 def _phi4_build(ctx: Optional[Context] = None, orders: int = 60):
     from .phi4 import series
-    _checked("phi4", orders=orders)
     return series(orders)
 
 
@@ -217,7 +212,6 @@ def _phi4_truth(ctx: Context, points: Sequence, **_):
 
 def _euler_build(ctx: Optional[Context] = None, orders: int = 50, sign: int = -1):
     from .euler import series
-    _checked("euler", orders=orders, sign=sign)
     return series(orders, sign)
 
 
@@ -230,7 +224,6 @@ def _euler_truth(ctx: Context, points: Sequence, sign: int = -1, **_):
 
 def _catalan_build(ctx: Optional[Context] = None, orders: int = 60):
     from .catalan import series
-    _checked("catalan", orders=orders)
     return series(orders)
 
 
