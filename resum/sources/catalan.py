@@ -61,15 +61,21 @@ def closed_form(x, ctx: Optional[Context] = None):
     """
     ctx = ctx or DEFAULT
     with ctx.working():
-        if isinstance(x, bool):
-            raise InputError(f"x: expected a number, got {x!r}")
-        try:
-            x = mpmath.mpmathify(x)
-        except (TypeError, ValueError):
-            raise InputError(f"x: expected a number, got {x!r}") from None
-        if not mpmath.isfinite(x):
-            raise InputError(f"x: must be finite, got {x}")
+        x = _number(x)
         return +(2 / (1 + mpmath.sqrt(1 - 4 * x)))
+
+
+def _number(x):
+    """``x`` as a finite mpmath number at the working precision, or an InputError naming ``x``."""
+    if isinstance(x, bool):
+        raise InputError(f"x: expected a number, got {x!r}")
+    try:
+        v = mpmath.mpmathify(x)
+    except (TypeError, ValueError):
+        raise InputError(f"x: expected a number, got {x!r}") from None
+    if not mpmath.isfinite(v):
+        raise InputError(f"x: must be finite, got {x}")
+    return v
 
 
 def value(x, ctx: Optional[Context] = None) -> Estimate:
@@ -77,11 +83,8 @@ def value(x, ctx: Optional[Context] = None) -> Estimate:
     On the cut ``x >= 1/4`` the value is complex: an input error (use :func:`closed_form`)."""
     ctx = ctx or DEFAULT
     with ctx.working():
-        try:
-            xx = mpmath.mpmathify(x)
-        except (TypeError, ValueError):
-            raise InputError(f"x: expected a number, got {x!r}") from None
-        if isinstance(x, bool) or isinstance(xx, mpmath.mpc) or not xx < mpmath.mpf(1) / 4:
+        xx = _number(x)
+        if isinstance(xx, mpmath.mpc) or not xx < mpmath.mpf(1) / 4:
             raise InputError(f"x: the value is real for real x < 1/4 only (cut from 1/4 on), got {x}")
     v1 = closed_form(x, ctx)
     v2 = closed_form(x, ctx.higher())
