@@ -1203,6 +1203,15 @@ RESIDUAL_GROWTH = 1.75
 _RESIDUAL_SAFETY = 1.0
 
 
+def _top_bits(vals):
+    """log2 of the largest |v| among balls or exact numbers (0 if all vanish)."""
+    top = -math.inf
+    for v in vals:
+        m = abs(v)
+        top = max(top, _log2_abs(m.mid() if isinstance(m, _BALL_TYPES) else fb.to_arb(m).mid()))
+    return 0 if top == -math.inf else top
+
+
 def _rev_times(b, r, n, P):
     """``U(b) r`` for the upper triangular Toeplitz matrix with first row b:
     ``w_i = sum_{j >= i} b_(j-i) r_j``, as one polynomial product."""
@@ -1247,7 +1256,13 @@ def _residual_digits(h, L, M, q, q1, cplx, bits):
     if _has_zero(rho) or _has_zero(s):
         return p, 0.0
     rr = [r[0] * 0] + r[1:]
-    lo = 128
+    # Start where the Gohberg-Semencul products can resolve T^-1 r: their terms
+    # are about |q| |q1| |h| / |s| times |r| (the conditioning of T), so a ball
+    # at fewer bits than log2 of that holds no bit of the result (at [100/100]
+    # of log(1+x)/x: 128 and 256 bits fail, 512 hold; starting there saves two
+    # rounds of the loop below, a fifth of the check's time).
+    lo = min(bits, max(128, 64 * -(-(_top_bits(q) + _top_bits(q1) + _top_bits(hb)
+                                      - _top_bits([s]) + 96) // 64)))
     prev = None
     while True:
         with fb.flint_prec(lo):
