@@ -59,7 +59,8 @@ from .errors import InputError
 from .estimators import METHODS, get_method, validate_methods  # noqa: F401  (METHODS re-exported)
 from .estimators._common import MIN_TERMS, classify_kind, prepare
 from .series.core import Series
-from .results import (Estimate, MethodResult, Provenance, Singularity, Status, _jsonable)
+from .results import (Estimate, MethodResult, Provenance, Singularity, Status, _jsonable,
+                      point_text)
 from .uncertainty.ensemble import SAFETY, digits_agree, modulus_band
 
 __all__ = ["AnalysisResult", "analyze", "default_context"]
@@ -519,7 +520,7 @@ def _drop_lone_outer_points(lead, warnings):
 
 def _points_by(pairs):
     """'a point at z (method)' or 'points at z1 (m1), z2 (m2), ...' for warnings."""
-    items = [f"{mpmath.nstr(s.location, 6)} ({' + '.join(f)})" for s, f in pairs]
+    items = [f"{point_text(s.location, 6)} ({' + '.join(f)})" for s, f in pairs]
     return ("a point at " if len(items) == 1 else "points at ") + ", ".join(items)
 
 
@@ -1015,7 +1016,7 @@ def _warn_complex_exponents(sings, results, warnings):
                    and abs(t.location - s.location) <= 0.01 * max(abs(s.location), mpmath.mpf(10) ** -30)]
             if hit:
                 note = hit[0].note[hit[0].note.index("complex exponent"):]
-                warnings.append(f"at {mpmath.nstr(s.location, 8)} ({r.method}): {note}")
+                warnings.append(f"at {point_text(s.location, 8)} ({r.method}): {note}")
                 break
 
 

@@ -583,7 +583,7 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
         if cmap is None and _only_poles(sings):
             # a meromorphic function (as far as the analysis sees): Padé approximants represent
             # poles exactly, and a conformal map would cut the plane where the function has none
-            locs = ", ".join(mpmath.nstr(s.location, 8) for s in sings)
+            locs = ", ".join(point_text(s.location, 8) for s in sings)
             only = all(s.kind == "pole" for s in sings)
             # (poles pile up at an essential point without settling, yet the values converge
             # around it: the poles' reach says nothing there)
@@ -835,8 +835,8 @@ def branch_note(cmap, singularities, x) -> Optional[str]:
     if crosses_pair_cut(cmap, x):
         s = mpmath.mpc(cmap.branch_points()[0])
         s = s if s.imag > 0 else mpmath.conj(s)
-        return (f"the straight line from 0 to {mpmath.nstr(x, 8)} crosses a cut of the map (from "
-                f"{mpmath.nstr(s if x.imag > 0 else mpmath.conj(s), 8)} along Re = {mpmath.nstr(s.real, 8)}): "
+        return (f"the straight line from 0 to {point_text(x, 8)} crosses a cut of the map (from "
+                f"{point_text(s if x.imag > 0 else mpmath.conj(s), 8)} along Re = {mpmath.nstr(s.real, 8)}): "
                 "the value is the continuation around that branch point, another branch than along "
                 "the straight line")
     mapped = [mpmath.mpc(b) for b in cmap.branch_points()] if cmap is not None else []
@@ -846,7 +846,7 @@ def branch_note(cmap, singularities, x) -> Optional[str]:
         if abs(z.imag) <= mpmath.mpf(10) ** -6 * abs(z):
             continue    # a real point: the approximants of a real series cut along the real axis
         if abs(z) < abs(x) and mpmath.re(x * mpmath.conj(z)) > 0:
-            return (f"{mpmath.nstr(x, 8)} lies beyond {mpmath.nstr(z, 8)}, a singular point the map does not "
+            return (f"{point_text(x, 8)} lies beyond {point_text(z, 8)}, a singular point the map does not "
                     "remove: the approximants draw their own cut from it, and the value may belong to "
                     "another branch than the continuation along the straight line from 0")
     return None
@@ -980,10 +980,10 @@ def _run(plan: _Plan, c, xs, dps, n_orders, quad_dps=None, target=None):
         if len(inside) == len(xs):
             return outs, diag
         full = [PointOutcome(None, None, False, (
-            f"x = {mpmath.nstr(x, 8)} lies beyond the poles the approximants resolve (|x| < "
+            f"x = {point_text(x, 8)} lies beyond the poles the approximants resolve (|x| < "
             f"{mpmath.nstr(plan.reach, 4)}, where the top two orders stop agreeing): their values there are "
             "extrapolation; more terms reach farther") if plan.boundary is None else (
-            f"x = {mpmath.nstr(x, 8)} lies at or beyond the natural boundary suspected at |x| ~ {plan.boundary} "
+            f"x = {point_text(x, 8)} lies at or beyond the natural boundary suspected at |x| ~ {plan.boundary} "
             f"(from {mpmath.nstr(plan.boundary.lower, 4)}): the series defines no value there, so none is "
             "given"), {}) for x in xs]
         for j, o in zip(inside, outs):

@@ -156,8 +156,9 @@ def _report(series, ana, ev, rows, held, figures, seconds) -> str:
     ]
     for s in ana.singularities[:4]:
         ex = "exponent not determined" if s.exponent is None else f"exponent {s.exponent}"
-        lines.append(f"- singularity at x = {s.re} {'+' if s.im.value >= 0 else '-'} "
-                     f"{str(s.im).lstrip('-')} i: {s.kind}, {ex}")
+        at = (f"{s.re}" if s.im.value == 0 and s.im.lower == 0 and s.im.upper == 0 else
+              f"{s.re} {'+' if s.im.value >= 0 else '-'} {str(s.im).lstrip('-')} i")
+        lines.append(f"- singularity at x = {at}: {s.kind}, {ex}")
     for w in ana.warnings:
         lines.append(f"- warning: {w}")
     lines += ["", "## Resummed values against the finite-coupling evaluation", "",

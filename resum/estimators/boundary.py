@@ -66,7 +66,7 @@ from __future__ import annotations
 
 import mpmath
 
-from ..results import Estimate
+from ..results import Estimate, point_text
 from ..uncertainty.ensemble import SAFETY
 from .pade_sing import pade_ensemble
 
@@ -264,7 +264,7 @@ def probe_natural_boundary(c, dps: int, digits: int, top=None) -> dict:
         inner = [z for z in t0["inner_poles"]
                  if all(any(abs(w - z) <= INNER_STABLE_REL * abs(z) for w in st["poles"]) for st in stats[1:])]
         if inner:
-            why.append(f"stable poles inside the circle at {', '.join(mpmath.nstr(z, 6) for z in inner[:4])}")
+            why.append(f"stable poles inside the circle at {', '.join(point_text(z, 6) for z in inner[:4])}")
     if why:
         out["reason"] = "; ".join(why)
         return out
