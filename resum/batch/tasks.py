@@ -342,10 +342,13 @@ def _run_evaluate(series, params, ctx, opts, source, rebuild=None):
 
 def _strong_json(res) -> dict:
     """Compact record of a StrongCouplingResult: coefficients as a label -> band table."""
+    from ..estimators.strong_coupling import _spacing_str
     est = lambda e: None if e is None else e.to_dict()  # noqa: E731
     return {"success": res.success, "status": res.status.value, "message": res.message,
             "variable": res.variable,
             "leading_power": est(res.leading_power), "power_source": res.power_source,
+            "spacing": None if res.spacing is None else _spacing_str(res.spacing),
+            "spacing_source": res.spacing_source,
             "coefficients": {k: e.to_dict() for k, e in res.coefficients},
             "trusted_up_to": None if res.trusted_up_to is None else num_to_str(res.trusted_up_to, 20),
             "couplings": [num_to_str(g, 20) for g in res.couplings],
@@ -356,7 +359,7 @@ def _strong_json(res) -> dict:
 def _run_strong(series, params, ctx, opts, source):
     from ..resummation import probe_strong_coupling
     kw = {k: opts[k] for k in ("couplings", "method", "leading_power", "log_terms",
-                               "max_rel_band") if k in opts}
+                               "max_rel_band", "spacing") if k in opts}
     if "n_terms_fit" in opts:
         kw["n_terms_fit"] = tuple(opts["n_terms_fit"])
     out = {}
@@ -450,6 +453,9 @@ def _check_strong(opts, source_name, source):
         if not ok:
             raise InputError("max_rel_band must be a number between 0 and 1 (the largest relative band of a "
                              "resummed value the fit uses)")
+    if "spacing" in opts:
+        from ..estimators.strong_coupling import _spacing_arg
+        _spacing_arg(opts["spacing"], 30)
     if "couplings" in opts and isinstance(opts["couplings"], (list, tuple)) and len(set(map(str, opts["couplings"]))) < 4:
         raise InputError("couplings: the fit needs at least 4 distinct couplings")
 
@@ -492,6 +498,7 @@ TASKS = {
     "strong": TaskDef("strong", "strong-coupling probe",
                       {"couplings": "numbers", "method": "str", "leading_power": "number",
                        "log_terms": "bool", "n_terms_fit": "ints", "max_rel_band": "number",
+                       "spacing": "number",
                        "resummed": "bool", "from_truth": "bool", "truth_dps": "int"},
                       _run_strong),
     "truth": TaskDef("truth", "finite-coupling ground truth from the source",

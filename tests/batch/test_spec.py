@@ -188,6 +188,8 @@ def test_truth_task_needs_an_evaluator():
     ('\n[tasks.evaluate]\nat = [1]\nmethod = "guess"\n', ["tasks.evaluate", "unknown method", "guess"]),
     ('\n[tasks.evaluate]\nmethod = "pade"\n', ["tasks.evaluate", "needs option 'at'"]),
     ('\n[tasks.strong]\nn_terms_fit = [0]\n', ["tasks.strong", "positive integers"]),
+    ('\n[tasks.strong]\nspacing = 0\n', ["tasks.strong", "spacing", "above 0"]),
+    ('\n[tasks.strong]\nspacing = "-2/3"\n', ["tasks.strong", "spacing", "above 0"]),
 ])
 def test_unknown_methods_and_missing_options(extra, words):
     with pytest.raises(InputError) as err:
