@@ -51,9 +51,10 @@ def _y2(d=1e-4):
 def test_quartic_levels_by_finite_differences():
     e = _quartic()
     assert abs(e[0] - float(E0)) < FD_TOL and abs(e[1] - float(E1)) < FD_TOL, e
-    c = _y2()
-    # measured 0.3620225, 0.9016060 (0.3620225, 0.9016056 at n = 4000)
-    assert abs(c[0] - 0.362022) < 1e-5 and abs(c[1] - 0.901606) < 1e-5, c
+    # <y^2> has no published value we could check; instead the derivative must not depend on
+    # the grid (n = 2000 against 4000: 0.3620225 and 0.9016060 against 0.9016056 when written)
+    c, c2 = _y2(), (_quartic(1e-4, n=4000) - _quartic(-1e-4, n=4000)) / 2e-4
+    assert all(abs(a - b) < 1e-5 for a, b in zip(c, c2)), (c, c2)
 
 
 def test_first_excited_level_fits_with_spacing_two_thirds(tmp_path, capsys):
