@@ -246,7 +246,7 @@ def _values_fields(prefix, values, row):
 # columns of the summary table that are not parameters: fixed names, and the families of names
 # whose members depend on the results (sing2_re_lo, strong_truth_leading, ...)
 _RESULT_COLUMNS = {"key", "index", "status", "error", "seconds", "n_terms", "ratio_growth",
-                   "ratio_status", "analyze_status", "analyze_growth"}
+                   "ratio_status", "analyze_status", "analyze_growth", "truth_status"}
 _RESULT_FAMILIES = re.compile(r"^((radius|ratio_radius|ratio_borel_distance|borel_A|borel_b)"
                               r"(_lo|_hi)?|sing\d+_.*|strong_(resummed|truth)_.*|(value|truth)(_im)?@.*)$")
 PARAM_PREFIX = "param_"
@@ -328,6 +328,9 @@ def _result_fields(rec: dict, n_sing: int) -> dict:
             row["value_goal_reached"] = search.get("reached", "")
     tr = tasks.get("truth")
     if isinstance(tr, dict):
+        if tr.get("status"):
+            # "not available" where the source has no value at these parameters (its cells empty)
+            row["truth_status"] = tr["status"]
         _values_fields("truth", tr.get("values"), row)
     st = tasks.get("strong")
     if isinstance(st, dict):

@@ -24,7 +24,11 @@ strong
     behaviour with bands.
 truth
     The source's own finite-coupling evaluator (where it has one) at ``at``,
-    for comparison with ``evaluate``.
+    for comparison with ``evaluate``. Where the evaluator cannot give a value
+    at a point's parameters (it raises InputError: Euler's same-sign series
+    has no Borel sum) the task records ``status = "not available"`` and
+    ``message = "not available: <reason>"``, and the point stays ``ok``: its
+    other tasks are what the study is about (see :func:`truth_values`).
 """
 from __future__ import annotations
 
@@ -369,8 +373,13 @@ def _run_strong(series, params, ctx, opts, source):
         f = truth_function(source)
         if "couplings" not in kw:
             raise InputError("strong: from_truth needs explicit couplings")
-        vals = f(_truth_ctx(ctx, opts), list(kw["couplings"]), **params)
-        if any(v is None for v in vals):
+        vals, reasons = truth_values(f, _truth_ctx(ctx, opts), list(kw["couplings"]), params)
+        if any(reasons):
+            # the evaluator cannot give these values (Euler's same-sign series has no Borel sum):
+            # the fit to them is not available; the resummed fit and the other tasks stand
+            out["truth"] = {"success": False, "status": NOT_AVAILABLE,
+                            "message": _not_available(kw["couplings"], reasons)}
+        elif any(v is None for v in vals):
             out["truth"] = {"success": False, "status": Status.FAILED.value,
                             "message": "the finite-coupling evaluator failed at some coupling"}
         else:
@@ -392,21 +401,67 @@ def _truth_ctx(ctx, opts):
     return ctx if d is None else Context(dps=int(d))
 
 
+NOT_AVAILABLE = "not available"
+
+
+def truth_values(f, ctx, points, params):
+    """``(values, reasons)``: the evaluator ``f``'s values at ``points`` and, for each point, None
+    or why ``f`` cannot give a value there.
+
+    An InputError from the evaluator at a point of a validated spec says that the value does not
+    exist for these parameters (Euler's same-sign series has no Borel sum on the positive axis) or
+    lies outside the evaluator's reach (the phi^4 closed form at g <= 0): the values are then
+    asked one coupling at a time, so that those it can give are kept. Any other exception passes
+    (a failure of the point, with its traceback)."""
+    points = list(points)
+    try:
+        return list(f(ctx, points, **params)), [None] * len(points)
+    except InputError:
+        pass
+    vals, reasons = [], []
+    for x in points:
+        try:
+            (v,) = f(ctx, [x], **params)
+            why = None
+        except InputError as exc:
+            v, why = None, str(exc).strip().splitlines()[0] if str(exc).strip() else "InputError"
+        vals.append(v)
+        reasons.append(why)
+    return vals, reasons
+
+
+def _not_available(points, reasons) -> str:
+    """``"not available: <reason>"`` (with the couplings it concerns when not all)."""
+    missing = [(x, r) for x, r in zip(points, reasons) if r]
+    if len(missing) == len(points) and len({r for _, r in missing}) == 1:
+        return f"not available: {missing[0][1]}"
+    return "not available at " + "; ".join(f"{_at(x)}: {r}" for x, r in missing)
+
+
 def _run_truth(series, params, ctx, opts, source):
     f = truth_function(source)
     tctx = _truth_ctx(ctx, opts)
-    res = f(tctx, _points_arg(opts["at"]), **params)
+    res, reasons = truth_values(f, tctx, _points_arg(opts["at"]), params)
     out = []
-    for x, v in zip(opts["at"], res):
+    for x, v, why in zip(opts["at"], res, reasons):
         row = {"at": _at(x)}
-        if v is None:
+        if why:
+            # no value to compare with: an empty cell in the summary, nothing drawn
+            row.update(value=None, success=False, message=f"not available: {why}")
+        elif v is None:
             row.update(value="nan", lo="nan", hi="nan", success=False)
         elif isinstance(v, Estimate):
             row.update(v.to_dict(), success=True)
         else:
             row.update(value=_num(v, tctx.dps), success=True)
         out.append(row)
-    return {"values": out, "dps": tctx.dps}
+    rec = {"values": out, "dps": tctx.dps}
+    if any(reasons):
+        rec.update(status=NOT_AVAILABLE if all(reasons) else "partly available",
+                   message=_not_available(opts["at"], reasons))
+    else:
+        rec["status"] = "ok"
+    return rec
 
 
 def _check_truth(opts, source_name, source):

@@ -596,8 +596,8 @@ def _strong_getter(kind, key):
     """A getter for :func:`_series`: the coefficient ``key`` of the ``kind`` fit."""
     def get(r):
         d = (_task(r, "strong") or {}).get(kind)
-        if d is None:
-            return None
+        if d is None or d.get("status") == "not available":
+            return None     # not asked, or the source has no values to fit here: nothing drawn
         if d.get("success") is False:
             return MISS
         if key == "leading_power":
@@ -789,7 +789,8 @@ def write_family_plots(records, outdir, x=None, title="") -> list:
             plot_borel(records, x, ax)
         save(fig, "borel")
     if _points_at(records, "evaluate"):
-        has_truth = bool(_points_at(records, "truth"))
+        # a truth that is not available (values without a number) draws nothing: no empty figure
+        has_truth = any(_band(v) for r in records for v in _values(r, "truth").values())
         fig, axs = plt.subplots(2, 1, figsize=(6.4, 7.4), sharex=True, squeeze=False)
         plot_values(records, x, axs[0][0])
         vals = [_band(v) for r in records for v in _values(r, "evaluate").values()]

@@ -72,5 +72,7 @@ def borel_sum(x, ctx: Optional[Context] = None) -> Estimate:
 
 def truth(ctx: Context, points: Sequence, sign: int = -1, **params) -> list:
     if sign != -1:
-        raise InputError("sign: a finite-coupling value exists only for the alternating series (sign -1)")
+        raise InputError("sign = 1: sum n! x^n is not Borel summable for x > 0 (the Borel transform "
+                         "1/(1 - t) has a pole on the integration path and the lateral sums are complex); "
+                         "a finite-coupling value exists only for the alternating series (sign = -1)")
     return [borel_sum(x, ctx) for x in points]
