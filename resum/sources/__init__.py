@@ -158,9 +158,8 @@ def _ctx_with(ctx: Optional[Context], dps: Optional[int]) -> Context:
     ctx = ctx or DEFAULT
     if dps is None:
         return ctx
-    if isinstance(dps, bool) or not isinstance(dps, int) or dps < 5:
-        raise InputError(f"dps: expected a whole number >= 5, got {dps!r}")
-    return ctx.with_dps(dps)
+    from ._params import whole
+    return ctx.with_dps(whole(dps, "dps", MIN_DPS))
 
 
 # ----------------------------------------------------------------------------- bes

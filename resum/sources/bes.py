@@ -66,6 +66,7 @@ from ..results import Estimate, Provenance, Status, num_to_str
 from ..results import longest_number
 from ..series.core import Coupling, Series
 from ._arb import acb_from_mpc, arb_from_mpf, arb_rad_to_mpf, arb_to_mpf, flint_prec
+from ._params import number, whole
 
 __all__ = ["weak_coupling_coefficients", "weak_coupling_series", "exact_weak_coefficients",
            "ExactCoefficient", "exact_loop_limit", "finite_coupling", "FiniteCouplingResult", "parse_angle",
@@ -98,34 +99,12 @@ def parse_angle(angle, dps: int):
     evaluated at ``dps`` digits and that rounding is carried into the balls
     downstream. Raises :class:`InputError` for anything else.
     """
-    from ..series.expr import evaluate_expression
-    if isinstance(angle, bool):
-        raise InputError("angle: expected a number in radians, got a boolean")
-    with workdps(dps):
-        if isinstance(angle, str):
-            try:
-                v = evaluate_expression(angle, dps=dps).value
-            except InputError as exc:
-                raise exc.at("angle") from None
-        else:
-            v = angle
-        if isinstance(v, Fraction):
-            v = mpmath.mpf(v.numerator) / v.denominator
-        try:
-            v = mpmath.mpmathify(v)
-        except (TypeError, ValueError):
-            raise InputError(f"angle: expected a number in radians, got {angle!r}") from None
-        if isinstance(v, mpmath.mpc):
-            if v.imag != 0:
-                raise InputError(f"angle: must be real, got {angle!r}")
-            v = v.real
-        if not mpmath.isfinite(v):
-            raise InputError(f"angle: must be finite, got {angle!r}")
-        if abs(v) > mpmath.mpf(10) ** (dps // 2):
-            # cos and sin of such an angle keep fewer than half the working digits
-            raise InputError(f"angle: {angle!r} is too large to take its cosine at {dps} digits; "
-                             "give it reduced modulo 2 pi")
-        return +v
+    v = number(angle, "angle", dps, real=True)
+    if abs(v) > mpmath.mpf(10) ** (dps // 2):
+        # cos and sin of such an angle keep fewer than half the working digits
+        raise InputError(f"angle: {angle!r} is too large to take its cosine at {dps} digits; "
+                         "give it reduced modulo 2 pi")
+    return v
 
 
 def _angle_factors(angle_mpf, bits, dps):
@@ -316,13 +295,7 @@ def _worst_relative_radius(cs, dps):
 
 
 def _check_loops(loops):
-    if isinstance(loops, bool) or not isinstance(loops, int):
-        raise InputError(f"loops: expected a whole number, got {loops!r}")
-    if loops < 1:
-        raise InputError(f"loops: must be at least 1, got {loops}")
-    if loops > MAX_LOOPS:
-        raise InputError(f"loops: at most {MAX_LOOPS} (cost grows like loops^4), got {loops}")
-    return loops
+    return whole(loops, "loops", 1, MAX_LOOPS, why="cost grows like loops^4")
 
 
 # ----------------------------------------------------------------------------
@@ -963,11 +936,9 @@ def finite_coupling(g, angle="pi/4", ctx: Optional[Context] = None, digits: Opti
     inside the strip ``|Im g| < 1/4``.
     """
     ctx = ctx or DEFAULT
-    if digits is not None and (isinstance(digits, bool) or not isinstance(digits, int)):
-        raise InputError(f"digits: expected a whole number, got {digits!r}")
-    if isinstance(max_size, bool) or not isinstance(max_size, int) or max_size < 16:
-        raise InputError(f"max_size: expected a whole number >= 16 (the largest truncation of the "
-                         f"kernel matrix), got {max_size!r}")
+    if digits is not None:
+        whole(digits, "digits")
+    whole(max_size, "max_size", 16, why="the largest truncation of the kernel matrix")
     digits = ctx.dps if digits is None else digits
     if digits < 3:
         raise InputError(f"digits: ask for at least 3, got {digits}")
@@ -1053,28 +1024,10 @@ def finite_coupling(g, angle="pi/4", ctx: Optional[Context] = None, digits: Opti
 
 
 def _parse_coupling(g, dps):
-    from ..series.expr import evaluate_expression
-    if isinstance(g, bool):
-        raise InputError("g: expected a number, got a boolean")
-    with workdps(dps):
-        if isinstance(g, str):
-            try:
-                g = evaluate_expression(g, dps=dps).value
-            except InputError as exc:
-                raise exc.at("g") from None
-        if isinstance(g, Fraction):
-            g = mpmath.mpf(g.numerator) / g.denominator
-        try:
-            v = mpmath.mpmathify(g)
-        except (TypeError, ValueError):
-            raise InputError(f"g: expected a number, got {g!r}") from None
-        if isinstance(v, mpmath.mpc) and v.imag == 0:
-            v = v.real
-        if not mpmath.isfinite(v):
-            raise InputError(f"g: must be finite, got {g!r}")
-        if not isinstance(v, mpmath.mpc) and v < 0:
-            v = -v          # F_a is even in g
-        return +v
+    v = number(g, "g", dps)
+    if not isinstance(v, mpmath.mpc) and v < 0:
+        v = -v          # F_a is even in g
+    return v
 
 
 def _to_mp(x, cplx):

@@ -23,6 +23,7 @@ from ..context import DEFAULT, Context
 from ..errors import InputError
 from ..results import Estimate
 from ..series.core import Series
+from ._params import number, whole
 
 __all__ = ["coefficients", "series", "closed_form", "value", "truth"]
 
@@ -33,8 +34,7 @@ def coefficients(orders: int) -> list:
     >>> coefficients(6)
     [1, 1, 2, 5, 14, 42]
     """
-    if isinstance(orders, bool) or not isinstance(orders, int) or orders < 1:
-        raise InputError(f"orders: expected a whole number >= 1, got {orders!r}")
+    whole(orders, "orders", 1)
     out, c = [], 1
     for n in range(orders):            # running product: a binomial per term costs O(n) multiplications
         out.append(c)
@@ -61,21 +61,8 @@ def closed_form(x, ctx: Optional[Context] = None):
     """
     ctx = ctx or DEFAULT
     with ctx.working():
-        x = _number(x)
+        x = number(x, "x")
         return +(2 / (1 + mpmath.sqrt(1 - 4 * x)))
-
-
-def _number(x):
-    """``x`` as a finite mpmath number at the working precision, or an InputError naming ``x``."""
-    if isinstance(x, bool):
-        raise InputError(f"x: expected a number, got {x!r}")
-    try:
-        v = mpmath.mpmathify(x)
-    except (TypeError, ValueError):
-        raise InputError(f"x: expected a number, got {x!r}") from None
-    if not mpmath.isfinite(v):
-        raise InputError(f"x: must be finite, got {x}")
-    return v
 
 
 def value(x, ctx: Optional[Context] = None) -> Estimate:
@@ -83,7 +70,7 @@ def value(x, ctx: Optional[Context] = None) -> Estimate:
     On the cut ``x >= 1/4`` the value is complex: an input error (use :func:`closed_form`)."""
     ctx = ctx or DEFAULT
     with ctx.working():
-        xx = _number(x)
+        xx = number(x, "x")
         if isinstance(xx, mpmath.mpc) or not xx < mpmath.mpf(1) / 4:
             raise InputError(f"x: the value is real for real x < 1/4 only (cut from 1/4 on), got {x}")
     v1 = closed_form(x, ctx)

@@ -36,6 +36,7 @@ from ..errors import InputError
 from ..results import Estimate, Status, num_to_str
 from ..results import longest_number
 from ..series.core import Series
+from ._params import number, whole
 
 __all__ = ["taylor_coefficients", "TaylorResult", "fft"]
 
@@ -192,8 +193,7 @@ def taylor_coefficients(f: Callable, n: int, ctx: Optional[Context] = None,
     ctx = ctx or DEFAULT
     if not callable(f):
         raise InputError("f: expected a callable f(x)")
-    if isinstance(n, bool) or not isinstance(n, int) or n < 1:
-        raise InputError(f"n: expected a whole number >= 1, got {n!r}")
+    whole(n, "n", 1)
     if points is None:
         points = 1 << max(4, math.ceil(math.log2(2 * n + 16)))
     if points & (points - 1) or points < n:
@@ -202,9 +202,9 @@ def taylor_coefficients(f: Callable, n: int, ctx: Optional[Context] = None,
     work = ctx.work_dps + extra
     with workdps(work):
         if radius is not None:
-            radii = [mpmath.mpf(radius)]
+            radii = [number(radius, "radius", real=True)]
         else:
-            top = mpmath.mpf(max_radius)
+            top = number(max_radius, "max_radius", real=True)
             radii = [top / 2 ** k for k in range(levels - 1, -1, -1)]     # small to large
         accepted = []
         prev = None

@@ -21,6 +21,7 @@ from ..context import DEFAULT, Context
 from ..errors import InputError
 from ..results import Estimate
 from ..series.core import Series
+from ._params import number, whole
 
 __all__ = ["coefficients", "series", "borel_sum"]
 
@@ -31,10 +32,8 @@ def coefficients(orders: int, sign: int = -1) -> list:
     >>> coefficients(5)
     [1, -1, 2, -6, 24]
     """
-    if isinstance(orders, bool) or not isinstance(orders, int) or orders < 1:
-        raise InputError(f"orders: expected a whole number >= 1, got {orders!r}")
-    if sign not in (1, -1):
-        raise InputError(f"sign: must be 1 or -1, got {sign!r}")
+    whole(orders, "orders", 1)
+    whole(sign, "sign", choices=(1, -1))
     out, f = [], 1
     for n in range(orders):           # running product: math.factorial per term is O(n^2) digits
         if n:
@@ -61,8 +60,8 @@ def borel_sum(x, ctx: Optional[Context] = None) -> Estimate:
     vals = []
     for c in (ctx, ctx.higher()):
         with c.working():
-            xx = mpmath.mpmathify(x)
-            if not (xx > 0):
+            xx = number(x, "x")
+            if isinstance(xx, mpmath.mpc) or not xx > 0:
                 raise InputError(f"x: the Borel sum is evaluated for real x > 0, got {x}")
             vals.append(mpmath.exp(1 / xx) * mpmath.e1(1 / xx) / xx)
     with ctx.higher().working():
@@ -71,7 +70,7 @@ def borel_sum(x, ctx: Optional[Context] = None) -> Estimate:
 
 
 def truth(ctx: Context, points: Sequence, sign: int = -1, **params) -> list:
-    if sign != -1:
+    if whole(sign, "sign", choices=(1, -1)) != -1:
         raise InputError("sign = 1: sum n! x^n is not Borel summable for x > 0 (the Borel transform "
                          "1/(1 - t) has a pole on the integration path and the lateral sums are complex); "
                          "a finite-coupling value exists only for the alternating series (sign = -1)")

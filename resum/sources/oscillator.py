@@ -46,6 +46,7 @@ from ..progress import report
 from ..results import Estimate, Provenance, Status, num_to_str
 from ..results import longest_number
 from ..series.core import Series
+from ._params import number, whole
 
 __all__ = ["rs_coefficients", "series", "energy", "EnergyResult", "MAX_ORDERS"]
 
@@ -57,14 +58,8 @@ MAX_STATE = 200
 
 
 def _check(state, orders):
-    if isinstance(state, bool) or not isinstance(state, int) or state < 0:
-        raise InputError(f"state: expected a whole number >= 0, got {state!r}")
-    if state > MAX_STATE:
-        raise InputError(f"state: at most {MAX_STATE}, got {state}")
-    if isinstance(orders, bool) or not isinstance(orders, int) or orders < 1:
-        raise InputError(f"orders: expected a whole number >= 1, got {orders!r}")
-    if orders > MAX_ORDERS:
-        raise InputError(f"orders: at most {MAX_ORDERS}, got {orders}")
+    whole(state, "state", 0, MAX_STATE)
+    whole(orders, "orders", 1, MAX_ORDERS)
 
 
 def rs_coefficients(state: int = 0, orders: int = 100) -> list:
@@ -337,14 +332,12 @@ def energy(g, state: int = 0, ctx: Optional[Context] = None, max_basis: int = 20
     precision eigenvalues of this Hamiltonian).
     """
     ctx = ctx or DEFAULT
-    if isinstance(state, bool) or not isinstance(state, int) or state < 0:
-        raise InputError(f"state: expected a whole number >= 0, got {state!r}")
-    if isinstance(max_basis, bool) or not isinstance(max_basis, int) or max_basis < 24:
-        raise InputError(f"max_basis: expected a whole number >= 24, got {max_basis!r}")
+    whole(state, "state", 0)
+    whole(max_basis, "max_basis", 24)
     if 2 * (state // 2) + 24 > max_basis:
         raise InputError(f"state {state} needs a basis larger than max_basis = {max_basis}")
     with ctx.working(10):
-        gv = _parse_real(g, ctx.work_dps + 10)
+        gv = number(g, "g", ctx.work_dps + 10)
         if isinstance(gv, mpmath.mpc) or not mpmath.isfinite(gv) or gv < 0 or gv > mpmath.mpf(10) ** 8:
             raise InputError(f"g: the spectrum is computed for real 0 <= g <= 1e8, got {g}")
         parity = state % 2
@@ -380,23 +373,6 @@ def energy(g, state: int = 0, ctx: Optional[Context] = None, max_basis: int = 20
                             history[-2]["basis"] if len(history) > 1 else 0, w, round(agree, 2),
                             {"history": history, "how": "band = 3 |E(basis) - E(basis_check)| below, "
                                                         "Ritz upper bound above"}, prov)
-
-
-def _parse_real(g, dps):
-    from ..series.expr import evaluate_expression
-    if isinstance(g, bool):
-        raise InputError("g: expected a number, got a boolean")
-    if isinstance(g, str):
-        try:
-            g = evaluate_expression(g, dps=dps).value
-        except InputError as exc:
-            raise exc.at("g") from None
-    if isinstance(g, Fraction):
-        return mpmath.mpf(g.numerator) / g.denominator
-    try:
-        return mpmath.mpmathify(g)
-    except (TypeError, ValueError):
-        raise InputError(f"g: expected a number, got {g!r}") from None
 
 
 def _frequency(g):

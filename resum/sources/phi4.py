@@ -40,6 +40,7 @@ from ..context import DEFAULT, Context
 from ..errors import InputError
 from ..results import Estimate
 from ..series.core import Series
+from ._params import number, whole
 
 __all__ = ["coefficients", "series", "closed_form", "value"]
 
@@ -50,8 +51,7 @@ def coefficients(orders: int) -> list:
     >>> [str(c) for c in coefficients(4)]
     ['1', '-3/4', '105/32', '-3465/128']
     """
-    if isinstance(orders, bool) or not isinstance(orders, int) or orders < 1:
-        raise InputError(f"orders: expected a whole number >= 1, got {orders!r}")
+    whole(orders, "orders", 1)
     out = [Fraction(1)]
     # a_n / a_{n-1} = -(4n-1)(4n-3)/(4 n)
     for n in range(1, orders):
@@ -81,14 +81,7 @@ def closed_form(g, ctx: Optional[Context] = None):
     """
     ctx = ctx or DEFAULT
     with ctx.working():
-        if isinstance(g, bool):
-            raise InputError(f"g: expected a number, got {g!r}")
-        try:
-            g = mpmath.mpmathify(g)
-        except (TypeError, ValueError):
-            raise InputError(f"g: expected a number, got {g!r}") from None
-        if not mpmath.isfinite(g):
-            raise InputError(f"g: must be finite, got {g}")
+        g = number(g, "g")
         if mpmath.re(g) <= 0:
             raise InputError(f"g: the closed form needs Re g > 0, got {g}")
         y = 1 / (8 * g)
