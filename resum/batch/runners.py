@@ -221,8 +221,14 @@ class DaskRunner:
             # a crashing one as well)
             with dask.config.set({"distributed.scheduler.allowed-failures": 0,
                                   "distributed.scheduler.worker-saturation": 1.0}):
+                # no dashboard, and the scheduler's own HTTP endpoints (health, metrics) on a free
+                # loopback port: by default they take port 8787 and, when another cluster on the
+                # machine holds it (a second run, a test suite running beside this one), warn and
+                # move; under warnings-as-errors (the test suite) that warning failed the start
                 cluster = LocalCluster(n_workers=self.jobs, threads_per_worker=1, processes=True,
-                                       dashboard_address=None, silence_logs=50)
+                                       dashboard_address=None, silence_logs=50,
+                                       scheduler_kwargs={"dashboard": False,
+                                                         "dashboard_address": "127.0.0.1:0"})
             return Client(cluster), cluster
         try:
             return Client(self.address, timeout="10s"), None

@@ -27,9 +27,9 @@ def run_study(here: Path, argv=None):
         cmd += ["--jobs", str(a.jobs)]
     if a.cluster:
         cmd += ["--cluster", a.cluster]
-    t = time.time()
+    t = time.monotonic()
     rc = main(cmd)
-    return RunFolder(out).records(), time.time() - t, rc
+    return RunFolder(out).records(), time.monotonic() - t, rc
 
 
 def est(d):

@@ -64,7 +64,8 @@ def compute_point(spec: FamilySpec, index: int, runner: str = "") -> dict:
     from .tasks import TASKS
     from .spec import resolve_source
 
-    started = time.time()
+    started = time.time()            # when (for the record); durations by the monotonic clock
+    t0 = time.perf_counter()
     rec = _base(spec, index)
     seconds = {}
     rec["tasks"] = {}
@@ -108,7 +109,7 @@ def compute_point(spec: FamilySpec, index: int, runner: str = "") -> dict:
         rec["error"] = {"step": step, "type": type(exc).__name__, "message": str(exc).strip()
                         .splitlines()[0] if str(exc).strip() else type(exc).__name__,
                         "traceback": traceback.format_exc()}
-    seconds["total"] = time.time() - started
+    seconds["total"] = time.perf_counter() - t0
     rec["run"] = _run_info(started, seconds, runner)
     return rec
 

@@ -40,7 +40,7 @@ def test_quiet_and_rate_limited():
 
 def test_terminal_redraws_in_place():
     s = _Tty()
-    p = Progress(2, stream=s)
+    p = Progress(2, stream=s, refresh=0)      # no timer thread: only the draws of the calls below
     p.started()
     p.finished(True, running=0)
     p.close()
@@ -49,7 +49,9 @@ def test_terminal_redraws_in_place():
     assert "2/2 done" not in out.split("\r")[1]
 
 
-def _wait_for(cond, timeout=5.0):
+def _wait_for(cond, timeout=120.0):
+    """Poll ``cond`` until it holds; the timeout only bounds a broken test (a loaded machine
+    merely gets there later)."""
     import time
     end = time.monotonic() + timeout
     while time.monotonic() < end and not cond():
@@ -57,32 +59,38 @@ def _wait_for(cond, timeout=5.0):
     return cond()
 
 
+def _tickers(threads=None):
+    """This module's redraw threads among ``threads`` (default: all alive). Counting every thread
+    of the process instead (threading.active_count()) also counts threads of other tests (dask's,
+    a pool's) that start or end meanwhile."""
+    import threading
+    return {t for t in (threading.enumerate() if threads is None else threads)
+            if t.name == "resum-progress"}
+
+
 def test_terminal_line_is_redrawn_while_points_run():
     # the elapsed time moves on a terminal between a point's start and its end
-    import threading
-    import time
     s = _Tty()
-    before = threading.active_count()
     p = Progress(3, stream=s, refresh=0.05)
     p.started()
     n0 = s.getvalue().count("\r")
     assert _wait_for(lambda: s.getvalue().count("\r") >= n0 + 3)
+    ticker = p._ticker
+    assert ticker in _tickers()
     p.close()
-    assert _wait_for(lambda: threading.active_count() == before)
+    assert not ticker.is_alive()           # close() joined it: nothing can draw after the end
     done = s.getvalue()
-    time.sleep(0.2)
-    assert s.getvalue() == done and done.endswith("\n")     # nothing drawn after the end
+    assert done.endswith("\n") and done.count("\n") == 1
 
 
 def test_no_redraw_thread_off_a_terminal_or_when_quiet():
-    import threading
     import time
-    before = threading.active_count()
-    for p, s in ((Progress(3, stream=io.StringIO(), refresh=0.01, log_every=3600), None),
-                 (Progress(3, stream=_Tty(), refresh=0.01, quiet=True), None)):
+    before = _tickers()
+    for p in (Progress(3, stream=io.StringIO(), refresh=0.01, log_every=3600),
+              Progress(3, stream=_Tty(), refresh=0.01, quiet=True)):
         p.started()
-        assert threading.active_count() == before
-        time.sleep(0.05)
+        assert p._ticker is None and _tickers() <= before
+        time.sleep(0.05)    # would be five redraws of a ticker, if one had been started
         assert p.stream.getvalue().count("\n") == 0 and "\r" not in p.stream.getvalue()
         p.close()
 

@@ -20,12 +20,19 @@ from resum.batch import (ProcessRunner, SerialRunner, parse_spec, run_family, st
 from resum.commands.family import main
 from resum.errors import InputError
 
+from .family_sources import wait_until_held
+
 ROOT = Path(__file__).resolve().parents[2]
 SRC = "tests.batch.family_sources:binomial"
 
 
-def spec_text(radii, orders=40, delay=0, extra_fixed=""):
+def spec_text(radii, orders=40, extra_fixed="", gate=None, free=0):
+    """A spec of the binomial source; ``gate`` (a folder) and ``free``: the run holds after
+    ``free`` points until the test opens the gate (tests/batch/family_sources.py)."""
     vals = ", ".join(f'"{r}"' if isinstance(r, str) else str(r) for r in radii)
+    if gate is not None:
+        Path(gate).mkdir(parents=True, exist_ok=True)
+        extra_fixed = f"gate = {json.dumps(str(gate))}\nfree = {free}\n{extra_fixed}"
     return f"""
 [study]
 name = "runs"
@@ -33,7 +40,6 @@ source = "{SRC}"
 dps = 30
 [fixed]
 orders = {orders}
-delay = {delay}
 {extra_fixed}
 [axes]
 radius = {{ values = [{vals}] }}
@@ -122,6 +128,22 @@ def test_dask_local_cluster_identical(tmp_path):
     assert {r["run"]["runner"] for r in b.values()} == {"dask"}
 
 
+def test_local_cluster_takes_no_fixed_port():
+    # a local cluster's scheduler served its HTTP endpoints on port 8787 by default: with another
+    # cluster on the machine holding it (a test suite beside this one) dask warned and moved, and
+    # under warnings-as-errors the cluster failed to start ("Port 8787 is already in use"); it
+    # now listens on a free loopback port and starts whoever holds 8787
+    pytest.importorskip("distributed")
+    from resum.batch import DaskRunner
+    runner = DaskRunner("local:1")
+    runner.prepare()
+    try:
+        http = runner._conn[1].scheduler.http_server
+        assert http.port != 8787 and http.address == "127.0.0.1"
+    finally:
+        runner.close()
+
+
 def test_dead_worker_is_recorded_and_the_rest_finish(tmp_path):
     text = spec_text([1, 2], extra_fixed="")
     text = text.replace('exponent = { values = ["1/2", 2] }',
@@ -198,7 +220,10 @@ def test_reuse_of_a_folder(tmp_path):
 @pytest.mark.parametrize("how", ["kill", "interrupt"])
 def test_killed_run_resumes_without_loss(tmp_path, how):
     spec_path = tmp_path / "spec.toml"
-    spec_path.write_text(spec_text([1, 2, 3, 4, 5], delay=0.25))
+    gate = tmp_path / "gate"
+    # three points pass, the fourth waits at the gate until the test opens it: the signal
+    # reaches the run there, however slowly a loaded machine got it that far
+    spec_path.write_text(spec_text([1, 2, 3, 4, 5], gate=gate, free=3))
     out = tmp_path / "o"
     # Ctrl-C as at a terminal: a test run started in the background by a shell without job
     # control inherits SIGINT ignored, and Python then never raises KeyboardInterrupt
@@ -206,17 +231,22 @@ def test_killed_run_resumes_without_loss(tmp_path, how):
                              "-o", str(out), "--jobs", "1", "--no-plots"], cwd=ROOT,
                             stdout=subprocess.DEVNULL, stderr=subprocess.PIPE,
                             preexec_fn=lambda: signal.signal(signal.SIGINT, signal.SIG_DFL))
-    deadline = time.time() + 30
-    while time.time() < deadline and len(list((out / "points").glob("p*.json"))) < 3:
-        time.sleep(0.05)
-    proc.send_signal(signal.SIGKILL if how == "kill" else signal.SIGINT)
-    rc = proc.wait(timeout=30)
-    proc.stderr.close()
+    try:
+        held = wait_until_held(gate, out / "points", free=3, waiting=1, proc=proc)
+        proc.send_signal(signal.SIGKILL if how == "kill" else signal.SIGINT)
+        rc = proc.wait(timeout=120)
+    finally:
+        if proc.poll() is None:
+            proc.kill()
+            proc.wait()
+        proc.stderr.close()
+    assert held, "the run did not reach the gate with 3 points done"
     assert rc == (-signal.SIGKILL if how == "kill" else 130)
     before = {p.name: (p.read_bytes(), p.stat().st_mtime_ns) for p in (out / "points").glob("p*.json")}
-    assert 3 <= len(before) < 10
+    assert len(before) == 3
     for raw, _ in before.values():
         json.loads(raw)   # every record on disk is complete
+    (gate / "open").touch()
     rc = main([str(spec_path), "-o", str(out), "--jobs", "1", "--resume", "--no-plots", "--json"])
     assert rc == 0
     after = {p.name: (p.read_bytes(), p.stat().st_mtime_ns) for p in (out / "points").glob("p*.json")}
@@ -248,20 +278,25 @@ def test_killed_pool_run_leaves_no_workers(tmp_path):
     # SIGKILL of the main process gives it no chance to clean up: the workers must notice
     # on their own and end, instead of living on (and holding the terminal's pipes)
     spec_path = tmp_path / "spec.toml"
-    spec_path.write_text(spec_text([1, 2, 3, 4, 5], delay=1))
+    gate = tmp_path / "gate"
+    # one point passes, the next two wait at the gate in their worker processes: the kill
+    # lands with workers alive, however loaded the machine
+    spec_path.write_text(spec_text([1, 2, 3, 4, 5], gate=gate, free=1))
     out = tmp_path / "o"
     proc = subprocess.Popen([sys.executable, "-m", "resum.commands.family", str(spec_path),
                              "-o", str(out), "--jobs", "2", "--no-plots"], cwd=ROOT,
                             stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL)
-    deadline = time.time() + 30
-    while time.time() < deadline and not list((out / "points").glob("p*.json")):
-        time.sleep(0.05)
-    below = _descendants(proc.pid)
+    try:
+        held = wait_until_held(gate, out / "points", free=1, waiting=2, proc=proc)
+        below = _descendants(proc.pid)
+    finally:
+        proc.kill()
+        proc.wait(timeout=120)
+    assert held, "the run did not reach the gate with 1 point done"
     assert below, "no worker processes seen"
-    proc.kill()
-    proc.wait(timeout=30)
-    deadline = time.time() + 15
-    while time.time() < deadline and _alive(below):
+    # the workers end when they see their parent gone (at once; the bound is for a broken run)
+    deadline = time.monotonic() + 120
+    while time.monotonic() < deadline and _alive(below):
         time.sleep(0.1)
     assert not _alive(below), f"worker processes left running: {sorted(_alive(below))}"
 
@@ -539,29 +574,32 @@ def test_sigterm_ends_a_scan_like_ctrl_c(tmp_path):
     # finished points and the summary stay, the workers end, --resume goes on. Exit code
     # 128 + 15 for a program ended by SIGTERM: common practice, no source.
     spec_path = tmp_path / "spec.toml"
-    spec_path.write_text(spec_text([1, 2, 3, 4, 5], delay=0.3))
+    gate = tmp_path / "gate"
+    # three points pass, the next two wait at the gate in their worker processes
+    spec_path.write_text(spec_text([1, 2, 3, 4, 5], gate=gate, free=3))
     out = tmp_path / "o"
     env = {**os.environ, "PYTHONPATH": str(ROOT)}
     proc = subprocess.Popen([sys.executable, "-m", "resum", "scan", str(spec_path), "-o", str(out),
                              "--jobs", "2", "--no-plots"], cwd=tmp_path, env=env,
                             stdout=subprocess.PIPE, stderr=subprocess.PIPE, start_new_session=True)
+    err = b""
     try:
-        deadline = time.time() + 60
-        while time.time() < deadline and len(list((out / "points").glob("p*.json"))) < 3:
-            time.sleep(0.05)
+        held = wait_until_held(gate, out / "points", free=3, waiting=2, proc=proc)
         proc.send_signal(signal.SIGTERM)
-        _, err = proc.communicate(timeout=30)
+        _, err = proc.communicate(timeout=120)
     finally:
         if proc.poll() is None:
             os.killpg(proc.pid, signal.SIGKILL)
             proc.communicate()
     err = err.decode()
+    assert held, "the run did not reach the gate with 3 points done"
     assert proc.returncode == 143, err
     assert "Traceback" not in err and "rerun with --resume" in err
     summary = json.loads((out / "summary.json").read_text())      # written on the way out
     before = {p.name: p.read_bytes() for p in (out / "points").glob("p*.json")}
-    assert 3 <= len(before) < 10 and summary["counts"]["recorded"] == len(before)
+    assert len(before) == 3 and summary["counts"]["recorded"] == len(before)
     assert not list((out / "points").glob(".*.tmp"))
+    (gate / "open").touch()
     assert main([str(spec_path), "-o", str(out), "--jobs", "1", "--resume", "--no-plots", "--json"]) == 0
     after = {p.name: p.read_bytes() for p in (out / "points").glob("p*.json")}
     assert len(after) == 10 and all(after[k] == v for k, v in before.items())
