@@ -179,6 +179,26 @@ def test_bes_family_intermediate_angles(angle):
         _check(near.exponent, Fraction(1, 2), 1e-6)
 
 
+def test_bes_family_short_series_radius_band_holds():
+    # angle-deformed BES kernel at a = pi/5 from 36 and 40 loops (30 digits). The radius in
+    # x = g^2 is 1/16 at every angle: at a = 0 the function is (2/pi^2) log cosh(2 pi g)
+    # (Belitsky and Korchemsky, arXiv:1907.13131), singular where cosh(2 pi g) = 0, g = +-i/4; at
+    # other angles the kernel K_ij is built from J_i(2gt) J_j(2gt)/(e^t - 1), and for g = i y
+    # the Bessel products grow like e^(4 y t), so the integrals first diverge at y = 1/4
+    # (common practice, no source). Regression: the ratio intercept creeps towards -16 like a
+    # non-integer power of 1/n, its Neville columns never settle, and the combined band was
+    # 0.06250016(13) (36 loops) and 0.06250014(8) (40 loops), both missing 1/16.
+    bes = pytest.importorskip("resum.sources.bes")
+    from resum.estimators.ratio import estimate_ratio
+    ctx = Context(dps=30)
+    s36 = bes.weak_coupling_series("pi/5", 36, ctx)
+    r = analyze(s36, ctx)
+    _check(r.radius, Fraction(1, 16), 1e-6)
+    for loops in (36, 40):
+        m = estimate_ratio(bes.weak_coupling_series("pi/5", loops, ctx), ctx)
+        _check(m.radius, Fraction(1, 16), 2e-6)        # ratio alone: 0.06250016(13), 0.06250014(4) before
+
+
 def test_contract_and_round_trip():
     r = analyze(Series(catalan(30)), Context(dps=30), verify=False)
     doc = json.loads(json.dumps(r.contract_dict()))

@@ -30,7 +30,11 @@ which removes the half-integer powers that confluent corrections bring; if
 the two extrapolations differ by more than the band, the band becomes twice
 their difference. Bands: safety factor (2) times the spread of the
 last entries of the chosen Neville column and its change to the next
-column, never below the amplified coefficient noise; the exponent band also
+column, never below the amplified coefficient noise; and never below what is
+left of a steady movement of the columns with the order (a correction
+``n^-Delta`` with ``Delta`` not a multiple of 1/2, which neither table removes,
+makes the columns creep one way with steps that shrink like a power of the
+order; :func:`resum.estimators._extrap.column_tail`). The exponent band also
 carries the effect of the intercept's band.
 
 Applicability: one dominant real singularity (or, for ``s = 2``, a dominant
@@ -191,19 +195,21 @@ def _ratio_step(c, step, eps, parity=None):
     # confluent corrections make z_n - mu^s contain half-integer powers of 1/n, which a table
     # in 1/n does not remove; a table in 1/sqrt(n) does (at some cost in sharpness). Their
     # difference is added to the band.
-    sq, sq_half, _, _ = extrapolate([mpmath.sqrt(n) for n in wn], wz, noise)
+    sq, sq_half, _, info_sq = extrapolate([mpmath.sqrt(n) for n in wn], wz, noise)
     confluent_shift = abs(sq - mus)
-    confluent = confluent_shift > max(mu_half, sq_half)     # both settled, and they disagree
+    # both settled, and they disagree (judged on the bands without the columns' tail, which
+    # is there for a correction that neither table removes; see _extrap.column_tail)
+    confluent = confluent_shift > max(info_mu["settled_half"], info_sq["settled_half"])
     if confluent:
-        mu_half = SAFETY * confluent_shift
+        mu_half = max(mu_half, SAFETY * confluent_shift)
     # exponent: g_n = n (z_n / mu^s - 1) / s  ->  -(1 + theta)
     g_of = lambda m: [n * (zz / m - 1) / step for n, zz in zip(wn, wz)]  # noqa: E731
     g_noise = [n * noise * 2 for n in wn]
     g, g_half, k_g, info_g = extrapolate(wn, g_of(mus), noise, noise=[abs(x) for x in g_noise])
-    gs, gs_half, _, _ = extrapolate([mpmath.sqrt(n) for n in wn], g_of(mus), noise,
-                                    noise=[abs(x) for x in g_noise])
-    if abs(gs - g) > max(g_half, gs_half):
-        g_half = SAFETY * abs(gs - g)
+    gs, gs_half, _, info_gs = extrapolate([mpmath.sqrt(n) for n in wn], g_of(mus), noise,
+                                          noise=[abs(x) for x in g_noise])
+    if abs(gs - g) > max(info_g["settled_half"], info_gs["settled_half"]):
+        g_half = max(g_half, SAFETY * abs(gs - g))
     elif confluent:
         # half-integer corrections seen in the intercept: the exponent is only as good as
         # the cruder of the two tables
@@ -394,7 +400,8 @@ def estimate_ratio(series, ctx=None, step=None):
         how = (f"Ratios z_n = c_n/c_(n-{s}) over n = {r['ns'][0]}..{r['ns'][-1]}; intercept mu^{s} and "
                f"exponent extrapolated in 1/n by Neville tables, order chosen where the last 4 entries "
                f"agree best; band = {SAFETY} x (spread of those entries, change to the next order, "
-               "noise floor); exponent band includes the intercept's band; a steady drift of either "
+               "noise floor, what is left of a steady movement of the columns with the order); exponent "
+               "band includes the intercept's band; a steady drift of either "
                f"between N/2, N/sqrt(2) and N terms extends the band (x {SAFETY}) in its direction by what "
                "is left of it if it shrinks geometrically (by at most 0.8 per step), or, if it shrinks "
                "more slowly, like 1/log N, whichever is more.")

@@ -252,3 +252,39 @@ def test_a_logarithmic_correction_keeps_the_exponent_in_the_band():
     assert s.re.contains(1)
     assert s.exponent.contains(-1) and s.exponent.width < 1
     assert "still drifting" in s.note
+
+
+def test_neville_band_covers_a_correction_of_non_integer_order():
+    # a_n = -16 (1 - 1.4/n + 0.3 n^-1.4 + 0.5/n^2), n = 18..36: limit -16 (closed form, common
+    # practice, no source). No column of a Neville table in 1/n removes n^-1.4: the columns'
+    # last entries creep towards -16 with steps that shrink like a power of the order, and the
+    # spread within the chosen column (order 12, the top of the table) sees only the last step.
+    # Before the band counted the rest of that movement it read -15.99965(11), missing -16.
+    from resum.estimators._extrap import extrapolate
+    with workdps(30):
+        ns = list(range(18, 37))
+        a = [-16 * (1 - mpmath.mpf("1.4") / n + mpmath.mpf("0.3") * mpmath.mpf(n) ** mpmath.mpf("-1.4")
+                    + mpmath.mpf("0.5") / n ** 2) for n in ns]
+        v, half, k, info = extrapolate(ns, a, mpmath.mpf(10) ** -30)
+        assert abs(v + 16) <= half, (v, half)
+        assert half < 4 * abs(v + 16)                  # not uselessly wide
+        assert info["column_tail"] > 0
+        # integer powers of 1/n only: the columns settle, no tail and the band stays sharp
+        b = [1 + mpmath.mpf(3) / n - mpmath.mpf(2) / n ** 2 + mpmath.mpf(5) / n ** 3 for n in ns]
+        v, half, k, info = extrapolate(ns, b, mpmath.mpf(10) ** -30)
+        assert info["column_tail"] == 0 and abs(v - 1) <= half < 1e-20
+
+
+@pytest.mark.parametrize("theta,delta,amp,n", [(Fraction(1, 3), Fraction(1, 3), 2, 48),
+                                               (Fraction(3, 4), Fraction(3, 5), 1, 36),
+                                               (Fraction(2, 5), Fraction(1, 5), -1, 48)])
+def test_radius_band_holds_with_a_confluent_term_of_non_integer_order(theta, delta, amp, n):
+    # (1 + 16x)^theta + amp (1 + 16x)^(theta + delta): radius 1/16 (binomial series, common
+    # practice, no source). c_n carries a correction n^-delta (delta not a multiple of 1/2), which
+    # neither the table in 1/n nor the one in 1/sqrt(n) removes; the ratio band read
+    # 0.0624959(19), 0.0625014(6) and 0.062504(3), each missing 1/16, before it counted what is
+    # left of the Neville columns' steady movement (resum/estimators/_extrap.py, column_tail)
+    cs = [x + amp * y for x, y in zip(binomial_power(theta, n, scale=-16),
+                                      binomial_power(theta + delta, n, scale=-16))]
+    r = estimate_ratio(Series(cs), Context(dps=30))
+    _check(r.radius, Fraction(1, 16), 1e-4)
