@@ -339,6 +339,10 @@ def _result_fields(rec: dict, n_sing: int) -> dict:
             if not isinstance(d, dict):
                 continue
             row[f"strong_{kind}_status"] = d.get("status", "")
+            if d.get("spacing") is not None:
+                # the step S between the fitted powers p, p - S, ... (chosen automatically unless
+                # the spec gives it): which form the coefficients belong to
+                row[f"strong_{kind}_spacing"] = d["spacing"]
             _est(f"strong_{kind}_power", d.get("leading_power"), row)
             co = d.get("coefficients") or {}
             lead = leading_label(co)
