@@ -53,7 +53,9 @@ def _wait_for(cond, timeout):
                          ids=["server-starting", "workers-running", "twice"])
 def test_ctrl_c_with_worker_processes(tmp_path, servers, presses):
     f = tmp_path / "log.json"       # log(1+x)/x = sum (-1)^k x^k/(k+1) (common practice, no source)
-    f.write_text(json.dumps({"coefficients": [f"{(-1) ** k}/{k + 1}" for k in range(60)]}))
+    # 200 terms: long enough (~10 s) that a loaded machine cannot finish the analysis between
+    # seeing the workers and the Ctrl-C (with 60 terms it once did)
+    f.write_text(json.dumps({"coefficients": [f"{(-1) ** k}/{k + 1}" for k in range(200)]}))
     env = {**os.environ, "RESUM_JOBS": "2", "PYTHONPATH": str(ROOT)}
     env.pop("PYTHONWARNINGS", None)
     proc = subprocess.Popen([sys.executable, "-m", "resum", "analyze", str(f)], cwd=tmp_path, env=env,
