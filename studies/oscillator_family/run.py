@@ -20,19 +20,11 @@ import mpmath  # noqa: E402
 from resum.batch.studyrun import bands_overlap, est, run_study, table  # noqa: E402
 
 
-def _quartic_levels(k, n, lam=0.0, L=8.0):
-    """The k lowest levels of p^2 + y^4 + lam y^2 on [-L, L] (Dirichlet): fourth-order central
-    differences, -f'' ~ (-f[i-2] + 16 f[i-1] - 30 f[i] + 16 f[i+1] - f[i+2]) / (12 h^2), on n
-    inner points (common practice, no source), a banded symmetric eigenproblem (scipy)."""
-    import numpy as np
-    from scipy.linalg import eig_banded
-    y = np.linspace(-L, L, n + 2)[1:-1]
-    h = y[1] - y[0]
-    ab = np.zeros((3, n))
-    ab[0] = 30 / (12 * h * h) + y ** 4 + lam * y * y
-    ab[1, :-1] = -16 / (12 * h * h)
-    ab[2, :-2] = 1 / (12 * h * h)
-    return eig_banded(ab, lower=True, select="i", select_range=(0, k - 1), eigvals_only=True)
+def _quartic_levels(k, n, lam=0.0):
+    """The k lowest levels of p^2 + y^4 + lam y^2 by finite differences (scipy), the tests' own
+    outside reference (tests/known_series.py: quartic_levels)."""
+    from tests.known_series import quartic_levels
+    return quartic_levels(k, n, lam)
 
 
 def quartic_reference(k):

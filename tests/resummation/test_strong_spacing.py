@@ -12,9 +12,7 @@ import json
 from fractions import Fraction
 
 import mpmath
-import numpy as np
 import pytest
-from scipy.linalg import eig_banded
 
 from resum.cli import main
 from resum.commands.strong import _render
@@ -24,23 +22,16 @@ from resum.estimators.strong_coupling import StrongCouplingResult, probe_strong_
 from resum.results import Estimate
 from resum.series import Series
 from resum.sources import oscillator
+from tests.known_series import quartic_levels
 
 E0, E1 = "1.0603620905", "3.7996730298"          # levels of p^2 + y^4, from memory
 FD_TOL = 1e-8
 
 
 def _quartic(lam=0.0, n=2000, L=8.0):
-    """The two lowest levels of p^2 + y^4 + lam y^2 on [-L, L] (Dirichlet), fourth-order central
-    differences (-f'' ~ (-f[i-2] + 16 f[i-1] - 30 f[i] + 16 f[i+1] - f[i+2]) / (12 h^2)) on n
-    inner points; measured against the values above, the error is below 3e-9 at n = 2000, L = 8
-    (h = 0.008; 4e-8 at n = 1000, where it falls like h^4): FD_TOL = 1e-8."""
-    y = np.linspace(-L, L, n + 2)[1:-1]
-    h = y[1] - y[0]
-    ab = np.zeros((3, n))
-    ab[0] = 30 / (12 * h * h) + y ** 4 + lam * y * y
-    ab[1, :-1] = -16 / (12 * h * h)
-    ab[2, :-2] = 1 / (12 * h * h)
-    return eig_banded(ab, lower=True, select="i", select_range=(0, 1), eigvals_only=True)
+    """The two lowest levels of p^2 + y^4 + lam y^2 (:func:`tests.known_series.quartic_levels`);
+    FD_TOL = 1e-8 covers its error at n = 2000."""
+    return quartic_levels(2, n, lam, L)
 
 
 def _y2(d=1e-4):
