@@ -368,7 +368,7 @@ def _combine_group(g, warnings, exact=frozenset()):
         rel_exps = [s for s in exps if _exponent_reliable(s)] or exps
         low = min(rel_exps, key=lambda s: s.exponent.value)
         if low is not eb and not _overlap(eb.exponent, low.exponent):
-            warnings.append(f"two exponents at {mpmath.nstr(mpmath.mpc(best.re.value, best.im.value), 8)}: "
+            warnings.append(f"two exponents at {point_text(mpmath.mpc(best.re.value, best.im.value), 8)}: "
                             f"{low.exponent} ({low.method}) and {eb.exponent} ({eb.method}); the smaller "
                             "dominates the growth of the coefficients and is reported, the larger may be "
                             "a subleading singular term; the band covers both")
@@ -376,7 +376,7 @@ def _combine_group(g, warnings, exact=frozenset()):
                              max(theta.upper, low.exponent.upper))
             theta_from = low.method
         if "exponent still drifting" in (eb.note or ""):
-            warnings.append(f"the exponent near {mpmath.nstr(mpmath.mpc(best.re.value, best.im.value), 8)} "
+            warnings.append(f"the exponent near {point_text(mpmath.mpc(best.re.value, best.im.value), 8)} "
                             f"({eb.method}) still drifts with the number of terms without slowing down: its "
                             "band assumes the drift slows; more terms would tell")
     kind = classify_kind(theta) if theta is not None else best.kind
@@ -384,7 +384,7 @@ def _combine_group(g, warnings, exact=frozenset()):
         kind = "branch"
     loc = mpmath.mpc(re.value, im.value)
     if disagree:
-        warnings.append(f"methods disagree near {mpmath.nstr(loc, 8)}: {', '.join(disagree)} outside the band "
+        warnings.append(f"methods disagree near {point_text(loc, 8)}: {', '.join(disagree)} outside the band "
                         f"of {best.method}; band widened to reach them")
     note = f"location from {best.method}" + (f", exponent from {theta_from}" if theta_from else "") + \
         f"; found by {', '.join(s.method for s in g)}"

@@ -32,7 +32,7 @@ import flint
 import mpmath
 
 from .._kernels.flint_bridge import acb_to_mpc, flint_prec, to_acb
-from ..results import Estimate
+from ..results import Estimate, point_text
 from ._common import first_term_scale
 from ._num import poly_roots
 from .diffapprox import (_deriv_coeffs, _equation_at, _normalisation_vanishes, _residual_ok, exact_equation,
@@ -300,7 +300,7 @@ def _continue(Q, P, K, roots, c, x, dps, n_terms, digits):
     try:
         return _continue_walk(Q, P, K, roots, c, x, dps, n_terms, digits, budget)
     except _TooFar:
-        return None, (f"{mpmath.nstr(x, 6)} is too far out for the walk along the line (more than "
+        return None, (f"{point_text(x, 6)} is too far out for the walk along the line (more than "
                       f"{MAX_WALK_STEPS} Taylor steps, each at most half the distance to the nearest "
                       "singular point of the equation)"), None
 
@@ -323,7 +323,7 @@ def _continue_walk(Q, P, K, roots, c, x, dps, n_terms, digits, budget):
         if z == x:
             return vals[0], "", None
         if min((abs(x - r) for r in roots), default=mpmath.inf) <= ON_PATH * max(1, abs(x)):
-            return None, (f"{mpmath.nstr(x, 10)} is a zero of the equation's leading coefficient (a singular "
+            return None, (f"{point_text(x, 10)} is a zero of the equation's leading coefficient (a singular "
                           "point of the equation): no value there"), None
         direction = (x - z) / abs(x - z)
         tol = mpmath.mpf(10) ** (-digits)
@@ -347,7 +347,7 @@ def _continue_walk(Q, P, K, roots, c, x, dps, n_terms, digits, budget):
             gap = max(abs(a - b) for a, b in zip(up, down)) / scale
             if gap > tol:
                 rr = mpmath.re(r) if abs(mpmath.im(r)) <= tol * abs(r) else r
-                return None, (f"the straight line from 0 to {mpmath.nstr(x, 10)} passes through a zero of the "
+                return None, (f"the straight line from 0 to {point_text(x, 10)} passes through a zero of the "
                               f"equation's leading coefficient at {mpmath.nstr(rr, 10)}, and going round it on "
                               "either side gives different values (a branch point of the function, or an "
                               "equation not known accurately enough there); to pick a side of a cut, give the "

@@ -17,6 +17,7 @@ from __future__ import annotations
 import mpmath
 
 from ..context import workdps
+from ..results import point_text
 
 __all__ = ["render_analysis"]
 
@@ -93,7 +94,7 @@ def _render(r, title):
             if m == stride:
                 roots = [mpmath.root(mpmath.mpc(r.borel_singularity.value), m, k) for k in range(m)]
                 lines.append(f"  (in {var} the terms grow like Gamma(n + b'), with Borel-plane singularities at the "
-                             f"{m} roots of A: " + ", ".join(mpmath.nstr(z, 8) for z in roots) + ")")
+                             f"{m} roots of A: " + ", ".join(point_text(z, 8) for z in roots) + ")")
             else:
                 lines.append(f"  (A: nearest singularity of the Borel transform in u; A < 0 means alternating signs)")
         else:

@@ -52,6 +52,7 @@ from typing import Sequence
 
 import mpmath
 
+from ..results import point_text
 from ._arb import compose_series, rational_series
 
 __all__ = ["ConformalMap", "RayMap", "ArcMap", "PairMap", "StarMap", "choose_map", "crosses_pair_cut",
@@ -413,7 +414,7 @@ class StarMap(ConformalMap):
             else:
                 h = h / 2
                 if h < mpmath.mpf(10) ** -12:
-                    raise ArithmeticError(f"the star map could not be inverted at x = {mpmath.nstr(x, 10)}")
+                    raise ArithmeticError(f"the star map could not be inverted at x = {point_text(x, 10)}")
         return w
 
     def w_of_x(self, x):
