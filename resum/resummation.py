@@ -64,7 +64,7 @@ from typing import Any, Optional
 
 import mpmath
 
-from .context import DEFAULT, Context, checked_context
+from .context import Context, checked_context
 from .errors import InputError
 from .results import Estimate, Provenance, Status, num_to_str, jsonable, point_label, point_text
 from .series.core import Series
@@ -965,7 +965,6 @@ def _run_at(plan: _Plan, c, xs, dps, n_orders, quad_dps, target):
 
 def _run(plan: _Plan, c, xs, dps, n_orders, quad_dps=None, target=None):
     from .estimators.resum_borel import borel_evaluate
-    from .estimators.resum_conformal import conformal_evaluate
     from .estimators.resum_pade import pade_evaluate, partial_sum_evaluate
     # the digits a method may ask of the input: the rerun at higher precision asks for more than
     # inexact input carries (ode: the equation test; borel: which pole-zero pairs on the path are

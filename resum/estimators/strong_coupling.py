@@ -47,7 +47,7 @@ from typing import Optional, Sequence
 
 import mpmath
 
-from ..context import DEFAULT, Context, checked_context, workdps
+from ..context import Context, checked_context, workdps
 from ..errors import InputError
 from ..results import Estimate, Provenance, Status, jsonable, num_to_str
 from ._num import lu_solve

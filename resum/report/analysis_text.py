@@ -80,7 +80,7 @@ def _render(r, title):
     lines.append("")
     lines.append(f"growth of the coefficients: {r.growth or 'undetermined'}")
     if r.growth == "factorial":
-        lines.append(f"  radius of convergence: 0 (divergent series)")
+        lines.append("  radius of convergence: 0 (divergent series)")
         lo = r.methods.get("large-order")
         ld = (lo.diagnostics or {}) if lo is not None else {}
         stride, m = ld.get("stride", 1), ld.get("gamma_multiple", 1)
@@ -96,7 +96,7 @@ def _render(r, title):
                 lines.append(f"  (in {var} the terms grow like Gamma(n + b'), with Borel-plane singularities at the "
                              f"{m} roots of A: " + ", ".join(point_text(z, 8) for z in roots) + ")")
             else:
-                lines.append(f"  (A: nearest singularity of the Borel transform in u; A < 0 means alternating signs)")
+                lines.append("  (A: nearest singularity of the Borel transform in u; A < 0 means alternating signs)")
         else:
             lines.append(f"  c_n ~ S A^-n {gam} with  A = {_fmt(r.borel_singularity)},  "
                          f"b = {_fmt(r.borel_exponent)}")

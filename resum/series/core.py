@@ -394,7 +394,7 @@ class Series:
     def log(self, ctx: Optional[Context] = None) -> "Series":
         """log f (needs f(0) != 0)."""
         if not self.coefficients:
-            raise InputError(f"log of an empty series")
+            raise InputError("log of an empty series")
         a = self._dense_native()
         with _working(ctx, self.digits):
             out = ops.log(a, len(a))
@@ -403,7 +403,7 @@ class Series:
 
     def exp(self, ctx: Optional[Context] = None) -> "Series":
         if not self.coefficients:
-            raise InputError(f"exp of an empty series")
+            raise InputError("exp of an empty series")
         a = self._dense_native()
         with _working(ctx, self.digits):
             out = ops.exp(a, len(a))
