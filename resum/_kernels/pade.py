@@ -762,8 +762,9 @@ class _Block(Exception):
 
 
 def _norm_inf(pol):
+    """Largest |midpoint| of a ball polynomial's coefficients (or of a list of balls)."""
     m = 0
-    for x in pol.coeffs():
+    for x in (pol.coeffs() if hasattr(pol, "coeffs") else pol):
         a = abs(_mid(x))
         if a > m:
             m = a
@@ -1204,12 +1205,9 @@ _RESIDUAL_SAFETY = 1.0
 
 
 def _top_bits(vals):
-    """log2 of the largest |v| among balls or exact numbers (0 if all vanish)."""
-    top = -math.inf
-    for v in vals:
-        m = abs(v)
-        top = max(top, _log2_abs(m.mid() if isinstance(m, _BALL_TYPES) else fb.to_arb(m).mid()))
-    return 0 if top == -math.inf else top
+    """log2 of the largest |midpoint| among balls (0 if all vanish): :func:`_norm_inf` of a list."""
+    top = _norm_inf(vals)
+    return _log2_abs(top.mid()) if top != 0 else 0
 
 
 def _rev_times(b, r, n, P):
