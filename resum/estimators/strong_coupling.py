@@ -348,6 +348,7 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
         else:
             chosen, spacing_source = _choose_spacing(trials)
         (S, S_frac), members, pw = chosen
+        spacing_out = S_frac if S_frac is not None else S     # what the result reports
         p_mp, lp, source, p_est = pw["p"], pw["lp"], pw["source"], pw["estimate"]
         if pw["warning"]:
             warnings.append(pw["warning"])
@@ -362,7 +363,7 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
             return StrongCouplingResult(False, Status.FAILED, "no fit could be made", var, tuple(gs),
                                         tuple(vals), trusted_up_to, lp, source, (),
                                         diagnostics={"spacing_trials": spacing_trials},
-                                        spacing=S_frac if S_frac is not None else S,
+                                        spacing=spacing_out,
                                         spacing_source=spacing_source)
         ok = members
         best = _best_ratio(members)
@@ -428,7 +429,7 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
                 f"{len(trusted)} sharp values up to {var} = {mpmath.nstr(trusted_up_to, 6)}; give "
                 f"more couplings, fewer fit terms (n_terms_fit) or sharper values", var, tuple(gs),
                 tuple(vals), trusted_up_to, lp, source, (), {}, tuple(warnings),
-                {"spacing_trials": spacing_trials}, None, S_frac if S_frac is not None else S, spacing_source)
+                {"spacing_trials": spacing_trials}, None, spacing_out, spacing_source)
         comparison = _compare(coeffs, expected, warnings)
         diag = {"n_fits": len(members), "n_fits_kept": len(ok), "secants": [
             (mpmath.nstr(g, 6), mpmath.nstr(p, 10)) for g, p, _ in secants],
@@ -452,7 +453,7 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
         return StrongCouplingResult(not mismatch, Status.NOT_CONVERGED if mismatch else Status.CONVERGED,
                                     done, var, tuple(gs), tuple(vals),
                                     trusted_up_to, lp, source, tuple(coeffs), comparison, tuple(warnings),
-                                    diag, prov, S_frac if S_frac is not None else S, spacing_source)
+                                    diag, prov, spacing_out, spacing_source)
 
 
 def _leading_power(secants, S, given) -> Optional[dict]:
