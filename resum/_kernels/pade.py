@@ -1218,7 +1218,7 @@ def _rev_times(b, r, n, P):
     return [co[n - 1 - i] for i in range(n)]
 
 
-def _residual_digits(h, L, M, q, q1, cplx, bits):
+def _residual_digits(h, L, M, q, q1, cplx, bits, hb=None):
     """A posteriori digits of the [L/M] approximant with denominator ``q``
     (q(0) = 1) of the series ``h``, given also the denominator ``q1`` of
     [L-1/M] (both lists of exact numbers, midpoints of the recursion).
@@ -1235,13 +1235,15 @@ def _residual_digits(h, L, M, q, q1, cplx, bits):
     and Operators*, Birkhauser (1984)), i.e. four polynomial products at low
     precision. The numerator's error follows as ``(h z)`` truncated.
 
+    ``hb``: the first ``L + M + 1`` coefficients already as (exact) balls.
+
     Returns (p as ball list, digits): digits normwise, as ``PadeApprox.digits``.
     It is an estimate, not a bound: first order in the error, and the inverse
     is built from computed generators (accurate to the digits they carry, far
     more than the one digit the estimate needs)."""
     P = flint.acb_poly if cplx else flint.arb_poly
     n = L + M + 1
-    hb = _balls(h[:n], cplx)
+    hb = _balls(h[:n], cplx) if hb is None else hb[:n]
     with fb.flint_prec(bits + 64):
         H = P(hb)
         Q = P(q)
@@ -1315,15 +1317,15 @@ def _fraction_residual(g, Lg, Mg, dps, tol, cplx, max_prec_bits, start=None):
     if Lg < Mg or Mg < 1:
         return None
     e = Lg - Mg
-    h = g[e:]
     n = 2 * Mg + 1
+    gb = _balls(g[:e + n], cplx)      # exact balls: converted once for the recursion and the check
     prec = start or fb.prec_for_dps(dps + guard_digits_for_pade(n, dps, growth=RESIDUAL_GROWTH))
     final = min(prec, fb.prec_for_dps(dps + _FINAL_MARGIN))
     P = flint.acb_poly if cplx else flint.arb_poly
     while True:
         with fb.flint_prec(prec):
             try:
-                dcoef, term = _cf_coefficients(_balls(h[:n], cplx), 2 * Mg, tol, cplx, final, _MID)
+                dcoef, term = _cf_coefficients(gb[e:], 2 * Mg, tol, cplx, final, _MID)
             except _Block:
                 return None
             if term is not None or len(dcoef) < 2 * Mg:
@@ -1334,7 +1336,7 @@ def _fraction_residual(g, Lg, Mg, dps, tol, cplx, max_prec_bits, start=None):
             q1 = [t.mid() for t in dens[2 * Mg - 1].coeffs()]
         if not q or q[0] != 1:        # B_k(0) = 1 exactly by the recurrence
             return None
-        pl, digs = _residual_digits(g, Lg, Mg, q, q1, cplx, prec)
+        pl, digs = _residual_digits(g, Lg, Mg, q, q1, cplx, prec, gb)
         if digs >= dps or prec >= max_prec_bits:
             break
         delta = int(3.3219 * (1.1 * (dps - digs) + 10))
