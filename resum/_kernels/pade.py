@@ -960,7 +960,6 @@ class _Staircase:
             if _has_zero(f[0]):
                 return
             base = ar.recip(f, n, cplx)
-        T = base[:e]
         g = base[e:]
         Mmax = min(Mmax, (len(g) - 1) // 2)
         if Mmax < 0:

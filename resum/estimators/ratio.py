@@ -526,7 +526,7 @@ def _pair_fit(c, n, D):
         sol = lu_solve(mpmath.matrix(rows), mpmath.matrix(rhs))
     except ZeroDivisionError:
         return None
-    a0, a1 = sol[0], (sol[1] if D >= 1 else 0)
+    a0 = sol[0]
     b0, b1 = sol[D + 1], (sol[D + 2] if D >= 1 else 0)
     if b0 >= 0:
         return None       # mu^2 = -beta_0 must be positive for a conjugate pair

@@ -262,7 +262,7 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
     -------
     StrongCouplingResult
     """
-    from ..resummation import evaluate, _nearest_singularity  # noqa: F401
+    from ..resummation import evaluate
     ctx = checked_context(ctx)
     n_terms_fit = tuple(int(k) for k in n_terms_fit)
     spacing_given = _spacing_arg(spacing, ctx.work_dps)

@@ -25,8 +25,6 @@ import mpmath
 
 sys.path.insert(0, str(Path(__file__).resolve().parents[2]))
 
-import flint  # noqa: E402
-
 from resum._kernels import flint_bridge as fb  # noqa: E402
 from resum._kernels.pade import _inexact_problem, pade  # noqa: E402
 from resum.context import workdps  # noqa: E402

@@ -218,7 +218,7 @@ def test_parameters_with_listed_choices(where, words):
         parse(text)
     for w in words:
         assert w in str(err.value), str(err.value)
-    ok = parse(f'[study]\nname = "e"\nsource = "euler"\n[axes]\nsign = {{ values = [-1, 1] }}\n'
+    ok = parse('[study]\nname = "e"\nsource = "euler"\n[axes]\nsign = { values = [-1, 1] }\n'
                "[tasks.coefficients]\n")
     assert [p.params["sign"] for p in ok.points()] == [-1, 1]
 
