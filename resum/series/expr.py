@@ -173,7 +173,7 @@ class _Parser:
 
     def parse(self):
         if not self.tokens:
-            raise InputError("empty expression")
+            raise InputError("empty expression; give a number or an expression such as pi/3")
         v = self.expr()
         if self.i != len(self.tokens):
             tok = self.peek()

@@ -144,12 +144,19 @@ def _coupling_from_json(obj, variable, where):
 
 
 def _parse_coefficient(text, where, dps, exact_decimals):
+    if text is None:
+        raise InputError("coefficient missing (null); give its value as a string such as \"1/3\" "
+                         "(\"0\" if it vanishes)", where=where)
     if isinstance(text, bool) or not isinstance(text, (str, int)):
-        raise InputError(f"coefficient must be a string or an integer, got {type(text).__name__}",
-                         where=where)
+        # name the JSON type the user wrote, not Python's
+        kind = {list: "a list", dict: "an object", bool: "true/false"}.get(type(text), type(text).__name__)
+        raise InputError(f"coefficient must be a string or an integer, got {kind}; write it as a string "
+                         "such as \"1/3\"", where=where)
     if isinstance(text, int):
         return text, None
     t = text.strip()
+    if not t:
+        raise InputError("coefficient missing (empty); give its value (0 if it vanishes)", where=where)
     low = t.lower()
     if low in ("nan", "+nan", "-nan", "inf", "+inf", "-inf", "infinity", "-infinity"):
         raise InputError(f"coefficient {t!r} is not finite; give a finite number", where=where)
@@ -489,8 +496,16 @@ def _read_plain(text, fname, ctx):
         if m:
             raise InputError(f"header line {m.group(1)!r} after the first coefficient; "
                              "put 'key: value' lines at the top", where=f"{fname}: line {lineno}")
-        v, d = _parse_coefficient(line, f"{fname}: line {lineno}", _parse_dps(meta.get("digits"), ctx),
-                                  meta.get("exact", False))
+        try:
+            v, d = _parse_coefficient(line, f"{fname}: line {lineno}", _parse_dps(meta.get("digits"), ctx),
+                                      meta.get("exact", False))
+        except InputError as e:
+            word = line.split()[0] if line.split() else ""
+            if not coeffs and word in _HEADER_KEYS:
+                # 'variable x' or 'variable = x': a header line without its colon
+                raise InputError(f"{word!r} reads as a header key but the line has no ':'; write "
+                                 f"'{word}: value'", where=f"{fname}: line {lineno}") from None
+            raise e
         coeffs.append(v)
         digs.append(d)
         lines.append(lineno)
