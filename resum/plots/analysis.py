@@ -19,6 +19,7 @@ approximations, not rigorous bounds.
 from __future__ import annotations
 
 import os
+import re
 from typing import List
 
 import mpmath
@@ -216,13 +217,25 @@ def plot_large_order(result, ax=None):
     return ax
 
 
+def figure_stem(name) -> str:
+    """A file-name stem from a series name that needs no quoting in a shell: letters, digits,
+    ``.``, ``+`` and ``-`` kept, every other run of characters one ``_`` ("bes(angle=pi/3)" ->
+    "bes_angle_pi_3", "ising chi" -> "ising_chi"); "series" when nothing is left.
+
+    >>> figure_stem("bes(angle=pi/3)"), figure_stem("ising chi"), figure_stem(None)
+    ('bes_angle_pi_3', 'ising_chi', 'series')
+    """
+    stem = re.sub(r"[^A-Za-z0-9.+-]+", "_", name or "").strip("_.")
+    return stem or "series"
+
+
 def write_analysis_plots(result, series, outdir) -> List[str]:
     """Write every figure that has data to ``outdir`` as PNG; returns the paths."""
     import matplotlib
     matplotlib.use("Agg", force=False)
     import matplotlib.pyplot as plt
     os.makedirs(outdir, exist_ok=True)
-    stem = (series.name or "series").replace(os.sep, "_") if series is not None else "series"
+    stem = figure_stem(series.name if series is not None else None)
     out = []
     jobs = [("complex_plane", plot_complex_plane)]
     if result.growth == "factorial":
