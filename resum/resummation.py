@@ -142,8 +142,27 @@ class PointResult:
     diagnostics: dict = field(default_factory=dict)
 
     @property
+    def complex_value(self) -> bool:
+        """``imag`` is part of the value (a complex point, or a complex-valued function at a real
+        point), not the ambiguity of lateral Borel sums."""
+        if isinstance(self.at, mpmath.mpc) and self.at.imag != 0:
+            return self.imag is not None
+        return self.imag is not None and "S_plus" not in self.diagnostics
+
+    @property
     def digits(self) -> float:
-        return 0.0 if self.value is None else self.value.digits()
+        """Significant digits the band supports: for a complex value relative to its modulus
+        (a real part that vanishes has no relative digit of its own), else those of ``value``.
+        The text report and the JSON ``digits`` both read this."""
+        if self.value is None:
+            return 0.0
+        if not self.complex_value:
+            return self.value.digits()
+        err = max(self.value.error, self.imag.error)
+        if err == 0:
+            return math.inf
+        size = abs(mpmath.mpc(self.value.value, self.imag.value))
+        return 0.0 if size == 0 else max(0.0, float(mpmath.log10(size / err)))
 
     def to_dict(self) -> dict:
         return {"at": num_to_str(self.at, 30), "x": num_to_str(self.x, 30),
@@ -233,7 +252,7 @@ class EvaluationResult:
                 if p.imag is not None:
                     i = p.imag.to_dict()
                     row.update({"im": i["value"], "im_lo": i["lo"], "im_hi": i["hi"]})
-                d = p.value.digits()
+                d = p.digits
                 row["digits"] = "inf" if not math.isfinite(d) else f"{d:.1f}"
                 row["status"] = p.status.value
                 if p.message:

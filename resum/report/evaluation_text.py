@@ -8,6 +8,7 @@ paragraph saying what the band means.
 """
 from __future__ import annotations
 
+import math
 from typing import Optional, Sequence
 
 import mpmath
@@ -95,14 +96,10 @@ def _complex_point(p) -> bool:
 
 def _complex_digits(p) -> str:
     """Digits of a complex value, relative to its modulus (a real part that vanishes, as at
-    x = 2 for 1/(1 - x/(1+i)) = -i, has no relative digit of its own)."""
-    err = max(p.value.error, p.imag.error)
-    size = abs(mpmath.mpc(p.value.value, p.imag.value))
-    if err == 0:
-        return "all"
-    if size == 0:
-        return "0.0"
-    return f"{max(0.0, float(mpmath.log10(size / err))):.1f}"
+    x = 2 for 1/(1 - x/(1+i)) = -i, has no relative digit of its own): ``p.digits``, the same
+    number as the JSON ``digits``."""
+    d = p.digits
+    return "all" if not math.isfinite(d) else f"{d:.1f}"
 
 
 def _abs_est(e):
