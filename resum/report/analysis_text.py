@@ -161,7 +161,7 @@ def _render(r, title):
         lines += [f"  - {w}" for w in r.warnings]
     lines.append("")
     lines.append("how to read the bands: value(error) means value +- error in the last digits shown. "
-                 "Each band is an estimate, not a proof: " + d.get("how", ""))
+                 "Each band is an estimate, not a proof. " + d.get("how", ""))
     return "\n".join(_wrap(l) for l in lines) + "\n"
 
 
