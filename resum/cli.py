@@ -59,6 +59,7 @@ def build_parser() -> argparse.ArgumentParser:
     p = _Parser(prog="resum", description="Singularity analysis and resummation of long "
                                           "perturbative series, with error bands.")
     p.add_argument("--version", action="version", version=f"resum {__version__}")
+    p.commands = {}       # name -> its parser, to word an unknown option under its command
     sub = p.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
     for name, modname in COMMANDS.items():
         try:
@@ -70,6 +71,7 @@ def build_parser() -> argparse.ArgumentParser:
         sp = sub.add_parser(name, help=mod.HELP, description=getattr(mod, "DESCRIPTION", mod.HELP))
         mod.add_arguments(sp)
         sp.set_defaults(_run=mod.run)
+        p.commands[name] = sp
     return p
 
 
@@ -99,7 +101,12 @@ def main(argv: Optional[List[str]] = None) -> int:
     parser = build_parser()
     _Parser.last_error = None
     try:
-        args = parser.parse_args(argv)
+        args, extra = parser.parse_known_args(argv)
+        if extra:
+            # refused by the command's own parser: "resum analyze: error: ... (see 'resum
+            # analyze --help')", where that command's options are listed
+            parser.commands.get(getattr(args, "command", None), parser).error(
+                "unrecognized arguments: " + " ".join(extra))
     except SystemExit as exc:
         code = int(exc.code or 0)
         if code and as_json and _Parser.last_error:

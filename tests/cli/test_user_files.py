@@ -96,3 +96,13 @@ def test_complex_point_digits_agree_between_text_and_json(tmp_path, capsys):
         err = max(re_hi - re_lo, im_hi - im_lo) / 2
         assert abs(float(row["digits"]) - float(mpmath.log10(abs(truth) / err))) < 0.15
         assert float(row["digits"]) > float(mpmath.log10(abs(truth.real) / err)) + 1
+
+
+@pytest.mark.parametrize("cmd", [["analyze"], ["evaluate", "--at", "0.1"], ["strong"]])
+def test_unknown_option_is_worded_by_its_command(tmp_path, capsys, cmd):
+    # the error points at the help that lists this command's options, not the top-level one
+    p = tmp_path / "cat.txt"
+    p.write_text("\n".join(_catalan_lines(30)) + "\n")
+    line = _refused([cmd[0], str(p), *cmd[1:], "--frobnicate"], capsys,
+                    f"resum {cmd[0]}: error:", "--frobnicate", f"'resum {cmd[0]} --help'")
+    assert "'resum --help'" not in line
