@@ -1368,6 +1368,9 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
             cut_map = o.info.pop("cut_map", None)
             if cut_map is not None and cpl is not None:
                 _cut_advice_in_coupling(o, a, x, cpl, cut_map)
+            elif series.variable != "x" and isinstance(o.reason, str) and o.reason.startswith("x = "):
+                # the estimators word a point as "x = ..."; name the file's variable (v = tanh K)
+                o.reason = series.variable + o.reason[1:]
             pdiag = dict(o.info)
             pdiag.pop("method", None)        # a fallback point's method: PointResult.method
             if o.info.get("rim_layer"):

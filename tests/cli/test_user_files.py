@@ -106,3 +106,16 @@ def test_unknown_option_is_worded_by_its_command(tmp_path, capsys, cmd):
     line = _refused([cmd[0], str(p), *cmd[1:], "--frobnicate"], capsys,
                     f"resum {cmd[0]}: error:", "--frobnicate", f"'resum {cmd[0]} --help'")
     assert "'resum --help'" not in line
+
+
+def test_point_on_a_cut_is_named_in_the_files_variable(tmp_path, capsys):
+    # Ising susceptibility in v = tanh K (tests/data; Sykes, Gaunt, Roberts, Wyles, J. Phys. A 5
+    # (1972) 624): its branch point v_c = sqrt(2) - 1 (Kramers and Wannier, Phys. Rev. 60 (1941)
+    # 252) puts v = 1/2 on the cut along the real axis
+    src = json.loads((Path(__file__).parents[1] / "data" / "ising_sq_susceptibility_hightemp.json").read_text())
+    p = tmp_path / "chi.txt"
+    p.write_text("variable: v\n" + "\n".join(src["coefficients"]) + "\n")
+    assert main(["evaluate", str(p), "--at", "1/2", "--at", "0.2", "--no-verify", "--json"]) == 1
+    doc = json.loads(capsys.readouterr().out)
+    on_cut = [w for w in doc["warnings"] if "lies on the cut" in w]
+    assert on_cut and all(w.startswith("at 0.5: v = 0.5 ") for w in on_cut), doc["warnings"]
