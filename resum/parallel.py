@@ -147,18 +147,40 @@ def _sigint_deferred():
         raise KeyboardInterrupt
 
 
+@contextmanager
+def _sigint_blocked():
+    """Ctrl-C (SIGINT) blocked for the span, in the main thread: one that comes meanwhile stays
+    pending and is delivered (KeyboardInterrupt) when the span ends. Processes started in the
+    span inherit the blocked signal across fork and exec."""
+    if threading.current_thread() is not threading.main_thread() or \
+            not hasattr(signal, "pthread_sigmask"):        # pragma: no cover - not POSIX
+        yield
+        return
+    signal.pthread_sigmask(signal.SIG_BLOCK, {signal.SIGINT})
+    try:
+        yield
+    finally:
+        signal.pthread_sigmask(signal.SIG_UNBLOCK, {signal.SIGINT})
+
+
 def _start_server() -> None:
-    """Start the fork server (and multiprocessing's resource tracker) with Ctrl-C ignored.
+    """Start the fork server (and multiprocessing's resource tracker) with Ctrl-C blocked.
 
     A terminal sends Ctrl-C to every process of the foreground group: the caller decides what
-    it means. An ignored signal stays ignored across exec, and Python then installs no handler
-    of its own, so the server, and every worker it forks, ignores it from its first instruction
-    on (the server would otherwise print a traceback when Ctrl-C comes while it imports resum).
+    it means. A blocked signal stays blocked across fork and exec, so the server never sees one
+    while it imports resum (it would print a traceback); once running it ignores Ctrl-C (which
+    also drops one still pending), and the workers it forks inherit the block and ignore it too
+    (:func:`_quiet_worker`). In the caller the signal is only blocked, in the main thread: one
+    that comes in the span is delivered when it ends (or at once to another thread's handler),
+    not lost, as it was when the span ignored it (a test that interrupts the run as the server
+    appears failed once on a loaded machine). The resource tracker is started first, on its
+    own: its start unblocks the signal when done.
     """
     if _mp_context().get_start_method() != "forkserver":   # pragma: no cover - not Linux
         return
-    from multiprocessing import forkserver
-    with _sigint_ignored():
+    from multiprocessing import forkserver, resource_tracker
+    resource_tracker.ensure_running()
+    with _sigint_blocked():
         forkserver.ensure_running()
 
 
