@@ -124,7 +124,8 @@ def str_to_num(s: str):
     from fractions import Fraction
     s = s.strip()
     if s.endswith("j"):
-        return mpmath.mpc(s.replace(" ", ""))  # mpmath parses "a+bj"
+        # mpmathify reads "a+bj" at the working precision (mpmath.mpc(text) does not parse it)
+        return mpmath.mpmathify(s.replace(" ", ""))
     try:
         return int(s)
     except ValueError:

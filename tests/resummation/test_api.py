@@ -147,3 +147,21 @@ def test_digits_asked_beyond_the_coefficients_are_lowered_with_a_warning():
     r = evaluate(Series([mpmath.mpf(1)] * 20, digits=10), ["0.5"], Context(dps=30))
     assert any("30 digits asked, but the coefficients carry 10" in w for w in r.warnings)
     assert r.points[0].value.contains(2) and r.points[0].value.digits() <= 11
+
+
+def test_round_trip_at_a_complex_point():
+    # a complex point was written as "2.0+1.0j" and from_dict handed that text to mpmath.mpc,
+    # which cannot parse it (ValueError). log(1+x)/x at x = 2 + i from mpmath.log (reference
+    # library); the branch cut of log(1+x) is x < -1, far from the point
+    with workdps(50):
+        cs = [mpmath.mpf(-1) ** n / (n + 1) for n in range(40)]
+    s = Series(cs, digits=45)
+    r = evaluate(s, ["2+1*I"], Context(dps=20), method="pade", verify=False)
+    r2 = EvaluationResult.from_dict(json.loads(json.dumps(r.to_dict())))
+    assert isinstance(r2.points[0].at, mpmath.mpc) and r2.points[0].at == mpmath.mpc(2, 1)
+    with workdps(40):
+        x = mpmath.mpc(2, 1)
+        truth = mpmath.log(1 + x) / x
+        assert r2.points[0].value.contains(truth.real)
+        assert r2.points[0].imag.contains(truth.imag)
+    assert r2.to_dict() == r.to_dict()
