@@ -20,3 +20,8 @@ class InputError(ValueError):
         """The same error located more precisely (prefixes ``where``)."""
         loc = f"{where}: {self.where}" if self.where else where
         return InputError(self.bare, where=loc)
+
+
+class InputTypeError(InputError, TypeError):
+    """An :class:`InputError` for an argument of the wrong type; also a ``TypeError``, so code
+    that catches the type error Python would raise keeps working."""

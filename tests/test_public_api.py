@@ -36,3 +36,62 @@ def test_wrong_argument_types_are_input_errors_naming_the_field():
             call()
         assert str(err.value).startswith(field + ":"), str(err.value)
         assert "\n" not in str(err.value)
+
+
+def test_series_arguments_of_the_wrong_kind_are_input_errors_naming_the_field():
+    # a dict iterated as its keys, a generator read twice (an empty series), a string whose
+    # characters became coefficients, decimal texts refused with a bare TypeError: each is now
+    # one line naming the argument (common practice, no source). The error is also a TypeError,
+    # as before, for code that catches that.
+    import pytest
+    from resum import Series
+    from resum.errors import InputError
+    for call, field in ((lambda: Series({0: 1, 1: 2}), "coefficients"),
+                        (lambda: Series(5), "coefficients"),
+                        (lambda: Series("1,2,3"), "coefficients"),
+                        (lambda: Series(["0.5", "0.25"]), "coefficients"),
+                        (lambda: Series([1, None]), "coefficients"),
+                        (lambda: Series([1, 2], start="1"), "start"),
+                        (lambda: Series([1, 2], variable=""), "variable"),
+                        (lambda: Series([1, 2], variable=3), "variable")):
+        with pytest.raises(InputError) as err:
+            call()
+        assert str(err.value).startswith(field + ":"), str(err.value)
+        assert "\n" not in str(err.value)
+    with pytest.raises(TypeError, match="series_from_dict"):
+        Series(["0.5"])
+
+
+def test_series_reads_a_generator_once_and_keeps_numpy_integers_exact():
+    # 1/(1-x)^2 = sum (n+1) x^n (common practice, no source)
+    import numpy
+    from resum import Series
+    s = Series(n + 1 for n in range(6))
+    assert s.coefficients == (1, 2, 3, 4, 5, 6)
+    t = Series(numpy.arange(1, 7))
+    assert t.is_exact and t.coefficients == (1, 2, 3, 4, 5, 6)
+
+
+def test_strong_probe_and_file_functions_refuse_wrong_arguments_in_one_line():
+    # a list for the series was an AttributeError inside the probe; a negative max_rel_band
+    # trusted no point and reported "too few terms"; a number for a path was a TypeError from
+    # pathlib (common practice, no source)
+    import pytest
+    from resum import Context, Series, probe_strong_coupling, read_series, write_series
+    from resum.errors import InputError
+    s = Series([(-1) ** n for n in range(12)])
+    ctx = Context(dps=15)
+    for call, field in ((lambda: probe_strong_coupling([1] * 12, [2, 3, 4, 5], ctx), "series"),
+                        (lambda: probe_strong_coupling(s, [2, 3, 4, 5], ctx, max_rel_band=-1),
+                         "max_rel_band"),
+                        (lambda: probe_strong_coupling(s, [2, 3, 4, 5], ctx, max_rel_band="abc"),
+                         "max_rel_band"),
+                        (lambda: probe_strong_coupling(s, [2, 3, 4, 5], ctx, n_terms_fit=3),
+                         "n_terms_fit"),
+                        (lambda: read_series(5), "path"),
+                        (lambda: write_series([1, 2], "x.json"), "series"),
+                        (lambda: write_series(s, 5), "path")):
+        with pytest.raises(InputError) as err:
+            call()
+        assert str(err.value).startswith(field + ":"), str(err.value)
+        assert "\n" not in str(err.value)

@@ -48,8 +48,9 @@ from typing import Optional, Sequence
 import mpmath
 
 from ..context import Context, checked_context, workdps
-from ..errors import InputError
+from ..errors import InputError, InputTypeError
 from ..results import Estimate, Provenance, Status, jsonable, num_to_str
+from ..series import Series
 from ._num import lu_solve
 
 __all__ = ["probe_strong_coupling", "StrongCouplingResult", "simple_rational"]
@@ -213,6 +214,26 @@ def _lstsq(rows, rhs, weights):
     return [sol[i] for i in range(n)], se, chi2
 
 
+def _whole(k) -> int:
+    if isinstance(k, bool) or int(k) != k:
+        raise ValueError(k)
+    return int(k)
+
+
+def _positive(v, where: str):
+    """``v`` (a number or a decimal text such as ``"1e-3"``) as an mpf above 0, else an InputError."""
+    try:
+        if isinstance(v, bool):
+            raise TypeError
+        x = mpmath.mpmathify(v)
+        ok = isinstance(x, mpmath.mpf) and mpmath.isfinite(x) and x > 0
+    except (TypeError, ValueError):
+        ok = False
+    if not ok:
+        raise InputError(f"must be a real number above 0 such as 1e-4, got {v!r}", where=where)
+    return x
+
+
 def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Optional[Context] = None,
                           method: str = "auto", leading_power=None, log_terms: bool = False,
                           n_terms_fit: Sequence[int] = (3, 4, 5, 6), expected: Optional[dict] = None,
@@ -263,11 +284,18 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
     StrongCouplingResult
     """
     from ..resummation import evaluate
+    if not isinstance(series, Series):
+        raise InputTypeError(f"expected a resum.Series, got {type(series).__name__}; build one with "
+                             "Series([c0, c1, ...])", where="series")
     ctx = checked_context(ctx)
-    n_terms_fit = tuple(int(k) for k in n_terms_fit)
+    try:
+        n_terms_fit = tuple(_whole(k) for k in n_terms_fit)
+    except (TypeError, ValueError):
+        n_terms_fit = ()
     spacing_given = _spacing_arg(spacing, ctx.work_dps)
     if not n_terms_fit or min(n_terms_fit) < 1:
         raise InputError("n_terms_fit must list positive integers", where="n_terms_fit")
+    max_rel_band = _positive(max_rel_band, "max_rel_band")
     if getattr(series, "start", 0) < 0:
         raise InputError(f"series starts at {series.variable}^{series.start}; multiply by "
                          f"{series.variable}^{-series.start} first", where="series")

@@ -21,13 +21,13 @@ import math
 import numbers
 from dataclasses import dataclass, field, replace
 from fractions import Fraction
-from typing import Mapping, Optional
+from typing import Iterable, Mapping, Optional
 
 import mpmath
 
 from .._kernels import series_ops as ops
 from ..context import DEFAULT, Context
-from ..errors import InputError
+from ..errors import InputError, InputTypeError
 
 __all__ = ["Series", "Coupling", "is_exact_number"]
 
@@ -37,8 +37,15 @@ def is_exact_number(c) -> bool:
 
 
 def _check_number(c, k):
+    if isinstance(c, str):
+        raise InputTypeError(f"coefficient {k} is the text {c!r}, not a number; pass int, Fraction, "
+                             "float or mpmath numbers, or read texts (decimals, expressions) with "
+                             "resum.series.io.series_from_dict({'coefficients': [...]}), which keeps "
+                             "the digits each carries", where="coefficients")
     if isinstance(c, bool) or not isinstance(c, (numbers.Number, mpmath.mpf, mpmath.mpc)):
-        raise TypeError(f"coefficient {k} is not a number: {c!r}")
+        raise InputTypeError(f"coefficient {k} is not a number: {c!r}", where="coefficients")
+    if isinstance(c, numbers.Integral) and not isinstance(c, int):
+        c = int(c)           # numpy integers are exact too
     if isinstance(c, Fraction) and c.denominator == 1:
         c = int(c)
     if isinstance(c, float):
@@ -130,12 +137,19 @@ class Series:
     provenance: Mapping = field(default_factory=dict)
 
     def __post_init__(self):
-        floats = any(isinstance(c, float) for c in self.coefficients)    # before they become mpf
-        cs = tuple(_check_number(c, k) for k, c in enumerate(self.coefficients))
+        raw = self.coefficients
+        if isinstance(raw, (str, bytes, Mapping)) or not isinstance(raw, Iterable):
+            raise InputTypeError(f"expected a sequence of numbers (low to high), got "
+                                 f"{type(raw).__name__}", where="coefficients")
+        raw = tuple(raw)     # a generator is read once
+        floats = any(isinstance(c, float) for c in raw)    # before they become mpf
+        cs = tuple(_check_number(c, k) for k, c in enumerate(raw))
         object.__setattr__(self, "coefficients", cs)
         object.__setattr__(self, "provenance", dict(self.provenance))
-        if not isinstance(self.start, int):
-            raise TypeError("start must be an integer")
+        if not isinstance(self.variable, str) or not self.variable.isidentifier():
+            raise InputError(f"must be a name such as 'x' or 'g2', got {self.variable!r}", where="variable")
+        if isinstance(self.start, bool) or not isinstance(self.start, int):
+            raise InputTypeError(f"must be an integer, got {self.start!r}", where="start")
         if isinstance(self.coupling, str):
             # the text form a series file uses ("x = g^2"); kept as a string, in_coupling() and
             # evaluate() would fail far from here

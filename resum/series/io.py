@@ -55,7 +55,7 @@ from typing import Optional
 
 
 from ..context import DEFAULT, Context
-from ..errors import InputError
+from ..errors import InputError, InputTypeError
 from ..results import num_to_str
 from .core import Coupling, Series
 from .expr import decimal_to_int, evaluate_expression, exact_to_text
@@ -390,6 +390,9 @@ def _read_text_file(path: Path) -> str:
 
 def read_series(path, ctx: Optional[Context] = None, fmt: Optional[str] = None) -> Series:
     """Read a series file (JSON, CSV or plain text, chosen by extension or ``fmt``)."""
+    if not isinstance(path, (str, os.PathLike)):
+        raise InputTypeError(f"expected a file name (str or pathlib.Path), got {type(path).__name__}",
+                             where="path")
     ctx = ctx or DEFAULT
     path = Path(path)
     text = _read_text_file(path)
@@ -749,6 +752,12 @@ def _output_place(path):
 
 def write_series(series: Series, path, fmt: Optional[str] = None) -> Path:
     """Write ``series`` to ``path`` (format from the extension or ``fmt``), atomically."""
+    if not isinstance(series, Series):
+        raise InputTypeError(f"expected a resum.Series, got {type(series).__name__}; build one with "
+                             "Series([c0, c1, ...])", where="series")
+    if not isinstance(path, (str, os.PathLike)):
+        raise InputTypeError(f"expected a file name (str or pathlib.Path), got {type(path).__name__}",
+                             where="path")
     if not str(path).strip():
         raise InputError("empty output file name; give a file name", where="output")
     path = Path(path)
