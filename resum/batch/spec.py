@@ -163,24 +163,40 @@ def resolve_source(name: str, sources=None):
     ``"package.module:object"`` naming a source of your own (an object or dict
     with ``params`` and ``build(ctx, **params) -> Series``). Returns None when
     there is no such source."""
+    return _find_source(name, sources)[0]
+
+
+def _find_source(name: str, sources=None):
+    """``(source, None)``, or ``(None, why)`` with why a phrase saying what was missing
+    ("" for a name that is neither registered nor of the form ``package.module:object``)."""
     reg = _registry(sources)
     if name in reg:
-        return reg[name]
+        return reg[name], None
     if ":" in name:
         import importlib
         mod, _, attr = name.partition(":")
         dotted = r"[A-Za-z_]\w*(\.[A-Za-z_]\w*)*"
         if not (re.fullmatch(dotted, mod) and re.fullmatch(dotted, attr)):
-            return None      # ':' or '.mod:x': import_module raises ValueError / TypeError
+            return None, ""  # ':' or '.mod:x': import_module raises ValueError / TypeError
         try:
             obj = importlib.import_module(mod)
+        except ImportError as e:
+            return None, f"cannot import module {mod!r} ({e})"
+        except Exception as e:      # the user's module failed while it was imported
+            return None, f"importing module {mod!r} raised {type(e).__name__}: {_first_line(e)}"
+        try:
             for part in attr.split("."):
                 obj = getattr(obj, part)
-        except (ImportError, AttributeError):
-            return None
+        except AttributeError:
+            return None, f"module {mod!r} has no {attr!r}"
         if callable(_get(obj, "build")):
-            return obj
-    return None
+            return obj, None
+        return None, f"{name!r} has no build(ctx, **params)"
+    return None, ""
+
+
+def _first_line(e) -> str:
+    return (str(e).strip().splitlines() or [""])[0][:200]
 
 
 # ----------------------------------------------------------------------------
@@ -544,7 +560,10 @@ class _Validator:
         if not 10 <= dps <= 5000:
             raise self.err("study.dps", f"dps={dps} out of range; use 10..5000")
         src_name = study["source"]
-        source = resolve_source(src_name, self.registry)
+        source, why = _find_source(src_name, self.registry)
+        if source is None and why:
+            raise self.err("study.source", f"{why}; a source of your own is 'package.module:object' "
+                           "with params and build(ctx, **params), importable here and by every worker")
         if source is None:
             raise self.err("study.source", f"unknown source {src_name!r}; known: "
                            f"{', '.join(sorted(_registry(self.registry))) or 'none installed'} "

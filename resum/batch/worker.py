@@ -62,7 +62,7 @@ def compute_point(spec: FamilySpec, index: int, runner: str = "") -> dict:
     before the failure keep their results.
     """
     from .tasks import TASKS
-    from .spec import resolve_source
+    from .spec import _find_source
 
     started = time.time()            # when (for the record); durations by the monotonic clock
     t0 = time.perf_counter()
@@ -76,9 +76,10 @@ def compute_point(spec: FamilySpec, index: int, runner: str = "") -> dict:
     point = spec.point(index)
     step = "build"
     try:
-        source = resolve_source(spec.source)
+        source, why = _find_source(spec.source)
         if source is None:
-            raise LookupError(f"source {spec.source!r} is not available in this process")
+            raise LookupError(f"source {spec.source!r} is not available in this process"
+                              + (f": {why}" if why else ""))
         build = source["build"] if isinstance(source, dict) else source.build
         t = time.perf_counter()
         series = build(ctx, **spec.source_kwargs(point))

@@ -331,3 +331,22 @@ def test_source_names_that_are_no_module_path_are_unknown_sources(name):
     # ':' reached importlib.import_module(''), whose ValueError was a traceback
     with pytest.raises(InputError, match="study.source: unknown source"):
         parse(GOOD.replace(f'source = "{SRC}"', f'source = "{name}"'))
+
+
+@pytest.mark.parametrize("name, says", [
+    ("tests.batch.no_such_module:x", "cannot import module 'tests.batch.no_such_module'"),
+    ("tests.batch.family_sources:no_such_object", "module 'tests.batch.family_sources' has no"),
+    ("tests.batch.family_sources:Fraction", "has no build(ctx, **params)"),
+    ("resum_audit_broken_source:family", "importing module 'resum_audit_broken_source' raised "
+                                         "RuntimeError: fails on import"),
+])
+def test_a_source_of_your_own_that_cannot_be_used_says_why(name, says, tmp_path, monkeypatch):
+    # each was "unknown source ...; (or 'package.module:object' ...)", which the user had
+    # written, and an error raised while the module was imported was a traceback
+    # (common practice, no source)
+    (tmp_path / "resum_audit_broken_source.py").write_text('raise RuntimeError("fails on import")\n')
+    monkeypatch.syspath_prepend(str(tmp_path))
+    with pytest.raises(InputError) as err:
+        parse(GOOD.replace(f'source = "{SRC}"', f'source = "{name}"'))
+    assert str(err.value).startswith("spec.toml:4: study.source: ")
+    assert says in str(err.value) and "\n" not in str(err.value)
