@@ -163,19 +163,33 @@ class ProcessRunner:
                         rec = None     # ended without a record
                     reader.close()
                     proc.join()
+                    code = proc.exitcode
                     proc.close()
                     if rec is not None:
                         on_record(rec)
                     elif alone:
                         on_record(failure_record(
                             spec, i, "the worker process died while computing this point "
-                            "alone (killed, crashed or out of memory)", runner=self.name))
+                            f"alone ({_death(code)})", runner=self.name))
                     else:
                         suspects.append(i)
         finally:
             _stop([proc for proc, _, _ in running.values()])
             for reader in running:
                 reader.close()
+
+
+def _death(code) -> str:
+    """How a point process that sent no record ended, and the likely causes."""
+    if code is not None and code < 0:
+        try:
+            name = signal.Signals(-code).name
+        except ValueError:
+            name = f"signal {-code}"
+        return f"ended by {name}: killed, crashed or out of memory"
+    return (f"exit code {code}: it failed before sending its record, for example while importing "
+            "the main script (a script that calls run_family keeps that call under "
+            "if __name__ == '__main__':, since each point's process imports the script)")
 
 
 def _stop(procs, grace: float = 5.0) -> None:

@@ -649,3 +649,31 @@ def test_strong_leading_column_is_the_highest_power_after_the_record_is_written(
     assert leading_label(["g^-1/3", "g^1/3 log g", "g^-2/3"]) == "g^-1/3"
     assert leading_label(["x^-3/4", "x^-7/4"]) == "x^-3/4"
     assert leading_label([]) is None
+
+
+def test_a_dead_point_process_says_how_it_ended(tmp_path):
+    # the message said "killed, crashed or out of memory" whatever happened; an exit code
+    # (here the source's os._exit(3)) points elsewhere, for example to a script without the
+    # __main__ guard (common practice, no source)
+    text = spec_text([2], orders=20).replace(
+        'exponent = { values = ["1/2", 2] }', 'exponent = { values = ["1/2"] }\ncrash = { values = [true] }')
+    spec = parse_spec(text, path="spec.toml")
+    run_family(spec, tmp_path / "o", runner=ProcessRunner(jobs=1), quiet=True, plots=False)
+    (rec,) = records(tmp_path / "o").values()
+    assert rec["status"] == "failed" and "exit code 3" in rec["error"]["message"]
+    assert "__main__" in rec["error"]["message"]
+
+
+def test_a_script_without_the_main_guard_gets_a_message_that_names_it(tmp_path):
+    # each point's process imports the calling script; without `if __name__ == "__main__":`
+    # it ran run_family again and died, and the point was recorded as "killed, crashed or out
+    # of memory" (common practice, no source)
+    (tmp_path / "spec.toml").write_text(spec_text([2], orders=20).replace(
+        'exponent = { values = ["1/2", 2] }', 'exponent = { values = ["1/2"] }'))
+    (tmp_path / "script.py").write_text(
+        "from resum.batch import load_spec, run_family, ProcessRunner\n"
+        "run_family(load_spec('spec.toml'), 'o', runner=ProcessRunner(jobs=1), quiet=True, plots=False)\n")
+    env = {**os.environ, "PYTHONPATH": os.pathsep.join([str(ROOT), os.environ.get("PYTHONPATH", "")])}
+    subprocess.run([sys.executable, "script.py"], cwd=tmp_path, env=env, capture_output=True, timeout=120)
+    (rec,) = records(tmp_path / "o").values()
+    assert rec["status"] == "failed" and "if __name__ == '__main__':" in rec["error"]["message"]
