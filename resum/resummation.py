@@ -1264,10 +1264,14 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
     """
     t0 = time.time()
     if not isinstance(series, Series):
-        raise InputError("series must be a resum Series", where="series")
+        raise InputError(f"expected a resum.Series, got {type(series).__name__}; build one with "
+                         "Series([c0, c1, ...])", where="series")
     _check_method(method)
     if lateral not in ("auto", "always", "never"):
-        raise InputError(f"lateral must be 'auto', 'always' or 'never', got {lateral!r}", where="lateral")
+        raise InputError(f"must be 'auto', 'always' or 'never', got {lateral!r}", where="lateral")
+    if n_orders is not None and (isinstance(n_orders, bool) or not isinstance(n_orders, int) or n_orders < 0):
+        raise InputError(f"must be a whole number >= 0 (lower term counts for the band), got {n_orders!r}",
+                         where="n_orders")
     ctx = checked_context(ctx)
     if series.start < 0:
         raise InputError(f"series starts at {series.variable}^{series.start}; multiply by "

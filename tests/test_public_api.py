@@ -75,9 +75,9 @@ def test_series_reads_a_generator_once_and_keeps_numpy_integers_exact():
 def test_strong_probe_and_file_functions_refuse_wrong_arguments_in_one_line():
     # a list for the series was an AttributeError inside the probe; a negative max_rel_band
     # trusted no point and reported "too few terms"; a number for a path was a TypeError from
-    # pathlib (common practice, no source)
+    # pathlib; a negative n_orders was taken silently (common practice, no source)
     import pytest
-    from resum import Context, Series, probe_strong_coupling, read_series, write_series
+    from resum import Context, Series, evaluate, probe_strong_coupling, read_series, write_series
     from resum.errors import InputError
     s = Series([(-1) ** n for n in range(12)])
     ctx = Context(dps=15)
@@ -90,7 +90,9 @@ def test_strong_probe_and_file_functions_refuse_wrong_arguments_in_one_line():
                          "n_terms_fit"),
                         (lambda: read_series(5), "path"),
                         (lambda: write_series([1, 2], "x.json"), "series"),
-                        (lambda: write_series(s, 5), "path")):
+                        (lambda: write_series(s, 5), "path"),
+                        (lambda: evaluate(s, ["0.5"], ctx, n_orders=-1), "n_orders"),
+                        (lambda: evaluate(s, ["0.5"], ctx, lateral="left"), "lateral")):
         with pytest.raises(InputError) as err:
             call()
         assert str(err.value).startswith(field + ":"), str(err.value)

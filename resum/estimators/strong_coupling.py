@@ -288,13 +288,15 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
         raise InputTypeError(f"expected a resum.Series, got {type(series).__name__}; build one with "
                              "Series([c0, c1, ...])", where="series")
     ctx = checked_context(ctx)
+    n_terms_fit_given = n_terms_fit
     try:
         n_terms_fit = tuple(_whole(k) for k in n_terms_fit)
     except (TypeError, ValueError):
         n_terms_fit = ()
     spacing_given = _spacing_arg(spacing, ctx.work_dps)
     if not n_terms_fit or min(n_terms_fit) < 1:
-        raise InputError("n_terms_fit must list positive integers", where="n_terms_fit")
+        raise InputError("must list whole numbers >= 1 such as (3, 4, 5), got "
+                         f"{n_terms_fit_given!r}", where="n_terms_fit")
     max_rel_band = _positive(max_rel_band, "max_rel_band")
     if getattr(series, "start", 0) < 0:
         raise InputError(f"series starts at {series.variable}^{series.start}; multiply by "
