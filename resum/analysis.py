@@ -1002,7 +1002,17 @@ def analyze(series, ctx: Optional[Context] = None, methods=None, verify: bool = 
     ctx = default_context(series) if ctx is None else checked_context(ctx)
     prep = prepare(series, ctx)          # input errors surface here
     with ctx.working():
-        return _analyze(series, ctx, names, verify, prep, progress)
+        result = _analyze(series, ctx, names, verify, prep, progress)
+    if series.digits is not None and series.digits < ctx.dps:
+        # the command line refuses this (--dps above the digits the file carries); from Python the
+        # analysis runs with its noise floors at the series' digits, and says so
+        result = replace(result, warnings=(f"{ctx.dps} digits asked, but the coefficients carry "
+                                           f"{series.digits}: the analysis treats them as known to "
+                                           f"{series.digits} digit{'s' if series.digits != 1 else ''} "
+                                           "(give them with more, or "
+                                           "Series(..., digits=N) if they are known better)",)
+                         + tuple(result.warnings))
+    return result
 
 
 def _warn_complex_exponents(sings, results, warnings):

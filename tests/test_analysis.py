@@ -364,3 +364,16 @@ def test_apparent_logarithmic_points_are_not_reported():
         assert s.kind != "log"
         assert min(abs(s.location - pair), abs(s.location - pair.conjugate()), abs(s.location - 2.5)) < 1e-8
     _check(r.radius, Fraction(2, 3), 1e-8)
+
+
+def test_asking_for_more_digits_than_the_coefficients_carry_is_said_in_a_warning():
+    # from Python (the command line refuses it) the analysis ran silently with its noise floors
+    # at the series' digits; log(1+x)/x has radius 1 (common practice, no source)
+    with workdps(20):
+        s = Series([mpmath.mpf(-1) ** n / (n + 1) for n in range(40)])
+    assert s.digits == 20
+    asked = analyze(s, Context(dps=30), methods=["ratio", "pade"], verify=False)
+    assert asked.warnings[0].startswith("30 digits asked, but the coefficients carry 20")
+    assert asked.radius.contains(1)
+    fits = analyze(s, Context(dps=20), methods=["ratio", "pade"], verify=False)
+    assert not any("digits asked" in w for w in fits.warnings)
