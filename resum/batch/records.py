@@ -168,6 +168,11 @@ class RunFolder:
         out = [r for r in map(_load_record, self.record_paths()) if r is not None]
         return sorted(out, key=lambda r: r["index"])
 
+    def unreadable_records(self) -> list:
+        """Record files (``points/p*.json``) that hold no record of ours: their points count
+        as not computed (see :func:`_load_record`)."""
+        return [p for p in self.record_paths() if _load_record(p) is None]
+
     def statuses(self) -> dict:
         """``{key: status}`` of the records on disk."""
         return {r["key"]: r.get("status", "failed") for r in self.records()}

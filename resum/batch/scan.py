@@ -8,6 +8,7 @@ In Python::
 """
 from __future__ import annotations
 
+import sys
 from dataclasses import dataclass, field
 
 from ..parallel import env_jobs
@@ -26,7 +27,9 @@ class FamilyOutcome:
     ``computed`` are the point indices computed in this run, ``skipped`` those
     finished by an earlier run; ``counts`` are the totals over the folder
     (points, recorded, ok, failed, missing); ``interrupted`` is True when the
-    run was stopped before every point was done.
+    run was stopped before every point was done; ``unreadable`` names the record
+    files of an earlier run that held no readable record (cut short, edited by
+    hand): their points were computed again.
     """
 
     folder: str
@@ -35,6 +38,7 @@ class FamilyOutcome:
     counts: dict
     interrupted: bool = False
     plots: tuple = field(default=())
+    unreadable: tuple = field(default=())
 
     @property
     def success(self) -> bool:
@@ -93,12 +97,18 @@ def run_family(spec: FamilySpec, outdir, runner=None, resume: bool = False,
     try:
         folder.prepare(spec, resume=resume or retry_failed)
         todo, skipped = plan(spec, folder, retry_failed=retry_failed)
+        unreadable = tuple(p.name for p in folder.unreadable_records())
     except BaseException:
         if hasattr(runner, "close"):
             runner.close()
         raise
     if not todo and hasattr(runner, "close"):
         runner.close()
+    if unreadable:     # said even under quiet: the run replaces what was there
+        names = ", ".join(unreadable[:5]) + (f" and {len(unreadable) - 5} more" if len(unreadable) > 5 else "")
+        print(f"resum: {len(unreadable)} record file(s) in {folder.points} hold no readable record "
+              f"(cut short or edited by hand) and their points are computed again: {names}",
+              file=stream or sys.stderr)
     prog = Progress(spec.n_points, label=spec.name, stream=stream, quiet=quiet,
                     skipped=len(skipped))
     running = set()
@@ -131,7 +141,7 @@ def run_family(spec: FamilySpec, outdir, runner=None, resume: bool = False,
     if plots and not interrupted:
         made = tuple(_plots(spec, folder))
     return FamilyOutcome(str(folder.path), tuple(sorted(computed)), tuple(skipped), counts,
-                         interrupted, made)
+                         interrupted, made, unreadable)
 
 
 def _plots(spec, folder):

@@ -89,7 +89,8 @@ def run(args) -> int:
         _emit({"study": spec.name, "folder": outcome.folder, "counts": {k: str(v) for k, v in c.items()},
                "computed": str(len(outcome.computed)), "skipped": str(len(outcome.skipped)),
                "interrupted": outcome.interrupted, "plots": [str(p) for p in plots],
-               "plot_error": plot_error, "summary": f"{outcome.folder}/summary.csv"})
+               "plot_error": plot_error, "summary": f"{outcome.folder}/summary.csv",
+               "recomputed_unreadable": list(outcome.unreadable)})
     else:
         print(f"{spec.name}: {c['ok']} ok, {c['failed']} failed, {c['missing']} missing of "
               f"{c['points']} points ({len(outcome.computed)} computed now, "

@@ -605,8 +605,8 @@ def test_sigterm_ends_a_scan_like_ctrl_c(tmp_path):
     assert len(after) == 10 and all(after[k] == v for k, v in before.items())
 
 
-@pytest.mark.parametrize("damage", ["[]", '"text"', "{}", "wrong key", "index not a number"])
-def test_resume_recomputes_a_record_that_is_not_one(tmp_path, damage):
+@pytest.mark.parametrize("damage", ["[]", '"text"', "{}", "wrong key", "index not a number", "cut short"])
+def test_resume_recomputes_a_record_that_is_not_one(tmp_path, damage, capsys):
     # a record file edited by hand or replaced: valid JSON that is no record of its point used to
     # end --resume in a TypeError traceback (or be kept under the wrong key)
     spec = parse_spec(spec_text([1, 2]), path="spec.toml")
@@ -618,12 +618,19 @@ def test_resume_recomputes_a_record_that_is_not_one(tmp_path, damage):
         text = json.dumps({**good, "key": "p09999"})
     elif damage == "index not a number":
         text = json.dumps({**good, "index": "0"})
+    elif damage == "cut short":
+        text = p.read_text()[:100]
     else:
         text = damage
     p.write_text(text)
+    capsys.readouterr()
     again = run_family(spec, out, runner=SerialRunner(), resume=True, quiet=True, plots=False)
     assert again.computed == (good["index"],) and again.counts["ok"] == 4
     assert json.loads(p.read_text())["key"] == p.stem
+    # the replacement is said, even under quiet (it was silent)
+    assert again.unreadable == (p.name,)
+    err = capsys.readouterr().err
+    assert "1 record file(s)" in err and p.name in err and "computed again" in err
 
 
 def test_strong_leading_column_is_the_highest_power_after_the_record_is_written():
