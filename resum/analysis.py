@@ -55,7 +55,7 @@ import mpmath
 
 from ._version import __version__
 from .context import DEFAULT, Context, checked_context
-from .errors import InputError
+from .errors import InputError, check_flag
 from .estimators import METHODS, get_method, validate_methods  # noqa: F401  (METHODS re-exported)
 from .estimators._common import MIN_TERMS, classify_kind, prepare
 from .series.core import Series
@@ -999,6 +999,7 @@ def analyze(series, ctx: Optional[Context] = None, methods=None, verify: bool = 
         raise InputError(f"expected a resum.Series, got {type(series).__name__}; build one with "
                          "Series([c0, c1, ...])", where="series")
     names = validate_methods(methods)
+    verify = check_flag(verify, "verify")
     ctx = default_context(series) if ctx is None else checked_context(ctx)
     prep = prepare(series, ctx)          # input errors surface here
     with ctx.working():

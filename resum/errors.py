@@ -25,3 +25,11 @@ class InputError(ValueError):
 class InputTypeError(InputError, TypeError):
     """An :class:`InputError` for an argument of the wrong type; also a ``TypeError``, so code
     that catches the type error Python would raise keeps working."""
+
+
+def check_flag(value, where: str) -> bool:
+    """``value`` if it is a bool (or numpy's), else an :class:`InputTypeError` naming ``where``: a
+    text such as ``"no"`` is true to Python and would turn the option on."""
+    if isinstance(value, bool) or type(value).__name__ == "bool_":
+        return bool(value)
+    raise InputTypeError(f"must be True or False, got {value!r}", where=where)

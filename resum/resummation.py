@@ -65,7 +65,7 @@ from typing import Any, Optional
 import mpmath
 
 from .context import Context, checked_context
-from .errors import InputError
+from .errors import InputError, check_flag
 from .results import Estimate, Provenance, Status, num_to_str, jsonable, point_label, point_text
 from .series.core import Series
 from .estimators.resum_band import PointOutcome, rational_fit, supports_no_digit as _supports_no_digit
@@ -1272,6 +1272,7 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
     if n_orders is not None and (isinstance(n_orders, bool) or not isinstance(n_orders, int) or n_orders < 0):
         raise InputError(f"must be a whole number >= 0 (lower term counts for the band), got {n_orders!r}",
                          where="n_orders")
+    verify = check_flag(verify, "verify")
     ctx = checked_context(ctx)
     if series.start < 0:
         raise InputError(f"series starts at {series.variable}^{series.start}; multiply by "

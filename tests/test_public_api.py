@@ -31,7 +31,10 @@ def test_wrong_argument_types_are_input_errors_naming_the_field():
     for call, field in ((lambda: analyze([1] * 12), "series"), (lambda: analyze(s, 30), "ctx"),
                         (lambda: evaluate(s, ["0.5"], 30), "ctx"),
                         (lambda: probe_strong_coupling(s, ctx=30), "ctx"),
-                        (lambda: Context(dps=3), "dps"), (lambda: Context(guard=-1), "guard")):
+                        (lambda: Context(dps=3), "dps"), (lambda: Context(guard=-1), "guard"),
+                        # a text is true to Python: verify="no" used to turn verification on
+                        (lambda: evaluate(s, ["0.5"], verify="no"), "verify"),
+                        (lambda: analyze(s, verify="no"), "verify")):
         with pytest.raises(InputError) as err:
             call()
         assert str(err.value).startswith(field + ":"), str(err.value)
