@@ -41,10 +41,12 @@ _NEGATIVE_VALUE = _negative_value_pattern()
 
 class _Parser(argparse.ArgumentParser):
     last_error = None     # the last usage error (for the JSON error document of main)
+    last_where = ""       # the option or argument it names ("where" of that document)
 
     def error(self, message):  # one line, exit 2
         line = f"{message} (see '{self.prog} --help')"
         _Parser.last_error = line
+        _Parser.last_where = _usage_where(message) or self.prog
         self.exit(2, f"{self.prog}: error: {line}\n")
 
     def _parse_optional(self, arg_string):
@@ -53,6 +55,20 @@ class _Parser(argparse.ArgumentParser):
         if _NEGATIVE_VALUE.match(arg_string):
             return None
         return super()._parse_optional(arg_string)
+
+
+def _usage_where(message: str) -> str:
+    """The option or argument an argparse message names: 'argument --dps: invalid int value'
+    gives '--dps', 'the following arguments are required: FILE' gives 'FILE', 'unrecognized
+    arguments: --x --y' gives '--x'; '' for any other message."""
+    m = re.match(r"argument ([^:]+):", message)
+    if m:
+        return m.group(1).strip()
+    for head in ("the following arguments are required:", "unrecognized arguments:"):
+        if message.startswith(head):
+            rest = message[len(head):].strip()
+            return rest if head.startswith("the following") else (rest.split() or [""])[0]
+    return ""
 
 
 def build_parser() -> argparse.ArgumentParser:
@@ -99,7 +115,7 @@ def main(argv: Optional[List[str]] = None) -> int:
     _common.reset_json_emitted()
     as_json = _json_asked(argv)
     parser = build_parser()
-    _Parser.last_error = None
+    _Parser.last_error, _Parser.last_where = None, ""
     try:
         args, extra = parser.parse_known_args(argv)
         if extra:
@@ -110,7 +126,7 @@ def main(argv: Optional[List[str]] = None) -> int:
     except SystemExit as exc:
         code = int(exc.code or 0)
         if code and as_json and _Parser.last_error:
-            _json_error(_Parser.last_error, code)
+            _json_error(_Parser.last_error, code, _Parser.last_where)
         return code
     if not getattr(args, "_run", None):
         parser.print_help(sys.stderr)

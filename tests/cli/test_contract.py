@@ -124,19 +124,22 @@ def test_bad_input_exit_2_one_line(tmp_path, capsys, cmd, fname, text, needle):
     assert lines[0].endswith(doc["error"]["message"]) and fname in doc["error"]["where"]
 
 
-@pytest.mark.parametrize("argv", [
-    ["analyze", "--json"],                                     # FILE missing (argparse)
-    ["evaluate", "x.json", "--json", "--at", "1", "--bogus"],   # unknown option
-    ["tour", "--json"],                                        # a command without --json
-    ["evaluate", "x.json", "--json", "--at", "1", "--method", "nope"],
-    ["scan", "missing-spec.toml", "-o", "out", "--json"],
+@pytest.mark.parametrize("argv,where", [
+    (["analyze", "--json"], "FILE"),                                        # FILE missing (argparse)
+    (["evaluate", "x.json", "--json", "--at", "1", "--bogus"], "--bogus"),  # unknown option
+    (["tour", "--json"], "--json"),                                         # a command without --json
+    (["evaluate", "x.json", "--json", "--at", "1", "--method", "nope"], "--method"),
+    (["analyze", "x.json", "--json", "--dps", "abc"], "--dps"),
+    (["scan", "missing-spec.toml", "-o", "out", "--json"], "missing-spec.toml"),
 ])
-def test_usage_errors_under_json_are_one_json_document(tmp_path, capsys, monkeypatch, argv):
+def test_usage_errors_under_json_are_one_json_document(tmp_path, capsys, monkeypatch, argv, where):
     monkeypatch.chdir(tmp_path)
     assert main(argv) == 2
     cap = capsys.readouterr()
     doc = json.loads(cap.out)              # exactly one document, nothing else
     assert doc["error"]["exit_code"] == "2" and doc["error"]["message"]
+    # "where" names the option or file (it was empty for the parser's own errors)
+    assert where in doc["error"]["where"], doc["error"]
     assert len(cap.err.strip().splitlines()) == 1 and doc["error"]["message"] in cap.err
     assert not (tmp_path / "out").exists()
 
