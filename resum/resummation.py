@@ -1194,6 +1194,16 @@ def _widen(est: Optional[Estimate], others, factor=2) -> Optional[Estimate]:
     return Estimate(est.value, lo, hi)
 
 
+def _in_variable(text, var: str):
+    """``text`` worded in the series' variable ``var``: the estimators and the plan say
+    "x = ..." at the start and "|x|" for a modulus."""
+    if var == "x" or not isinstance(text, str):
+        return text
+    if text.startswith("x = "):
+        text = var + text[1:]
+    return text.replace("|x|", f"|{var}|")
+
+
 def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str = "auto",
              verify: bool = True, *, cmap: Optional[ConformalMap] = None, singularities=None,
              borel_b=None, borel_map=None, alpha=None, large_x_power=None, lateral: str = "auto",
@@ -1373,9 +1383,10 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
             cut_map = o.info.pop("cut_map", None)
             if cut_map is not None and cpl is not None:
                 _cut_advice_in_coupling(o, a, x, cpl, cut_map)
-            elif series.variable != "x" and isinstance(o.reason, str) and o.reason.startswith("x = "):
-                # the estimators word a point as "x = ..."; name the file's variable (v = tanh K)
-                o.reason = series.variable + o.reason[1:]
+            elif series.variable != "x" and isinstance(o.reason, str):
+                # the estimators word a point as "x = ..." and a radius as "|x| < ...": name the
+                # file's variable (v = tanh K)
+                o.reason = _in_variable(o.reason, series.variable)
             pdiag = dict(o.info)
             pdiag.pop("method", None)        # a fallback point's method: PointResult.method
             if o.info.get("rim_layer"):
@@ -1533,12 +1544,12 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
         success = False
         message = f"{n_fail} of {len(pts)} point(s) failed"
     prov = Provenance(method=plan.method, options={
-        "requested": method, "why": plan.why, "borel_b": str(plan.borel_b),
+        "requested": method, "why": _in_variable(plan.why, series.variable), "borel_b": str(plan.borel_b),
         "map": None if plan.cmap is None else plan.cmap.to_dict(),
         "alpha": None if plan.alpha is None else str(plan.alpha), "lateral": plan.lateral,
         "n_orders": n_orders, "verify": verify}, n_terms=series.n_terms, dps=wd,
         input_hash=series.input_hash())
-    diag = dict(diag, why=plan.why, seconds=round(time.time() - t0, 3), reported_dps=ctx.dps, **diag_plan)
+    diag = dict(diag, why=_in_variable(plan.why, series.variable), seconds=round(time.time() - t0, 3), reported_dps=ctx.dps, **diag_plan)
     return EvaluationResult(tuple(pts), method, success, status, message, tuple(warnings),
                             series.variable, None if cpl is None else cpl.describe(series.variable),
                             diag, prov, series.variable if cpl is None else cpl.symbol)

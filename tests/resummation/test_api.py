@@ -165,3 +165,18 @@ def test_round_trip_at_a_complex_point():
         assert r2.points[0].value.contains(truth.real)
         assert r2.points[0].imag.contains(truth.imag)
     assert r2.to_dict() == r.to_dict()
+
+
+def test_a_refusal_is_worded_in_the_series_variable():
+    # sec(v) (mpmath's Taylor coefficients; poles at +-pi/2, common practice, no source) from 60
+    # terms at v = 50: beyond the poles the approximants resolve. The message used to say
+    # "|x| < ..." for a series in v
+    import mpmath
+    from resum import Context, Series, evaluate
+    with mpmath.workdps(40):
+        c = [(+x if k % 2 == 0 else 0) for k, x in enumerate(mpmath.taylor(mpmath.sec, 0, 59))]
+    r = evaluate(Series(c, variable="v", digits=30), ["50"], Context(dps=20))
+    p = r.points[0]
+    assert not p.success and p.value is None
+    assert p.message.startswith("v = 50") and "|v| <" in p.message and "|x|" not in p.message
+    assert "|v| <" in r.diagnostics["why"] and "|x|" not in r.diagnostics["why"]
