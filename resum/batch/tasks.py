@@ -51,7 +51,7 @@ __all__ = ["TASKS", "TaskDef", "validate_task", "ratio_estimate", "estimate_json
 class TaskDef:
     name: str
     help: str
-    options: Mapping          # option -> kind: "numbers", "number", "int", "ints", "bool", "str", "strs"
+    options: Mapping          # option -> kind: "numbers", "number", "int", "ints", "bool", "str", "strs", "raw"
     run: Callable
     required: tuple = ()
     #: the worker passes ``rebuild(n_terms) -> Series`` (the point's series with another length)
@@ -98,7 +98,10 @@ def _check_kind(key, val, kind, dps):
     if kind == "numbers":
         return _numbers(val, dps, key)
     if kind == "number":
-        return _numbers([val], dps, key)[0]
+        from .spec import _number
+        return _number(val, dps, key)
+    if kind == "raw":          # checked by the task's own check (_CHECKS)
+        return val
     if kind == "ints":
         if not isinstance(val, list) or not val or not all(
                 isinstance(v, int) and not isinstance(v, bool) and v > 0 for v in val):
@@ -553,7 +556,7 @@ TASKS = {
     "strong": TaskDef("strong", "strong-coupling probe",
                       {"couplings": "numbers", "method": "str", "leading_power": "number",
                        "log_terms": "bool", "n_terms_fit": "ints", "max_rel_band": "number",
-                       "spacing": "number",
+                       "spacing": "raw",
                        "resummed": "bool", "from_truth": "bool", "truth_dps": "int"},
                       _run_strong),
     "truth": TaskDef("truth", "finite-coupling ground truth from the source",

@@ -190,12 +190,21 @@ def test_truth_task_needs_an_evaluator():
     ('\n[tasks.strong]\nn_terms_fit = [0]\n', ["tasks.strong", "positive integers"]),
     ('\n[tasks.strong]\nspacing = 0\n', ["tasks.strong", "spacing", "above 0"]),
     ('\n[tasks.strong]\nspacing = "-2/3"\n', ["tasks.strong", "spacing", "above 0"]),
+    ('\n[tasks.strong]\nspacing = "abc"\n', ["tasks.strong", "spacing:", "'abc'", "or 'auto'"]),
 ])
 def test_unknown_methods_and_missing_options(extra, words):
     with pytest.raises(InputError) as err:
         parse(GOOD + extra)
     for w in words:
         assert w in str(err.value), str(err.value)
+    assert "spacing[0]" not in str(err.value)       # one value, not a list (common practice, no source)
+
+
+@pytest.mark.parametrize("value", ['"auto"', '"2/3"', "0.5", "2"])
+def test_strong_spacing_in_a_spec_takes_what_the_probe_takes(value):
+    # 'auto' (the probe's automatic choice) was refused as an unknown name
+    spec = parse(GOOD + f"\n[tasks.strong]\nspacing = {value}\n")
+    assert str(spec.tasks["strong"]["spacing"]) == value.strip('"')
 
 
 def test_a_huge_range_is_refused_before_its_values_are_built():
