@@ -43,8 +43,8 @@ def add_arguments(parser) -> None:
                              "their bands with the fewest terms, the largest)")
     parser.add_argument("--logs", action="store_true", help="also fit g^(p - k S) log g terms")
     parser.add_argument("--expect", action="append", default=[], metavar="LABEL=VALUE",
-                        help="expected coefficient to compare with, e.g. 'g^1=2' or "
-                             "'g^0=-3*log(2)/(2*pi)' (repeat)")
+                        help="expected coefficient to compare with, e.g. 'g^1=2', "
+                             "'g^0=-3*log(2)/(2*pi)' or 'g^(1/3)=3.8' (repeat)")
     parser.add_argument("--method", default="auto", help="resummation method (as in evaluate)")
     parser.add_argument("--max-band", default=None, metavar="REL",
                         help="largest relative band of a resummed value that the fit uses "
@@ -111,7 +111,7 @@ def run(args) -> int:
         label, sep, value = item.partition("=")
         if not sep or not label.strip():
             raise InputError(f"write --expect as LABEL=VALUE (e.g. g^1=2), got {item!r}", where="--expect")
-        label = " ".join(label.split())
+        label = _expect_key(label)
         var = series.coupling.symbol if series.coupling is not None else series.variable
         m = re.fullmatch(r"([A-Za-z_]\w*)\^(-?\d+(?:/\d+)?)( log ([A-Za-z_]\w*))?", label)
         if m is None or m.group(1) != var or (m.group(4) is not None and m.group(4) != var):
@@ -130,6 +130,26 @@ def run(args) -> int:
     else:
         print(_render(res))
     return 0 if res.success else 1
+
+
+def _shown(label: str) -> str:
+    """A coefficient's label as printed: a fractional power in parentheses, ``g^(1/3)`` and
+    ``g^(-1/3) log g`` (``g^1/3`` reads as g/3). The JSON keys and ``--expect`` keep the bare
+    form (``g^1/3``); ``--expect`` takes both."""
+    head, sep, rest = label.partition("^")
+    if not sep:
+        return label
+    power, space, tail = rest.partition(" ")
+    if "/" in power:
+        power = f"({power})"
+    return f"{head}^{power}{space}{tail}"
+
+
+def _expect_key(label: str) -> str:
+    """The coefficient key an ``--expect`` label names: spaces normalised, and the printed form
+    of a fractional power taken too (``g^(1/3)`` is ``g^1/3``)."""
+    label = " ".join(label.split())
+    return re.sub(r"\^\((-?\d+(?:/\d+)?)\)", r"^\1", label)
 
 
 def _render(res) -> str:
@@ -154,7 +174,7 @@ def _render(res) -> str:
             tail = ""
             if cmp:
                 tail = f"   expected {cmp.get('expected')}: {'inside' if cmp.get('inside') else 'OUTSIDE'} the band"
-            lines.append(f"  {label:>14}  {e}{tail}")
+            lines.append(f"  {_shown(label):>14}  {e}{tail}")
     for w in res.warnings:
         lines.append(f"warning: {w}")
     lines.append("The bands come from the spread over an ensemble of fits (numbers of terms and "

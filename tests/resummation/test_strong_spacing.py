@@ -71,6 +71,8 @@ def test_first_excited_level_fits_with_spacing_two_thirds(tmp_path, capsys):
         res = StrongCouplingResult.from_dict(doc)
         assert str(res.spacing) == "2/3"
         assert "powers spaced by S = 2/3: p, p - S, p - 2S" in _render(res)
+        # fractional powers print in parentheses (g^1/3 reads as g/3); the keys stay bare
+        assert "g^(1/3)" in _render(res) and "g^(-1/3)" in _render(res) and "g^1/3 " not in _render(res)
         # the same values fitted with spacing 1 (the form before the spacing was a choice)
         gs = [g for g, v in zip(res.couplings, res.values) if v is not None]
         vals = [v for v in res.values if v is not None]
@@ -168,3 +170,13 @@ def test_a_spacing_whose_power_is_no_simple_fraction_is_not_chosen():
     assert r.coefficients[0][0] == "g^1"
     two = probe_strong_coupling(s, gs, Context(dps=30), values=vals, max_rel_band=mpmath.mpf("0.005"), spacing=2)
     assert two.leading_power.error > 0 and not two.coefficient("g^1")
+
+
+def test_printed_labels_and_expect_keys_of_fractional_powers():
+    # common practice, no source: g^1/3 reads as (g^1)/3, so the text puts the power in
+    # parentheses; --expect takes either form for the same coefficient
+    from resum.commands.strong import _expect_key, _shown
+    assert _shown("g^1/3") == "g^(1/3)" and _shown("g^-1/3 log g") == "g^(-1/3) log g"
+    assert _shown("g^1") == "g^1" and _shown("g^-2 log g") == "g^-2 log g"
+    assert _expect_key("g^(1/3)") == _expect_key("g^1/3") == "g^1/3"
+    assert _expect_key(" g^(-1/2)   log  g ") == "g^-1/2 log g"
