@@ -406,6 +406,8 @@ def read_series(path, ctx: Optional[Context] = None, fmt: Optional[str] = None) 
         except RecursionError:
             raise InputError("malformed JSON (nested too deeply); a series document is an object "
                              "with a list of coefficients", where=str(path)) from None
+        except _BareConstant as e:
+            raise InputError(f"line {_bare_token_line(text, e.name)}: {e.bare}", where=str(path)) from None
         except InputError as e:
             raise e.at(str(path)) from None
         s = series_from_dict(doc, ctx, where=str(path))
@@ -438,8 +440,35 @@ def _unique_keys(pairs):
     return out
 
 
+class _BareConstant(InputError):
+    """A bare NaN / Infinity / -Infinity in a JSON document (Python's reader takes them)."""
+
+    def __init__(self, name):
+        super().__init__(f"{name} is not a finite number; give finite coefficients")
+        self.name = name
+
+
 def _refuse_constant(name):
-    raise InputError(f"{name} is not a finite number; give finite coefficients")
+    raise _BareConstant(name)
+
+
+def _bare_token_line(text: str, name: str) -> int:
+    """Line of the first ``name`` outside a JSON string (1 if not found): the reader's hook for
+    constants is not told where it is."""
+    in_str = esc = False
+    for i, ch in enumerate(text):
+        if in_str:
+            if esc:
+                esc = False
+            elif ch == "\\":
+                esc = True
+            elif ch == '"':
+                in_str = False
+        elif ch == '"':
+            in_str = True
+        elif text.startswith(name, i):
+            return text.count("\n", 0, i) + 1
+    return 1
 
 
 def _guess_format(path: Path, text: str) -> str:

@@ -119,6 +119,8 @@ BAD = [
     ("elem.json", '{"coefficients": ["1", [2]]}', "coefficients[1]"),
     ("nan.json", '{"coefficients": ["1", "nan"]}', "not finite"),
     ("inf.json", '{"coefficients": [1, Infinity]}', "not a finite number"),
+    # a bare constant is named with its line (a name string holding the word does not count)
+    ("nanline.json", '{"name": "NaN",\n "coefficients": [1,\n  NaN]}', "line 3: NaN is not a finite"),
     ("empty.json", '{"coefficients": []}', "no coefficients"),
     ("zero.txt", "0\n0\n0\n", "every coefficient is zero"),
     ("expr.txt", "1\n__import__('os')\n", "line 2"),
