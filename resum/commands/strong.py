@@ -22,7 +22,7 @@ import mpmath
 from ..errors import InputError
 from ..series.expr import evaluate_expression
 from ._common import (check_plan_terms, with_input_notes, AT_HELP_RANGE, add_common_options, at_file, emit_json, expand_points, load_series, log,
-                      require_power_series)
+                      prepare_plot_dir, require_power_series, write_figures)
 
 HELP = "strong-coupling probe: fit the asymptotic form of the resummed function, with bands"
 DESCRIPTION = __doc__.split("\n\n", 1)[1].strip()
@@ -46,6 +46,12 @@ def add_arguments(parser) -> None:
                         help="expected coefficient to compare with, e.g. 'g^1=2', "
                              "'g^0=-3*log(2)/(2*pi)' or 'g^(1/3)=3.8' (repeat)")
     parser.add_argument("--method", default="auto", help="resummation method (as in evaluate)")
+    parser.add_argument("--no-verify", action="store_true",
+                        help="resum each coupling once, without the verification reruns at higher "
+                             "precision and with fewer terms (faster; the bands then miss that part)")
+    parser.add_argument("--plot", default=None, metavar="DIR",
+                        help="write strong.png to DIR: f / g^p with the bands against the coupling, "
+                             "the fitted form and the leading coefficient's band")
     parser.add_argument("--max-band", default=None, metavar="REL",
                         help="largest relative band of a resummed value that the fit uses "
                              "(default 1e-4; a larger one lets less sharp values in)")
@@ -118,6 +124,14 @@ def run(args) -> int:
             raise InputError(f"write the term as {var}^P or '{var}^P log {var}' with P a whole number or a "
                              f"fraction (e.g. {var}^1=2, '{var}^-1/2=0.3'), got {label!r}", where="--expect")
         expected[label] = _number(value, ctx.work_dps, f"--expect {label}")
+    if args.no_verify:
+        extra["evaluate_options"] = {"verify": False}
+    if args.plot is not None:
+        try:
+            from ..plots.evaluation import write_strong_plot
+        except ImportError as exc:
+            raise InputError(f"--plot needs matplotlib ({exc}); install resum[plot]", where="--plot") from None
+        prepare_plot_dir(args.plot)
     if not args.json:
         log(f"probing {series.name or args.file} at growing coupling ({ctx.dps} digits)")
     try:
@@ -125,11 +139,17 @@ def run(args) -> int:
                                     log_terms=args.logs, expected=expected or None, **extra)
     except InputError as exc:
         raise at_file(exc, args.file) from None
+    plot_note = None
+    if args.plot is not None:
+        _, plot_note = write_figures(args.plot, lambda: write_strong_plot(res, args.plot))
     if args.json:
-        emit_json(with_input_notes(res.to_dict(), series))
+        doc = res.to_dict()
+        if plot_note:
+            doc["warnings"] = list(doc.get("warnings", [])) + [plot_note]
+        emit_json(with_input_notes(doc, series))
     else:
         print(_render(res))
-    return 0 if res.success else 1
+    return 0 if res.success and not plot_note else 1
 
 
 def _shown(label: str) -> str:

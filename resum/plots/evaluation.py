@@ -14,7 +14,8 @@ import mpmath
 from ..context import Context, workdps
 from . import save_figure
 
-__all__ = ["plot_evaluation", "plot_digits", "plot_borel_plane", "write_evaluation_plots", "curve_grid"]
+__all__ = ["plot_evaluation", "plot_digits", "plot_borel_plane", "write_evaluation_plots", "curve_grid",
+           "plot_strong_fit", "write_strong_plot"]
 
 
 def _ax(ax):
@@ -245,3 +246,99 @@ def write_evaluation_plots(result, series, ctx, folder, reference=None, curve=No
         plt.close(fig)
         out.append(path)
     return out
+
+
+def _fit_terms(result):
+    """``[(power, with_log, Estimate)]`` of a strong-coupling fit's coefficients, read from
+    their labels (``g^1/3``, ``g^-1 log g``); labels of another form are left out."""
+    from fractions import Fraction
+    out = []
+    for label, est in result.coefficients:
+        head, sep, rest = str(label).partition("^")
+        if not sep:
+            continue
+        power, _, tail = rest.partition(" ")
+        try:
+            p = Fraction(power)
+        except (ValueError, ZeroDivisionError):
+            try:
+                p = mpmath.mpf(power)
+            except (ValueError, TypeError):
+                continue
+        out.append((p, tail.strip().startswith("log"), est))
+    return out
+
+
+def plot_strong_fit(result, ax=None):
+    """The strong-coupling probe at a glance: the resummed values divided by ``g^p`` (p the
+    leading power), with their bands, against the coupling, approaching the leading
+    coefficient; the fitted form (central coefficients) divided the same way, and the leading
+    coefficient's band. Values the fit did not trust (band above its limit) are drawn open."""
+    ax = _ax(ax)
+    var = result.variable
+    lp = result.leading_power
+    terms = _fit_terms(result)
+    if lp is None or not result.couplings:
+        ax.text(0.5, 0.5, "no strong-coupling fit", ha="center", va="center", transform=ax.transAxes)
+        return ax
+    with workdps(30):
+        p = mpmath.mpf(lp.value)
+        trusted = result.trusted_up_to
+        pts = [(g, v) for g, v in zip(result.couplings, result.values) if v is not None and g > 0]
+        for sharp in (True, False):
+            sel = [(g, v) for g, v in pts if (trusted is not None and g <= trusted) == sharp]
+            if not sel:
+                continue
+            xs = [float(g) for g, _ in sel]
+            ys = [float(v.value / g ** p) for g, v in sel]
+            err = [float((v.upper - v.lower) / 2 / g ** p) for g, v in sel]
+            ax.errorbar(xs, ys, yerr=err, fmt="o", mfc=None if sharp else "none",
+                        ms=4, capsize=2, lw=1,
+                        label=f"resummed f / {var}^p" + ("" if sharp else " (not used by the fit)"))
+        if terms:
+            gs = [g for g, _ in pts]
+            lo, hi = min(gs), max(gs)
+            grid = [lo * (hi / lo) ** (mpmath.mpf(k) / 60) for k in range(61)] if hi > lo else [lo]
+
+            def form(g):
+                s = mpmath.mpf(0)
+                for pw, lg, est in terms:
+                    e = mpmath.mpf(pw.numerator) / pw.denominator if hasattr(pw, "numerator") else pw
+                    s += est.value * g ** e * (mpmath.log(g) if lg else 1)
+                return s / g ** p
+            ax.plot([float(g) for g in grid], [float(form(g)) for g in grid], "-", lw=1.2,
+                    label="fitted form / " + f"{var}^p")
+            lead = [est for pw, lg, est in terms if not lg and abs(mpmath.mpf(float(pw)) - p) < 1e-9]
+            if lead:
+                e = lead[0]
+                ax.axhspan(float(e.lower), float(e.upper), alpha=0.2, lw=0,
+                           label=f"leading coefficient {e}")
+    _x_scale(ax, [float(g) for g, _ in pts])
+    ax.set_xlabel(var)
+    ax.set_ylabel(f"f / {var}^p,  p = {_power_text(result)}")
+    ax.set_title(f"strong-coupling probe ({result.status.value})", fontsize=10)
+    ax.legend(fontsize=7)
+    return ax
+
+
+def _power_text(result):
+    lp = result.leading_power
+    if lp is not None and lp.error == 0:
+        from ..estimators.strong_coupling import _short_power
+        return str(_short_power(lp.value))
+    return str(lp)
+
+
+def write_strong_plot(result, folder) -> list:
+    """Write strong.png (:func:`plot_strong_fit`); returns the paths."""
+    import matplotlib
+    matplotlib.use("Agg", force=False)
+    import matplotlib.pyplot as plt
+    os.makedirs(folder, exist_ok=True)
+    fig, ax = plt.subplots(figsize=(6.4, 4.2))
+    plot_strong_fit(result, ax)
+    fig.tight_layout()
+    path = os.path.join(folder, "strong.png")
+    save_figure(fig, path, dpi=110)
+    plt.close(fig)
+    return [path]

@@ -66,3 +66,34 @@ def test_strong_text_names_an_exact_power_as_its_fraction(tmp_path, capsys):
         out = capsys.readouterr().out
         assert "leading power p = 1/3 " in out, out
         assert "x^(1/3)" in out and "expected 1.0: inside the band" in out, out
+
+
+def test_strong_plot_and_no_verify(tmp_path, capsys, monkeypatch):
+    """(1 + x)^(1/3) from 40 terms (binomial series, common practice, no source): --plot writes
+    strong.png (f / x^p against x with the fitted form), --no-verify resums each coupling once
+    (evaluate called with verify=False), and the leading coefficient still holds 1."""
+    import resum.resummation as rs
+    calls = []
+    real = rs.evaluate
+
+    def spy(*a, **kw):
+        calls.append(kw.get("verify", True))
+        return real(*a, **kw)
+    monkeypatch.setattr(rs, "evaluate", spy)
+    with workdps(40):
+        cs = [mpmath.nstr(mpmath.binomial(mpmath.mpf(1) / 3, k), 35) for k in range(40)]
+    f = tmp_path / "cbrt.json"
+    f.write_text(json.dumps({"variable": "x", "coefficients": cs, "digits": 30}))
+    figs = tmp_path / "figs"
+    assert main(["strong", str(f), "--dps", "20", "--plot", str(figs), "--no-verify", "--json"]) == 0
+    doc = json.loads(capsys.readouterr().out)
+    assert calls and not any(calls)
+    png = figs / "strong.png"
+    assert png.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n" and png.stat().st_size > 10000
+    lead = dict((k, v) for k, v in doc["coefficients"])["x^1/3"]
+    with workdps(30):
+        assert mpmath.mpf(lead["lo"]) <= 1 <= mpmath.mpf(lead["hi"])
+    # a folder that is a file is refused before any work
+    (tmp_path / "file").write_text("x")
+    assert main(["strong", str(f), "--plot", str(tmp_path / "file")]) == 2
+    assert "--plot" in capsys.readouterr().err
