@@ -176,13 +176,10 @@ def _render(res) -> str:
     lines = [f"Strong-coupling probe in {res.variable}: {res.status.value}"
              + (f" ({res.message})" if res.message else "")]
     if res.leading_power is not None:
-        lp = res.leading_power
-        if lp.error == 0:
-            # an exact power reads as the fraction it is: 1/3 came out as 0.3333...3335033, its
-            # working-precision tail printed to the global digits
-            from ..estimators.strong_coupling import _short_power
-            lp = _short_power(lp.value)
-        lines.append(f"leading power p = {lp}   ({res.power_source})")
+        # an exact power reads as the fraction it is: 1/3 came out as 0.3333...3335033, its
+        # working-precision tail printed to the global digits
+        from ..estimators.strong_coupling import leading_power_text
+        lines.append(f"leading power p = {leading_power_text(res.leading_power)}   ({res.power_source})")
     if res.spacing is not None:
         lines.append(f"powers spaced by S = {res.spacing}: p, p - S, p - 2S, ...   ({res.spacing_source})")
     if res.trusted_up_to is not None:

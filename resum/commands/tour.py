@@ -3,11 +3,13 @@
 Scenario (our own): a group has computed the weak-coupling series of the
 angle-deformed kernel quantity F_a(g) at the angle a = pi/5 to 60 loops and
 wants to know (1) where the series stops converging and what sits there,
-(2) the function at couplings well outside the disk, with error bands, and
+(2) the function at couplings well outside the disk, with error bands,
 (3) whether those bands hold against an independent finite-coupling
-evaluation. The tour generates the series with resum's own source, runs the
-singularity analysis and the resummation, checks against the finite-coupling
-evaluator, and writes a report, JSON documents and plots into one folder.
+evaluation, and (4) how the function grows at strong coupling. The tour
+generates the series with resum's own source, runs the singularity analysis
+and the resummation, checks against the finite-coupling evaluator, probes the
+strong-coupling form, and writes a report, JSON documents and plots into one
+folder.
 """
 from __future__ import annotations
 
@@ -112,6 +114,11 @@ def run(args) -> int:
                            for r in rows]}
     atomic_write_text(out / "comparison.json", json.dumps(jsonable(comparison), indent=1) + "\n")
 
+    _step("strong-coupling probe (resummed values at growing g, fitted by a g^p + b g^(p - S) + ...)", t0)
+    from ..estimators.strong_coupling import probe_strong_coupling
+    strong = probe_strong_coupling(series, ctx=ctx, evaluate_options={"analysis": ana})
+    atomic_write_text(out / "strong.json", json.dumps(strong.to_dict(), indent=1) + "\n")
+
     figures = []
     if not args.no_plots:
         _step("figures", t0)
@@ -123,8 +130,10 @@ def run(args) -> int:
         # the resummed curve between the couplings (one run, no verification reruns)
         curve = evaluate(series, curve_grid(COUPLINGS, 24), ctx, verify=False, analysis=ana)
         figures += [Path(f).name for f in write_evaluation_plots(ev, series, ctx, out, reference, curve)]
+        from ..plots.evaluation import write_strong_plot
+        figures += [Path(f).name for f in write_strong_plot(strong, out)]
 
-    report = _report(series, ana, ev, rows, held, figures, time.perf_counter() - t0)
+    report = _report(series, ana, ev, rows, held, figures, time.perf_counter() - t0, strong)
     atomic_write_text(out / "report.md", report)
     _step(f"done: report in {out / 'report.md'}", t0)
     print(report)
@@ -139,7 +148,7 @@ def _err(t):
     return t.error if hasattr(t, "error") else None
 
 
-def _report(series, ana, ev, rows, held, figures, seconds) -> str:
+def _report(series, ana, ev, rows, held, figures, seconds, strong=None) -> str:
     rad = ana.radius
     lines = [
         f"# resum tour: F_a(g) at a = {ANGLE}, {series.n_terms - 1} loops",
@@ -168,13 +177,35 @@ def _report(series, ana, ev, rows, held, figures, seconds) -> str:
     lines += ["", f"{held} of {len(rows)} bands contain the independent value.", ""]
     for w in ev.warnings:
         lines.append(f"- warning: {w}")
+    if strong is not None:
+        lines += _strong_lines(strong)
     lines += ["", "## Files", "", "- series.json: the generated series (our JSON series document)",
               "- analysis.txt / analysis.json: the singularity analysis",
               "- evaluation.txt / evaluation.json: the resummed values",
-              "- comparison.json: resummed against finite coupling"]
+              "- comparison.json: resummed against finite coupling",
+              "- strong.json: the strong-coupling probe"]
     lines += [f"- {f}" for f in figures]
     lines += ["", f"Total time: {seconds:.0f} s.", ""]
     return "\n".join(lines)
+
+
+def _strong_lines(strong) -> list:
+    from ..estimators.strong_coupling import leading_power_text
+    from .strong import _shown
+    lines = ["", "## Strong coupling", "",
+             f"The resummed values at growing g (those whose band is below 1e-4 of the value, up to "
+             f"g = {strong.trusted_up_to}) fitted by a g^p + b g^(p - S) + ...: {strong.status.value}.", ""]
+    if strong.leading_power is not None:
+        lines.append(f"- leading power p = {leading_power_text(strong.leading_power)} ({strong.power_source})")
+    if strong.spacing is not None:
+        lines.append(f"- powers spaced by S = {strong.spacing}")
+    for label, e in strong.coefficients:
+        lines.append(f"- coefficient of {_shown(label)}: {e}")
+    for w in strong.warnings:
+        lines.append(f"- warning: {w}")
+    lines += ["", "The coefficient bands come from the spread over an ensemble of fits (numbers of terms "
+              "and fit windows) and the bands of the resummed values; they are estimates, not proofs.", ""]
+    return lines
 
 
 def _sqrt_band(e) -> str:

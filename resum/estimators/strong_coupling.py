@@ -780,6 +780,16 @@ def _short_power(pw):
     return f if not isinstance(f, mpmath.mpf) else mpmath.nstr(f, 8)
 
 
+def leading_power_text(lp) -> str:
+    """The leading power as printed: an exact one (given, or rounded to a simple fraction) as
+    the fraction it is (1/3, not 0.3333...3335033 or 1.0), otherwise with its band."""
+    if lp is None:
+        return "not determined"
+    if lp.error == 0:
+        return str(_short_power(lp.value))
+    return str(lp)
+
+
 def _frac_or(pw):
     from fractions import Fraction
     f = Fraction(str(mpmath.nstr(pw, 15))).limit_denominator(1000)

@@ -315,18 +315,11 @@ def plot_strong_fit(result, ax=None):
                            label=f"leading coefficient {e}")
     _x_scale(ax, [float(g) for g, _ in pts])
     ax.set_xlabel(var)
-    ax.set_ylabel(f"f / {var}^p,  p = {_power_text(result)}")
+    from ..estimators.strong_coupling import leading_power_text
+    ax.set_ylabel(f"f / {var}^p,  p = {leading_power_text(result.leading_power)}")
     ax.set_title(f"strong-coupling probe ({result.status.value})", fontsize=10)
     ax.legend(fontsize=7)
     return ax
-
-
-def _power_text(result):
-    lp = result.leading_power
-    if lp is not None and lp.error == 0:
-        from ..estimators.strong_coupling import _short_power
-        return str(_short_power(lp.value))
-    return str(lp)
 
 
 def write_strong_plot(result, folder) -> list:
