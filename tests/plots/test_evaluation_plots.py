@@ -184,3 +184,38 @@ def test_curve_drawn_through_the_points_follows_the_function():
     dl = next(ln for ln in ax2.get_lines() if ln.get_label().startswith("band (curve"))
     assert list(dl.get_xdata()) == xs        # the digits of every drawn point, in the same order
     plt.close("all")
+
+
+def test_strong_fit_figure_draws_the_reduced_values_and_the_fit():
+    """(1 + x)^(1/3) = x^(1/3) (1 + 1/(3x) - 1/(9x^2) + ...) at large x (binomial series,
+    common practice, no source), values from mpmath at x = 16 ... 512 with bands of 1e-6: the
+    figure draws f / x^p
+    with p = 1/3 at each coupling (mpmath's values divided by x^(1/3)), the fitted form divided
+    the same way, and the leading coefficient's band around 1."""
+    import matplotlib.pyplot as plt
+    from resum.estimators.strong_coupling import probe_strong_coupling
+    from resum.plots.evaluation import plot_strong_fit
+    from resum.results import Estimate
+    from resum.series import Series
+    with mpmath.workdps(40):
+        xs = [16 * mpmath.mpf(2) ** k for k in range(6)]
+        vals = [Estimate(v, v * (1 - mpmath.mpf(10) ** -6), v * (1 + mpmath.mpf(10) ** -6))
+                for v in (mpmath.cbrt(1 + x) for x in xs)]
+        res = probe_strong_coupling(Series([1, 1, 1, 1, 1, 1, 1]), xs, Context(dps=30), values=vals,
+                                    leading_power=mpmath.mpf(1) / 3, max_rel_band=mpmath.mpf("1e-5"))
+        assert res.success
+        ax = plot_strong_fit(res)
+        drawn = [(float(x), float(y)) for ln in ax.containers for x, y in zip(*ln.lines[0].get_data())]
+        want = [(float(x), float(mpmath.cbrt(1 + x) / mpmath.cbrt(x))) for x in xs]
+        assert [x for x, _ in sorted(drawn)] == [x for x, _ in want]
+        assert [y for _, y in sorted(drawn)] == pytest.approx([y for _, y in want], rel=1e-12)
+        fit = [ln for ln in ax.get_lines() if ln.get_label().startswith("fitted form")][0]
+        fx, fy = fit.get_data()
+        for x, y in zip(fx, fy):
+            assert y == pytest.approx(float(mpmath.cbrt(1 + x) / mpmath.cbrt(x)), rel=1e-5)
+        labels = [t.get_text() for t in ax.get_legend().get_texts()]
+        lead = [t for t in labels if t.startswith("leading coefficient")]
+        assert lead and "p = 1/3" in ax.get_ylabel()
+        band = res.coefficient("x^1/3")
+        assert band.contains(1)
+    plt.close("all")
