@@ -30,6 +30,7 @@ class InputTypeError(InputError, TypeError):
 def check_flag(value, where: str) -> bool:
     """``value`` if it is a bool (or numpy's), else an :class:`InputTypeError` naming ``where``: a
     text such as ``"no"`` is true to Python and would turn the option on."""
-    if isinstance(value, bool) or type(value).__name__ == "bool_":
+    t = type(value)
+    if isinstance(value, bool) or (t.__module__ == "numpy" and t.__name__ in ("bool", "bool_")):
         return bool(value)
     raise InputTypeError(f"must be True or False, got {value!r}", where=where)

@@ -34,7 +34,8 @@ def test_wrong_argument_types_are_input_errors_naming_the_field():
                         (lambda: Context(dps=3), "dps"), (lambda: Context(guard=-1), "guard"),
                         # a text is true to Python: verify="no" used to turn verification on
                         (lambda: evaluate(s, ["0.5"], verify="no"), "verify"),
-                        (lambda: analyze(s, verify="no"), "verify")):
+                        (lambda: analyze(s, verify="no"), "verify"),
+                        (lambda: analyze(s, verify=1), "verify")):
         with pytest.raises(InputError) as err:
             call()
         assert str(err.value).startswith(field + ":"), str(err.value)
@@ -100,3 +101,10 @@ def test_strong_probe_and_file_functions_refuse_wrong_arguments_in_one_line():
             call()
         assert str(err.value).startswith(field + ":"), str(err.value)
         assert "\n" not in str(err.value)
+
+
+def test_numpy_booleans_are_flags():
+    # a flag computed with numpy (np.True_, np.bool in numpy 2) is a flag (common practice, no source)
+    import numpy as np
+    from resum.errors import check_flag
+    assert check_flag(np.True_, "verify") is True and check_flag(np.bool_(False), "verify") is False
