@@ -156,6 +156,25 @@ def held_digits(x) -> int:
     return n if n <= held + 3 else held
 
 
+def sig_text(x, n: int) -> str:
+    """``x`` to ``n`` significant digits, and no more shown: ``mpmath.nstr`` writes 28.1 to two
+    digits as ``28.0`` and 11 as ``11.0`` (three digits shown, the last one never computed), and
+    a Python float whole (``nstr(15/19, 3)`` is ``0.7894736842105263``). Here they are ``28``,
+    ``11`` and ``0.789``; ``1.0`` (two digits of 1) and ``1.2e+5`` stay as they are.
+
+    >>> sig_text(28.1, 2), sig_text(11, 2), sig_text(0.0, 2), sig_text(1, 2), sig_text(15/19, 3)
+    ('28', '11', '0', '1.0', '0.789')
+    """
+    if isinstance(x, (int, float)) and not isinstance(x, bool):
+        x = mpmath.mpf(x)          # exact for int and float; nstr prints a float whole
+    text = mpmath.nstr(x, n)
+    if text.endswith(".0") and "e" not in text:
+        whole = text[:-2].lstrip("-").lstrip("0")
+        if not whole or len(whole) >= n:
+            return "0" if not whole else text[:-2]
+    return text
+
+
 def format_value_error(value, lower, upper, max_digits: int = 60) -> str:
     """Format ``value`` with the digits supported by the band ``[lower, upper]``.
 
@@ -177,7 +196,7 @@ def format_value_error(value, lower, upper, max_digits: int = 60) -> str:
         # 54 digits, 38 of them the expansion of its rounding error
         return mpmath.nstr(value, max(1, min(max_digits, held_digits(value))))
     if not mpmath.isfinite(err):
-        return f"{mpmath.nstr(value, 3)} (band unbounded)"
+        return f"{sig_text(value, 3)} (band unbounded)"
     e10 = int(mpmath.floor(mpmath.log10(err)))
     lead = int(err / mpf(10) ** e10)
     ndig_err = 2 if lead == 1 else 1
@@ -185,17 +204,17 @@ def format_value_error(value, lower, upper, max_digits: int = 60) -> str:
     if value != 0 and abs(value) * 10 < err:
         # the value is far inside a band around zero: its own digits mean nothing (an exponent
         # 0 to 27 digits printed as -1.5e-45 [-1.0e-27, 1.0e-27]); rounded to the band's scale it is 0
-        return f"0 [{mpmath.nstr(lower, 2)}, {mpmath.nstr(upper, 2)}]"
+        return f"0 [{sig_text(lower, 2)}, {sig_text(upper, 2)}]"
     if value != 0 and abs(value) < err:
-        return f"{mpmath.nstr(value, 2)} [{mpmath.nstr(lower, 2)}, {mpmath.nstr(upper, 2)}]"
+        return f"{sig_text(value, 2)} [{sig_text(lower, 2)}, {sig_text(upper, 2)}]"
     if value == 0 and err < mpf(10) ** -5:
         # a zero with a tiny band (the real part of a point on the imaginary axis) would
         # otherwise print as 0.000...0(12) with as many zeros as the band is small
-        return f"0 [{mpmath.nstr(lower, 2)}, {mpmath.nstr(upper, 2)}]"
+        return f"0 [{sig_text(lower, 2)}, {sig_text(upper, 2)}]"
     if place >= 6:
         # a large value: mantissa(error)eN instead of an integer with dozens of zeros
         if value == 0:
-            return f"0 [{mpmath.nstr(lower, 2)}, {mpmath.nstr(upper, 2)}]"
+            return f"0 [{sig_text(lower, 2)}, {sig_text(upper, 2)}]"
         e = int(mpmath.floor(mpmath.log10(abs(value))))
         sc = mpf(10) ** e
         return f"{format_value_error(value / sc, lower / sc, upper / sc, max_digits)}e{e}"
