@@ -49,7 +49,7 @@ import mpmath
 
 from ..context import Context, checked_context, workdps
 from ..errors import InputError, InputTypeError
-from ..results import Estimate, Provenance, Status, jsonable, num_to_str
+from ..results import Estimate, Provenance, Status, jsonable, num_to_str, sig_text
 from ..series import Series
 from ._num import lu_solve
 
@@ -408,7 +408,7 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
             # -1/4, -5/4, ... with chi2/dof 1e11; the coefficient bands missed by 100 %)
             warnings.append(f"the form {_label(_frac_or(p_mp), False, var)} + "
                             f"{_label(_frac_or(p_mp - S), False, var)} + ... misses the resummed values by "
-                            f"{mpmath.nstr(mpmath.sqrt(best), 2)} times their bands at best: the leading power "
+                            f"{sig_text(mpmath.sqrt(best), 2)} times their bands at best: the leading power "
                             "or the spacing of the subleading powers is not what the form assumes, and the "
                             "coefficient bands do not hold (try leading_power / --power, spacing / "
                             "--spacing, log terms, or values at larger coupling)")
@@ -418,7 +418,7 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
                 lo = min(p_est.lower, last, p_mp)
                 hi = max(p_est.upper, last, p_mp)
                 lp = Estimate(p_est.value, lo, hi)
-                source = (f"log-derivative {mpmath.nstr(p_est.value, 6)}, not settled (last secant "
+                source = (f"log-derivative {p_est}, not settled (last secant "
                           f"{mpmath.nstr(last, 6)}); the fits with power {_short_power(p_mp)} do not match; "
                           "the band spans what the values show, the limit may lie outside it")
         labels = []
@@ -525,7 +525,7 @@ def _leading_power(secants, S, given) -> Optional[dict]:
     with mpmath.workprec(mpmath.mp.prec + 64):
         p_mp = mpmath.mpf(fr.numerator) / fr.denominator
     return {"p": p_mp, "lp": Estimate.exact(p_mp), "estimate": p_est, "warning": "",
-            "source": f"log-derivative {mpmath.nstr(p_est.value, 6)} rounded to {fr}"}
+            "source": f"log-derivative {p_est} rounded to {fr}"}
 
 
 def _spacing_arg(spacing, dps):
@@ -664,7 +664,7 @@ def _choose_spacing(trials):
     note = ""
     if left_out:
         note = ("; left out, their leading power being no simple fraction: "
-                + ", ".join(f"{_spacing_text(tr[0])} (power {mpmath.nstr(tr[2]['p'], 5)})"
+                + ", ".join(f"{_spacing_text(tr[0])} (power {tr[2]['lp']})"
                             for tr in left_out))
     full = [(tr[0], tr, _full_window(tr[1])) for tr in (exact or trials)]
     ks = sorted({k for _, _, fw in full for k in fw})
@@ -674,10 +674,10 @@ def _choose_spacing(trials):
             continue
         sp, tr, fw = hits[0]                          # trials run from the largest spacing down
         n = next(m["dof"] + len(m["basis"]) for m in tr[1] if m["drop"] == 0)   # all trusted couplings
-        others = "; ".join(f"{_spacing_text(s2)}: {mpmath.nstr(f2[k], 2)}" for s2, _, f2 in full
+        others = "; ".join(f"{_spacing_text(s2)}: {sig_text(f2[k], 2)}" for s2, _, f2 in full
                            if s2 is not sp and f2.get(k) is not None)
         why = (f"automatic: the largest spacing whose {k}-term fit over all {n} trusted couplings matches "
-               f"the values within their bands (chi2/dof {mpmath.nstr(fw[k], 2)}); {k} terms is "
+               f"the values within their bands (chi2/dof {sig_text(fw[k], 2)}); {k} terms is "
                f"the fewest with which any of {texts} matches (the others with {k} terms: {others}){note}")
         return tr, why
     one = next((tr for tr in trials if tr[0][1] == 1), trials[0])
@@ -685,7 +685,7 @@ def _choose_spacing(trials):
     if not ks:
         return one, (f"automatic: no fit over all the trusted couplings has {CHOICE_DOF} points to spare "
                      f"to tell the spacings {texts} apart{note}; fitted with {kept}")
-    least = "; ".join(f"{_spacing_text(sp)}: {mpmath.nstr(min(fw.values()), 2)}" for sp, _, fw in full if fw)
+    least = "; ".join(f"{_spacing_text(sp)}: {sig_text(min(fw.values()), 2)}" for sp, _, fw in full if fw)
     return one, (f"automatic: no spacing of {texts} gives a fit over all the trusted couplings that matches "
                  f"the values within their bands with up to {ks[-1]} terms (smallest chi2/dof: "
                  f"{least}{note}); fitted with {kept}")
