@@ -66,7 +66,7 @@ import mpmath
 
 from .context import Context, checked_context
 from .errors import InputError, check_flag
-from .results import Estimate, Provenance, Status, num_to_str, jsonable, point_label, point_text
+from .results import Estimate, Provenance, Status, num_to_str, jsonable, point_label, point_text, sig_text
 from .series.core import Series
 from .estimators.resum_band import PointOutcome, rational_fit, supports_no_digit as _supports_no_digit
 from .estimators.resum_truncation import optimal_truncation, polynomial_degree
@@ -947,7 +947,7 @@ def _rim_alpha(cmap, alpha, large_x_power, c, ctx, digits=None):
     from_w = _rim_power_from_w(len(c), digits)
     note = (f"; growth x^({p}) at large x read from the series (the log-derivative through the map gives "
             f"{mpmath.nstr(med, 5)} +- {mpmath.nstr(max(half, mpmath.mpf(10) ** -6), 2)} at infinity), divided "
-            f"out at points with |w| >= {mpmath.nstr(from_w, 3)} and by the quadratic approximants tried from "
+            f"out at points with |w| >= {sig_text(from_w, 3)} and by the quadratic approximants tried from "
             f"|w| >= {QUADRATIC_FROM_W}; give large_x_power (--large-power) to apply a power everywhere, 0 to turn this off")
     return _alpha_for(cmap, None, mpmath.mpf(p.numerator) / p.denominator), note, from_w
 
