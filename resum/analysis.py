@@ -60,7 +60,7 @@ from .estimators import METHODS, get_method, validate_methods  # noqa: F401  (ME
 from .estimators._common import MIN_TERMS, classify_kind, prepare
 from .series.core import Series
 from .results import (Estimate, MethodResult, Provenance, Singularity, Status, _jsonable,
-                      point_text)
+                      point_text, sig_text)
 from .uncertainty.ensemble import SAFETY, digits_agree, modulus_band
 
 __all__ = ["AnalysisResult", "analyze", "default_context"]
@@ -404,7 +404,7 @@ def _drop_inside_growth_radius(combined, ok, warnings):
         return combined
     gone = [(s, f) for s, f in combined if (s, f) not in kept]
     if gone:
-        warnings.append(f"discarded {_points_by(gone)}: inside the radius {mpmath.nstr(top, 6)} implied by "
+        warnings.append(f"discarded {_points_by(gone)}: inside the radius {sig_text(top, 3)} implied by "
                         "the growth of the coefficients")
     return kept
 
@@ -474,7 +474,7 @@ def _screen_lone_inner_points(sings, ok, warnings):
         return sings
     warnings.append(f"discarded {_points_by([(s, [s.method]) for s in drop])}, "
                     f"{'each ' if len(drop) > 1 else ''}seen by one method only: "
-                    f"inside the radius {mpmath.nstr(floor / (1 - LONE_INNER_MARGIN), 6)} implied by the "
+                    f"inside the radius {sig_text(floor / (1 - LONE_INNER_MARGIN), 3)} implied by the "
                     "growth of the coefficients")
     return [s for s in sings if not any(s is d for d in drop)]
 
