@@ -74,7 +74,7 @@ def plot_domb_sykes(result, ax=None):
         th = float(sing.exponent.value)
         line_x = [0] + xs
         line_y = [(mus * (1 - s * (1 + th) * h)).real for h in line_x]
-        ax.plot(line_x, line_y, "-", lw=1, label=f"intercept mu^{s}, slope from theta = {th:.6g}")
+        ax.plot(line_x, line_y, "-", lw=1, label=f"intercept mu^{s}, slope from theta = {sing.exponent}")
         ax.plot([0], [mus.real], "s", color="C3")
     ax.set_xlabel("1/n")
     ax.set_ylabel(f"c_n / c_(n-{s})")
