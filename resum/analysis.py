@@ -59,7 +59,7 @@ from .errors import InputError, check_flag
 from .estimators import METHODS, get_method, validate_methods  # noqa: F401  (METHODS re-exported)
 from .estimators._common import MIN_TERMS, classify_kind, prepare
 from .series.core import Series
-from .results import (Estimate, MethodResult, Provenance, Singularity, Status, _jsonable,
+from .results import (JSON_BAND_NOTE, Estimate, MethodResult, Provenance, Singularity, Status, _jsonable,
                       point_text, sig_text)
 from .uncertainty.ensemble import SAFETY, digits_agree, modulus_band
 
@@ -169,6 +169,14 @@ class AnalysisResult:
                           "re_band": d["re_band"], "im_band": d["im_band"], "method": s.method})
         out = {"radius": rad, "singularities": sings, "warnings": list(self.warnings),
                "growth": self.growth, "status": self.status.value}
+        # the earned digits as value(error) texts, and what a band is (the text report's last lines)
+        out["radius_text"] = None if self.radius is None else str(Estimate.from_dict(rad))
+        for s, d in zip(self.singularities, sings):
+            d["re_text"] = str(Estimate.from_dict(d["re_band"]))
+            d["im_text"] = str(Estimate.from_dict(d["im_band"]))
+            d["exponent_text"] = None if d["exponent"] is None else str(Estimate.from_dict(d["exponent"]))
+        out["bands"] = JSON_BAND_NOTE
+        out["how"] = str((self.diagnostics or {}).get("how", ""))
         if self.borel_singularity is not None:
             lo = self.methods.get("large-order")
             ld = (lo.diagnostics or {}) if lo is not None else {}

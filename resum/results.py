@@ -413,6 +413,12 @@ def _end_to_str(x, dps: int, up: bool) -> str:
     return text
 
 
+#: What the decimal strings of a JSON band say (the ``bands`` note of the JSON documents).
+JSON_BAND_NOTE = ("Each band {lo, hi} is an estimate of where the true value lies, made as 'how' says; "
+                  "it is not a proof. 'value' is written with the digits the band supports plus three "
+                  "guard digits; the *_text fields give value(error), only the digits the band supports.")
+
+
 def _dps_for_band(e: Estimate) -> int:
     """Digits to write: those supported by the band plus three guard digits."""
     if e.error == 0 and e.value != 0:

@@ -248,10 +248,12 @@ class EvaluationResult:
                        "method": p.method, "status": p.status.value, "message": p.message}
             else:
                 e = p.value.to_dict()
-                row = {**at, "value": e["value"], "lo": e["lo"], "hi": e["hi"], "method": p.method}
+                row = {**at, "value": e["value"], "lo": e["lo"], "hi": e["hi"], "method": p.method,
+                       "text": str(Estimate.from_dict(e))}
                 if p.imag is not None:
                     i = p.imag.to_dict()
-                    row.update({"im": i["value"], "im_lo": i["lo"], "im_hi": i["hi"]})
+                    row.update({"im": i["value"], "im_lo": i["lo"], "im_hi": i["hi"],
+                                "im_text": str(Estimate.from_dict(i))})
                 d = p.digits
                 row["digits"] = "inf" if not math.isfinite(d) else f"{d:.1f}"
                 row["status"] = p.status.value
@@ -261,7 +263,10 @@ class EvaluationResult:
                 if reach and reach.get("terms_needed"):
                     row["terms_needed"] = str(reach["terms_needed"])
             vals.append(row)
-        return {"values": vals, "warnings": list(self.warnings)}
+        from .report.evaluation_text import band_meanings
+        from .results import JSON_BAND_NOTE
+        return {"values": vals, "warnings": list(self.warnings), "bands": JSON_BAND_NOTE,
+                "how": "\n\n".join(band_meanings(self))}
 
 
 def _strings(obj):

@@ -16,7 +16,8 @@ import mpmath
 from ..context import workdps
 from ..results import format_value_error, point_text
 
-__all__ = ["render_evaluation", "describe_map", "BAND_MEANING", "BAND_MEANING_ODE", "BAND_MEANING_BOREL_ODE"]
+__all__ = ["render_evaluation", "describe_map", "band_meanings", "BAND_MEANING", "BAND_MEANING_ODE",
+           "BAND_MEANING_BOREL_ODE"]
 
 BAND_MEANING = (
     "What the band means: the value is the median of the three highest-order approximants; the band is "
@@ -260,6 +261,13 @@ def _render(result, title, reference):
             if not any(w.endswith(p.message) for p in fails if p.message):
                 lines.append(f"  {w}")
     lines.append("")
+    lines.append("\n\n".join(band_meanings(result)))
+    return "\n".join(lines) + "\n"
+
+
+def band_meanings(result) -> list:
+    """What the bands of ``result`` mean and how they were made: one paragraph per kind of
+    method among its points (the text report ends with them; ``--json`` carries them too)."""
     methods = {getattr(p, "method", "") for p in result.points} or {getattr(result, "method", "")}
     texts = []
     if "ode" in methods:
@@ -268,5 +276,4 @@ def _render(result, title, reference):
         texts.append(BAND_MEANING_BOREL_ODE)
     if methods - {"ode", "borel-ode"}:
         texts.append(BAND_MEANING)
-    lines.append("\n\n".join(texts))
-    return "\n".join(lines) + "\n"
+    return texts

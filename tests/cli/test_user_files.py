@@ -119,3 +119,39 @@ def test_point_on_a_cut_is_named_in_the_files_variable(tmp_path, capsys):
     doc = json.loads(capsys.readouterr().out)
     on_cut = [w for w in doc["warnings"] if "lies on the cut" in w]
     assert on_cut and all(w.startswith("at 0.5: v = 0.5 ") for w in on_cut), doc["warnings"]
+
+
+def _value_error(text):
+    """value(error) text -> (value, error) as mpf; None for the bracket form of wide bands."""
+    import re
+    import mpmath
+    m = re.fullmatch(r"(-?\d+)(?:\.(\d+))?\((\d+)\)", text)
+    if m is None:
+        return None
+    decimals = len(m.group(2) or "")
+    return (mpmath.mpf(m.group(1) + ("." + m.group(2) if m.group(2) else "")),
+            mpmath.mpf(m.group(3)) * mpmath.mpf(10) ** -decimals)
+
+
+def test_analyze_json_says_which_digits_are_earned(tmp_path, capsys):
+    # Ising susceptibility, 27 exact terms (tests/data; Sykes, Gaunt, Roberts, Wyles, J. Phys. A 5
+    # (1972) 624): v_c = sqrt(2) - 1 (Kramers and Wannier 1941), theta = -7/4 (Wu, McCoy, Tracy,
+    # Barouch, PRB 13 (1976) 316). The JSON document gives each band also as value(error) text in
+    # the digits it supports (its decimal strings carry three guard digits), and says what a band is
+    import mpmath
+    src = json.loads((Path(__file__).parents[1] / "data" / "ising_sq_susceptibility_hightemp.json").read_text())
+    p = tmp_path / "chi.txt"
+    p.write_text("variable: v\n" + "\n".join(src["coefficients"]) + "\n")
+    assert main(["analyze", str(p), "--no-verify", "--json"]) == 0
+    doc = json.loads(capsys.readouterr().out)
+    assert "not a proof" in doc["bands"] and "guard digits" in doc["bands"] and doc["how"]
+    vc = mpmath.sqrt(2) - 1
+    s = min(doc["singularities"], key=lambda d: abs(mpmath.mpf(d["re"]) - vc))
+    v, e = _value_error(s["re_text"])
+    assert abs(v - vc) <= e
+    # fewer decimals than the decimal string, which carries the guard digits
+    assert len(s["re_text"].split("(")[0].split(".")[1]) < len(s["re"].split(".")[1])
+    v, e = _value_error(s["exponent_text"])
+    assert abs(v + mpmath.mpf(7) / 4) <= e
+    v, e = _value_error(doc["radius_text"])
+    assert abs(v - vc) <= e

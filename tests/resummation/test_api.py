@@ -1,4 +1,5 @@
 """Public API, JSON round trip, input errors and the command line."""
+import re
 import json
 import math
 
@@ -52,11 +53,19 @@ def test_round_trip_and_contract():
         assert r2.points[0].value.contains(mpmath.log(4) / 3)
     assert r2.to_dict()["points"][0]["value"] == d["points"][0]["value"]
     cd = r.contract_dict()
-    assert set(cd) == {"values", "warnings"}
+    assert set(cd) == {"values", "warnings", "bands", "how"}
+    assert "not a proof" in cd["bands"] and "median of the three highest-order" in cd["how"]
     for row in cd["values"]:
-        assert set(row) - {"terms_needed", "message"} == {"at", "value", "lo", "hi", "method", "digits", "status"}
+        assert set(row) - {"terms_needed", "message"} == {"at", "value", "lo", "hi", "method", "digits", "status",
+                                                         "text"}
         assert all(isinstance(v, str) for v in row.values())
         assert mpmath.mpf(row["lo"]) <= mpmath.mpf(row["value"]) <= mpmath.mpf(row["hi"])
+    # the value(error) text: the digits the band supports, and it still holds the truth
+    with workdps(40):
+        m = re.fullmatch(r"(-?\d+\.(\d+))\((\d+)\)", cd["values"][0]["text"])
+        assert m, cd["values"][0]["text"]
+        err = mpmath.mpf(m.group(3)) * mpmath.mpf(10) ** -len(m.group(2))
+        assert abs(mpmath.mpf(m.group(1)) - mpmath.log(4) / 3) <= err
     assert cd["values"][1]["at"].startswith("0.5")
 
 
