@@ -187,9 +187,16 @@ class RunFolder:
         counts["missing"] = spec.n_points - counts["recorded"]
         atomic_write_text(self.path / "summary.json", _dump(
             {"format": "resum-family-summary/1", "study": spec.name, "spec_digest": spec.digest,
-             "counts": counts, "rows": rows}))
+             "counts": counts, "bands": SUMMARY_BAND_NOTE, "rows": rows}))
         atomic_write_text(self.path / "summary.csv", rows_to_csv(rows))
         return counts
+
+
+#: What the summary's numbers are (the ``bands`` note of summary.json; the CSV's columns
+#: ``X``, ``X_lo``, ``X_hi`` are the same strings).
+SUMMARY_BAND_NOTE = ("Each X, X_lo, X_hi is a band: an estimate of where the true value lies, made as "
+                     "the point's record says ('how' of each task), not a proof. The strings carry the "
+                     "digits the band supports plus three guard digits.")
 
 
 def _load_record(path: Path) -> Optional[dict]:

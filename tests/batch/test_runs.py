@@ -84,6 +84,7 @@ def test_serial_run_records_and_truth(tmp_path):
             assert abs(ps - (1 - x / R) ** (-a)) < tail
     summary = json.loads((tmp_path / "o" / "summary.json").read_text())
     assert summary["counts"]["failed"] == 2 and len(summary["rows"]) == 8
+    assert "not a proof" in summary["bands"] and "guard digits" in summary["bands"]
     csv = (tmp_path / "o" / "summary.csv").read_text().splitlines()
     assert csv[0].startswith("key,index,status,param_radius,exponent") and len(csv) == 9
 
