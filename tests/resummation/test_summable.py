@@ -55,7 +55,8 @@ def test_non_borel_summable_lateral_sums(x):
         assert abs(mpmath.mpf(p.diagnostics["ray_singularity"]) - 1) < 1e-12
     cd = r.contract_dict()
     assert set(cd["values"][0]) - {"terms_needed", "message"} == {"at", "value", "lo", "hi", "method", "digits",
-                                                                   "im", "im_lo", "im_hi", "status"}
+                                                                   "im", "im_lo", "im_hi", "status", "text",
+                                                                   "im_text"}
 
 
 @pytest.mark.parametrize("g", ["0.5", "2"])
