@@ -165,17 +165,21 @@ class RunFolder:
         return _load_record(self.record_path(key))
 
     def records(self) -> list:
-        out = [r for r in map(_load_record, self.record_paths()) if r is not None]
-        return sorted(out, key=lambda r: r["index"])
+        return self.read_all()[0]
 
-    def unreadable_records(self) -> list:
-        """Record files (``points/p*.json``) that hold no record of ours: their points count
-        as not computed (see :func:`_load_record`)."""
-        return [p for p in self.record_paths() if _load_record(p) is None]
+    def read_all(self) -> tuple:
+        """``(records, unreadable)``: the records on disk by index, and the record files
+        (``points/p*.json``) that hold no record of ours, whose points count as not computed
+        (see :func:`_load_record`); one read of each file."""
+        out, bad = [], []
+        for p in self.record_paths():
+            r = _load_record(p)
+            (bad if r is None else out).append(p if r is None else r)
+        return sorted(out, key=lambda r: r["index"]), bad
 
-    def statuses(self) -> dict:
-        """``{key: status}`` of the records on disk."""
-        return {r["key"]: r.get("status", "failed") for r in self.records()}
+    def statuses(self, records=None) -> dict:
+        """``{key: status}`` of the records on disk (or of ``records`` already read)."""
+        return {r["key"]: r.get("status", "failed") for r in (self.records() if records is None else records)}
 
     # -------------------------------------------------------------- summary
     def write_summary(self, spec: FamilySpec) -> dict:

@@ -46,9 +46,10 @@ class FamilyOutcome:
             and self.counts.get("missing", 0) == 0
 
 
-def plan(spec: FamilySpec, folder: RunFolder, retry_failed: bool = False):
-    """``(todo, skipped)``: indices to compute and indices already recorded."""
-    status = folder.statuses()
+def plan(spec: FamilySpec, folder: RunFolder, retry_failed: bool = False, status=None):
+    """``(todo, skipped)``: indices to compute and indices already recorded (``status``: the
+    folder's ``{key: status}`` when already read)."""
+    status = folder.statuses() if status is None else status
     todo, skipped = [], []
     for i in range(spec.n_points):
         key = spec.point(i).key
@@ -96,8 +97,10 @@ def run_family(spec: FamilySpec, outdir, runner=None, resume: bool = False,
         runner.prepare()          # e.g. reach the cluster before writing anything
     try:
         folder.prepare(spec, resume=resume or retry_failed)
-        todo, skipped = plan(spec, folder, retry_failed=retry_failed)
-        unreadable = tuple(p.name for p in folder.unreadable_records())
+        recs, bad = folder.read_all()
+        todo, skipped = plan(spec, folder, retry_failed=retry_failed,
+                             status=folder.statuses(recs))
+        unreadable = tuple(p.name for p in bad)
     except BaseException:
         if hasattr(runner, "close"):
             runner.close()
