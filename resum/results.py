@@ -192,6 +192,8 @@ def format_value_error(value, lower, upper, max_digits: int = 60) -> str:
     if not mpmath.isfinite(value):
         return num_to_str(value)
     if err == 0:
+        if value == 0:
+            return "0"             # an exact zero (the imaginary part of a real point), not 0.0
         # no more digits than the binary number holds: 1/3 made at 53 bits would otherwise print
         # 54 digits, 38 of them the expansion of its rounding error
         return mpmath.nstr(value, max(1, min(max_digits, held_digits(value))))

@@ -19,6 +19,13 @@ def test_zero_with_a_tiny_band_prints_the_band_not_fifty_zeros():
         assert lo <= -mpmath.mpf("1.1e-49") and hi >= mpmath.mpf("3.4e-49")
 
 
+def test_an_exact_zero_prints_as_0():
+    # the imaginary part of a point on the real axis: "0", not "0.0", which reads as a rounded
+    # value with one decimal (common practice, no source); an exact 1 keeps its form
+    assert str(Estimate.exact(mpmath.mpf(0))) == "0"
+    assert str(Estimate.exact(mpmath.mpf(1))) == "1.0"
+
+
 def test_zero_with_a_band_above_1e_5_keeps_value_error_form():
     # 0.000(3) is short and readable: the value(error) form stays (common practice, no source)
     with workdps(30):
