@@ -175,6 +175,23 @@ def sig_text(x, n: int) -> str:
     return text
 
 
+def band_digits(x, half, most: int = 15) -> int:
+    """Significant digits of ``x`` that a half-width ``half`` supports, for :func:`sig_text`: the
+    last digit shown sits at the decimal place of the half-width's leading digit (``0.6667`` with
+    ``half = 2e-3`` gives 3: ``0.667``), at least 1 and at most ``most``.
+
+    >>> band_digits(mpf(2)/3, mpf("2e-3")), band_digits(123.4, 2), band_digits(1, 5)
+    (3, 3, 1)
+    """
+    x, half = abs(mpf(x)), abs(mpf(half))
+    if x == 0 or not mpmath.isfinite(x):
+        return 1
+    if half == 0 or not mpmath.isfinite(half):
+        return most if half == 0 else 1
+    n = int(mpmath.floor(mpmath.log10(x))) - int(mpmath.floor(mpmath.log10(half))) + 1
+    return max(1, min(most, n))
+
+
 def format_value_error(value, lower, upper, max_digits: int = 60) -> str:
     """Format ``value`` with the digits supported by the band ``[lower, upper]``.
 

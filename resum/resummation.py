@@ -570,16 +570,28 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
     if method == "pade":
         return _Plan("pade", why="requested")
     radius = None
+    radius_text = None          # the radius as the plan's note prints it
     sings = list(singularities) if singularities else None
     if cmap is None and sings is None and an is not None and getattr(an, "singularities", ()):
         sings = list(an.singularities)
     if an is not None and getattr(an, "radius", None) is not None:
         radius = an.radius.value
-    if cmap is None and sings is None and method in ("auto",) + _CONFORMAL:
+        radius_text = str(an.radius)
+    probed = cmap is None and sings is None and method in ("auto",) + _CONFORMAL
+    if probed:
         sings = _series_singularities(c)
     if radius is None and sings:
         z = sings[0]
         radius = abs(z.location if hasattr(z, "location") else z)
+        # a singularity of the analysis with its band; a point the caller gave as given; the
+        # quick probe's pole has no band
+        if hasattr(z, "re") and hasattr(z, "im"):
+            from .uncertainty.ensemble import modulus_band
+            radius_text = str(modulus_band(z.re, z.im))
+        elif probed:
+            radius_text = f"about {sig_text(radius, 3)} (rough)"
+        else:
+            radius_text = mpmath.nstr(radius, 8)
     if sings:
         sings = _cut_first(sings)
     chosen = cmap if cmap is not None else (choose_map(sings) if sings else None)
@@ -592,7 +604,7 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
                                  "beyond it to map, Padé approximants inside", reach=nb.lower, boundary=nb)
     if method == "auto":
         if radius is not None and all(abs(x) < radius / 4 for x in xs):
-            plan = _Plan("partial-sum", why=f"all points inside a quarter of the radius {mpmath.nstr(radius, 8)}")
+            plan = _Plan("partial-sum", why=f"all points inside a quarter of the radius {radius_text}")
             if mpmath.isinf(radius) and not _partial_sums_settle(c, xs):
                 # an entire function far out (exp(-x) from 60 terms at x = 30: the terms peak at
                 # 1e12 and the last is 1e6): partial sums cannot settle, an exact equation can
@@ -616,7 +628,7 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
             other = _Plan("pade", why=f"finite radius; the singularities found are {what} ({locs}): "
                                       "Padé approximants represent them, no cut is needed"
                                       + ("" if reach is None else
-                                         f"; their poles are resolved for |x| < {mpmath.nstr(reach, 4)}"),
+                                         f"; their poles are resolved for |x| < {sig_text(reach, 4)}"),
                           reach=reach)
         elif chosen is not None:
             a, note, from_w = _rim_alpha(chosen, alpha, large_x_power, c, ctx, series.digits)
@@ -951,7 +963,8 @@ def _rim_alpha(cmap, alpha, large_x_power, c, ctx, digits=None):
     p, med, half = got
     from_w = _rim_power_from_w(len(c), digits)
     note = (f"; growth x^({p}) at large x read from the series (the log-derivative through the map gives "
-            f"{mpmath.nstr(med, 5)} +- {mpmath.nstr(max(half, mpmath.mpf(10) ** -6), 2)} at infinity), divided "
+            f"{Estimate(med, med - max(half, mpmath.mpf(10) ** -6), med + max(half, mpmath.mpf(10) ** -6))} "
+            "at infinity), divided "
             f"out at points with |w| >= {sig_text(from_w, 3)} and by the quadratic approximants tried from "
             f"|w| >= {QUADRATIC_FROM_W}; give large_x_power (--large-power) to apply a power everywhere, 0 to turn this off")
     return _alpha_for(cmap, None, mpmath.mpf(p.numerator) / p.denominator), note, from_w
@@ -1004,10 +1017,10 @@ def _run(plan: _Plan, c, xs, dps, n_orders, quad_dps=None, target=None):
             return outs, diag
         full = [PointOutcome(None, None, False, (
             f"x = {point_text(x, 8)} lies beyond the poles the approximants resolve (|x| < "
-            f"{mpmath.nstr(plan.reach, 4)}, where the top two orders stop agreeing): their values there are "
+            f"{sig_text(plan.reach, 4)}, where the top two orders stop agreeing): their values there are "
             "extrapolation; more terms reach farther") if plan.boundary is None else (
             f"x = {point_text(x, 8)} lies at or beyond the natural boundary suspected at |x| ~ {plan.boundary} "
-            f"(from {mpmath.nstr(plan.boundary.lower, 4)}): the series defines no value there, so none is "
+            f"(from {sig_text(plan.boundary.lower, 4)}): the series defines no value there, so none is "
             "given"), {}) for x in xs]
         for j, o in zip(inside, outs):
             full[j] = o
@@ -1433,7 +1446,7 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                             status, success = Status.UNSTABLE_PRECISION, False
                         else:
                             status, success = Status.UNSTABLE_ORDER, False
-                        msg = f"the {name} rerun moved the value by {mpmath.nstr(dev, 3)}, far outside the band"
+                        msg = f"the {name} rerun moved the value by {sig_text(dev, 3)}, far outside the band"
                 parts["approximants"] = mpmath.nstr(re.error, 5)
                 if checks[j]:
                     # the precision rerun widens the band; the fewer-terms rerun only checks it
@@ -1474,7 +1487,7 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                             re = Estimate(re.value, min(re.lower, re.value - w), max(re.upper, re.value + w))
                             parts["fewer terms"] = mpmath.nstr(re.error, 5)
                             warnings.append(f"at {point_text(a)}: the band with fewer terms falls short of "
-                                            f"the full-order value by a factor {mpmath.nstr(short, 3)}; "
+                                            f"the full-order value by a factor {sig_text(short, 3)}; "
                                             "band widened by that factor")
                     pdiag["verification"] = agree
                 if not success:
@@ -1502,8 +1515,8 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                     pdiag["absolute"] = {"bound": mpmath.nstr(err, 5), "scale": mpmath.nstr(zero_scale, 5)}
                     pdiag.pop("reach", None)     # a count of terms for relative digits means nothing here
                     warnings.append(f"at {point_text(a)}: the value is zero to within "
-                                    f"{mpmath.nstr(err, 3)} (absolute; the first term of the series there is "
-                                    f"{mpmath.nstr(zero_scale, 3)}): the band is an absolute error, it supports "
+                                    f"{sig_text(err, 3)} (absolute; the first term of the series there is "
+                                    f"{sig_text(zero_scale, 3)}): the band is an absolute error, it supports "
                                     "no relative digit")
                 elif success and _supports_no_digit(re, im):
                     # a band wider than a tenth of the value is no result, however stable the
@@ -1511,9 +1524,9 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                     status, success = Status.NOT_CONVERGED, False
                     # name the band that is wide: at a complex point the test is on the modulus,
                     # and a narrow real band beside a wide imaginary one must not read as the cause
-                    band = f"[{mpmath.nstr(re.lower, 2)}, {mpmath.nstr(re.upper, 2)}]"
+                    band = f"[{sig_text(re.lower, 2)}, {sig_text(re.upper, 2)}]"
                     if im is not None:
-                        band += f" + i [{mpmath.nstr(im.lower, 2)}, {mpmath.nstr(im.upper, 2)}]"
+                        band += f" + i [{sig_text(im.lower, 2)}, {sig_text(im.upper, 2)}]"
                     msg = f"the band {band} supports no significant digit"
                     msg += (f": {o.info['cut_hint']}" if o.info.get("cut_hint") else
                             " (more terms or another method, --method, may help; if the function vanishes "
