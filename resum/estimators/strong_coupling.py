@@ -344,7 +344,7 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
             return StrongCouplingResult(False, Status.TOO_FEW_TERMS,
                                         f"only {len(trusted)} of {len(gs)} couplings "
                                         f"({mpmath.nstr(gs[0], 4)} ... {mpmath.nstr(gs[-1], 4)}) have a resummed "
-                                        f"band below {mpmath.nstr(max_rel_band, 3)} of the value "
+                                        f"band below {sig_text(max_rel_band, 3)} of the value "
                                         f"({len(got)} gave a value at all); the fit needs 4: give more terms, "
                                         "other couplings (--at), or a larger max_rel_band (--max-band)" + why,
                                         var, tuple(gs), tuple(vals), trusted_up_to, None, "", ())
@@ -384,8 +384,8 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
             warnings.append(pw["warning"])
         # per spacing tried: the leading power used, and chi2/dof of the fit over all trusted
         # couplings per number of terms
-        spacing_trials = {_spacing_text(sp): {"power": str(_short_power(pw_["p"])),
-                                              "chi2_per_dof": {str(k): mpmath.nstr(v, 3)
+        spacing_trials = {_spacing_text(sp): {"power": leading_power_text(pw_["lp"]),
+                                              "chi2_per_dof": {str(k): sig_text(v, 2)
                                                                for k, v in _full_window(ms).items()}}
                           for sp, ms, pw_ in trials}
         if not members:
@@ -414,12 +414,14 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
                             "--spacing, log terms, or values at larger coupling)")
             if p_est is not None and leading_power is None:
                 # the secants are what the values show; the rounded fraction is not confirmed
-                last = secants[-1][1]
+                last, last_band = secants[-1][1], secants[-1][2]
                 lo = min(p_est.lower, last, p_mp)
                 hi = max(p_est.upper, last, p_mp)
                 lp = Estimate(p_est.value, lo, hi)
+                fitted = _short_power(p_mp)
                 source = (f"log-derivative {p_est}, not settled (last secant "
-                          f"{mpmath.nstr(last, 6)}); the fits with power {_short_power(p_mp)} do not match; "
+                          f"{Estimate(last, last - last_band, last + last_band)}); the fits with power "
+                          f"{fitted if not isinstance(fitted, mpmath.mpf) else p_est} do not match; "
                           "the band spans what the values show, the limit may lie outside it")
         labels = []
         for m in ok:
@@ -462,13 +464,13 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
                 {"spacing_trials": spacing_trials}, None, spacing_out, spacing_source)
         comparison = _compare(coeffs, expected, warnings)
         diag = {"n_fits": len(members), "n_fits_kept": len(ok), "secants": [
-            (mpmath.nstr(g, 6), mpmath.nstr(p, 10)) for g, p, _ in secants],
+            (mpmath.nstr(g, 6), str(Estimate(p, p - dp, p + dp))) for g, p, dp in secants],
             "power_estimate": None if p_est is None else p_est.to_dict(),
             "resummation_method": meth,
             "spacing_trials": spacing_trials,
             "how": "coefficients: median over fits (terms in the form, lowest coupling kept); "
                    "band = 3 x max(16-84 percentile spread over fits, median least-squares standard error)",
-            "chi2_per_dof": [mpmath.nstr(m["chi2"] / m["dof"], 3) if m["dof"] else None for m in members]}
+            "chi2_per_dof": [sig_text(m["chi2"] / m["dof"], 2) if m["dof"] else None for m in members]}
         prov = Provenance("strong-coupling", {"method": meth, "leading_power": None if leading_power is None
                                               else str(leading_power), "log_terms": log_terms,
                                               "n_terms_fit": list(n_terms_fit),
