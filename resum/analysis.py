@@ -60,7 +60,7 @@ from .estimators import METHODS, get_method, validate_methods  # noqa: F401  (ME
 from .estimators._common import MIN_TERMS, classify_kind, prepare
 from .series.core import Series
 from .results import (JSON_BAND_NOTE, Estimate, MethodResult, Provenance, Singularity, Status, _jsonable,
-                      point_text, sig_text)
+                      band_digits, point_text, sig_text)
 from .uncertainty.ensemble import SAFETY, digits_agree, modulus_band
 
 __all__ = ["AnalysisResult", "analyze", "default_context"]
@@ -506,7 +506,8 @@ def _drop_lone_outer_points(lead, warnings):
     confirmed = [s for s, f in lead if not _single_source(s, f)]
     if not confirmed:
         return lead
-    edge = min(modulus_band(s.re, s.im).upper for s in confirmed)
+    edge_band = min((modulus_band(s.re, s.im) for s in confirmed), key=lambda b: b.upper)
+    edge = edge_band.upper
     floor = min(modulus_band(s.re, s.im).lower for s in confirmed)
 
     def unseen_on_circle(s):
@@ -521,15 +522,30 @@ def _drop_lone_outer_points(lead, warnings):
             and (abs(s.location) > edge or unseen_on_circle(s))]
     if lone:
         warnings.append(f"not reported: {_points_by(lone)}, each seen by one method only, not nearer than the "
-                        f"nearest singularity two or more methods confirm (radius {mpmath.nstr(edge, 6)} "
-                        "at most)")
+                        f"nearest singularity two or more methods confirm (radius {edge_band})")
     return [t for t in lead if t not in lone]
 
 
 def _points_by(pairs):
     """'a point at z (method)' or 'points at z1 (m1), z2 (m2), ...' for warnings."""
-    items = [f"{point_text(s.location, 6)} ({' + '.join(f)})" for s, f in pairs]
+    items = [f"{_location_text(s)} ({' + '.join(f)})" for s, f in pairs]
     return ("a point at " if len(items) == 1 else "points at ") + ", ".join(items)
+
+
+def _location_text(s, most: int = 6) -> str:
+    """A singularity's location for warnings: each part as value(error) when its band supports
+    fewer than ``most`` digits, else to ``most`` digits, written as ``point_text`` writes a point
+    (``0.79(3) - 0.66(2)*I``)."""
+    def part(e):
+        if e.error > 0 and band_digits(e.value, e.error, most + 1) <= most:
+            return str(e)
+        return sig_text(e.value, most)
+    if s.im.value == 0:
+        return part(s.re)
+    im = f"{part(Estimate(abs(s.im.value), abs(s.im.value) - s.im.error, abs(s.im.value) + s.im.error))}*I"
+    if s.re.value == 0:
+        return im if s.im.value > 0 else "-" + im
+    return f"{part(s.re)} {'+' if s.im.value > 0 else '-'} {im}"
 
 
 def _growth_class(series):
@@ -570,7 +586,7 @@ def _reconcile(series, results, warnings):
     if growth == "factorial":
         if "large-order" not in ok:
             out["radius"] = Estimate.exact(0)
-            warnings.append("factorial growth (kappa = " + mpmath.nstr(lo.diagnostics["kappa"], 3)
+            warnings.append("factorial growth (kappa = " + sig_text(lo.diagnostics["kappa"], 3)
                             + "), but the Borel-plane singularity was not located (" + lo.message
                             + "): the coefficients do not follow one S A^-n Gamma(n + b) (a complex pair, "
                             "alternating patterns, or Gamma(k n) growth); radius 0")

@@ -274,6 +274,6 @@ def probe_natural_boundary(c, dps: int, digits: int, top=None) -> dict:
     out["suspected"] = True
     out["radius"] = Estimate(R, min(lo, R - drift), max(hi, R + drift))
     out["reason"] = (f"{t0['ring']} of {t0['points']} poles and zeros of [{t0['L']}/{t0['M']}] lie near |x| = "
-                     f"{mpmath.nstr(R, 3)} (largest empty arc {t0['max_gap_deg']:.0f} deg), "
+                     f"{out['radius']} (largest empty arc {t0['max_gap_deg']:.0f} deg), "
                      f"{tl['ring']} of [{tl['L']}/{tl['M']}]; none stable inside")
     return out
