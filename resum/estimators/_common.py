@@ -21,7 +21,7 @@ import mpmath
 
 from ..context import DEFAULT, Context
 from ..errors import InputError
-from ..results import Estimate, MethodResult, Provenance, Singularity, Status
+from ..results import Estimate, MethodResult, Provenance, Singularity, Status, band_digits, sig_text
 from ..uncertainty.ensemble import modulus_band
 
 __all__ = ["Prepared", "prepare", "lift", "classify_kind", "failed", "MIN_TERMS"]
@@ -184,8 +184,10 @@ def complex_exponent_note(theta_complex, half) -> Optional[str]:
     ti = mpmath.im(theta_complex) if isinstance(theta_complex, mpmath.mpc) else 0
     if abs(ti) <= max(10 * half, mpmath.mpf(10) ** -8):
         return None
-    return (f"complex exponent about {mpmath.nstr(mpmath.re(theta_complex), 8)} "
-            f"{'-' if ti < 0 else '+'} {mpmath.nstr(abs(ti), 8)} i: no real exponent is claimed")
+    # each part to the digits the real part's half-width supports (at most 8)
+    tr = mpmath.re(theta_complex)
+    return (f"complex exponent about {sig_text(tr, band_digits(tr, half, 8))} "
+            f"{'-' if ti < 0 else '+'} {sig_text(abs(ti), band_digits(ti, half, 8))} i: no real exponent is claimed")
 
 
 def classify_kind(theta: Optional[Estimate]) -> str:

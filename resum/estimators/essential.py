@@ -46,7 +46,7 @@ from __future__ import annotations
 
 import mpmath
 
-from ..results import Estimate
+from ..results import Estimate, sig_text
 from ..uncertainty.ensemble import SAFETY
 
 __all__ = ["probe_essential", "BETA_MIN", "MIN_TERMS"]
@@ -121,12 +121,12 @@ def probe_essential(c) -> dict:
     out["beta"] = Estimate(med, med - SAFETY * spread, med + SAFETY * spread)
     out["location"] = Estimate(xmed, xmed - SAFETY * xspread, xmed + SAFETY * xspread)
     if betas[0] < BETA_MIN:
-        out["reason"] = (f"no 1/sqrt(n) term in the ratios: beta = {mpmath.nstr(med, 3)} "
-                         f"(smallest fit {mpmath.nstr(betas[0], 3)}; an algebraic or logarithmic point gives 0)")
+        out["reason"] = (f"no 1/sqrt(n) term in the ratios: beta = {out['beta']} "
+                         f"(smallest fit {sig_text(betas[0], 3)}; an algebraic or logarithmic point gives 0)")
         return out
     if spread > BETA_AGREE * abs(med):
-        out["reason"] = (f"the 1/sqrt(n) term of the ratios drifts between fits (beta {mpmath.nstr(betas[0], 3)} "
-                         f"to {mpmath.nstr(betas[-1], 3)}): not exp(beta sqrt(n)) growth")
+        out["reason"] = (f"the 1/sqrt(n) term of the ratios drifts between fits (beta {sig_text(betas[0], 3)} "
+                         f"to {sig_text(betas[-1], 3)}): not exp(beta sqrt(n)) growth")
         return out
     out["essential"] = True
     out["reason"] = (f"the ratios c_n/c_(n-1) carry a 1/sqrt(n) term: c_n ~ x_c^-n exp(beta sqrt(n)) "

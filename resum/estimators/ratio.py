@@ -61,7 +61,7 @@ import math
 
 import mpmath
 
-from ..results import Estimate, Singularity, Status
+from ..results import Estimate, Singularity, Status, sig_text
 from ..uncertainty.ensemble import SAFETY
 from ._common import classify_kind, complex_exponent_note, failed, finish, prepare
 from ._extrap import extrapolate
@@ -312,7 +312,7 @@ def estimate_ratio(series, ctx=None, step=None):
         if growth != "finite radius":
             return failed(method, Status.NOT_APPLICABLE,
                           f"coefficients grow like {'a factorial' if growth == 'factorial' else 'an entire-like'} series "
-                          f"(kappa = {mpmath.nstr(kappa, 3)}); "
+                          f"(kappa = {sig_text(kappa, 3)}); "
                           "ratio extrapolation needs a finite radius", prep, {"kappa": kappa})
         steps = [step] if step else [1, 2]
         # zero coefficients in the tail that are not one whole parity class: the ratios skip
@@ -602,7 +602,7 @@ def estimate_conjugate_pair(series, ctx=None):
         score, D, seq = best
         if score > 0.05:
             return failed(method, Status.NOT_CONVERGED,
-                          f"conjugate-pair fits unstable (relative spread {mpmath.nstr(score, 2)})", prep)
+                          f"conjugate-pair fits unstable (relative spread {sig_text(score, 2)})", prep)
         n_last, mu, cphi, g = seq[-1]
         floor = prep.eps * 10 ** (2 * D + 2) * 100
         mu_half = max(SAFETY * max(abs(s[1] - mu) for s in seq), floor * mu)
@@ -625,7 +625,7 @@ def estimate_conjugate_pair(series, ctx=None):
             # (1 + 16x)^(1/8) - 3 (1 + 16x)^(5/8), 80 terms, gave -1/16 +- 1.3e-7 i and an
             # exponent 0.875 for the true 1/8)
             return failed(method, Status.NOT_APPLICABLE,
-                          f"fitted angle {mpmath.nstr(off_axis, 2)} from the real axis turns through less "
+                          f"fitted angle {sig_text(off_axis, 2)} from the real axis turns through less "
                           f"than a sixth of a period over {N} terms: a real singular point, left to the "
                           "ratio methods", prep)
         R_half = mu_half / mu ** 2
@@ -687,7 +687,7 @@ def estimate_large_order(series, ctx=None):
         growth, kappa = classify_growth(c)
         if growth != "factorial":
             return failed(method, Status.NOT_APPLICABLE,
-                          f"coefficients do not grow factorially (kappa = {mpmath.nstr(kappa, 3)})",
+                          f"coefficients do not grow factorially (kappa = {sig_text(kappa, 3)})",
                           prep, {"kappa": kappa})
         ns, z = ratio_sequence(c, 1)
         wn, wz = _window(ns, z)

@@ -37,7 +37,7 @@ from typing import Sequence
 
 import mpmath
 
-from ..results import Estimate
+from ..results import Estimate, point_text, sig_text
 from ..transforms.conformal import ConformalMap, RayMap, StarMap, pull_back, rim_factor
 from .resum_band import (PointOutcome, RationalIntegrator, candidate_orders, fit_candidates,
                          outcomes_from_table)
@@ -382,13 +382,13 @@ def conformal_evaluate(c: Sequence, xs: Sequence, cmap: ConformalMap, dps: int, 
             # |w| = 1 to the tolerance, yet the map is continuous here: a point so far out that
             # its image sits on the rim (log(1 + x) at x = 1e30 with the cut on the negative axis)
             outs[j] = PointOutcome(None, None, False,
-                                   f"x = {mpmath.nstr(xs[j], 10)} maps to the rim of the disk (1 - |w| = "
-                                   f"{mpmath.nstr(1 - abs(cmap.w_of_x(xs[j])), 3)}), too close for approximants in w; "
+                                   f"x = {point_text(xs[j])} maps to the rim of the disk (1 - |w| = "
+                                   f"{sig_text(1 - abs(cmap.w_of_x(xs[j])), 3)}), too close for approximants in w; "
                                    "a smaller point, or the strong-coupling probe (resum strong) for the "
                                    "growth there", {})
         elif bad[j]:
             outs[j] = PointOutcome(None, None, False,
-                                   f"x = {mpmath.nstr(xs[j], 10)} lies on the cut of the map "
+                                   f"x = {point_text(xs[j])} lies on the cut of the map "
                                    f"({cmap.describe()}){ON_CUT_ADVICE}",
                                    {"cut_map": cmap})
         else:

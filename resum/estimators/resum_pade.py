@@ -44,6 +44,7 @@ import mpmath
 
 from ..transforms._arb import flint_precision, to_acb
 from .resum_band import candidate_orders, fit_candidates, outcomes_from_table, supports_no_digit
+from ..results import sig_text
 
 __all__ = ["pade_evaluate", "partial_sum_evaluate"]
 
@@ -93,7 +94,7 @@ def pade_evaluate(c: Sequence, zs: Sequence, dps: int, *, n_orders: int = 7,
         for j, z in enumerate(zs):
             tol = tols[j]
             if inside[j]:
-                dropped[j].append(f"[{L}/{M}]: at least {counts[j]} pole(s) within {mpmath.nstr(tol, 3)} of "
+                dropped[j].append(f"[{L}/{M}]: at least {counts[j]} pole(s) within {sig_text(tol, 3)} of "
                                   "the point (Pellet's test)")
                 continue
             near = [p for p in poles if abs(p - z) < tol
