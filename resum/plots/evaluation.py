@@ -12,6 +12,7 @@ from typing import Optional, Sequence
 import mpmath
 
 from ..context import Context, workdps
+from ..results import sig_text
 from . import save_figure
 
 __all__ = ["plot_evaluation", "plot_digits", "plot_borel_plane", "write_evaluation_plots", "curve_grid",
@@ -212,7 +213,7 @@ def plot_borel_plane(series, ctx, ax=None, b=0, dps=None, doublet_tol=1e-6):
     ax.set_xlabel("Re t")
     ax.set_ylabel("Im t")
     more = f"; {outside} outside the window" if outside else ""
-    ax.set_title(f"Borel plane (b = {mpmath.nstr(b, 6)}): [{n - 1 - M}/{M}] Padé at {work} digits{more}",
+    ax.set_title(f"Borel plane (b = {sig_text(b, 6)}): [{n - 1 - M}/{M}] Padé at {work} digits{more}",
                  fontsize=9)
     ax.legend(fontsize=8)
     return ax

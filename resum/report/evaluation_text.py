@@ -14,7 +14,7 @@ from typing import Optional, Sequence
 import mpmath
 
 from ..context import workdps
-from ..results import format_value_error, point_text
+from ..results import format_value_error, point_text, sig_text
 
 __all__ = ["render_evaluation", "describe_map", "band_meanings", "BAND_MEANING", "BAND_MEANING_ODE",
            "BAND_MEANING_BOREL_ODE"]
@@ -244,12 +244,12 @@ def _render(result, title, reference):
         for c in compare_reference(result, reference):
             at, val, err = c["at"], c["value"], c["error"]
             if c["inside"] is None:
-                lines.append(f"  {mpmath.nstr(at, 12)}: reference {mpmath.nstr(val, 20)} (no resummed value here)")
+                lines.append(f"  {point_text(at, 12)}: reference {mpmath.nstr(val, 20)} (no resummed value here)")
                 continue
             dig = "all" if c["digits_agree"] is None else f"{c['digits_agree']:.1f}"
-            lines.append(f"  {mpmath.nstr(at, 12)}: reference {mpmath.nstr(val, 20)}"
-                         f"{'' if err is None else ' +- ' + mpmath.nstr(err, 3)}; difference "
-                         f"{mpmath.nstr(c['difference'], 3)} ({dig} digits agree); "
+            lines.append(f"  {point_text(at, 12)}: reference {mpmath.nstr(val, 20)}"
+                         f"{'' if err is None else ' +- ' + sig_text(err, 3)}; difference "
+                         f"{sig_text(c['difference'], 3)} ({dig} digits agree); "
                          f"{'inside' if c['inside'] else 'OUTSIDE'} the band{'' if err is None else ' (with the reference error)'}")
     fails = [p for p in result.points if not p.success and p.message]
     if fails or result.warnings:
