@@ -89,3 +89,78 @@ def test_strong_power_source_prints_the_log_derivative_with_its_band():
     unit = mpmath.mpf(10) ** -len(decimals)
     value = mpmath.mpf(f"{whole}.{decimals}")
     assert value - int(err) * unit <= 1 <= value + int(err) * unit, r.power_source
+
+
+_VALUE_ERROR = re.compile(r"(-?\d+)\.(\d+)\((\d{1,2})\)")
+
+
+def _read_value_error(text):
+    """(value, half-width, digits of the error) of a 'v(e)' text: the error counts in units of
+    the value's last digit (common practice, no source)."""
+    m = _VALUE_ERROR.fullmatch(text)
+    assert m, text
+    whole, decimals, err = m.groups()
+    value = mpmath.mpf(f"{whole}.{decimals}")
+    return value, int(err) * mpmath.mpf(10) ** -len(decimals), len(err)
+
+
+def test_strong_secants_print_with_their_bands():
+    # sqrt(1 + g^2) has the log-derivative d log f / d log g = g^2/(1 + g^2) (common practice,
+    # no source); each secant between neighbouring couplings is computed here from mpmath's
+    # values and must lie in the band the diagnostics print, which carries one or two error
+    # digits rather than ten digits of the secant
+    from resum.estimators.strong_coupling import probe_strong_coupling
+    gs = [2, 3, 4, 6, 8, 10, 12]
+    with workdps(30):
+        f = [mpmath.sqrt(1 + mpmath.mpf(g) ** 2) for g in gs]
+        rel = mpmath.mpf("1e-6")
+        vals = [Estimate(v * (1 + rel / 3), v * (1 - rel), v * (1 + rel)) for v in f]
+        r = probe_strong_coupling(Series([1] * 8, variable="g"), gs, Context(dps=30), values=vals)
+        secants = r.diagnostics["secants"]
+        assert len(secants) == len(gs) - 1
+        for (g1, v1), (g2, v2), (_, text) in zip(zip(gs, f), zip(gs[1:], f[1:]), secants):
+            exact = mpmath.log(v2 / v1) / mpmath.log(mpmath.mpf(g2) / g1)
+            value, half, _ = _read_value_error(text)
+            assert value - half <= exact <= value + half, (text, exact)
+
+
+def test_plan_radius_and_rim_power_print_with_their_bands():
+    # (1 + x)^(-1/2): radius of convergence 1 and growth x^(-1/2) at large x (common practice,
+    # no source). The plan's note prints the radius it compares the points with, and the power
+    # read at infinity, as value(error) texts whose bands hold these (before: 8 and 5 digits)
+    s = binomial_series(Fraction(-1, 2), 30)
+    near = evaluate(s, ["0.1"], Context(dps=12), verify=False)
+    note = near.diagnostics["why"]
+    m = re.search(r"quarter of the radius (-?\d+\.\d+\(\d+\))", note)
+    assert m, note
+    value, half, _ = _read_value_error(m.group(1))
+    assert value - half <= 1 <= value + half and half > 0, note
+    far = evaluate(s, ["3"], Context(dps=12), verify=False)
+    note = far.diagnostics["why"]
+    m = re.search(r"through the map gives (\S+) at infinity", note)
+    assert m, note
+    value, half, _ = _read_value_error(m.group(1))
+    assert value - half <= mpmath.mpf(-1) / 2 <= value + half, note
+
+
+def test_points_left_out_print_no_more_digits_than_their_bands():
+    # log Gamma(1 + x) = -gamma x + sum_{k>=2} (-1)^k zeta(k) x^k / k converges for |x| < 1, its
+    # nearest singularity the log point at x = -1 (Abramowitz & Stegun 6.1.33). Points one method
+    # alone sees are named in a warning: each part as value(error) or 'v [lo, hi]' when its band
+    # supports fewer than six digits, and the confirmed radius beside them holds 1
+    with workdps(60):
+        c = [mpmath.mpf(0), -mpmath.euler] + [(-1) ** k * mpmath.zeta(k) / k for k in range(2, 60)]
+    r = analyze(Series(c), Context(dps=30))
+    assert r.radius.contains(1)
+    lone = [w for w in r.warnings if w.startswith("not reported:") and "two or more methods" in w]
+    assert lone, r.warnings
+    m = re.search(r"\(radius (-?\d+\.\d+\(\d+\))\)$", lone[0])
+    value, half, _ = _read_value_error(m.group(1))
+    assert value - half <= 1 <= value + half, lone[0]
+    body = lone[0].split("not reported: ")[1].split(", each seen")[0]
+    for item in re.split(r" \([a-z-]+(?: \+ [a-z-]+)*\),? ?", body.replace("points at ", "").replace("a point at ", "")):
+        for part in filter(None, re.split(r" [+-] |\*I", item.strip())):
+            if "(" in part:
+                _read_value_error(part)
+            elif "[" not in part and not part.startswith("["):
+                assert len(part.lstrip("-").replace(".", "").lstrip("0")) <= 6, (part, lone[0])
