@@ -177,23 +177,32 @@ def _label(power, log, var="g"):
     return f"{var}^{txt}" + (f" log {var}" if log else "")
 
 
+def label_power(label):
+    """``(power, with_log)`` of a coefficient label such as ``"g^1/3"``, ``"g^-1 log g"`` or
+    ``"g^0.94526707"`` (the power as a Fraction), or None when the label has another form."""
+    from fractions import Fraction
+    head, sep, rest = str(label).partition("^")
+    power, _, tail = rest.strip().partition(" ")
+    if not sep or not power:
+        return None
+    try:
+        return Fraction(power), tail.strip().startswith("log")
+    except (ValueError, ZeroDivisionError):
+        return None
+
+
 def leading_label(labels):
     """The label of the leading term among coefficient labels such as ``"g^1"``, ``"g^-1 log g"``,
     ``"g^0.94526707"``: the highest power without a log (the term the fit's leading power
     multiplies). Not the first label: a record written with sorted keys puts ``"g^-1"``
     before ``"g^1"``. None when no label has that form."""
-    from fractions import Fraction
     best = None
     for lab in labels:
-        head, _, rest = str(lab).partition("^")
-        if not rest or " " in rest.strip():
+        lp = label_power(lab)
+        if lp is None or lp[1]:
             continue                     # a log term, or not a power
-        try:
-            pw = Fraction(rest.strip())
-        except (ValueError, ZeroDivisionError):
-            continue
-        if best is None or pw > best[0]:
-            best = (pw, lab)
+        if best is None or lp[0] > best[0]:
+            best = (lp[0], lab)
     return None if best is None else best[1]
 
 

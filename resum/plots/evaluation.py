@@ -250,23 +250,14 @@ def write_evaluation_plots(result, series, ctx, folder, reference=None, curve=No
 
 
 def _fit_terms(result):
-    """``[(power, with_log, Estimate)]`` of a strong-coupling fit's coefficients, read from
-    their labels (``g^1/3``, ``g^-1 log g``); labels of another form are left out."""
-    from fractions import Fraction
+    """``[(power as mpf, with_log, Estimate)]`` of a strong-coupling fit's coefficients, read
+    from their labels (``g^1/3``, ``g^-1 log g``); labels of another form are left out."""
+    from ..estimators.strong_coupling import label_power
     out = []
     for label, est in result.coefficients:
-        head, sep, rest = str(label).partition("^")
-        if not sep:
-            continue
-        power, _, tail = rest.partition(" ")
-        try:
-            p = Fraction(power)
-        except (ValueError, ZeroDivisionError):
-            try:
-                p = mpmath.mpf(power)
-            except (ValueError, TypeError):
-                continue
-        out.append((p, tail.strip().startswith("log"), est))
+        lp = label_power(label)
+        if lp is not None:
+            out.append((mpmath.mpf(lp[0].numerator) / lp[0].denominator, lp[1], est))
     return out
 
 
@@ -304,14 +295,13 @@ def plot_strong_fit(result, ax=None):
             def form(g):
                 s = mpmath.mpf(0)
                 for pw, lg, est in terms:
-                    e = mpmath.mpf(pw.numerator) / pw.denominator if hasattr(pw, "numerator") else pw
-                    s += est.value * g ** e * (mpmath.log(g) if lg else 1)
+                    s += est.value * g ** pw * (mpmath.log(g) if lg else 1)
                 return s / g ** p
             ax.plot([float(g) for g in grid], [float(form(g)) for g in grid], "-", lw=1.2,
                     label="fitted form / " + f"{var}^p")
-            lead = [est for pw, lg, est in terms if not lg and abs(mpmath.mpf(float(pw)) - p) < 1e-9]
-            if lead:
-                e = lead[0]
+            from ..estimators.strong_coupling import leading_label
+            e = result.coefficient(leading_label([lab for lab, _ in result.coefficients]))
+            if e is not None:
                 ax.axhspan(float(e.lower), float(e.upper), alpha=0.2, lw=0,
                            label=f"leading coefficient {e}")
     _x_scale(ax, [float(g) for g, _ in pts])
