@@ -157,7 +157,8 @@ class Table:
 
 def study_pade(sizes, digit_levels, cap):
     tab = Table("[N/N] Padé of log(1+x)/x: resum.pade (dps = working digits asked as correct digits) "
-                "vs mpmath.pade at mp.dps = dps; digits correct: the smaller of p and q (resum), q (mpmath)",
+                f"vs mpmath.pade at mp.dps = dps (mpmath's {mpmath.libmp.BACKEND} backend); digits correct: "
+                "the smaller of p and q (resum), q (mpmath)",
                 ["N", "dps", "resum check", "resum", "claimed", "digits", "mem", "mpmath.pade",
                  "digits", "mem", "speed-up"])
     base_rate = None     # seconds per N^3 dps^1.6
@@ -200,12 +201,40 @@ def study_pade(sizes, digit_levels, cap):
     return tab
 
 
+_PURE_PYTHON_PADE = r"""
+import gc, sys, time, mpmath, mpmath.libmp
+N, dps = int(sys.argv[1]), int(sys.argv[2])
+with mpmath.workdps(dps):
+    c = [mpmath.mpf((-1) ** k) / (k + 1) for k in range(2 * N + 1)]
+    gc.collect(); gc.disable()
+    t = time.perf_counter(); mpmath.pade(c, N, N); t = time.perf_counter() - t
+print(mpmath.libmp.BACKEND, t)
+"""
+
+
+def pure_python_pade_time(N, dps):
+    """Seconds of the same mpmath.pade call in a fresh interpreter with mpmath's pure-Python
+    backend (MPMATH_NOGMPY=1: mpmath as installed without gmpy2); None if that fails."""
+    import os
+    import subprocess
+    env = dict(os.environ, MPMATH_NOGMPY="1")
+    try:
+        out = subprocess.run([sys.executable, "-c", _PURE_PYTHON_PADE, str(N), str(dps)], env=env,
+                             capture_output=True, text=True, timeout=600, check=True).stdout.split()
+    except (OSError, subprocess.SubprocessError):
+        return None
+    return float(out[1]) if len(out) == 2 and out[0] == "python" else None
+
+
 def study_matched(cases):
     """resum asked for exactly the digits mpmath.pade delivers at mp.dps = dps."""
     tab = Table("[N/N] at matched accuracy: mpmath.pade at mp.dps = dps vs resum.pade asked for "
-                "the digits mpmath delivered (at least 10), certified (ball) and estimated by residual",
+                "the digits mpmath delivered (at least 10), certified (ball) and estimated by residual. "
+                f"mpmath.pade runs on mpmath's {mpmath.libmp.BACKEND} backend (the speed-up is against "
+                "it); the last two columns time the same call on mpmath's pure-Python backend "
+                "(MPMATH_NOGMPY=1, mpmath installed without gmpy2), for comparison only",
                 ["N", "mp.dps", "mpmath.pade", "digits", "resum check", "resum (dps asked)", "claimed",
-                 "digits", "speed-up"])
+                 "digits", "speed-up", "mpmath.pade (pure Python)", "speed-up vs pure Python"])
     for N, dps in cases:
         c = series_log(2 * N + 1, dps)
         qref, _ = reference_q(c, N, dps + int(3 * N) + 100, need=dps + 120)
@@ -216,10 +245,12 @@ def study_matched(cases):
         t_m, (pm, qm) = timed(run_m)
         d_m = digits(qm, qref)
         ask = max(10, int(d_m))
+        t_py = pure_python_pade_time(N, dps)
         for label, check in (("certified (ball)", "ball"), ("estimated by residual", "residual")):
             t_r, r = timed(lambda: pade(c, N, N, ask, check=check), repeat=2)
             tab.add(N, dps, fmt_t(t_m), fmt_d(d_m), label, f"{fmt_t(t_r)} ({ask})", fmt_d(r.digits),
-                    fmt_d(digits(r.q, qref)), f"{t_m / t_r:.0f}x")
+                    fmt_d(digits(r.q, qref)), f"{t_m / t_r:.0f}x", fmt_t(t_py),
+                    "-" if t_py is None else f"{t_py / t_r:.0f}x")
     return tab
 
 
