@@ -230,11 +230,12 @@ class EvaluationResult:
         """The small, stable JSON document: values with bands as decimal strings.
 
         ``{"values": [{"at", "value", "lo", "hi", "method", "digits"} (+ "im", "im_lo", "im_hi",
-        "terms_needed")], "warnings": [...]}``; a failed point has ``value``/``lo``/``hi`` =
-        ``"nan"`` and ``message`` says why; every point has ``status`` (as in the text report).
-        ``digits``: the significant digits the band supports; ``terms_needed`` (only
-        where the band falls short of the digits asked): the projected number of terms for them
-        (see ``_reach``).
+        "terms_needed" or "digits_needed")], "warnings": [...]}``; a failed point has
+        ``value``/``lo``/``hi`` = ``"nan"`` and ``message`` says why; every point has ``status``
+        (as in the text report). ``digits``: the significant digits the band supports; where the
+        band falls short of the digits asked, ``terms_needed``: the projected number of terms for
+        them (see ``_reach``), or, where the digits the coefficients carry set the band,
+        ``digits_needed``: the coefficient digits suggested instead (see ``_input_limit``).
         """
         with _wd((self.provenance.dps if self.provenance else 50) + 10):
             return self._contract()
@@ -260,7 +261,10 @@ class EvaluationResult:
                 if p.message:
                     row["message"] = p.message
                 reach = p.diagnostics.get("reach")
-                if reach and reach.get("terms_needed"):
+                lim = p.diagnostics.get("input_limited")
+                if reach and lim:
+                    row["digits_needed"] = str(lim["digits_suggested"])
+                elif reach and reach.get("terms_needed"):
                     row["terms_needed"] = str(reach["terms_needed"])
             vals.append(row)
         from .report.evaluation_text import band_meanings
@@ -1162,7 +1166,7 @@ def _star_points(cmap, xs):
     return star, idx
 
 
-def _perturb(c, digits):
+def _perturb(c, digits, seed=20240611):
     """Move inexact coefficients by 10^-digits relative, i.e. between a tenth of a unit and one
     unit in their last carried digit (fixed pseudo-random signs).
 
@@ -1176,7 +1180,7 @@ def _perturb(c, digits):
     if digits is None:
         return c
     import random
-    rng = random.Random(20240611)
+    rng = random.Random(seed)
     eps = mpmath.mpf(10) ** (-digits)
     return [v * (1 + eps * rng.choice((-1, 1))) for v in c]
 
@@ -1382,10 +1386,28 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
         say(f"{plan.method} done ({time.time() - t1:.1f} s)")
         outs, diag = done[0]
         checks = [[] for _ in xs]
+        samples = [[] for _ in xs]      # more roundings of the input, where its digits set the band
         if verify:
             o2, o3 = done[1][0], done[2][0]
             for j in range(len(xs)):
                 checks[j] = [("higher precision", o2[j]), (f"{nf} terms", o3[j])]
+            flagged = [j for j in range(len(xs)) if series.digits is not None and outs[j].ok and o2[j] is not None
+                       and o2[j].ok and outs[j].re is not None and o2[j].re is not None
+                       and _input_limit(outs[j].re, o2[j].re, series.digits, ctx.dps) is not None]
+            if flagged:
+                say(f"the input's digits set the band at {len(flagged)} point(s): "
+                    f"{INPUT_LIMIT_SAMPLES} more roundings")
+                with _wd(wd2):
+                    cw = series.dense(Context(dps=wd2, guard=0))
+                more = [(plan, _perturb(cw, series.digits, seed=20240611 + k), [xs[j] for j in flagged], wd2,
+                         n_orders, min(wd2, hi.work_dps + 5), hi.dps) for k in range(1, INPUT_LIMIT_SAMPLES + 1)]
+                got = run_tasks(_run_at, more, jobs_for(series.n_terms, len(more)))
+                if got is None:
+                    got = [_run_at(*t) for t in more]
+                for outs_k, _ in got:
+                    for j, oc in zip(flagged, outs_k):
+                        if oc is not None and oc.ok and oc.re is not None:
+                            samples[j].append(oc)
         # the digits the input carries (those asked, for exact coefficients): they bound the
         # baseline's band, the agreement asked of the reruns and the digits reported
         d_in = ctx.dps if series.digits is None else min(ctx.dps, series.digits)
@@ -1462,6 +1484,25 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                     # (1 + x + x^2)^(-1/3) at 25 digits, x = 1000: the rounding moved the value 5.5x
                     # more than the rerun did; other sign patterns 1.3-11x)
                     fac = 10 if o.info.get("method", plan.method) in ("ode", "borel-ode") else 2
+                    if series.digits is not None and prec:
+                        lim = _input_limit(re, prec[0].re, series.digits, ctx.dps)
+                        if lim is not None and samples[j]:
+                            # the largest move among the roundings sampled, at most INPUT_LIMIT_CAP x
+                            # the first one's
+                            moves = [abs(oc.re.value - re.value) for oc in [prec[0]] + samples[j]]
+                            top = min(max(moves), INPUT_LIMIT_CAP * moves[0])
+                            lim = _input_limit(re, Estimate(re.value + top, re.value + top, re.value + top),
+                                               series.digits, ctx.dps) or lim
+                            lim["roundings_sampled"] = len(moves)
+                            lim["moves"] = [mpmath.nstr(m, 3) for m in moves]
+                            prec = [prec[0], replace(prec[0], re=Estimate(re.value + top, re.value + top,
+                                                                          re.value + top))]
+                            agree["other roundings"] = mpmath.nstr(max(moves[1:]), 5)
+                        if lim is not None:
+                            pdiag["input_limited"] = lim
+                            # the input's rounding sets the band: the spread of the approximants no
+                            # longer absorbs it (see INPUT_LIMIT_WIDEN)
+                            fac = max(fac, INPUT_LIMIT_WIDEN)
                     re = _widen(re, [oc.re for oc in prec], fac)
                     if im is not None:
                         im = _widen(im, [oc.im for oc in prec], fac)
@@ -1551,6 +1592,23 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                 warnings.append(f"at {point_text(a)}: the differential equation was not followed "
                                 f"({o.info['ode_refused']}); {p_method} instead")
             pts.append(PointResult(a, x, re, im, p_method, success, status, msg, baselines[j], pdiag))
+    limited = [p for p in pts if p.diagnostics.get("input_limited") and p.value is not None
+               and p.value.digits() < ctx.dps - 0.5]
+    if limited:
+        lims = [p.diagnostics["input_limited"] for p in limited]
+        want_digits = max(lim["digits_suggested"] for lim in lims)
+        moves = "; ".join(f"10^{lim['amplification_digits']} at {point_text(p.at)}, leaving about "
+                          f"{lim['digits_left']} digits" for p, lim in zip(limited, lims))
+        warnings.append(
+            f"at {', '.join(point_text(p.at) for p in limited)}: the {series.digits} digits the coefficients carry "
+            f"set the band: a rerun with them moved by a unit in their last digit shows their rounding amplified "
+            f"about {moves}; more terms at {series.digits} digits would not narrow the band; coefficients with at "
+            f"least {want_digits} digits would keep the rounding below the {ctx.dps} digits asked (an estimate "
+            "from one rerun: more digits make more orders usable, and those may amplify more)")
+        if reexp_warning is not None and loss.get("loss", 0) + ctx.dps < want_digits:
+            warnings[reexp_warning] = warnings[reexp_warning].replace(
+                f"coefficients with about {loss['loss'] + ctx.dps} digits would let every term count",
+                f"coefficients with at least {want_digits} digits would let every term count (see below)")
     if reexp_warning is not None and not any("conformal" in (p.method or "") for p in pts):
         # every point was solved without the map (an exact equation followed, say): the
         # re-expansion's cancellation did not touch any value reported
@@ -1571,6 +1629,58 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
     return EvaluationResult(tuple(pts), method, success, status, message, tuple(warnings),
                             series.variable, None if cpl is None else cpl.describe(series.variable),
                             diag, prov, series.variable if cpl is None else cpl.symbol)
+
+
+#: The digits the coefficients carry limit a point when the rerun with the coefficients moved by a
+#: unit in their last digit shows an amplification of that rounding that leaves at most
+#: INPUT_LIMIT_MARGIN digits more than the approximants' own band claims (one random move
+#: samples the amplification to within about a digit). Measured on the kernel family's 200 loops
+#: at a = pi/4 (x = g^2, 30 digits asked): from coefficients with 120 digits the rerun left 10.4
+#: and 12.1 digits at g = 5 in two roundings of the same coefficients (bands of 10.1 and 10.2
+#: digits), 3.5 at g = 20 (band 5.2); from 200 digits, 20.3 and 11.1, and the bands claimed 14.6
+#: and 6.8; more working digits at 120 (work_dps 160, 250) claimed 10.1-10.5 and 4.5-5.2. From
+#: 100 loops at 150 digits (a = 3 pi/8, g = 5) it leaves 61 digits: not limited
+INPUT_LIMIT_MARGIN = 2
+#: where the input's digits set the band, it is widened to INPUT_LIMIT_WIDEN x the largest move
+#: among the roundings sampled (1 + INPUT_LIMIT_SAMPLES of them). Measured on log(1+x)/x and
+#: (1 + x)^(1/3), 60 and 100 terms at 20-60 digits, x = 50 and 1000 (14 points so limited): one
+#: sample and 2 x its move left 3 truths outside (the rounding moved the value up to 10 x more
+#: than that sample did); the largest of three samples was never exceeded by the actual error
+INPUT_LIMIT_WIDEN = 2
+#: where the input's digits set the band, this many more roundings (other pseudo-random signs)
+#: are sampled at those points, and the largest move widens the band
+INPUT_LIMIT_SAMPLES = 2
+#: ... but at most INPUT_LIMIT_CAP x the first sample's move: a larger spread says that the
+#: method's choices (variant, orders kept) flip under the perturbation, not that the value
+#: responds more to the rounding. log(1+x) from 40 terms at 16 digits (studies/evaluate_sweep
+#: --digits 16), x = 10 to 1000: the first sample moved the value by 2e-14 to 2e-12, the other two
+#: by 1e-9 to 0.013, the actual error was 5e-16 to 2e-13; uncapped, the bands claimed 4-10 digits
+#: fewer. log(1+x)/x from 60 terms at 20 digits, x = 1000: moves 5.5e-7, 5.5e-7, 1.0e-5 and an
+#: actual error of 5.7e-6, held by the capped move
+INPUT_LIMIT_CAP = 10
+
+
+def _input_limit(est: Estimate, rerun: Optional[Estimate], digits, asked: int) -> Optional[dict]:
+    """Whether the digits the coefficients carry set the band at a point. ``rerun``: the value
+    with the coefficients moved by a unit in their last digit; its move over the value times
+    ``10^-digits`` is the amplification of the input's rounding here, and ``digits`` less its
+    ``log10`` the digits that rounding leaves. When those are at most :data:`INPUT_LIMIT_MARGIN`
+    more than the approximants' own band ``est`` claims: a dict with the move, the amplification
+    (in digits), the digits left, and the coefficient digits suggested, enough that the amplified
+    rounding stays below the ``asked`` digits, plus :data:`INPUT_LIMIT_MARGIN`. A lower estimate:
+    more digits make more orders usable, and those may amplify more. None otherwise."""
+    if rerun is None or est is None or digits is None or est.value == 0:
+        return None
+    dev = abs(rerun.value - est.value)
+    if dev == 0:
+        return None
+    amp = float(mpmath.log10(dev / abs(est.value))) + float(digits)
+    left = float(digits) - amp
+    if left > est.digits() + INPUT_LIMIT_MARGIN:
+        return None
+    return {"digits_carried": int(digits), "moved": mpmath.nstr(dev, 3),
+            "amplification_digits": round(amp, 1), "digits_left": round(left, 1),
+            "digits_suggested": int(math.ceil(asked + amp)) + INPUT_LIMIT_MARGIN + 3}
 
 
 #: a band that contains 0 and is this much smaller than the first term of the series at the
@@ -1626,10 +1736,16 @@ def evaluate_with_goal(series: Series, points, goal_digits: float, rebuild, ctx:
     at most :data:`GOAL_ROUNDS` times and never beyond ``max_terms`` (default 3 x the terms
     given). ``kwargs`` go to :func:`evaluate`.
 
+    Where the digits the coefficients carry set a short point's band (``input_limited`` in its
+    diagnostics: more terms at those digits would not help) and ``rebuild`` takes a keyword
+    ``digits`` (``rebuild.takes_digits`` true, as for :func:`resum.sources.rebuilder`), the
+    series is rebuilt with the digits that point's amplification of the rounding asks for the
+    goal (plus margins), at the same length when every short point is so limited.
+
     Returns ``(result, search, series_used)``: the last evaluation, ``search`` =
-    ``{"goal_digits", "rounds": [{"terms", "min_digits"}], "terms_used", "reached", "note",
-    "how"}``, and the series that evaluation used. The projection is an estimate; the bands
-    reported are those of the last evaluation, made as usual.
+    ``{"goal_digits", "rounds": [{"terms", "digits", "min_digits"}], "terms_used", "reached",
+    "note", "how"}``, and the series that evaluation used. The projection is an estimate; the
+    bands reported are those of the last evaluation, made as usual.
     """
     def run(s):
         return evaluate(s, points, ctx, **kwargs)
@@ -1643,7 +1759,8 @@ def evaluate_with_goal(series: Series, points, goal_digits: float, rebuild, ctx:
     for _ in range(GOAL_ROUNDS + 1):
         digs = [(p, p.value.digits() if p.value is not None else -math.inf) for p in res.points]
         low = min(d for _, d in digs)
-        rounds.append({"terms": n, "min_digits": f"{low:.1f}" if math.isfinite(low) else "none"})
+        rounds.append({"terms": n, "digits": series.digits,
+                       "min_digits": f"{low:.1f}" if math.isfinite(low) else "none"})
         short = [(p, d) for p, d in digs if d < goal - 0.05]
         if not short:
             note = f"every point reached {goal:g} digits"
@@ -1651,17 +1768,23 @@ def evaluate_with_goal(series: Series, points, goal_digits: float, rebuild, ctx:
         if len(rounds) > GOAL_ROUNDS:
             note = f"stopped after {GOAL_ROUNDS} rebuilds"
             break
-        needs = [terms_for_digits(p.diagnostics, d, goal, n) if math.isfinite(d) else None
-                 for p, d in short]
-        if any(k is None for k in needs):
-            note = "a point short of the goal did not converge steadily: no projection"
-            break
-        if n >= cap:
-            note = f"the goal needs more than max_terms = {cap} terms"
-            break
-        want = min(max(int(math.ceil(max(needs) * GOAL_MARGIN)), n + max(4, n // 10)), cap)
+        digits = _goal_digits(short, goal, series.digits) if getattr(rebuild, "takes_digits", False) else None
+        limited = [p for p, _ in short if p.diagnostics.get("input_limited")]
+        if digits is not None and len(limited) == len(short):
+            # every short point is limited by the input's digits: same length, more digits
+            want = n
+        else:
+            needs = [terms_for_digits(p.diagnostics, d, goal, n) if math.isfinite(d) else None
+                     for p, d in short]
+            if any(k is None for k in needs):
+                note = "a point short of the goal did not converge steadily: no projection"
+                break
+            if n >= cap:
+                note = f"the goal needs more than max_terms = {cap} terms"
+                break
+            want = min(max(int(math.ceil(max(needs) * GOAL_MARGIN)), n + max(4, n // 10)), cap)
         try:
-            longer = rebuild(want)
+            longer = rebuild(want) if digits is None else rebuild(want, digits=digits)
         except InputError as exc:
             note = f"the source cannot give {want} terms: {exc}"
             break
@@ -1671,8 +1794,23 @@ def evaluate_with_goal(series: Series, points, goal_digits: float, rebuild, ctx:
     return res, {"goal_digits": f"{goal:g}", "rounds": rounds, "terms_used": rounds[-1]["terms"],
                  "reached": not short, "note": note,
                  "how": "terms projected from each short point's convergence rate (digits per "
-                        f"term, or per sqrt(term) if slower) times {GOAL_MARGIN}, then checked by "
+                        f"term, or per sqrt(term) if slower) times {GOAL_MARGIN}, or, where the digits "
+                        "the coefficients carry set the band, more digits from how much a rerun with "
+                        "the coefficients moved in their last digit moved the value; then checked by "
                         "evaluating again; an estimate, not a promise"}, series
+
+
+def _goal_digits(short, goal: float, carried) -> Optional[int]:
+    """Coefficient digits for the next round of :func:`evaluate_with_goal`: where a short
+    point's band is set by the input's digits, enough that its rounding, amplified as the rerun
+    measured, stays below the goal (plus margins: the orders that more digits make usable may
+    amplify more); at least 1.5 x the digits carried. None when no short point is so limited."""
+    amps = [p.diagnostics["input_limited"]["amplification_digits"] for p, _ in short
+            if p.diagnostics.get("input_limited")]
+    if not amps or carried is None:
+        return None
+    need = int(math.ceil(goal + max(amps))) + INPUT_LIMIT_MARGIN + 3
+    return max(need, int(math.ceil(1.5 * int(carried))))
 
 
 def terms_for_digits(info: dict, have: float, goal: float, n_terms: int) -> Optional[int]:

@@ -270,20 +270,25 @@ def _goal_options(args, series, ctx):
 
 
 def _logged(rebuild):
-    def run(n):
-        log(f"--goal: regenerating the series with {n} terms")
-        return rebuild(n)
+    def run(n, digits=None):
+        if digits is None:
+            log(f"--goal: regenerating the series with {n} terms")
+            return rebuild(n)
+        log(f"--goal: regenerating the series with {n} terms and at least {digits} digits")
+        return rebuild(n, digits=digits)
+    run.takes_digits = getattr(rebuild, "takes_digits", False)
     return run
 
 
 def _goal_text(search) -> str:
-    rounds = "; ".join(f"{r['terms']} terms: {r['min_digits']} digits" for r in search["rounds"])
+    rounds = "; ".join(f"{r['terms']} terms" + (f" at {r['digits']} digits" if r.get("digits") else "")
+                       + f": {r['min_digits']} digits" for r in search["rounds"])
     verdict = "reached" if search["reached"] else "not reached"
     return (f"\nGoal {search['goal_digits']} digits at every point: {verdict} ({search['note']}). "
             f"Rounds (terms: fewest digits a band supports): {rounds}. The terms of each round were "
-            f"projected from how fast the approximants converged at the points short of the goal "
-            f"(an estimate); the values above are the evaluation of the last round, with its own "
-            f"bands.\n")
+            f"projected from how fast the approximants converged at the points short of the goal, "
+            f"and the digits of the coefficients raised where their rounding set a band (estimates); "
+            f"the values above are the evaluation of the last round, with its own bands.\n")
 
 
 def _failure_notes(result) -> list:

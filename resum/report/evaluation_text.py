@@ -223,7 +223,12 @@ def _render(result, title, reference):
             r = p.diagnostics["reach"]
             head = (f"  {point_text(p.at, 12)}: {r['digits']} digits; about {r['digits_per_term']} digits per "
                     f"added term ({r['terms_per_digit']} terms per digit); ")
-            if r.get("terms_needed"):
+            lim = p.diagnostics.get("input_limited")
+            if lim:
+                lines.append(head + f"here the {lim['digits_carried']} digits the coefficients carry set the band "
+                             f"(see the warnings): coefficients with at least {lim['digits_suggested']} digits, "
+                             "rather than more terms")
+            elif r.get("terms_needed"):
                 lines.append(head + f"{r['asked_digits']} digits would need about {r['terms_needed']} terms "
                              "(coefficients carrying at least as many digits)")
             else:

@@ -284,8 +284,9 @@ def rebuilder(source, kwargs: dict, n_terms: int, ctx: Optional[Context] = None,
     (``length = (parameter, offset)``: the series has ``value + offset`` terms); the source's
     ``dps`` parameter (the one in ``kwargs``, or else ``digits``, what the given series carries)
     grows in proportion to the terms (longer series lose more digits when re-expanded: the
-    conformal re-expansion of the kernel family's 100 loops cancels about 40). None when the
-    source names no length. ``source``: a :class:`SourceSpec`, or
+    conformal re-expansion of the kernel family's 100 loops cancels about 40); ``rebuild(n,
+    digits=D)`` asks for at least D digits (``rebuild.takes_digits`` says whether the source has
+    a ``dps`` parameter). None when the source names no length. ``source``: a :class:`SourceSpec`, or
     an object or dict of one's own with ``build`` and optionally ``length`` and ``check``."""
     get = (lambda k: source.get(k)) if isinstance(source, dict) else (lambda k: getattr(source, k, None))
     length = get("length")
@@ -297,14 +298,15 @@ def rebuilder(source, kwargs: dict, n_terms: int, ctx: Optional[Context] = None,
     names = {p[0] if isinstance(p, (tuple, list)) else getattr(p, "name", None) for p in get("params") or ()}
     base = kwargs.get("dps") or (digits if "dps" in names else None)
 
-    def rebuild(n: int):
+    def rebuild(n: int, digits: Optional[int] = None):
         k = dict(kwargs)
         k[pname] = int(n) - int(offset)
         if base:
-            k["dps"] = max(int(base), -(-int(base) * int(n) // int(n_terms)))
+            k["dps"] = max(int(base), -(-int(base) * int(n) // int(n_terms)), int(digits or 0))
         if callable(check):
             check(**k)
         return build(ctx, **k)
+    rebuild.takes_digits = bool(base)
     return rebuild
 
 

@@ -1,0 +1,81 @@
+"""Where the digits the coefficients carry, not the number of terms, set a band.
+
+log(1 + x)/x = sum (-1)^k x^k/(k + 1) (branch point at x = -1; common practice, no source),
+its coefficients rounded to a few significant digits, evaluated far out on the positive axis
+by conformal-Padé. Truth: mpmath.log1p at 60 digits (reference library).
+"""
+import mpmath
+import pytest
+
+from resum.context import Context, workdps
+from resum.resummation import evaluate, evaluate_with_goal
+from resum.series import Series
+
+
+def _rounded(n, digits):
+    with workdps(digits + 20):
+        c = [mpmath.mpf((-1) ** k) / (k + 1) for k in range(n)]
+        return Series([mpmath.mpf(mpmath.nstr(v, digits)) for v in c], digits=digits)
+
+
+def _truth(x):
+    with workdps(60):
+        X = mpmath.mpf(x)
+        return mpmath.log1p(X) / X
+
+
+def _digits(value, truth):
+    with workdps(60):
+        return float(-mpmath.log10(abs(value - truth) / abs(truth)))
+
+
+def test_rounding_sets_the_band_and_more_digits_narrow_it():
+    # 60 terms rounded to 20 digits at x = 1000 (|w| = 0.94): the rounding, amplified about
+    # 10^16, leaves 3-4 digits. One rerun with the input moved in its last digit moved the value
+    # by 5.5e-7 where the rounding itself had moved it by 5.7e-6, and its band (2 x that move)
+    # missed the truth; the two further roundings sampled now hold it.
+    r = evaluate(_rounded(60, 20), ["1000"], Context(dps=30))
+    p = r.points[0]
+    truth = _truth(1000)
+    row = r.contract_dict()["values"][0]          # the JSON contract names digits, not terms
+    assert int(row["digits_needed"]) == p.diagnostics["input_limited"]["digits_suggested"]
+    assert "terms_needed" not in row
+    assert any("digits the coefficients carry set the band" in w for w in r.warnings)
+    assert p.value.contains(truth)
+    lim = p.diagnostics["input_limited"]
+    assert lim["digits_carried"] == 20 and lim["roundings_sampled"] == 3
+    assert lim["digits_suggested"] > 40          # the 30 digits asked plus an amplification of ~16
+    assert p.value.digits() < 5
+    # the same 60 terms at the digits suggested: the band narrows, and still holds the truth
+    q = evaluate(_rounded(60, lim["digits_suggested"]), ["1000"], Context(dps=30)).points[0]
+    assert q.value.contains(truth)
+    assert q.value.digits() > p.value.digits() + 2
+    assert _digits(q.value.value, truth) > _digits(p.value.value, truth) + 2
+
+
+def test_exact_input_is_never_input_limited():
+    from fractions import Fraction
+    s = Series([Fraction((-1) ** k, k + 1) for k in range(60)])
+    p = evaluate(s, ["1000"], Context(dps=30), method="conformal-pade").points[0]
+    assert "input_limited" not in p.diagnostics
+    assert p.value.contains(_truth(1000))
+
+
+@pytest.mark.parametrize("goal", [8])
+def test_goal_raises_the_digits_when_they_set_the_band(goal):
+    # 60 terms at 20 digits give about 7 digits at x = 50; the goal asks for 8. Every short
+    # point is limited by the input's digits, so the series is rebuilt at the same length with
+    # more digits, not longer.
+    calls = []
+
+    def rebuild(n, digits=None):
+        calls.append((n, digits))
+        return _rounded(n, digits or 20)
+    rebuild.takes_digits = True
+    res, search, used = evaluate_with_goal(_rounded(60, 20), ["50"], goal, rebuild, Context(dps=30))
+    assert calls and calls[0][0] == 60 and calls[0][1] > 20
+    assert search["reached"]
+    assert search["rounds"][0]["digits"] == 20 and search["rounds"][-1]["digits"] == calls[-1][1]
+    p = res.points[0]
+    assert p.value.contains(_truth(50)) and p.value.digits() >= goal
+    assert used.digits == calls[-1][1]
