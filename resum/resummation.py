@@ -1597,14 +1597,14 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
     if limited:
         lims = [p.diagnostics["input_limited"] for p in limited]
         want_digits = max(lim["digits_suggested"] for lim in lims)
-        moves = "; ".join(f"10^{lim['amplification_digits']} at {point_text(p.at)}, leaving about "
-                          f"{lim['digits_left']} digits" for p, lim in zip(limited, lims))
+        moves = "; ".join(f"10^{lim['amplification_digits']:.0f} at {point_text(p.at)}, leaving about "
+                          f"{lim['digits_left']:.0f} digits" for p, lim in zip(limited, lims))
         warnings.append(
             f"at {', '.join(point_text(p.at) for p in limited)}: the {series.digits} digits the coefficients carry "
             f"set the band: a rerun with them moved by a unit in their last digit shows their rounding amplified "
             f"about {moves}; more terms at {series.digits} digits would not narrow the band; coefficients with at "
-            f"least {want_digits} digits would keep the rounding below the {ctx.dps} digits asked (an estimate "
-            "from one rerun: more digits make more orders usable, and those may amplify more)")
+            f"least {want_digits} digits would keep the rounding below the {ctx.dps} digits asked (an estimate: "
+            "more digits make more orders usable, and those may amplify more)")
         if reexp_warning is not None and loss.get("loss", 0) + ctx.dps < want_digits:
             warnings[reexp_warning] = warnings[reexp_warning].replace(
                 f"coefficients with about {loss['loss'] + ctx.dps} digits would let every term count",
