@@ -79,3 +79,20 @@ def test_goal_raises_the_digits_when_they_set_the_band(goal):
     p = res.points[0]
     assert p.value.contains(_truth(50)) and p.value.digits() >= goal
     assert used.digits == calls[-1][1]
+
+
+def test_a_move_that_does_not_follow_the_rounding_is_not_blamed_on_it():
+    # The angle-deformed kernel family at a = 0 is (2/pi^2) log cosh(2 pi g) (Belitsky and
+    # Korchemsky, "Exact null octagon", arXiv:1907.13131). From 100 loops at 150 digits, at g = 5
+    # the precision rerun moves the value by about 1e-24 whether the coefficients carry 150 or 300
+    # digits: its higher working precision, not the input's rounding. The rounding made 10^-6 as
+    # large moves it as much, so the point is not reported as limited by the input's digits and
+    # its band is not widened for it (it claimed 23.5 digits instead of 24.5 before this check).
+    from resum.sources.bes import weak_coupling_series
+    s = weak_coupling_series("0", 100, Context(dps=150))
+    p = evaluate(s, ["5"], Context(dps=30)).points[0]
+    with workdps(60):
+        truth = 2 / mpmath.pi ** 2 * mpmath.log(mpmath.cosh(10 * mpmath.pi))
+    assert "input_limited" not in p.diagnostics
+    assert p.value.contains(truth)
+    assert p.value.digits() > 24
