@@ -1386,8 +1386,7 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
         say(f"{plan.method} done ({time.time() - t1:.1f} s)")
         outs, diag = done[0]
         checks = [[] for _ in xs]
-        samples = [[] for _ in xs]      # more roundings of the input, where its digits set the band
-        scaled = [None for _ in xs]     # ... and the first rounding made 10^-6 as large there
+        samples = [[] for _ in xs]      # more roundings of the input, where its digits may set the band
         if verify:
             o2, o3 = done[1][0], done[2][0]
             for j in range(len(xs)):
@@ -1396,25 +1395,20 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                        and o2[j].ok and outs[j].re is not None and o2[j].re is not None
                        and _input_limit(outs[j].re, o2[j].re, series.digits, ctx.dps) is not None]
             if flagged:
+                # other roundings at the main run's own precision: their moves are the input's
+                # alone (the rerun above also changes the working precision)
                 say(f"the input's digits may set the band at {len(flagged)} point(s): "
-                    f"{INPUT_LIMIT_SAMPLES + 1} more reruns")
-                with _wd(wd2):
-                    cw = series.dense(Context(dps=wd2, guard=0))
-                    tiny = mpmath.mpf(10) ** -INPUT_LIMIT_SCALE_DIGITS
-                    inputs = [_perturb(cw, series.digits, seed=20240611 + k) for k in range(1, INPUT_LIMIT_SAMPLES + 1)]
-                    inputs.append(_perturb(cw, series.digits, scale=tiny))
-                more = [(plan, ck, [xs[j] for j in flagged], wd2, n_orders, min(wd2, hi.work_dps + 5), hi.dps)
-                        for ck in inputs]
+                    f"{INPUT_LIMIT_SAMPLES} more roundings")
+                with _wd(wd):
+                    inputs = [_perturb(c, series.digits, seed=20240611 + k) for k in range(1, INPUT_LIMIT_SAMPLES + 1)]
+                more = [(plan, ck, [xs[j] for j in flagged], wd, INPUT_LIMIT_ORDERS, qd, ctx.dps) for ck in inputs]
                 got = run_tasks(_run_at, more, jobs_for(series.n_terms, len(more)))
                 if got is None:
                     got = [_run_at(*t) for t in more]
-                for k, (outs_k, _) in enumerate(got):
+                for outs_k, _ in got:
                     for j, oc in zip(flagged, outs_k):
                         if oc is not None and oc.ok and oc.re is not None:
-                            if k < INPUT_LIMIT_SAMPLES:
-                                samples[j].append(oc)
-                            else:
-                                scaled[j] = oc
+                            samples[j].append(oc)
         # the digits the input carries (those asked, for exact coefficients): they bound the
         # baseline's band, the agreement asked of the reruns and the digits reported
         d_in = ctx.dps if series.digits is None else min(ctx.dps, series.digits)
@@ -1494,10 +1488,10 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                     if series.digits is not None and prec:
                         lim = _input_limit(re, prec[0].re, series.digits, ctx.dps)
                         first = abs(prec[0].re.value - re.value)
-                        if lim is not None and (scaled[j] is None or abs(scaled[j].re.value - re.value)
-                                                > INPUT_LIMIT_LINEAR * first):
-                            # the move did not shrink with the rounding: it is the rerun's other
-                            # precision or a flip of the method's choices, not the input's digits
+                        if lim is not None and (not samples[j] or max(abs(oc.re.value - re.value) for oc in samples[j])
+                                                < INPUT_LIMIT_LINEAR * first):
+                            # other roundings at the main run's precision hardly move the value: the
+                            # rerun's move came from its higher precision, not from the input's digits
                             lim = None
                         if lim is not None and samples[j]:
                             # the largest move among the roundings sampled, at most INPUT_LIMIT_CAP x
@@ -1671,13 +1665,14 @@ INPUT_LIMIT_SAMPLES = 2
 #: fewer. log(1+x)/x from 60 terms at 20 digits, x = 1000: moves 5.5e-7, 5.5e-7, 1.0e-5 and an
 #: actual error of 5.7e-6, held by the capped move
 INPUT_LIMIT_CAP = 10
-#: ... and only if the move responds to the rounding: the first rounding made
-#: 10^-INPUT_LIMIT_SCALE_DIGITS as large must move the value by at most INPUT_LIMIT_LINEAR x as
-#: much. The kernel family at a = 0 from 100 loops (g = 5 and 20) moved by 1e-24 and 9e-8
-#: whether its coefficients carried 150 or 300 digits: the rerun's higher precision, not the
-#: rounding; without this test those bands were widened 10 x for nothing
-INPUT_LIMIT_SCALE_DIGITS = 6
+#: ... and only if those other roundings, run at the main run's own precision, move the value by
+#: at least INPUT_LIMIT_LINEAR x the rerun's move (that rerun also raises the working precision).
+#: The kernel family at a = 0 from 100 loops (g = 5 and 20) moved by 1e-24 and 9e-8 in the rerun
+#: whether its coefficients carried 150 or 300 digits: its higher precision, not the rounding;
+#: without this test those bands were widened 10 x for nothing
 INPUT_LIMIT_LINEAR = mpmath.mpf("0.1")
+#: the other roundings build only the highest orders (the value is the median of the top three)
+INPUT_LIMIT_ORDERS = 4
 
 
 def _input_limit(est: Estimate, rerun: Optional[Estimate], digits, asked: int) -> Optional[dict]:
