@@ -1799,6 +1799,9 @@ def evaluate_with_goal(series: Series, points, goal_digits: float, rebuild, ctx:
                 note = f"the goal needs more than max_terms = {cap} terms"
                 break
             want = min(max(int(math.ceil(max(needs) * GOAL_MARGIN)), n + max(4, n // 10)), cap)
+        if getattr(rebuild, "takes_digits", False) and series.digits is not None:
+            # never fewer digits per term than the series at hand (a round that raised them keeps them)
+            digits = max(digits or 0, -(-int(series.digits) * want // n))
         try:
             longer = rebuild(want) if digits is None else rebuild(want, digits=digits)
         except InputError as exc:

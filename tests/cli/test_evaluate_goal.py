@@ -61,3 +61,25 @@ def test_goal_not_reached_is_a_warning_and_exit_code_1(tmp_path, capsys):
         truth = 2 / mpmath.pi ** 2 * mpmath.log(mpmath.cosh(16 * mpmath.pi))
         v = doc["values"][0]
         assert mpmath.mpf(v["lo"]) <= truth <= mpmath.mpf(v["hi"])
+
+
+def test_goal_raises_the_digits_where_the_rounding_sets_the_band(tmp_path, capsys):
+    # 40 loops at 20 digits: at g = 1 the rounding of the coefficients, amplified by the
+    # resummation, leaves about 4 digits; --goal regenerates with more digits (not first more
+    # loops), and the digits a round reached are kept when a later round adds loops
+    f = tmp_path / "a0.json"
+    assert main(["generate", "bes", "--angle", "0", "--loops", "40", "--dps", "20", "-o", str(f)]) == 0
+    capsys.readouterr()
+    code = main(["evaluate", str(f), "--at", "1", "--goal", "14", "--json"])
+    doc = json.loads(capsys.readouterr().out)
+    assert code == 0
+    rounds = doc["order_search"]["rounds"]
+    assert rounds[0]["terms"] == 41 and rounds[0]["digits"] == 20
+    assert rounds[1]["terms"] == 41 and rounds[1]["digits"] > 20        # more digits, same loops
+    assert all(b["digits"] >= a["digits"] for a, b in zip(rounds, rounds[1:]))
+    assert doc["order_search"]["reached"] is True
+    with mpmath.workdps(40):
+        truth = 2 / mpmath.pi ** 2 * mpmath.log(mpmath.cosh(2 * mpmath.pi))
+        v = doc["values"][0]
+        assert mpmath.mpf(v["lo"]) <= truth <= mpmath.mpf(v["hi"])
+        assert abs(mpmath.mpf(v["value"]) / truth - 1) < mpmath.mpf(10) ** -14
