@@ -1393,7 +1393,8 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                 checks[j] = [("higher precision", o2[j]), (f"{nf} terms", o3[j])]
             flagged = [j for j in range(len(xs)) if series.digits is not None and outs[j].ok and o2[j] is not None
                        and o2[j].ok and outs[j].re is not None and o2[j].re is not None
-                       and _input_limit(outs[j].re, o2[j].re, series.digits, ctx.dps) is not None]
+                       and _input_limit(outs[j].re, o2[j].re, series.digits, ctx.dps,
+                                        outs[j].im, o2[j].im) is not None]
             if flagged:
                 # other roundings at the main run's own precision: their moves are the input's
                 # alone (the rerun above also changes the working precision)
@@ -1486,9 +1487,9 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                     # more than the rerun did; other sign patterns 1.3-11x)
                     fac = 10 if o.info.get("method", plan.method) in ("ode", "borel-ode") else 2
                     if series.digits is not None and prec:
-                        lim = _input_limit(re, prec[0].re, series.digits, ctx.dps)
-                        first = abs(prec[0].re.value - re.value)
-                        if lim is not None and (not samples[j] or max(abs(oc.re.value - re.value) for oc in samples[j])
+                        lim = _input_limit(re, prec[0].re, series.digits, ctx.dps, im, prec[0].im)
+                        first = _move(re, im, prec[0])
+                        if lim is not None and (not samples[j] or max(_move(re, im, oc) for oc in samples[j])
                                                 < INPUT_LIMIT_LINEAR * first):
                             # other roundings at the main run's precision hardly move the value: the
                             # rerun's move came from its higher precision, not from the input's digits
@@ -1496,14 +1497,19 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                         if lim is not None and samples[j]:
                             # the largest move among the roundings sampled, at most INPUT_LIMIT_CAP x
                             # the first one's
-                            moves = [abs(oc.re.value - re.value) for oc in [prec[0]] + samples[j]]
+                            # (at a complex point, or with a lateral sum's imaginary part, a move is
+                            # that of the complex value: the rounding moves both parts, and each part's
+                            # band is widened by it)
+                            moves = [_move(re, im, oc) for oc in [prec[0]] + samples[j]]
                             top = min(max(moves), INPUT_LIMIT_CAP * moves[0])
-                            lim = _input_limit(re, Estimate(re.value + top, re.value + top, re.value + top),
-                                               series.digits, ctx.dps) or lim
+                            moved_re = Estimate(re.value + top, re.value + top, re.value + top)
+                            moved_im = None if im is None else Estimate(im.value + top, im.value + top,
+                                                                        im.value + top)
+                            lim = _input_limit(re, moved_re, series.digits, ctx.dps, im, moved_im) or lim
                             lim["roundings_sampled"] = len(moves)
                             lim["moves"] = [mpmath.nstr(m, 3) for m in moves]
-                            prec = [prec[0], replace(prec[0], re=Estimate(re.value + top, re.value + top,
-                                                                          re.value + top))]
+                            prec = [prec[0], replace(prec[0], re=moved_re,
+                                                     im=moved_im if im is not None else prec[0].im)]
                             agree["other roundings"] = mpmath.nstr(max(moves[1:]), 5)
                         if lim is not None:
                             pdiag["input_limited"] = lim
@@ -1600,7 +1606,7 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                                 f"({o.info['ode_refused']}); {p_method} instead")
             pts.append(PointResult(a, x, re, im, p_method, success, status, msg, baselines[j], pdiag))
     limited = [p for p in pts if p.diagnostics.get("input_limited") and p.value is not None
-               and p.value.digits() < ctx.dps - 0.5]
+               and p.digits < ctx.dps - 0.5]
     if limited:
         lims = [p.diagnostics["input_limited"] for p in limited]
         want_digits = max(lim["digits_suggested"] for lim in lims)
@@ -1676,7 +1682,17 @@ INPUT_LIMIT_LINEAR = mpmath.mpf("0.1")
 INPUT_LIMIT_ORDERS = 4
 
 
-def _input_limit(est: Estimate, rerun: Optional[Estimate], digits, asked: int) -> Optional[dict]:
+def _move(re: Estimate, im: Optional[Estimate], oc) -> mpmath.mpf:
+    """How far the rerun or sample ``oc`` moved the value ``re`` (+ i ``im``): the modulus of
+    the complex move where both carry an imaginary part, else the real part's."""
+    d = abs(oc.re.value - re.value)
+    if im is not None and oc.im is not None:
+        d = mpmath.hypot(d, oc.im.value - im.value)
+    return d
+
+
+def _input_limit(est: Estimate, rerun: Optional[Estimate], digits, asked: int,
+                 est_im: Optional[Estimate] = None, rerun_im: Optional[Estimate] = None) -> Optional[dict]:
     """Whether the digits the coefficients carry set the band at a point. ``rerun``: the value
     with the coefficients moved by a unit in their last digit; its move over the value times
     ``10^-digits`` is the amplification of the input's rounding here, and ``digits`` less its
@@ -1684,15 +1700,28 @@ def _input_limit(est: Estimate, rerun: Optional[Estimate], digits, asked: int) -
     more than the approximants' own band ``est`` claims: a dict with the move, the amplification
     (in digits), the digits left, and the coefficient digits suggested, enough that the amplified
     rounding stays below the ``asked`` digits, plus :data:`INPUT_LIMIT_MARGIN`. A lower estimate:
-    more digits make more orders usable, and those may amplify more. None otherwise."""
-    if rerun is None or est is None or digits is None or est.value == 0:
+    more digits make more orders usable, and those may amplify more. None otherwise.
+
+    With imaginary parts (``est_im`` and ``rerun_im``: a complex point, or the ambiguity of a
+    lateral Borel sum) the move, the value and the band are those of the complex number (moduli;
+    the band's larger half-width), so a real part near zero does not read as a huge
+    amplification, nor a move of the imaginary part alone as none."""
+    if rerun is None or est is None or digits is None:
+        return None
+    cplx = est_im is not None and rerun_im is not None
+    size = abs(est.value) if not cplx else mpmath.hypot(est.value, est_im.value)
+    if size == 0:
         return None
     dev = abs(rerun.value - est.value)
+    if cplx:
+        dev = mpmath.hypot(dev, rerun_im.value - est_im.value)
     if dev == 0:
         return None
-    amp = float(mpmath.log10(dev / abs(est.value))) + float(digits)
+    err = est.error if not cplx else max(est.error, est_im.error)
+    claimed = math.inf if err == 0 else float(mpmath.log10(size / err))
+    amp = float(mpmath.log10(dev / size)) + float(digits)
     left = float(digits) - amp
-    if left > est.digits() + INPUT_LIMIT_MARGIN:
+    if left > claimed + INPUT_LIMIT_MARGIN:
         return None
     return {"digits_carried": int(digits), "moved": mpmath.nstr(dev, 3),
             "amplification_digits": round(amp, 1), "digits_left": round(left, 1),
