@@ -262,7 +262,7 @@ class EvaluationResult:
                     row["message"] = p.message
                 reach = p.diagnostics.get("reach")
                 lim = p.diagnostics.get("input_limited")
-                if reach and lim:
+                if lim and lim.get("short_of_asked", bool(reach)):
                     row["digits_needed"] = str(lim["digits_suggested"])
                 elif reach and reach.get("terms_needed"):
                     row["terms_needed"] = str(reach["terms_needed"])
@@ -1609,14 +1609,18 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                and p.digits < ctx.dps - 0.5]
     if limited:
         lims = [p.diagnostics["input_limited"] for p in limited]
+        for lim in lims:
+            # the band falls short of the digits asked, and the input's digits are why: the JSON
+            # contract's digits_needed and the report's short-band lines read this (also where no
+            # projection in terms exists, as for the Borel-plane methods)
+            lim["short_of_asked"] = True
         want_digits = max(lim["digits_suggested"] for lim in lims)
-        moves = "; ".join(f"10^{lim['amplification_digits']:.0f} at {point_text(p.at)}, leaving about "
-                          f"{lim['digits_left']:.0f} digits" for p, lim in zip(limited, lims))
+        moves = "; ".join(_amplified_text(lim, point_text(p.at)) for p, lim in zip(limited, lims))
         warnings.append(
             f"at {', '.join(point_text(p.at) for p in limited)}: the {series.digits} digits the coefficients carry "
             f"set the band: a rerun with them moved by a unit in their last digit shows their rounding amplified "
-            f"about {moves}; more terms at {series.digits} digits would not narrow the band; coefficients with at "
-            f"least {want_digits} digits would keep the rounding below the {ctx.dps} digits asked (an estimate: "
+            f"{moves}; more terms at {series.digits} digits would not narrow the band; coefficients with at "
+            f"least {want_digits} digits would keep the rounding below the {ctx.dps} digits worked to (an estimate: "
             "more digits make more orders usable, and those may amplify more)")
         if reexp_warning is not None and loss.get("loss", 0) + ctx.dps < want_digits:
             warnings[reexp_warning] = warnings[reexp_warning].replace(
@@ -1680,6 +1684,17 @@ INPUT_LIMIT_CAP = 10
 INPUT_LIMIT_LINEAR = mpmath.mpf("0.1")
 #: the other roundings build only the highest orders (the value is the median of the top three)
 INPUT_LIMIT_ORDERS = 4
+
+
+def _amplified_text(lim: dict, at: str) -> str:
+    """``10^A at X, leaving about L digits`` for the input-limit warning, in whole exponents
+    (an amplification below half a digit is none: not ``10^-0``), never more digits left than
+    the coefficients carry."""
+    a = int(round(lim["amplification_digits"]))
+    left = min(int(round(lim["digits_left"])), lim["digits_carried"])
+    if a <= 0:
+        return f"not at all at {at}, leaving about the {left} digits they carry"
+    return f"about 10^{a} at {at}, leaving about {left} digits"
 
 
 def _move(re: Estimate, im: Optional[Estimate], oc) -> mpmath.mpf:

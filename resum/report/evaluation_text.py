@@ -214,16 +214,23 @@ def _render(result, title, reference):
                      "at large x read from the series (method line) was divided out there, the mapped function "
                      "multiplied by (1 - w/w_inf)^alpha, alpha = " + rim[0].diagnostics["rim_power_alpha"] +
                      ", before the approximants; the other points were resummed without it.")
-    short = [p for p in result.points if p.diagnostics.get("reach")]
+    def _limited(p):
+        lim = p.diagnostics.get("input_limited")
+        return lim if lim and lim.get("short_of_asked", bool(p.diagnostics.get("reach"))) else None
+    short = [p for p in result.points if p.diagnostics.get("reach") or _limited(p)]
     if short:
         lines.append("")
         lines.append("Where the band falls short of the digits asked (a projection from how fast the approximants "
                      "converged at each point, extrapolated in n and in sqrt(n), the larger count kept; not a promise):")
         for p in short:
-            r = p.diagnostics["reach"]
-            head = (f"  {point_text(p.at, 12)}: {r['digits']} digits; about {r['digits_per_term']} digits per "
-                    f"added term ({r['terms_per_digit']} terms per digit); ")
-            lim = p.diagnostics.get("input_limited")
+            r = p.diagnostics.get("reach")
+            lim = _limited(p)
+            if r is None:
+                # a method without a convergence rate to project from (the Borel-plane ones)
+                head = f"  {point_text(p.at, 12)}: {p.digits:.1f} digits; "
+            else:
+                head = (f"  {point_text(p.at, 12)}: {r['digits']} digits; about {r['digits_per_term']} digits per "
+                        f"added term ({r['terms_per_digit']} terms per digit); ")
             if lim:
                 lines.append(head + f"here the {lim['digits_carried']} digits the coefficients carry set the band "
                              f"(see the warnings): coefficients with at least {lim['digits_suggested']} digits, "

@@ -113,3 +113,34 @@ def test_complex_points_widen_both_parts_by_the_complex_move():
         assert p.value.contains(mpmath.re(t)) and p.imag.contains(mpmath.im(t)), p.at
         assert p.digits > 1.5
     assert sum("digits the coefficients carry set the band" in w for w in r.warnings) == 1
+
+
+def _factorial_series(n, digits, sign):
+    with workdps(digits + 60):
+        return Series([mpmath.mpf(mpmath.nstr(sign ** k * mpmath.factorial(k), digits)) for k in range(n)],
+                      digits=digits)
+
+
+def test_borel_pade_lateral_sums_name_the_digits_needed():
+    # sum k! x^k (Euler's series; common practice, no source): the Borel transform 1/(1 - t) has
+    # its pole on the integration ray, the lateral sums are
+    # e^(-1/x) Ei(1/x)/x -+ i pi e^(-1/x)/x (mpmath.ei). 40 terms rounded to 18 digits: the
+    # rounding sets the band at x = 3 (amplified about 10^2). Borel-Padé has no convergence rate
+    # to project terms from; the JSON row still says which coefficient digits would help, and the
+    # report lists the point where the band falls short. One warning for both points.
+    from resum.report.evaluation_text import render_evaluation
+    r = evaluate(_factorial_series(40, 18, 1), ["0.5", "3"], Context(dps=18), method="borel-pade")
+    rows = r.contract_dict()["values"]
+    for p, row in zip(r.points, rows):
+        with workdps(40):
+            x = mpmath.mpf(p.at)
+            pv, amb = mpmath.exp(-1 / x) * mpmath.ei(1 / x) / x, mpmath.pi * mpmath.exp(-1 / x) / x
+        assert p.success and p.value.contains(pv) and p.imag.contains(amb), p.at
+    p3, row3 = r.points[1], rows[1]
+    assert p3.diagnostics["input_limited"]["amplification_digits"] > 1
+    assert "reach" not in p3.diagnostics
+    assert row3["digits_needed"] == str(p3.diagnostics["input_limited"]["digits_suggested"])
+    text = render_evaluation(r)
+    assert "3.0: " + f"{p3.digits:.1f} digits; here the 18 digits the coefficients carry set the band" in text
+    limits = [w for w in r.warnings if "digits the coefficients carry set the band" in w]
+    assert len(limits) == 1 and "10^-0" not in limits[0] and "about 10^2 at 3.0" in limits[0]
