@@ -1817,7 +1817,9 @@ def evaluate_with_goal(series: Series, points, goal_digits: float, rebuild, ctx:
     note = ""
     short = []
     for _ in range(GOAL_ROUNDS + 1):
-        digs = [(p, p.value.digits() if p.value is not None else -math.inf) for p in res.points]
+        # a complex value's digits are relative to its modulus (PointResult.digits, as the JSON
+        # and the report give them): a real part near zero is not a short point
+        digs = [(p, p.digits if p.value is not None else -math.inf) for p in res.points]
         low = min(d for _, d in digs)
         rounds.append({"terms": n, "digits": series.digits,
                        "min_digits": f"{low:.1f}" if math.isfinite(low) else "none"})

@@ -144,3 +144,25 @@ def test_borel_pade_lateral_sums_name_the_digits_needed():
     assert "3.0: " + f"{p3.digits:.1f} digits; here the 18 digits the coefficients carry set the band" in text
     limits = [w for w in r.warnings if "digits the coefficients carry set the band" in w]
     assert len(limits) == 1 and "10^-0" not in limits[0] and "about 10^2 at 3.0" in limits[0]
+
+
+def test_goal_reads_a_complex_value_by_its_modulus():
+    # log(1 + z)/z at z = -41.8 + 100i has a real part near zero (8.8e-6 beside an imaginary part
+    # -0.047; mpmath.log1p). 60 terms at 20 digits give about 4.6 digits of the complex value, as
+    # the JSON `digits` says; a goal of 3 is reached in the first round. Before, the search read
+    # the real part's own relative digits (0.9) and regenerated the series once for nothing.
+    calls = []
+
+    def rebuild(n, digits=None):
+        calls.append((n, digits))
+        return _rounded(n, digits or 20)
+    rebuild.takes_digits = True
+    res, search, _ = evaluate_with_goal(_rounded(60, 20), ["-41.8+100*I"], 3, rebuild, Context(dps=20),
+                                       method="conformal-pade")
+    p = res.points[0]
+    with workdps(60):
+        z = mpmath.mpc("-41.8", 100)
+        t = mpmath.log1p(z) / z
+    assert p.value.contains(mpmath.re(t)) and p.imag.contains(mpmath.im(t))
+    assert p.digits >= 3 > p.value.digits()
+    assert search["reached"] and len(search["rounds"]) == 1 and not calls
