@@ -14,6 +14,7 @@ numbers may be expressions (``sqrt(2)/4``).
 """
 from __future__ import annotations
 
+import math
 import os
 import sys
 
@@ -250,8 +251,14 @@ def _goal_options(args, series, ctx):
     except ValueError:
         goal = float("nan")
     if not 0 < goal <= ctx.dps:
+        more = ""
+        if goal > ctx.dps and series.digits is not None and series.digits <= ctx.dps:
+            # the file's digits cap --dps: more digits need the coefficients again
+            need = math.ceil(goal) + 10
+            more = (f"; the coefficients carry {series.digits} digits: for {args.goal} digits "
+                    f"{_regenerate_advice(series, need)}")
         raise InputError(f"expected a number of digits from 1 to the --dps asked ({ctx.dps}), got "
-                         f"{args.goal!r}", where="--goal")
+                         f"{args.goal!r}{more}", where="--goal")
     max_terms = None
     if args.max_terms is not None:
         try:
@@ -267,6 +274,28 @@ def _goal_options(args, series, ctx):
     except InputError as exc:
         raise InputError(exc.bare, where=f"{args.file}: --goal") from None
     return goal, max_terms, rebuild
+
+
+def _regenerate_advice(series, digits: int) -> str:
+    """How to get the file's series with ``digits`` digits: the ``resum generate`` command its
+    provenance names (the source's own parameters, ``--dps`` raised), or, for a series not made by
+    a built-in source, to write its coefficients with that many digits."""
+    from ..sources import SOURCES
+    prov = dict(series.provenance or {})
+    src = SOURCES.get(prov.get("source"))
+    if src is None:
+        return f"write the coefficients with at least {digits} digits"
+    opts = []
+    for p in src.params:
+        if p.name == "dps" or p.name not in prov:
+            continue
+        v = prov[p.name]
+        if p.type == "bool":
+            if v in (True, "true", "True"):
+                opts.append(f"--{p.name.replace('_', '-')}")
+            continue
+        opts.append(f"--{p.name.replace('_', '-')} {v}")
+    return f"regenerate it with 'resum generate {src.name} {' '.join(opts + [f'--dps {digits}'])} -o FILE'"
 
 
 def _logged(rebuild):

@@ -83,3 +83,26 @@ def test_goal_raises_the_digits_where_the_rounding_sets_the_band(tmp_path, capsy
         v = doc["values"][0]
         assert mpmath.mpf(v["lo"]) <= truth <= mpmath.mpf(v["hi"])
         assert abs(mpmath.mpf(v["value"]) / truth - 1) < mpmath.mpf(10) ** -14
+
+
+def test_goal_beyond_the_files_digits_names_the_command_that_gives_them(tmp_path, capsys):
+    # a file of 20-digit coefficients caps the digits worked to at 20: --goal 25 is refused in one
+    # line that spells out the 'resum generate' call giving enough digits; that call, then the
+    # same --goal, reaches 25 digits (truth: the closed form above, mpmath)
+    f = tmp_path / "a0.json"
+    assert main(["generate", "bes", "--angle", "0", "--loops", "40", "--dps", "20", "-o", str(f)]) == 0
+    capsys.readouterr()
+    assert main(["evaluate", str(f), "--at", "1", "--goal", "25"]) == 2
+    err = capsys.readouterr().err.strip().splitlines()
+    assert len(err) == 1 and "Traceback" not in err[0]
+    cmd = err[0].split("'resum generate ")[1].split("'")[0].split()
+    assert cmd[:5] == ["bes", "--angle", "0", "--loops", "40"] and cmd[5] == "--dps" and int(cmd[6]) >= 35
+    g = tmp_path / "a0b.json"
+    assert main(["generate", *cmd[:-1], str(g)]) == 0
+    capsys.readouterr()
+    assert main(["evaluate", str(g), "--at", "1", "--goal", "25", "--json"]) == 0
+    doc = json.loads(capsys.readouterr().out)
+    with mpmath.workdps(50):
+        truth = 2 / mpmath.pi ** 2 * mpmath.log(mpmath.cosh(2 * mpmath.pi))
+        v = doc["values"][0]
+        assert mpmath.mpf(v["lo"]) <= truth <= mpmath.mpf(v["hi"]) and float(v["digits"]) >= 25
