@@ -1387,14 +1387,15 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
         outs, diag = done[0]
         checks = [[] for _ in xs]
         samples = [[] for _ in xs]      # more roundings of the input, where its digits may set the band
+        limits = [None for _ in xs]     # _input_limit of the precision rerun at each point
         if verify:
             o2, o3 = done[1][0], done[2][0]
             for j in range(len(xs)):
                 checks[j] = [("higher precision", o2[j]), (f"{nf} terms", o3[j])]
-            flagged = [j for j in range(len(xs)) if series.digits is not None and outs[j].ok and o2[j] is not None
-                       and o2[j].ok and outs[j].re is not None and o2[j].re is not None
-                       and _input_limit(outs[j].re, o2[j].re, series.digits, ctx.dps,
-                                        outs[j].im, o2[j].im) is not None]
+                if series.digits is not None and outs[j].ok and outs[j].re is not None and o2[j] is not None \
+                        and o2[j].ok and o2[j].re is not None:
+                    limits[j] = _input_limit(outs[j].re, o2[j].re, series.digits, ctx.dps, outs[j].im, o2[j].im)
+            flagged = [j for j in range(len(xs)) if limits[j] is not None]
             if flagged:
                 # other roundings at the main run's own precision: their moves are the input's
                 # alone (the rerun above also changes the working precision)
@@ -1486,20 +1487,19 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                     # (1 + x + x^2)^(-1/3) at 25 digits, x = 1000: the rounding moved the value 5.5x
                     # more than the rerun did; other sign patterns 1.3-11x)
                     fac = 10 if o.info.get("method", plan.method) in ("ode", "borel-ode") else 2
-                    if series.digits is not None and prec:
-                        lim = _input_limit(re, prec[0].re, series.digits, ctx.dps, im, prec[0].im)
+                    lim = limits[j]     # set only where prec[0] is that precision rerun
+                    if lim is not None:
                         first = _move(re, im, prec[0])
-                        if lim is not None and (not samples[j] or max(_move(re, im, oc) for oc in samples[j])
-                                                < INPUT_LIMIT_LINEAR * first):
+                        if not samples[j] or max(_move(re, im, oc) for oc in samples[j]) < INPUT_LIMIT_LINEAR * first:
                             # other roundings at the main run's precision hardly move the value: the
                             # rerun's move came from its higher precision, not from the input's digits
                             lim = None
-                        if lim is not None and samples[j]:
-                            # the largest move among the roundings sampled, at most INPUT_LIMIT_CAP x
-                            # the first one's
-                            # (at a complex point, or with a lateral sum's imaginary part, a move is
-                            # that of the complex value: the rounding moves both parts, and each part's
-                            # band is widened by it)
+                        else:
+                            # the largest move among the roundings sampled, at most INPUT_LIMIT_CAP x the
+                            # first one's (at a complex point, or with a lateral sum's imaginary part, a
+                            # move is that of the complex value: the rounding moves both parts, and each
+                            # part's band is widened by it); the spread of the approximants no longer
+                            # absorbs the input's rounding here (see INPUT_LIMIT_WIDEN)
                             moves = [_move(re, im, oc) for oc in [prec[0]] + samples[j]]
                             top = min(max(moves), INPUT_LIMIT_CAP * moves[0])
                             moved_re = Estimate(re.value + top, re.value + top, re.value + top)
@@ -1511,10 +1511,7 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                             prec = [prec[0], replace(prec[0], re=moved_re,
                                                      im=moved_im if im is not None else prec[0].im)]
                             agree["other roundings"] = mpmath.nstr(max(moves[1:]), 5)
-                        if lim is not None:
                             pdiag["input_limited"] = lim
-                            # the input's rounding sets the band: the spread of the approximants no
-                            # longer absorbs it (see INPUT_LIMIT_WIDEN)
                             fac = max(fac, INPUT_LIMIT_WIDEN)
                     re = _widen(re, [oc.re for oc in prec], fac)
                     if im is not None:
