@@ -261,8 +261,8 @@ class EvaluationResult:
                 if p.message:
                     row["message"] = p.message
                 reach = p.diagnostics.get("reach")
-                lim = p.diagnostics.get("input_limited")
-                if lim and lim.get("short_of_asked", bool(reach)):
+                lim = input_limit_short(p)
+                if lim:
                     row["digits_needed"] = str(lim["digits_suggested"])
                 elif reach and reach.get("terms_needed"):
                     row["terms_needed"] = str(reach["terms_needed"])
@@ -1681,6 +1681,15 @@ INPUT_LIMIT_CAP = 10
 INPUT_LIMIT_LINEAR = mpmath.mpf("0.1")
 #: the other roundings build only the highest orders (the value is the median of the top three)
 INPUT_LIMIT_ORDERS = 4
+
+
+def input_limit_short(p) -> Optional[dict]:
+    """A point's ``input_limited`` diagnostics when its band falls short of the digits asked
+    because of the input's digits (what the JSON contract's ``digits_needed`` and the report's
+    short-band lines read), else None. Records from before ``short_of_asked`` count a point with
+    a terms projection (``reach``) as short."""
+    lim = p.diagnostics.get("input_limited")
+    return lim if lim and lim.get("short_of_asked", bool(p.diagnostics.get("reach"))) else None
 
 
 def _amplified_text(lim: dict, at: str) -> str:

@@ -214,17 +214,15 @@ def _render(result, title, reference):
                      "at large x read from the series (method line) was divided out there, the mapped function "
                      "multiplied by (1 - w/w_inf)^alpha, alpha = " + rim[0].diagnostics["rim_power_alpha"] +
                      ", before the approximants; the other points were resummed without it.")
-    def _limited(p):
-        lim = p.diagnostics.get("input_limited")
-        return lim if lim and lim.get("short_of_asked", bool(p.diagnostics.get("reach"))) else None
-    short = [p for p in result.points if p.diagnostics.get("reach") or _limited(p)]
+    from ..resummation import input_limit_short
+    short = [p for p in result.points if p.diagnostics.get("reach") or input_limit_short(p)]
     if short:
         lines.append("")
         lines.append("Where the band falls short of the digits asked (a projection from how fast the approximants "
                      "converged at each point, extrapolated in n and in sqrt(n), the larger count kept; not a promise):")
         for p in short:
             r = p.diagnostics.get("reach")
-            lim = _limited(p)
+            lim = input_limit_short(p)
             if r is None:
                 # a method without a convergence rate to project from (the Borel-plane ones)
                 head = f"  {point_text(p.at, 12)}: {p.digits:.1f} digits; "
