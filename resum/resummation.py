@@ -1380,9 +1380,11 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
         say(f"{plan.method} at {len(xs)} point(s)" + (", with reruns at higher precision and with fewer terms"
                                                      if verify else "")
             + (f", {jobs} processes" if jobs > 1 else ""))
-        done = run_tasks(_run_at, tasks, jobs)
-        if done is None:
-            done = [_run_at(*t) for t in tasks]
+        def run_all(ts):
+            # side by side where resum.parallel allows, else one after the other
+            got = run_tasks(_run_at, ts, jobs_for(series.n_terms, len(ts)))
+            return got if got is not None else [_run_at(*t) for t in ts]
+        done = run_all(tasks)
         say(f"{plan.method} done ({time.time() - t1:.1f} s)")
         outs, diag = done[0]
         checks = [[] for _ in xs]
@@ -1404,10 +1406,7 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                 with _wd(wd):
                     inputs = [_perturb(c, series.digits, seed=20240611 + k) for k in range(1, INPUT_LIMIT_SAMPLES + 1)]
                 more = [(plan, ck, [xs[j] for j in flagged], wd, INPUT_LIMIT_ORDERS, qd, ctx.dps) for ck in inputs]
-                got = run_tasks(_run_at, more, jobs_for(series.n_terms, len(more)))
-                if got is None:
-                    got = [_run_at(*t) for t in more]
-                for outs_k, _ in got:
+                for outs_k, _ in run_all(more):
                     for j, oc in zip(flagged, outs_k):
                         if oc is not None and oc.ok and oc.re is not None:
                             samples[j].append(oc)
@@ -1502,9 +1501,8 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                             # absorbs the input's rounding here (see INPUT_LIMIT_WIDEN)
                             moves = [_move(re, im, oc) for oc in [prec[0]] + samples[j]]
                             top = min(max(moves), INPUT_LIMIT_CAP * moves[0])
-                            moved_re = Estimate(re.value + top, re.value + top, re.value + top)
-                            moved_im = None if im is None else Estimate(im.value + top, im.value + top,
-                                                                        im.value + top)
+                            moved_re = Estimate.exact(re.value + top)
+                            moved_im = None if im is None else Estimate.exact(im.value + top)
                             lim = _input_limit(re, moved_re, series.digits, ctx.dps, im, moved_im) or lim
                             lim["roundings_sampled"] = len(moves)
                             lim["moves"] = [mpmath.nstr(m, 3) for m in moves]
