@@ -1701,6 +1701,12 @@ def _amplified_text(lim: dict, at: str) -> str:
     return f"about 10^{a} at {at}, leaving about {left} digits"
 
 
+def _digits_for(target: float, amp: float) -> int:
+    """Coefficient digits whose rounding, amplified ``10^amp``, stays below ``target`` digits,
+    plus margins (the orders that more digits make usable may amplify more)."""
+    return int(math.ceil(target + amp)) + INPUT_LIMIT_MARGIN + 3
+
+
 def _move(re: Estimate, im: Optional[Estimate], oc) -> mpmath.mpf:
     """How far the rerun or sample ``oc`` moved the value ``re`` (+ i ``im``): the modulus of
     the complex move where both carry an imaginary part, else the real part's."""
@@ -1744,7 +1750,7 @@ def _input_limit(est: Estimate, rerun: Optional[Estimate], digits, asked: int,
         return None
     return {"digits_carried": int(digits), "moved": mpmath.nstr(dev, 3),
             "amplification_digits": round(amp, 1), "digits_left": round(left, 1),
-            "digits_suggested": int(math.ceil(asked + amp)) + INPUT_LIMIT_MARGIN + 3}
+            "digits_suggested": _digits_for(asked, amp)}
 
 
 #: a band that contains 0 and is this much smaller than the first term of the series at the
@@ -1878,7 +1884,7 @@ def _goal_digits(short, goal: float, carried) -> Optional[int]:
             if p.diagnostics.get("input_limited")]
     if not amps or carried is None:
         return None
-    need = int(math.ceil(goal + max(amps))) + INPUT_LIMIT_MARGIN + 3
+    need = _digits_for(goal, max(amps))
     return max(need, int(math.ceil(1.5 * int(carried))))
 
 
