@@ -117,3 +117,20 @@ def test_help_shows_the_limits(capsys):
     assert main(["generate", "bes", "--help"]) == 0
     out = " ".join(capsys.readouterr().out.split())
     assert "1..400, default 60" in out and "5..5000" in out
+
+
+def test_bes_default_digits_serve_the_resummation(tmp_path, capsys):
+    # without --dps the kernel family is written with max(30, loops + 10) digits: at 30 digits
+    # the rounding of 40 loops' coefficients held resum evaluate at g = 1 to 11 digits; with 50,
+    # about 23. Truth at a = 0: (2/pi^2) log cosh(2 pi g) (Belitsky-Korchemsky arXiv:1907.13131).
+    out = tmp_path / "a0.json"
+    assert main(["generate", "bes", "--angle", "0", "--loops", "40", "-o", str(out)]) == 0
+    assert "50 digits, the default for this length" in capsys.readouterr().err
+    doc = json.loads(out.read_text())
+    assert doc["digits"] == 50
+    assert main(["evaluate", str(out), "--at", "1", "--json"]) == 0
+    row = json.loads(capsys.readouterr().out)["values"][0]
+    with workdps(60):
+        truth = 2 / mpmath.pi ** 2 * mpmath.log(mpmath.cosh(2 * mpmath.pi))
+        assert mpmath.mpf(row["lo"]) <= truth <= mpmath.mpf(row["hi"])
+    assert float(row["digits"]) >= 20

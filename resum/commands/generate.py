@@ -106,6 +106,12 @@ def run(args) -> int:
     for p in spec.params:         # whole numbers first: --dps sets the precision of the rest
         if p.type == "int":
             p.check(getattr(args, p.name, None), f"--{p.name}")
+    chosen = None
+    if dps is None and spec.default_digits is not None:
+        # the source's own default: enough digits for the series' length (see its help)
+        given = {p.name: getattr(args, p.name, None) for p in spec.params if p.type == "int"}
+        dps = chosen = spec.default_digits({k: (v if v is not None else spec.param(k).default)
+                                            for k, v in given.items()})
     ctx = Context(dps=dps) if dps is not None else DEFAULT
     kw = _values(spec, args, ctx.work_dps + 10)
     check_output_file(args.out)       # a mistyped -o is told before the (maybe long) computation
@@ -119,6 +125,8 @@ def run(args) -> int:
         bar.close()
     path = write_series(series, args.out)
     kind = "exact" if series.is_exact else f"{series.digits} digits"
+    if chosen is not None and not series.is_exact:
+        kind += ", the default for this length; --dps sets it"
     print(f"resum generate: wrote {series.n_terms} coefficients ({kind}) of {series.name or spec.name} "
           f"to {path}", file=sys.stderr)
     return 0

@@ -103,6 +103,10 @@ class SourceSpec:
     #: (parameter, offset): the series built has ``value + offset`` coefficients, so a family
     #: task that needs more terms (``evaluate`` with ``goal_digits``) can ask for them
     length: Optional[tuple] = None
+    #: ``params -> digits``: the coefficients' digits ``resum generate`` asks for when no
+    #: ``--dps`` is given (None: the working precision). For sources whose resummation needs
+    #: more digits than the default working precision as the series grows.
+    default_digits: Optional[Callable] = None
 
     def __post_init__(self):
         # every call of build: unknown parameters, values outside their parameter's limits and
@@ -168,6 +172,15 @@ def _bes_build(ctx: Optional[Context] = None, angle="pi/4", loops: int = 60,
                dps: Optional[int] = None, exact: bool = False):
     from .bes import weak_coupling_series
     return weak_coupling_series(angle, loops, _ctx_with(ctx, dps), exact=bool(exact))
+
+
+def bes_default_digits(loops) -> int:
+    """Coefficient digits ``resum generate bes`` writes when no ``--dps`` is given:
+    ``max(30, loops + 10)``. Measured (``resum evaluate`` at g = 1, 5, 20, 30 digits asked, a =
+    pi/4 and 3 pi/8): the digits reached stop growing with the coefficients' digits at about 60
+    for 60 loops, 80-100 for 100 loops and 130 for 150 loops; at 30 digits, 100 loops reached
+    10 digits at g = 1 instead of 27-30. Generating 200 loops at 210 digits takes about 12 s."""
+    return max(DEFAULT.dps, int(loops if loops is not None else 60) + 10)
 
 
 def _bes_truth(ctx: Context, points: Sequence, angle="pi/4", dps: Optional[int] = None, **_):
@@ -240,12 +253,14 @@ SOURCES = {
          Param("loops", "int", 60, "number of loops: highest power g^(2 loops)",
                minimum=1, maximum=BES_MAX_LOOPS),
          Param("dps", "int", None, "correct significant digits of every coefficient "
-                                   "(default: the working precision)",
+                                   "(default: the working precision; resum generate: "
+                                   "max(30, loops + 10), which long series need for "
+                                   "their resummation)",
                minimum=MIN_DPS, maximum=MAX_DPS),
          Param("exact", "bool", False, "also store the exact coefficients (pi, zeta values) in "
                                        "the provenance")),
         _bes_build, _bes_truth, "F_a(g) at couplings g by a truncated matrix and quadrature",
-        ("loops", 1)),
+        ("loops", 1), lambda kw: bes_default_digits(kw.get("loops"))),
     "oscillator": SourceSpec(
         "oscillator", "energy levels of p^2 + x^2 + g x^4 as exact Rayleigh-Schrodinger series in g",
         (Param("state", "int", 0, "level: 0 ground state, 1 first excited, ...", minimum=0,
