@@ -1489,7 +1489,17 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                     lim = limits[j]     # set only where prec[0] is that precision rerun
                     if lim is not None:
                         first = _move(re, im, prec[0])
-                        if not samples[j] or max(_move(re, im, oc) for oc in samples[j]) < INPUT_LIMIT_LINEAR * first:
+                        if not samples[j]:
+                            # every extra rounding failed to give a value: the input's rounding
+                            # matters here, and the precision rerun's move is all that was measured
+                            lim = dict(lim, roundings_sampled=1, moves=[mpmath.nstr(first, 3)],
+                                       note="the other roundings of the input gave no value")
+                            agree["other roundings"] = "failed"
+                            pdiag["input_limited"] = lim
+                            fac = max(fac, INPUT_LIMIT_WIDEN)
+                            warnings.append(f"at {point_text(a)}: the input rounded otherwise in its last "
+                                            "digit gave no value; the band rests on one rounding's move")
+                        elif max(_move(re, im, oc) for oc in samples[j]) < INPUT_LIMIT_LINEAR * first:
                             # other roundings at the main run's precision hardly move the value: the
                             # rerun's move came from its higher precision, not from the input's digits
                             lim = None

@@ -166,3 +166,16 @@ def test_goal_reads_a_complex_value_by_its_modulus():
     assert p.value.contains(mpmath.re(t)) and p.imag.contains(mpmath.im(t))
     assert p.digits >= 3 > p.value.digits()
     assert search["reached"] and len(search["rounds"]) == 1 and not calls
+
+
+def test_no_other_rounding_keeps_the_flag(monkeypatch):
+    # when the extra roundings give no value (here: none are run), the precision rerun's move
+    # still marks the point as limited by the input's digits, with a warning, and the band (2 x
+    # that move) is kept; case and truth as in the first test (mpmath.log1p).
+    import resum.resummation as rs
+    monkeypatch.setattr(rs, "INPUT_LIMIT_SAMPLES", 0)
+    r = evaluate(_rounded(60, 20), ["1000"], Context(dps=30))
+    lim = r.points[0].diagnostics["input_limited"]
+    assert lim["roundings_sampled"] == 1 and "gave no value" in lim["note"]
+    assert any("gave no value" in w for w in r.warnings)
+    assert int(r.contract_dict()["values"][0]["digits_needed"]) == lim["digits_suggested"]
