@@ -1609,6 +1609,11 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
             if o.info.get("ode_refused") and plan.method in ("ode", "borel-ode"):
                 warnings.append(f"at {point_text(a)}: the differential equation was not followed "
                                 f"({o.info['ode_refused']}); {p_method} instead")
+            if "S_plus" in pdiag and re is not None and im is not None:
+                # the lateral sums as the final bands support them (the estimator wrote the median
+                # approximant's sums to 25 digits, before any widening)
+                pdiag["S_plus"] = f"{re} + i {im}"
+                pdiag["S_minus"] = f"{re} - i {im}"
             pts.append(PointResult(a, x, re, im, p_method, success, status, msg, baselines[j], pdiag))
     limited = [p for p in pts if p.diagnostics.get("input_limited") and p.value is not None
                and p.digits < ctx.dps - 0.5]

@@ -47,6 +47,9 @@ def test_non_borel_summable_series_gives_both_lateral_sums():
         im_truth = mpmath.pi * mpmath.exp(-1 / X) / X
         assert p.value.contains(re_truth) and p.imag.contains(im_truth)
         assert _digits(p.value.value, re_truth) >= 25 and _digits(p.imag.value, im_truth) >= 25
+    # the lateral sums in the diagnostics carry the final bands' digits, not more
+    assert p.diagnostics["S_plus"] == f"{p.value} + i {p.imag}"
+    assert p.diagnostics["S_minus"] == f"{p.value} - i {p.imag}"
 
 
 @pytest.mark.parametrize("g", ["0.5", "2"])
