@@ -33,6 +33,7 @@ import multiprocessing
 import multiprocessing.connection
 import os
 import signal
+import sys
 import threading
 from typing import Callable, Optional, Sequence
 
@@ -55,6 +56,24 @@ class SerialRunner:
         for i in indices:
             on_start(i)
             on_record(compute_point(spec, i, self.name))
+
+
+#: exit code of a point process in which importing the caller's main script ran the family again
+NESTED_EXIT = 86
+NESTED_MESSAGE = ("the script calls run_family outside 'if __name__ == \"__main__\":'; each point's "
+                  "process imports the script and would start the family again: put the call under "
+                  "that guard (or run with SerialRunner)")
+
+
+def refuse_nested_run() -> None:
+    """Called by :func:`resum.batch.run_family` first: in a process that multiprocessing is still
+    starting (it imports the caller's main script to unpickle the task), a family run can only be
+    the script's own unguarded call. End this process at once, before it touches any folder, with
+    :data:`NESTED_EXIT`, which the parent turns into one error for the whole run."""
+    if getattr(multiprocessing.current_process(), "_inheriting", False):
+        sys.stderr.write(f"resum: {NESTED_MESSAGE}\n")
+        sys.stderr.flush()
+        os._exit(NESTED_EXIT)
 
 
 def _mp_context():
@@ -165,6 +184,9 @@ class ProcessRunner:
                     proc.join()
                     code = proc.exitcode
                     proc.close()
+                    if rec is None and code == NESTED_EXIT:
+                        # every point would end the same way: stop the run (nothing was computed)
+                        raise InputError(NESTED_MESSAGE)
                     if rec is not None:
                         on_record(rec)
                     elif alone:
@@ -239,10 +261,18 @@ class DaskRunner:
                 # loopback port: by default they take port 8787 and, when another cluster on the
                 # machine holds it (a second run, a test suite running beside this one), warn and
                 # move; under warnings-as-errors (the test suite) that warning failed the start
-                cluster = LocalCluster(n_workers=self.jobs, threads_per_worker=1, processes=True,
-                                       dashboard_address=None, silence_logs=50,
-                                       scheduler_kwargs={"dashboard": False,
-                                                         "dashboard_address": "127.0.0.1:0"})
+                try:
+                    cluster = LocalCluster(n_workers=self.jobs, threads_per_worker=1, processes=True,
+                                           dashboard_address=None, silence_logs=50,
+                                           scheduler_kwargs={"dashboard": False,
+                                                             "dashboard_address": "127.0.0.1:0"})
+                except RuntimeError as exc:      # "Nanny failed to start"
+                    msg = f"{exc}".splitlines()[0]
+                    script = getattr(sys.modules.get("__main__"), "__file__", None)
+                    hint = (f"; if {script} calls run_family outside 'if __name__ == \"__main__\":', "
+                            "put the call under that guard (each worker process imports the script)"
+                            if script else "")
+                    raise InputError(f"could not start the local dask cluster ({msg}){hint}") from None
             return Client(cluster), cluster
         try:
             return Client(self.address, timeout="10s"), None

@@ -14,7 +14,7 @@ from dataclasses import dataclass, field
 from ..parallel import env_jobs
 from .progress import Progress
 from .records import RunFolder
-from .runners import SerialRunner
+from .runners import SerialRunner, refuse_nested_run
 from .spec import FamilySpec
 
 __all__ = ["run_family", "FamilyOutcome", "plan"]
@@ -89,6 +89,7 @@ def run_family(spec: FamilySpec, outdir, runner=None, resume: bool = False,
         Ctrl-C stops the run after writing what has finished; the outcome
         then has ``interrupted=True`` (and the summary covers what is on disk).
     """
+    refuse_nested_run()           # a worker importing an unguarded script: end it, touch nothing
     env_jobs()                    # a bad RESUM_JOBS stops the run here, not at every point
     runner = runner or SerialRunner()
     folder = RunFolder(outdir)
