@@ -674,14 +674,16 @@ def test_a_dead_point_process_says_how_it_ended(tmp_path):
 
 def test_a_script_without_the_main_guard_gets_a_message_that_names_it(tmp_path):
     # each point's process imports the calling script; without `if __name__ == "__main__":`
-    # it ran run_family again and died, and the point was recorded as "killed, crashed or out
-    # of memory" (common practice, no source)
+    # it would run run_family again: that process ends at once and the run stops with one
+    # error naming the guard, recording nothing (common practice, no source)
     (tmp_path / "spec.toml").write_text(spec_text([2], orders=20).replace(
         'exponent = { values = ["1/2", 2] }', 'exponent = { values = ["1/2"] }'))
     (tmp_path / "script.py").write_text(
         "from resum.batch import load_spec, run_family, ProcessRunner\n"
         "run_family(load_spec('spec.toml'), 'o', runner=ProcessRunner(jobs=1), quiet=True, plots=False)\n")
     env = {**os.environ, "PYTHONPATH": os.pathsep.join([str(ROOT), os.environ.get("PYTHONPATH", "")])}
-    subprocess.run([sys.executable, "script.py"], cwd=tmp_path, env=env, capture_output=True, timeout=120)
-    (rec,) = records(tmp_path / "o").values()
-    assert rec["status"] == "failed" and "if __name__ == '__main__':" in rec["error"]["message"]
+    r = subprocess.run([sys.executable, "script.py"], cwd=tmp_path, env=env, capture_output=True,
+                       text=True, timeout=120)
+    assert r.returncode != 0
+    assert "InputError" in r.stderr and "if __name__ == \"__main__\":" in r.stderr.splitlines()[-1]
+    assert not records(tmp_path / "o")
