@@ -22,7 +22,9 @@ import math
 
 import flint
 import mpmath
+from typing import Optional
 
+from .._kernels.aberth import refined_roots
 from ..context import workdps
 
 __all__ = ["flint_dps", "solve", "poly_roots", "pade_coeffs", "polyval", "polyval_many", "polyder",
@@ -194,13 +196,16 @@ def polyder(p):
     return [k * p[k] for k in range(1, len(p))]
 
 
-def poly_roots(p, dps: int):
+def poly_roots(p, dps: int, tol_digits: Optional[int] = None):
     """All complex roots of the polynomial ``p`` (coefficients low to high).
 
     Trailing zero coefficients are dropped and exact zero roots split off.
-    Uses flint's root isolation on the midpoints (an exact polynomial),
-    falling back to double-precision companion roots polished by Newton steps
-    at the working precision when isolation fails (numerically multiple
+    The coefficients are taken at ``dps + 10`` digits; the roots are refined to
+    ``10^-tol_digits`` (default ``dps``) of their size (at least 1). First by
+    :func:`resum._kernels.aberth.refined_roots` (fast, and proved isolated), then,
+    where that fails, by flint's root isolation on the midpoints (an exact
+    polynomial), and last by double-precision companion roots polished by Newton
+    steps at the working precision when isolation fails (numerically multiple
     roots). Returns a list of mpc (empty for a constant polynomial).
     """
     p = list(p)
@@ -212,7 +217,7 @@ def poly_roots(p, dps: int):
     while z0 < len(p) - 1 and p[z0] == 0:
         z0 += 1
     if z0:
-        rest = poly_roots(p[z0:], dps)
+        rest = poly_roots(p[z0:], dps, tol_digits)
         return None if rest is None else [mpmath.mpc(0)] * z0 + rest
     if len(p) <= 1:
         return []
@@ -221,7 +226,10 @@ def poly_roots(p, dps: int):
             poly = flint.acb_poly([_to_arb(mpmath.mpmathify(c)) for c in p])
             # an exact polynomial: isolate and refine its roots
             poly = flint.acb_poly([flint.acb(c.real.mid(), c.imag.mid()) for c in poly.coeffs()])
-            rts = poly.roots(tol=flint.arb(10) ** (-dps), maxprec=8 * (dps + 10) * 4)
+            tol = flint.arb(10) ** (-(dps if tol_digits is None else min(dps, tol_digits)))
+            rts = refined_roots(poly, flint.ctx.prec, tol)
+            if rts is None:
+                rts = poly.roots(tol=tol, maxprec=8 * (dps + 10) * 4)
             return [_from_ball(r) for r in rts]
         except (ValueError, ArithmeticError):
             pass

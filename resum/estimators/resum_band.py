@@ -36,6 +36,7 @@ from typing import Optional, Sequence
 import flint
 import mpmath
 
+from .._kernels.aberth import refined_roots
 from ..results import Estimate
 from ..transforms._arb import acb_to_mp, arb_to_mp, flint_precision, to_acb, to_arb
 
@@ -58,14 +59,15 @@ class Rational:
     def den(self, z):
         return _horner(self.q, z)
 
-    def poles(self, dps: int) -> list:
-        """Roots of ``Q`` (complex mpmath numbers) to about ``dps`` digits; [] when ``M = 0``."""
+    def poles(self, dps: int, tol_digits: Optional[int] = None) -> list:
+        """Roots of ``Q`` (complex mpmath numbers) from its coefficients at ``dps`` digits, to
+        within ``10^-tol_digits`` (default ``dps``); [] when ``M = 0``."""
         q = list(self.q)
         while len(q) > 1 and q[-1] == 0:
             q.pop()
         if len(q) <= 1:
             return []
-        return _roots(q, dps)
+        return _roots(q, dps, tol_digits)
 
     def zeros(self, dps: int) -> list:
         p = list(self.p)
@@ -106,14 +108,14 @@ def _horner(cs, z):
     return acc
 
 
-def _roots(cs, dps):
+def _roots(cs, dps, tol_digits=None):
     """Roots of the polynomial ``cs`` (low to high) to about ``dps`` digits: the estimators'
     one root finder (:func:`resum.estimators._num.poly_roots`: FLINT isolation refined to
     ``10^-dps``, double-precision roots polished by Newton steps where isolation fails at
     numerically multiple roots), then mpmath.polyroots as the last resort. (Isolation alone,
     used here before, left poles next to a Padé cut wrong by up to 1e-5.)"""
     from ._num import poly_roots
-    rts = poly_roots(list(cs), dps)
+    rts = poly_roots(list(cs), dps, tol_digits)
     if rts is not None:
         return rts
     try:
@@ -167,11 +169,14 @@ class RationalIntegrator:
                 Dp = Qp * flint.acb_poly([1, -1 / self.rim]) ** self.gamma
             poles = []
             if Qp.degree() >= 1:
-                try:
-                    poles = Qp.roots(tol=flint.arb(2) ** -(prec - 10), maxprec=4 * prec)
-                except ValueError:
-                    self.ok = False
-                    return
+                tol = flint.arb(2) ** -(prec - 10)
+                poles = refined_roots(Qp, prec, tol)
+                if poles is None:
+                    try:
+                        poles = Qp.roots(tol=tol, maxprec=4 * prec)
+                    except ValueError:
+                        self.ok = False
+                        return
             dD = Dp.derivative()
             self.poles = poles
             self.poles_mp = [acb_to_mp(p) for p in poles]

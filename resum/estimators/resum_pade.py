@@ -90,7 +90,9 @@ def pade_evaluate(c: Sequence, zs: Sequence, dps: int, *, n_orders: int = 7,
                                                or abs(z) + t < keep_poles_beyond)
                   for c, z, t in zip(counts, zs, tols)]
         undecided = any(c is None or (c > 0 and not ok) for c, ok in zip(counts, inside))
-        poles = r.poles(dps) if undecided else []
+        # (to 30 digits: they are compared with a tolerance of pole_tol * |z| and shown with 8;
+        # the coefficients keep all dps digits, since the roots are ill-conditioned)
+        poles = r.poles(dps, tol_digits=min(dps, 30)) if undecided else []
         for j, z in enumerate(zs):
             tol = tols[j]
             if inside[j]:
@@ -132,7 +134,7 @@ def _mark_cut_points(fits, zs, outs, dps, keep_poles_beyond=None):
     if len(r.q) < 3:
         return
     try:
-        poles = [complex(p) for p in r.poles(min(dps, 30))]
+        poles = [complex(p) for p in r.poles(dps, tol_digits=min(dps, 30))]
     except Exception:  # noqa: BLE001 - a hint only; no roots, no hint
         return
     real = [p.real for p in poles if abs(p.imag) <= 1e-8 * max(abs(p), 1e-300)]

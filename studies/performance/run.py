@@ -47,6 +47,7 @@ import flint  # noqa: E402
 from resum._kernels import flint_bridge as fb  # noqa: E402
 from resum._kernels.pade import pade, pade_fp, pade_table  # noqa: E402
 from resum._kernels.roots import poly_roots  # noqa: E402
+from resum._kernels.aberth import refined_roots  # noqa: E402
 from resum.context import workdps  # noqa: E402
 
 
@@ -276,7 +277,8 @@ def study_roots(sizes, dps, cap):
     tab = Table(f"Roots of the [N/N] denominator of log(1+x)/x at {dps} digits: digits correct "
                 "(worst root, relative)",
                 ["N", "resum.poly_roots", "digits", "mpmath.polyroots", "digits", "numpy.roots",
-                 "digits", "speed-up vs mpmath"])
+                 "digits", "speed-up vs mpmath", "refined_roots (estimators)", "digits",
+                 "acb_poly.roots, same tolerance", "speed-up vs acb_poly.roots"])
     import numpy as np
     for N in sizes:
         c = series_log(2 * N + 1, dps + 2 * N + 40)
@@ -307,7 +309,17 @@ def study_roots(sizes, dps, cap):
                 sp = f"{t_m / t_r:.0f}x"
             except mpmath.libmp.NoConvergence:
                 t_m, d_m, sp = None, None, "baseline did not converge"
-        tab.add(N, fmt_t(t_r), fmt_d(d_r), fmt_t(t_m), fmt_d(d_m), fmt_t(t_n), fmt_d(max(d_n, 0)), sp)
+        # the estimators' path: Aberth sweeps and Newton steps proved by inclusion discs, against
+        # Arb's isolation from scratch, both to an absolute 10^-dps on the same exact midpoints
+        with fb.flint_prec(fb.prec_for_dps(dps + 10)):
+            qa = flint.acb_poly([fb.to_arb(v) for v in q])
+            tol = flint.arb(10) ** -dps
+            t_a, fr = timed(lambda: refined_roots(qa, flint.ctx.prec, tol), repeat=2)
+            t_f, _ = timed(lambda: qa.roots(tol=tol, maxprec=4 * flint.ctx.prec), repeat=2)
+        d_a = None if fr is None else worst([fb.acb_to_mpc(z) for z in fr])
+        tab.add(N, fmt_t(t_r), fmt_d(d_r), fmt_t(t_m), fmt_d(d_m), fmt_t(t_n), fmt_d(max(d_n, 0)), sp,
+                fmt_t(t_a) if fr is not None else f"refused ({fmt_t(t_a)})", fmt_d(d_a), fmt_t(t_f),
+                f"{t_f / t_a:.1f}x" if fr is not None else "-")
     return tab
 
 
