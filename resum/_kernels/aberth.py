@@ -13,7 +13,9 @@ Why: on the Padé denominators of the conformal-Padé tables (degree about 100, 
 about 70 % of an ``evaluate`` of a 200-term series at ten points; this takes 53-65 ms (the
 roots there need about 1300 bits to be pinned down), and to 2^-250 about 45-50 ms against 60.
 The estimators' Padé poles, which are only compared with a tolerance of 1 % of the point, are
-asked to 30 digits. Together: that ``evaluate`` 5.1 s instead of 8.4 s on one core (studies/
+asked to 30 digits. On the far worse conditioned denominators of log(1+x)/x (studies/performance,
+roots table) it is no faster than Arb at degree 25-50, and at degree 100 it gives up after about
+0.15 s (Arb then takes 0.35 s). Together: that ``evaluate`` 5.1 s instead of 8.4 s on one core (studies/
 performance, the pipeline table, and its roots table for the log(1+x)/x denominators).
 
 How the result is checked. With ``z_1 .. z_n`` distinct and the Weierstrass corrections
@@ -35,9 +37,9 @@ import numpy as np
 
 __all__ = ["refined_roots"]
 
-#: Aberth sweeps at moderate precision before giving up (degree 100 needed 11-34 on the
+#: Aberth sweeps before giving up (degree 100 needed 11-34 on the
 #: conformal-Padé denominators measured)
-MAX_SWEEPS = 80
+MAX_SWEEPS = 50
 #: relative size of an Aberth correction below which a root stops moving (double precision)
 SWEEP_TOL = 1e-13
 #: bits of the Aberth stage (the Newton quotients only need a few correct digits)
@@ -82,30 +84,40 @@ def _seeds(mids) -> Optional[np.ndarray]:
     return g
 
 
-def _aberth(mid, dmid, zc: np.ndarray) -> Optional[np.ndarray]:
-    """Aberth-Ehrlich sweeps from ``zc``; a root stops moving once its correction is below
-    :data:`SWEEP_TOL` of it (the others keep using its value)."""
+def _aberth(mid, dmid, zc: np.ndarray, bits: int, top: int):
+    """Aberth-Ehrlich sweeps from ``zc`` with Newton quotients at ``bits`` (raised, up to
+    ``top``, while a quotient is mostly rounding: the coefficients of a Padé denominator can
+    cancel by hundreds of digits); a root stops moving once its correction is below
+    :data:`SWEEP_TOL` of it (the others keep using its value). Returns ``(roots, bits)``, or
+    ``(None, bits)``."""
     active = np.arange(len(zc))
     for _ in range(MAX_SWEEPS):
+        flint.ctx.prec = bits
         z = [flint.acb(complex(zc[i])) for i in active]
         pv = mid.evaluate(z, algorithm="iter")
         dv = dmid.evaluate(z, algorithm="iter")
-        try:
-            N = np.array([_to_complex(a / b) for a, b in zip(pv, dv)])
-        except ZeroDivisionError:
-            return None
+        quot = [a / b for a, b in zip(pv, dv)]
+        # mostly rounding, and not already below the size at which a root stops moving
+        if any(not (abs(q).rad() <= abs(q).mid() / 8)
+               and not (abs(q).mid() + abs(q).rad() <= SWEEP_TOL * abs(zi).mid())
+               for q, zi in zip(quot, z)):
+            if bits >= top:
+                return None, bits
+            bits = min(top, 2 * bits)
+            continue
+        N = np.array([_to_complex(q) for q in quot])
         d = zc[active][:, None] - zc[None, :]
         d[np.arange(len(active)), active] = np.inf
         with np.errstate(divide="ignore", invalid="ignore"):
             w = N / (1 - N * np.sum(1.0 / d, axis=1))
         if not np.all(np.isfinite(w)):
-            return None
+            return None, bits
         zc[active] = zc[active] - w
         rel = np.abs(w) / np.maximum(np.abs(zc[active]), 1e-300)
         active = active[rel >= SWEEP_TOL]
         if len(active) == 0:
-            return zc
-    return None
+            return zc, bits
+    return None, bits
 
 
 def refined_roots(poly, prec: int, tol) -> Optional[list]:
@@ -128,8 +140,7 @@ def refined_roots(poly, prec: int, tol) -> Optional[list]:
         zc = _seeds(mids)
         if zc is None:
             return None
-        flint.ctx.prec = min(prec, SWEEP_BITS)
-        zc = _aberth(mid, dmid, zc)
+        zc, bits = _aberth(mid, dmid, zc, min(prec, SWEEP_BITS), prec)
         if zc is None:
             return None
         # separated in doubles (the product below is taken there)
@@ -147,7 +158,7 @@ def refined_roots(poly, prec: int, tol) -> Optional[list]:
         want = lim / (8 * n)
         need = int(-float((want.mid()).log()) / math.log(2)) + 20 if want > 0 else prec
         need, top = min(max(need, 64), 4 * prec), 4 * prec
-        bits = 40
+        bits = max(bits // 2, 40)      # the Aberth stage's bits gave quotients with digits to spare
         active = list(range(n))
         for _ in range(60):
             bits = min(need, 2 * bits + 20) if bits < need else bits
@@ -161,8 +172,9 @@ def refined_roots(poly, prec: int, tol) -> Optional[list]:
                     si = a / b
                 except ZeroDivisionError:
                     return None
-                z[i] = (z[i] - si).mid()
                 size = abs(si)
+                if size.rad() <= size.mid() / 8:     # a step that is mostly rounding is not taken
+                    z[i] = (z[i] - si).mid()
                 if bits < need or size.mid() + size.rad() > want:
                     still.append(i)
                     noisy = noisy or size.rad() > want / 2
