@@ -4,9 +4,9 @@ rising precision, and an inclusion test that proves each root isolated.
 
 ``refined_roots(poly, prec, tol)`` returns a list of ``acb`` balls, one per root of the
 polynomial whose coefficients are the midpoints of ``poly``'s (as ``acb_poly.roots`` does with
-an exact polynomial), each of radius at most ``tol`` (absolute, as for ``acb_poly.roots``), or None when any stage
-fails (clustered or multiple roots, a starting value that does not converge): the caller then
-uses ``acb_poly.roots``, which isolates from scratch.
+an exact polynomial), each of radius at most ``tol`` (absolute, as for ``acb_poly.roots``), or
+None when any stage fails (clustered or multiple roots, a starting value that does not
+converge): the caller then uses ``acb_poly.roots``, which isolates from scratch.
 
 Why: on the Padé denominators of the conformal-Padé tables (degree about 100, coefficients at
 640 bits, roots to 2^-629), ``acb_poly.roots`` took 85-130 ms per polynomial and root finding was
@@ -15,8 +15,8 @@ roots there need about 1300 bits to be pinned down), and to 2^-250 about 45-50 m
 The estimators' Padé poles, which are only compared with a tolerance of 1 % of the point, are
 asked to 30 digits. On the far worse conditioned denominators of log(1+x)/x (studies/performance,
 roots table) it is no faster than Arb at degree 25-50, and at degree 100 it gives up after about
-0.15 s (Arb then takes 0.35 s). Together: that ``evaluate`` 5.1 s instead of 8.4 s on one core (studies/
-performance, the pipeline table, and its roots table for the log(1+x)/x denominators).
+0.15 s (Arb then takes 0.35 s). Together: that ``evaluate`` 5.1 s instead of 8.4 s on one
+core (studies/performance/README.md, "Roots for the estimators").
 
 How the result is checked. With ``z_1 .. z_n`` distinct and the Weierstrass corrections
 ``W_i = p(z_i) / (a_n prod_(j != i) (z_i - z_j))``, the roots of ``p`` are the eigenvalues of
@@ -193,10 +193,10 @@ def refined_roots(poly, prec: int, tol) -> Optional[list]:
         flint.ctx.prec = prec
         pv = mid.evaluate(z, algorithm="iter")
         zc = np.array([_to_complex(v) for v in z])
-        dd = zc[:, None] - zc[None, :]
-        np.fill_diagonal(dd, 1.0)
+        sep = np.abs(zc[:, None] - zc[None, :])
+        np.fill_diagonal(sep, 1.0)
         with np.errstate(divide="ignore", invalid="ignore"):   # roots that met: -inf, refused below
-            logprod = np.sum(np.log(np.abs(dd)), axis=1)
+            logprod = np.sum(np.log(sep), axis=1)
         if not np.all(np.isfinite(logprod)):
             return None
         lc = abs(mids[n])
@@ -212,7 +212,6 @@ def refined_roots(poly, prec: int, tol) -> Optional[list]:
             rads.append(float(r) if r > 0 else 0.0)
             out.append((zi, r))
         rr = np.array(rads)
-        sep = np.abs(zc[:, None] - zc[None, :])
         np.fill_diagonal(sep, np.inf)
         if np.any(sep <= 2 * (rr[:, None] + rr[None, :])):
             return None
