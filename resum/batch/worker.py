@@ -81,8 +81,15 @@ def compute_point(spec: FamilySpec, index: int, runner: str = "") -> dict:
             raise LookupError(f"source {spec.source!r} is not available in this process"
                               + (f": {why}" if why else ""))
         build = source["build"] if isinstance(source, dict) else source.build
+        kwargs = spec.source_kwargs(point)
+        from ..sources import default_digits_for
+        digits = default_digits_for(source, kwargs)
+        if digits is not None:
+            # no dps for the source in the spec: the digits its series need for their length,
+            # never fewer than the study works to (as resum generate does)
+            kwargs["dps"] = max(ctx.dps, digits)
         t = time.perf_counter()
-        series = build(ctx, **spec.source_kwargs(point))
+        series = build(ctx, **kwargs)
         seconds["build"] = time.perf_counter() - t
         rec["series"] = {"n_terms": series.n_terms, "digits": series.digits,
                          "variable": series.variable, "start": series.start,
@@ -98,8 +105,7 @@ def compute_point(spec: FamilySpec, index: int, runner: str = "") -> dict:
             with workdps(ctx.work_dps):
                 if TASKS[name].wants_rebuild:
                     from ..sources import rebuilder
-                    rebuild = rebuilder(source, spec.source_kwargs(point), series.n_terms, ctx, build,
-                                        digits=series.digits)
+                    rebuild = rebuilder(source, kwargs, series.n_terms, ctx, build, digits=series.digits)
                     rec["tasks"][name] = TASKS[name].run(series, point.params, ctx, opts, source,
                                                          rebuild=rebuild)
                 else:

@@ -107,11 +107,11 @@ def run(args) -> int:
         if p.type == "int":
             p.check(getattr(args, p.name, None), f"--{p.name}")
     chosen = None
-    if dps is None and spec.default_digits is not None:
+    if dps is None:
         # the source's own default: enough digits for the series' length (see its help)
+        from ..sources import default_digits_for
         given = {p.name: getattr(args, p.name, None) for p in spec.params if p.type == "int"}
-        dps = chosen = spec.default_digits({k: (v if v is not None else spec.param(k).default)
-                                            for k, v in given.items()})
+        dps = chosen = default_digits_for(spec, given)
     ctx = Context(dps=dps) if dps is not None else DEFAULT
     kw = _values(spec, args, ctx.work_dps + 10)
     check_output_file(args.out)       # a mistyped -o is told before the (maybe long) computation

@@ -292,6 +292,19 @@ SOURCES = {
 }
 
 
+def default_digits_for(source, kwargs: dict) -> Optional[int]:
+    """The coefficient digits ``source`` asks for by default with the parameters ``kwargs``
+    (absent ones at their defaults), or None: when it names none (``SourceSpec.default_digits``)
+    or ``kwargs`` gives ``dps`` already. Used by ``resum generate`` without ``--dps`` and by
+    family runs whose spec gives no ``dps`` for the source."""
+    fn = getattr(source, "default_digits", None)
+    if fn is None or kwargs.get("dps") is not None:
+        return None
+    full = {p.name: p.default for p in getattr(source, "params", ())}
+    full.update({k: v for k, v in kwargs.items() if v is not None})
+    return int(fn(full))
+
+
 def rebuilder(source, kwargs: dict, n_terms: int, ctx: Optional[Context] = None, build=None,
               digits: Optional[int] = None):
     """``n -> Series``: the series ``build(ctx, **kwargs)`` gave (``n_terms`` coefficients)
