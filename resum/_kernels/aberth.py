@@ -35,7 +35,7 @@ from typing import Optional
 import flint
 import numpy as np
 
-__all__ = ["refined_roots"]
+__all__ = ["refined_roots", "roots"]
 
 #: Aberth sweeps before giving up (degree 100 needed 11-34 on the
 #: conformal-Padé denominators measured)
@@ -218,3 +218,11 @@ def refined_roots(poly, prec: int, tol) -> Optional[list]:
         return [flint.acb(flint.arb(zi.real.mid(), r), flint.arb(zi.imag.mid(), r)) for zi, r in out]
     finally:
         flint.ctx.prec = old
+
+
+def roots(poly, prec: int, tol, maxprec: int) -> list:
+    """The roots of ``poly``'s midpoint polynomial as balls of radius at most ``tol``: by
+    :func:`refined_roots`, else by ``acb_poly.roots(tol, maxprec)`` (which raises ValueError
+    when it cannot isolate them, as for multiple roots)."""
+    out = refined_roots(poly, prec, tol)
+    return out if out is not None else poly.roots(tol=tol, maxprec=maxprec)

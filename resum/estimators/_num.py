@@ -20,11 +20,12 @@ from __future__ import annotations
 import contextlib
 import math
 
-import flint
-import mpmath
 from typing import Optional
 
-from .._kernels.aberth import refined_roots
+import flint
+import mpmath
+
+from .._kernels.aberth import roots as ball_roots
 from ..context import workdps
 
 __all__ = ["flint_dps", "solve", "poly_roots", "pade_coeffs", "polyval", "polyval_many", "polyder",
@@ -201,7 +202,7 @@ def poly_roots(p, dps: int, tol_digits: Optional[int] = None):
 
     Trailing zero coefficients are dropped and exact zero roots split off.
     The coefficients are taken at ``dps + 10`` digits; the roots are refined to
-    ``10^-tol_digits`` (default ``dps``) of their size (at least 1). First by
+    within ``10^-tol_digits`` (default ``dps``). First by
     :func:`resum._kernels.aberth.refined_roots` (fast, and proved isolated), then,
     where that fails, by flint's root isolation on the midpoints (an exact
     polynomial), and last by double-precision companion roots polished by Newton
@@ -227,9 +228,7 @@ def poly_roots(p, dps: int, tol_digits: Optional[int] = None):
             # an exact polynomial: isolate and refine its roots
             poly = flint.acb_poly([flint.acb(c.real.mid(), c.imag.mid()) for c in poly.coeffs()])
             tol = flint.arb(10) ** (-(dps if tol_digits is None else min(dps, tol_digits)))
-            rts = refined_roots(poly, flint.ctx.prec, tol)
-            if rts is None:
-                rts = poly.roots(tol=tol, maxprec=8 * (dps + 10) * 4)
+            rts = ball_roots(poly, flint.ctx.prec, tol, 8 * (dps + 10) * 4)
             return [_from_ball(r) for r in rts]
         except (ValueError, ArithmeticError):
             pass

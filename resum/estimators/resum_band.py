@@ -36,7 +36,7 @@ from typing import Optional, Sequence
 import flint
 import mpmath
 
-from .._kernels.aberth import refined_roots
+from .._kernels.aberth import roots as ball_roots
 from ..results import Estimate
 from ..transforms._arb import acb_to_mp, arb_to_mp, flint_precision, to_acb, to_arb
 
@@ -110,9 +110,9 @@ def _horner(cs, z):
 
 def _roots(cs, dps, tol_digits=None):
     """Roots of the polynomial ``cs`` (low to high) to about ``dps`` digits: the estimators'
-    one root finder (:func:`resum.estimators._num.poly_roots`: FLINT isolation refined to
-    ``10^-dps``, double-precision roots polished by Newton steps where isolation fails at
-    numerically multiple roots), then mpmath.polyroots as the last resort. (Isolation alone,
+    one root finder (:func:`resum.estimators._num.poly_roots`: proved refinement or FLINT
+    isolation to ``10^-dps``, double-precision roots polished by Newton steps where isolation
+    fails at numerically multiple roots), then mpmath.polyroots as the last resort. (Isolation alone,
     used here before, left poles next to a Padé cut wrong by up to 1e-5.)"""
     from ._num import poly_roots
     rts = poly_roots(list(cs), dps, tol_digits)
@@ -169,14 +169,11 @@ class RationalIntegrator:
                 Dp = Qp * flint.acb_poly([1, -1 / self.rim]) ** self.gamma
             poles = []
             if Qp.degree() >= 1:
-                tol = flint.arb(2) ** -(prec - 10)
-                poles = refined_roots(Qp, prec, tol)
-                if poles is None:
-                    try:
-                        poles = Qp.roots(tol=tol, maxprec=4 * prec)
-                    except ValueError:
-                        self.ok = False
-                        return
+                try:
+                    poles = ball_roots(Qp, prec, flint.arb(2) ** -(prec - 10), 4 * prec)
+                except ValueError:
+                    self.ok = False
+                    return
             dD = Dp.derivative()
             self.poles = poles
             self.poles_mp = [acb_to_mp(p) for p in poles]

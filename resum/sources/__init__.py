@@ -103,9 +103,9 @@ class SourceSpec:
     #: (parameter, offset): the series built has ``value + offset`` coefficients, so a family
     #: task that needs more terms (``evaluate`` with ``goal_digits``) can ask for them
     length: Optional[tuple] = None
-    #: ``params -> digits``: the coefficients' digits ``resum generate`` asks for when no
-    #: ``--dps`` is given (None: the working precision). For sources whose resummation needs
-    #: more digits than the default working precision as the series grows.
+    #: ``params -> digits``: the coefficients' digits ``resum generate`` (without ``--dps``) and
+    #: family points (no ``dps`` in the spec) ask for; None: the working precision. For sources
+    #: whose resummation needs more digits than the working precision as the series grows.
     default_digits: Optional[Callable] = None
 
     def __post_init__(self):
