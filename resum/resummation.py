@@ -1489,17 +1489,7 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                     lim = limits[j]     # set only where prec[0] is that precision rerun
                     if lim is not None:
                         first = _move(re, im, prec[0])
-                        if not samples[j]:
-                            # every extra rounding failed to give a value: the input's rounding
-                            # matters here, and the precision rerun's move is all that was measured
-                            lim = dict(lim, roundings_sampled=1, moves=[mpmath.nstr(first, 3)],
-                                       note="the other roundings of the input gave no value")
-                            agree["other roundings"] = "failed"
-                            pdiag["input_limited"] = lim
-                            fac = max(fac, INPUT_LIMIT_WIDEN)
-                            warnings.append(f"at {point_text(a)}: the input rounded otherwise in its last "
-                                            "digit gave no value; the band rests on one rounding's move")
-                        elif max(_move(re, im, oc) for oc in samples[j]) < INPUT_LIMIT_LINEAR * first:
+                        if samples[j] and max(_move(re, im, oc) for oc in samples[j]) < INPUT_LIMIT_LINEAR * first:
                             # other roundings at the main run's precision hardly move the value: the
                             # rerun's move came from its higher precision, not from the input's digits
                             lim = None
@@ -1508,7 +1498,8 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                             # first one's (at a complex point, or with a lateral sum's imaginary part, a
                             # move is that of the complex value: the rounding moves both parts, and each
                             # part's band is widened by it); the spread of the approximants no longer
-                            # absorbs the input's rounding here (see INPUT_LIMIT_WIDEN)
+                            # absorbs the input's rounding here (see INPUT_LIMIT_WIDEN). Where every
+                            # other rounding gave no value, the rerun's move is all that was measured.
                             moves = [_move(re, im, oc) for oc in [prec[0]] + samples[j]]
                             top = min(max(moves), INPUT_LIMIT_CAP * moves[0])
                             moved_re = Estimate.exact(re.value + top)
@@ -1518,7 +1509,13 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                             lim["moves"] = [mpmath.nstr(m, 3) for m in moves]
                             prec = [prec[0], replace(prec[0], re=moved_re,
                                                      im=moved_im if im is not None else prec[0].im)]
-                            agree["other roundings"] = mpmath.nstr(max(moves[1:]), 5)
+                            if samples[j]:
+                                agree["other roundings"] = mpmath.nstr(max(moves[1:]), 5)
+                            else:
+                                agree["other roundings"] = "failed"
+                                lim["note"] = "the other roundings of the input gave no value"
+                                warnings.append(f"at {point_text(a)}: the input rounded otherwise in its "
+                                                "last digit gave no value; the band rests on one rounding's move")
                             pdiag["input_limited"] = lim
                             fac = max(fac, INPUT_LIMIT_WIDEN)
                     re = _widen(re, [oc.re for oc in prec], fac)
