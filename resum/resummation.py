@@ -1111,7 +1111,8 @@ def _run_conformal(plan: _Plan, c, xs, dps, n_orders, target):
 #: With the power at large x known (given, or read from the series), points with
 #: |w| >= QUADRATIC_FROM_W whose conformal-Padé band falls short of the digits asked also get
 #: the quadratic (Hermite-Padé) approximants, with the power divided out, and the narrower
-#: band wins (widened to cover the other band where the two do not overlap). Measured on the
+#: band wins (widened to cover the other band where the two do not overlap, and to reach the
+#: other's value where its band is at most 30 times wider, ``COVER_CENTRE_RATIO``). Measured on the
 #: angle-deformed kernel family from 100 loops with x^(1/2) given (studies/accuracy): at g = 5
 #: (|w| = 0.905) and g = 20 (0.975) the quadratic approximants gain 1-2.3 digits at a = pi/8,
 #: pi/4 and 3 pi/8 with bands 9-380 x their error, and lose 13 digits at a = 0, where
@@ -1141,7 +1142,7 @@ def _near_rim_quadratic(plan: _Plan, c, xs, outs, diag, dps, n_orders, target):
                                target_digits=target)
     before = [outs[j] for j in idx]
     names = [o.info.get("variant") for o in before]
-    chosen = _choose([("pade", before), ("quadratic", q)])
+    chosen = _choose([("pade", before), ("quadratic", q)], cover_centres=True)
     outs = list(outs)
     for j, o, name in zip(idx, chosen, names):
         if o.info.get("variant") == "pade":

@@ -207,6 +207,14 @@ def _render(result, title, reference):
                      "= 0 of the mapped function were tried as well (the root that equals the series at 0 followed "
                      "to the point); chosen because their band was narrower, and widened to cover the Padé band "
                      "if the two bands did not overlap.")
+    reach = [p for p in result.points if p.diagnostics.get("variant_centre_covered")]
+    if reach:
+        lines.append("")
+        lines.append("Widened to reach the other variant at " + ", ".join(point_text(p.at, 12) for p in reach)
+                     + ": near the rim the band of the variant kept was widened to reach the value of the "
+                     "other approximant family tried there (Padé or quadratic), whose band was at most 30 "
+                     "times wider: the top approximants of one family can agree with each other and share "
+                     "a bias that the other family shows.")
     rim = [p for p in result.points if p.diagnostics.get("rim_power_alpha")]
     if rim:
         lines.append("")

@@ -150,3 +150,22 @@ def test_disagreeing_variants_cover_each_others_bands():
         assert p.success and p.value.contains(truth)
         assert _digits(p.value, truth) >= 16
         assert p.value.error <= 100 * abs(p.value.value - truth)
+
+
+def test_value_of_a_close_variant_is_covered():
+    # a = pi/3 from 60 loops (70 digits), g = 8 and 10 (|w| = 0.94, 0.95): the top approximants
+    # of the derivative variant agree with each other but share a bias, and its band alone put
+    # the truth 1.05 and 1.07 half-widths outside; the quadratic variant sits on the far side of
+    # the truth with a band 11-14 times wider. The kept band now reaches the value of any
+    # variant whose band is at most 30 times wider. Truth: the kernel solver, 14 digits.
+    s = weak_coupling_series("pi/3", 60, Context(dps=70))
+    r = evaluate(s, ["8", "10"], Context(dps=30))
+    with workdps(40):
+        for p, g in zip(r.points, ["8", "10"]):
+            ref = finite_coupling(g, "pi/3", Context(dps=14))
+            assert ref.success
+            truth = ref.value.value
+            assert p.success and p.value.contains(truth)
+            assert "variant_centre_covered" in p.diagnostics
+            assert _digits(p.value, truth) >= 3
+            assert p.value.error <= 100 * abs(p.value.value - truth)
