@@ -193,7 +193,7 @@ def derivative_evaluate(cw: Sequence, ws: Sequence, dps: int, *, gamma: int = 0,
 #: chosen variant's band is widened to reach the value of the other whose band is at most this
 #: many times wider: there the top approximants of one family can agree with each other and share
 #: a bias that the other family's value shows (the kernel family at a = pi/3 from 60 loops,
-#: g = 7-12, |w| = 0.93-0.95: derivative variant 1.03-1.07 half-widths from the truth, the
+#: g = 7-10, |w| = 0.93-0.95: derivative variant 1.03-1.07 half-widths from the truth, the
 #: quadratic one on the other side with a band 11-14 times wider). Not applied between the direct
 #: and derivative variants away from the rim: log(1+x)/x from 30 terms at x = 3 (|w| = 1/3) went
 #: from 3 to 24 times its error, no band there having missed
