@@ -36,6 +36,6 @@ def test_unguarded_script_stops_with_one_error(tmp_path):
                        env=env, cwd=tmp_path)
     errors = [ln for ln in r.stdout.splitlines() if ln.startswith("ERROR:")]
     assert len(errors) == 1 and "__name__" in errors[0], r.stdout + r.stderr
-    assert "Traceback" not in r.stderr
+    assert "Traceback" not in r.stderr, r.stderr
     # the caller's own run wrote its folder; no point was recorded, by it or by a nested run
     assert not list((out / "points").glob("*.json"))
