@@ -236,6 +236,9 @@ class EvaluationResult:
         band falls short of the digits asked, ``terms_needed``: the projected number of terms for
         them (see ``_reach``), or, where the digits the coefficients carry set the band,
         ``digits_needed``: the coefficient digits suggested instead (see ``_input_limit``).
+        Every row also has ``truncation``, the optimal-truncation baseline beside the resummed
+        value (see :func:`_truncation_fields`; null where the terms grow from the first), and,
+        where a method chose among variants of its approximants, ``variant`` (the one kept).
         """
         with _wd((self.provenance.dps if self.provenance else 50) + 10):
             return self._contract()
@@ -260,17 +263,37 @@ class EvaluationResult:
                 row["status"] = p.status.value
                 if p.message:
                     row["message"] = p.message
+                variant = p.diagnostics.get("variant")
+                if variant:
+                    row["variant"] = variant
                 reach = p.diagnostics.get("reach")
                 lim = input_limit_short(p)
                 if lim:
                     row["digits_needed"] = str(lim["digits_suggested"])
                 elif reach and reach.get("terms_needed"):
                     row["terms_needed"] = str(reach["terms_needed"])
+            row["truncation"] = _truncation_fields(p.baseline)
             vals.append(row)
         from .report.evaluation_text import band_meanings
         from .results import JSON_BAND_NOTE
         return {"values": vals, "warnings": list(self.warnings), "bands": JSON_BAND_NOTE,
                 "how": "\n\n".join(band_meanings(self))}
+
+
+def _truncation_fields(b: Optional[Baseline]) -> Optional[dict]:
+    """The optimal-truncation baseline of one point for the JSON contract: ``{"value", "lo", "hi",
+    "text", "terms", "reached"}`` (decimal strings; ``terms`` the number of terms summed), or None
+    where there is none: no baseline, or the terms grow from the first (nothing is summed; the
+    text report says "none (terms grow)")."""
+    if b is None or b.n_terms == 0 or (b.value.value == 0 and b.value.error > 0):
+        return None
+    e = b.value.to_dict()
+    out = {"value": e["value"], "lo": e["lo"], "hi": e["hi"], "text": str(Estimate.from_dict(e)),
+           "terms": str(b.n_terms), "reached": b.reached}
+    if b.imag is not None:
+        i = b.imag.to_dict()
+        out.update({"im": i["value"], "im_lo": i["lo"], "im_hi": i["hi"]})
+    return out
 
 
 def _strings(obj):

@@ -280,3 +280,27 @@ def test_json_numbers_evaluate_at_double_precision(tmp_path, capsys):
             ulp = mpmath.mpf(10) ** -len(v.split(".")[1])
             assert abs(mpmath.mpf(v) - truth) <= int(e) * ulp
             assert int(e) * ulp < mpmath.mpf(10) ** -12      # 1 digit would be a band of 0.1
+
+
+def test_evaluate_json_carries_the_optimal_truncation_baseline(tmp_path, capsys):
+    # Euler's series sum (-1)^n n! x^n at x = 0.1: optimal truncation stops near n = 1/x = 10 and
+    # its error is about the smallest term, sqrt(2 pi / x) e^(-1/x) ~ 3.6e-4 (common practice, no
+    # source); the function is e^(1/x) E1(1/x) / x (truth: mpmath.e1). At x = 2 the terms grow
+    # from the first and there is no baseline (null).
+    s = Series([(-1) ** k * math.factorial(k) for k in range(30)], name="euler")
+    p = write_series(s, tmp_path / "euler.json")
+    code, doc = run_json(["evaluate", str(p), "--at", "0.1", "--at", "2", "--json", "--no-verify"], capsys)
+    assert code in (0, 1)
+    near, far = doc["values"]
+    t = near["truncation"]
+    assert t is not None and set(t) >= {"value", "lo", "hi", "text", "terms", "reached"}
+    with workdps(40):
+        x = mpmath.mpf(1) / 10
+        truth = mpmath.exp(1 / x) * mpmath.e1(1 / x) / x
+        assert mpmath.mpf(t["lo"]) <= truth <= mpmath.mpf(t["hi"])
+        assert 9 <= int(t["terms"]) <= 12
+        assert mpmath.mpf("1e-4") < mpmath.mpf(t["hi"]) - mpmath.mpf(t["lo"]) < mpmath.mpf("2e-3")
+        # the resummed band is far narrower than the baseline's, and holds the same truth
+        assert mpmath.mpf(near["lo"]) <= truth <= mpmath.mpf(near["hi"])
+        assert mpmath.mpf(near["hi"]) - mpmath.mpf(near["lo"]) < mpmath.mpf("1e-10")
+    assert far["truncation"] is None
