@@ -56,9 +56,11 @@ def test_round_trip_and_contract():
     assert set(cd) == {"values", "warnings", "bands", "how"}
     assert "not a proof" in cd["bands"] and "median of the three highest-order" in cd["how"]
     for row in cd["values"]:
-        assert set(row) - {"terms_needed", "message"} == {"at", "value", "lo", "hi", "method", "digits", "status",
-                                                         "text"}
-        assert all(isinstance(v, str) for v in row.values())
+        assert set(row) - {"terms_needed", "message", "variant"} == {"at", "value", "lo", "hi", "method", "digits",
+                                                                    "status", "text", "truncation"}
+        assert all(isinstance(v, str) for k, v in row.items() if k != "truncation")
+        t = row["truncation"]           # the optimal-truncation baseline: decimal strings too
+        assert t is None or all(isinstance(t[k], str) for k in ("value", "lo", "hi", "text", "terms"))
         assert mpmath.mpf(row["lo"]) <= mpmath.mpf(row["value"]) <= mpmath.mpf(row["hi"])
     # the value(error) text: the digits the band supports, and it still holds the truth
     with workdps(40):

@@ -56,7 +56,7 @@ def test_non_borel_summable_lateral_sums(x):
     cd = r.contract_dict()
     assert set(cd["values"][0]) - {"terms_needed", "message"} == {"at", "value", "lo", "hi", "method", "digits",
                                                                    "im", "im_lo", "im_hi", "status", "text",
-                                                                   "im_text"}
+                                                                   "im_text", "truncation"}
 
 
 @pytest.mark.parametrize("g", ["0.5", "2"])
