@@ -96,6 +96,11 @@ class Baseline:
     reached: bool
     how: str
 
+    @property
+    def empty(self) -> bool:
+        """Nothing was summed: the terms grow from the first (the reports say "none")."""
+        return self.n_terms == 0 or (self.value.value == 0 and self.value.error > 0)
+
     def to_dict(self) -> dict:
         return {"value": self.value.to_dict(), "imag": None if self.imag is None else self.imag.to_dict(),
                 "n_terms": self.n_terms, "smallest_term": num_to_str(mpmath.mpf(self.smallest_term), 20),
@@ -285,7 +290,7 @@ def _truncation_fields(b: Optional[Baseline]) -> Optional[dict]:
     "text", "terms", "reached"}`` (decimal strings; ``terms`` the number of terms summed), or None
     where there is none: no baseline, or the terms grow from the first (nothing is summed; the
     text report says "none (terms grow)")."""
-    if b is None or b.n_terms == 0 or (b.value.value == 0 and b.value.error > 0):
+    if b is None or b.empty:
         return None
     e = b.value.to_dict()
     out = {"value": e["value"], "lo": e["lo"], "hi": e["hi"], "text": str(Estimate.from_dict(e)),

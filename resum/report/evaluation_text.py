@@ -14,6 +14,7 @@ from typing import Optional, Sequence
 import mpmath
 
 from ..context import workdps
+from ..estimators.resum_conformal import COVER_CENTRE_RATIO
 from ..results import format_value_error, point_text, sig_text
 
 __all__ = ["render_evaluation", "describe_map", "band_meanings", "BAND_MEANING", "BAND_MEANING_ODE",
@@ -173,8 +174,7 @@ def _render(result, title, reference):
         rows[0] = rows[0] + ("method",)
     for p in result.points:
         base = "-"
-        if p.baseline is not None and (p.baseline.n_terms == 0 or
-                                       (p.baseline.value.value == 0 and p.baseline.value.error > 0)):
+        if p.baseline is not None and p.baseline.empty:
             # the terms grow from the first: nothing is summed, and "0 +- the first term" is no value
             base = "none (terms grow)"
         elif p.baseline is not None:
@@ -212,9 +212,9 @@ def _render(result, title, reference):
         lines.append("")
         lines.append("Widened to reach the other variant at " + ", ".join(point_text(p.at, 12) for p in reach)
                      + ": near the rim the band of the variant kept was widened to reach the value of the "
-                     "other approximant family tried there (Padé or quadratic), whose band was at most 30 "
-                     "times wider: the top approximants of one family can agree with each other and share "
-                     "a bias that the other family shows.")
+                     "other approximant family tried there (Padé or quadratic), whose band was at most "
+                     f"{COVER_CENTRE_RATIO} times wider: the top approximants of one family can agree with "
+                     "each other and share a bias that the other family shows.")
     rim = [p for p in result.points if p.diagnostics.get("rim_power_alpha")]
     if rim:
         lines.append("")
