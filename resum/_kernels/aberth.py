@@ -51,6 +51,13 @@ def _to_complex(x) -> complex:
     return complex(float(x.real.mid()), float(x.imag.mid()))
 
 
+def _clear(q) -> bool:
+    """A Newton quotient whose rounding (its radius) is at most an eighth of its size; otherwise
+    it is mostly rounding and no step is taken on it."""
+    size = abs(q)
+    return size.rad() <= size.mid() / 8
+
+
 def _seeds(mids) -> Optional[np.ndarray]:
     """Double-precision roots of the polynomial with acb coefficients ``mids`` (low to high),
     after ``z -> 2^e z`` balancing the lowest and the highest coefficient."""
@@ -98,7 +105,7 @@ def _aberth(mid, dmid, zc: np.ndarray, bits: int, top: int):
         dv = dmid.evaluate(z, algorithm="iter")
         quot = [a / b for a, b in zip(pv, dv)]
         # mostly rounding, and not already below the size at which a root stops moving
-        if any(not (abs(q).rad() <= abs(q).mid() / 8)
+        if any(not _clear(q)
                and not (abs(q).mid() + abs(q).rad() <= SWEEP_TOL * abs(zi).mid())
                for q, zi in zip(quot, z)):
             if bits >= top:
@@ -173,7 +180,7 @@ def refined_roots(poly, prec: int, tol) -> Optional[list]:
                 except ZeroDivisionError:
                     return None
                 size = abs(si)
-                if size.rad() <= size.mid() / 8:     # a step that is mostly rounding is not taken
+                if _clear(si):                       # a step that is mostly rounding is not taken
                     z[i] = (z[i] - si).mid()
                 if bits < need or size.mid() + size.rad() > want:
                     still.append(i)
