@@ -244,6 +244,9 @@ class EvaluationResult:
         Every row also has ``truncation``, the optimal-truncation baseline beside the resummed
         value (see :func:`_truncation_fields`; null where the terms grow from the first), and,
         where a method chose among variants of its approximants, ``variant`` (the one kept).
+        ``plan``: the method chosen for the points, why (and from what: the analysis, or the
+        singular points given), the conformal map (``kind`` and its points, or null) and the
+        Borel-Le Roy parameter.
         """
         with _wd((self.provenance.dps if self.provenance else 50) + 10):
             return self._contract()
@@ -281,7 +284,10 @@ class EvaluationResult:
             vals.append(row)
         from .report.evaluation_text import band_meanings
         from .results import JSON_BAND_NOTE
-        return {"values": vals, "warnings": list(self.warnings), "bands": JSON_BAND_NOTE,
+        opts = self.provenance.options if self.provenance else {}
+        plan = {"method": self.provenance.method if self.provenance else self.method,
+                "why": opts.get("why"), "map": opts.get("map"), "borel_b": opts.get("borel_b")}
+        return {"values": vals, "warnings": list(self.warnings), "plan": plan, "bands": JSON_BAND_NOTE,
                 "how": "\n\n".join(band_meanings(self))}
 
 
@@ -352,6 +358,32 @@ def parse_points(points, dps: int) -> list:
     if not out:
         raise InputError("no evaluation point given; pass at least one point")
     return out
+
+
+def singular_points(points, dps: int) -> list:
+    """Singular points a user gives to build the map from (numbers or expression strings,
+    complex allowed) as mpmath numbers; each refused, naming its position, unless finite, other
+    than 0 (the expansion point, where the function is regular) and given once."""
+    out = parse_points(points, dps)
+    tol = mpmath.mpf(10) ** (10 - dps)
+    for k, z in enumerate(out):
+        if z == 0:
+            raise InputError("a singular point must be other than 0: the series is expanded about 0, "
+                             "where the function is regular", where=f"point {k + 1}")
+        if any(mpmath.almosteq(z, u, rel_eps=tol) for u in out[:k]):
+            raise InputError(f"the singular point {mpmath.nstr(z, 12)} is given twice; give each point "
+                             "once", where=f"point {k + 1}")
+    return out
+
+
+def borel_parameter(b, dps: int):
+    """The Borel-Le Roy parameter ``b`` (a number or an expression string) as an mpf; refused
+    unless real and above -1 (``Gamma(n + 1 + b)`` has poles otherwise)."""
+    v = parse_points([b], dps)[0]
+    if isinstance(v, mpmath.mpc) or v <= -1:
+        raise InputError(f"the Borel-Le Roy parameter must be a real number above -1 (Gamma(n + 1 + b) "
+                         f"has poles otherwise), got {b!r}")
+    return v
 
 
 def spaced_points(a, b, n: int, geometric: bool = False) -> list:
@@ -551,6 +583,10 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
                                       "followed along the Laplace ray", input_digits=series.digits,
                      coefficients_at=_exact_source(series))
     if method in ("borel-pade", "borel-conformal-pade") or (method == "auto" and factorial):
+        if singularities and cmap is None:
+            warnings.append("the singular points given are not used: the series is resummed in its Borel "
+                            "plane (its coefficients grow factorially), whose map comes from the Borel "
+                            "transform's nearest singularity")
         if b is None:
             # b = 0 by default: with a conformal map of the Borel plane the exponent of the Borel
             # singularity matters little (measured on the oscillator; b = 1/2 gave the same digits)
@@ -579,7 +615,8 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
         if m == "borel-pade":
             tm = None
         why = ("factorial growth" if factorial else "requested") + (
-            f"; nearest Borel singularity t = {_a_text(None if in_u else an, A)}" if A is not None else "")
+            f"; nearest Borel singularity t = {_a_text(None if in_u else an, A)}" if A is not None else "") + (
+            f"; Borel-Le Roy transform with b = {mpmath.nstr(b, 8)}" if b != 0 else "")
         plan = _Plan(m, tm, b, alpha, lateral, why, input_digits=series.digits)
         eq = (_follow_borel_equation(series, c, ctx)
               if method == "auto" and (b is None or b == 0) and lateral == "auto" else None)
@@ -593,6 +630,9 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
                          equation_shape=equation_shape(eq))
         return plan
     # convergent family
+    if borel_b is not None and borel_b != 0:
+        warnings.append(f"the Borel-Le Roy parameter b = {mpmath.nstr(borel_b, 8)} is not used: the series is "
+                        "resummed without a Borel transform (its coefficients do not grow factorially)")
     if method == "partial-sum":
         return _Plan("partial-sum", why="requested")
     if method == "ode":
@@ -627,6 +667,7 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
     if sings:
         sings = _cut_first(sings)
     chosen = cmap if cmap is not None else (choose_map(sings) if sings else None)
+    given = " (given)" if cmap is not None else (" (from the singular points given)" if singularities else "")
     nb = getattr(an, "natural_boundary", None) if an is not None else None
     if method == "auto" and nb is not None and cmap is None and not singularities:
         # the approximants' poles crowd along a circle: the series defines the function inside it
@@ -665,7 +706,8 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
         elif chosen is not None:
             a, note, from_w = _rim_alpha(chosen, alpha, large_x_power, c, ctx, series.digits)
             other = _Plan("conformal-pade", chosen, alpha=a, alpha_from_w=from_w,
-                          why=f"finite radius; map: {chosen.describe()}{note}", singularities=_locations(sings))
+                          why=f"finite radius; map{given}: {chosen.describe()}{note}",
+                          singularities=_locations(sings))
         else:
             other = _Plan("pade", why="finite radius; no map could be chosen")
         eq = _follow_equation(series, c, ctx, an)
@@ -682,10 +724,11 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
     if chosen is None:
         raise InputError(f"{method} needs singularities to build a map and the analysis found none "
                          "(a factorially divergent or entire-like series has no finite ones): use "
-                         "the default method, a Borel method or pade (from Python, "
-                         "evaluate(..., singularities=[...]) or map=... gives them)", where="method")
+                         "the default method, a Borel method or pade, or give the singular points "
+                         "(--singularity X; from Python, evaluate(..., singularities=[...]) or cmap=...)",
+                         where="method")
     a, note, from_w = _rim_alpha(chosen, alpha, large_x_power, c, ctx, series.digits)
-    return _Plan(method, chosen, alpha=a, alpha_from_w=from_w, why=f"map: {chosen.describe()}{note}",
+    return _Plan(method, chosen, alpha=a, alpha_from_w=from_w, why=f"map{given}: {chosen.describe()}{note}",
                  singularities=_locations(sings))
 
 

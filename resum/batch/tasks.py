@@ -335,9 +335,33 @@ def _points_arg(vals):
     return list(vals)
 
 
+def _known(opts, dps: int = 30) -> dict:
+    """The keywords of :func:`resum.resummation.evaluate` from a task's ``singularities`` (a list
+    of numbers or expression strings, complex allowed) and ``borel_b``; InputError naming the key."""
+    from ..resummation import borel_parameter, singular_points
+    text = lambda v: repr(v) if isinstance(v, float) else v   # noqa: E731  (a TOML float's digits)
+    kw = {}
+    if "singularities" in opts:
+        vals = opts["singularities"]
+        if not isinstance(vals, list) or not vals:
+            raise InputError("singularities: expected a non-empty list of numbers or expression strings")
+        try:
+            kw["singularities"] = singular_points([text(v) for v in vals], dps)
+        except InputError as exc:
+            k = int(exc.where.split()[-1]) - 1 if (exc.where or "").startswith("point ") else 0
+            raise InputError(exc.bare, where=f"singularities[{k}]") from None
+    if "borel_b" in opts:
+        try:
+            kw["borel_b"] = borel_parameter(text(opts["borel_b"]), dps)
+        except InputError as exc:
+            raise InputError(exc.bare, where="borel_b") from None
+    return kw
+
+
 def _run_evaluate(series, params, ctx, opts, source, rebuild=None):
     from ..resummation import evaluate, evaluate_with_goal
     kw = {"method": opts.get("method", "auto"), "verify": opts.get("verify", True)}
+    kw.update(_known(opts, ctx.work_dps))
     if opts.get("goal_digits") is None or rebuild is None:
         return _result_json(evaluate(series, _points_arg(opts["at"]), ctx=ctx, **kw))
     res, search, _ = evaluate_with_goal(series, _points_arg(opts["at"]), float(opts["goal_digits"]),
@@ -369,6 +393,9 @@ def _run_strong(series, params, ctx, opts, source):
                                "max_rel_band", "spacing") if k in opts}
     if "n_terms_fit" in opts:
         kw["n_terms_fit"] = tuple(opts["n_terms_fit"])
+    known = _known(opts, ctx.work_dps)
+    if known:
+        kw["evaluate_options"] = known
     out = {}
     if opts.get("resummed", True):
         out["resummed"] = _strong_json(probe_strong_coupling(series, ctx=ctx, **kw))
@@ -494,6 +521,7 @@ def _check_module(mod, name):
 
 def _check_strong(opts, source_name, source):
     _check_module("resummation", "probe_strong_coupling")(opts, source_name, source)
+    _known(opts)
     if opts.get("from_truth"):
         _check_truth(opts, source_name, source)
         if "couplings" not in opts:
@@ -526,6 +554,7 @@ def _check_truth_task(opts, source_name, source):
 
 def _check_evaluate(opts, source_name, source):
     _check_module("resummation", "evaluate")(opts, source_name, source)
+    _known(opts)
     if opts.get("goal_digits") is not None:
         g = opts["goal_digits"]
         if not 0 < float(g) <= 1000:
@@ -552,11 +581,11 @@ TASKS = {
     "evaluate": TaskDef("evaluate", "resummed values at given couplings (goal_digits: "
                         "regenerate the series with the terms projected to reach them)",
                         {"at": "numbers", "method": "str", "verify": "bool", "goal_digits": "number",
-                         "max_terms": "int"}, _run_evaluate, required=("at",), wants_rebuild=True),
+                         "max_terms": "int", "singularities": "raw", "borel_b": "raw"}, _run_evaluate, required=("at",), wants_rebuild=True),
     "strong": TaskDef("strong", "strong-coupling probe",
                       {"couplings": "numbers", "method": "str", "leading_power": "number",
                        "log_terms": "bool", "n_terms_fit": "ints", "max_rel_band": "number",
-                       "spacing": "raw",
+                       "spacing": "raw", "singularities": "raw", "borel_b": "raw",
                        "resummed": "bool", "from_truth": "bool", "truth_dps": "int"},
                       _run_strong),
     "truth": TaskDef("truth", "finite-coupling ground truth from the source",

@@ -129,13 +129,15 @@ def require_power_series(series: Series, path: str, min_terms: int, what: str) -
                          "coefficients", where=str(path))
 
 
-def check_plan_terms(series: Series, ctx: Context, method: str, path: str) -> None:
+def check_plan_terms(series: Series, ctx: Context, method: str, path: str, given: bool = False) -> None:
     """``--method auto`` and the conformal methods choose their map from a singularity analysis,
     which needs more terms than the resummation itself: refuse too few before the progress line,
-    naming the file and what to do (the analysis refused them after it, in its own words)."""
+    naming the file and what to do (the analysis refused them after it, in its own words).
+    ``given``: singular points were given (``--singularity``), so a conformal method needs no
+    analysis."""
     from ..estimators._common import MIN_TERMS as ANALYSIS_TERMS, prepare
     from ..resummation import _CONFORMAL, polynomial_degree
-    if method not in ("auto",) + _CONFORMAL:
+    if method not in ("auto",) + _CONFORMAL or (given and method != "auto"):
         return
     if polynomial_degree(series.dense(Context(dps=ctx.work_dps, guard=0))) is not None:
         return              # summed exactly, no analysis
@@ -314,4 +316,36 @@ def expand_points(texts, dps: int, where: str = "--at") -> list:
             raise InputError("a log range needs real positive START and STOP", where=here)
         with mpmath.workdps(dps):
             out += spaced_points(a, b, n, geometric=log_scale)
+    return out
+
+
+def add_map_options(parser) -> None:
+    """``--singularity X`` (repeat) and ``--borel-b B``: what the user knows of the function,
+    given to the resummation instead of (or on top of) what the analysis finds."""
+    parser.add_argument("--singularity", action="append", default=None, metavar="X",
+                        help="a singular point of the function in the file's expansion variable (as "
+                             "'resum analyze' reports them: for a series in x = g^2, x, e.g. -1/16), "
+                             "decimal or expression, complex as 1+2*I; repeat for more points. The "
+                             "conformal map is built from these instead of the analysis' points")
+    parser.add_argument("--borel-b", default=None, metavar="B",
+                        help="Borel-Le Roy parameter b > -1 of the Borel methods: B(t) = sum c_n t^n / "
+                             "Gamma(n + 1 + b) (default 0)")
+
+
+def map_options(args, dps: int) -> dict:
+    """The keywords of :func:`resum.resummation.evaluate` that ``--singularity`` and ``--borel-b``
+    give, each value refused (naming its option) before any work."""
+    from ..resummation import borel_parameter, singular_points
+    out = {}
+    if args.singularity:
+        try:
+            out["singularities"] = singular_points(args.singularity, dps)
+        except InputError as exc:
+            k = int(exc.where.split()[-1]) - 1 if (exc.where or "").startswith("point ") else 0
+            raise InputError(exc.bare, where=f"--singularity {args.singularity[k][:40]}") from None
+    if args.borel_b is not None:
+        try:
+            out["borel_b"] = borel_parameter(args.borel_b, dps)
+        except InputError as exc:
+            raise InputError(exc.bare, where="--borel-b") from None
     return out

@@ -20,8 +20,9 @@ import sys
 
 from ..errors import InputError
 from ..results import point_text
-from ._common import (with_input_notes, AT_HELP_RANGE, add_common_options, at_file, emit_json, expand_points, load_series, log,
-                      prepare_plot_dir, require_power_series, check_plan_terms, stage_log, write_figures)
+from ._common import (with_input_notes, AT_HELP_RANGE, add_common_options, add_map_options, at_file, emit_json,
+                      expand_points, load_series, log, map_options, prepare_plot_dir, require_power_series,
+                      check_plan_terms, stage_log, write_figures)
 
 MIN_TERMS = 6       # resum.resummation.evaluate refuses fewer terms
 
@@ -64,6 +65,7 @@ def add_arguments(parser) -> None:
                         help="with --goal: never more terms than N (default 3 x the terms in FILE)")
     parser.add_argument("--no-verify", action="store_true",
                         help="skip the reruns at higher precision and with fewer terms (faster, less safe)")
+    add_map_options(parser)
     add_common_options(parser)
 
 
@@ -88,7 +90,7 @@ def _curve_count(text):
     return n
 
 
-def _curve(series, ctx, points, n, args, large):
+def _curve(series, ctx, points, n, args, large, known):
     """The evaluation on the figure's extra points (None without them or when it fails: the
     figure then shows the points asked for only)."""
     from ..plots.evaluation import curve_grid
@@ -101,7 +103,7 @@ def _curve(series, ctx, points, n, args, large):
             "--curve 0 skips it)")
     try:
         # (the same context as the points asked for: the plan's analysis is then reused)
-        return evaluate(series, grid, ctx, method=args.method, verify=False, large_x_power=large)
+        return evaluate(series, grid, ctx, method=args.method, verify=False, large_x_power=large, **known)
     except InputError as exc:
         log(f"warning: figure without the curve ({exc.bare})")
         return None
@@ -167,7 +169,7 @@ def run(args) -> int:
         raise InputError(exc.bare, where="--method") from None
     series, ctx = load_series(args.file, args.dps)
     require_power_series(series, args.file, MIN_TERMS, "resummation")
-    check_plan_terms(series, ctx, args.method, args.file)
+    check_plan_terms(series, ctx, args.method, args.file, given=bool(args.singularity))
     points = expand_points(args.at, ctx.work_dps + series.n_terms)
     reference = read_reference(args.reference, ctx.work_dps) if args.reference else None
     large = None
@@ -176,6 +178,7 @@ def run(args) -> int:
             large = parse_points([args.large_power], ctx.work_dps)[0]
         except InputError as exc:
             raise InputError(exc.bare, where="--large-power") from None
+    known = map_options(args, ctx.work_dps)
     goal, max_terms, rebuild = _goal_options(args, series, ctx)
     n_curve = _curve_count(args.curve)     # None: the default, chosen from the method below
     if args.curve is not None and args.plot is None:
@@ -191,12 +194,12 @@ def run(args) -> int:
     try:
         if goal is None:
             result = evaluate(series, points, ctx, method=args.method, verify=not args.no_verify,
-                              large_x_power=large, progress=stage_log(args))
+                              large_x_power=large, progress=stage_log(args), **known)
         else:
             from ..resummation import evaluate_with_goal
             result, search, series = evaluate_with_goal(
                 series, points, goal, _logged(rebuild), ctx, max_terms=max_terms, method=args.method,
-                verify=not args.no_verify, large_x_power=large, progress=stage_log(args))
+                verify=not args.no_verify, large_x_power=large, progress=stage_log(args), **known)
     except InputError as exc:
         raise at_file(exc, args.file) from None
     plot_note = None
@@ -205,7 +208,7 @@ def run(args) -> int:
             # a Borel-plane method pays a Laplace integral per point (and approximant)
             meth = result.provenance.method if result.provenance else ""
             n_curve = CURVE_POINTS_BOREL if meth.startswith("borel") else CURVE_POINTS
-        curve = _curve(series, ctx, points, n_curve, args, large)
+        curve = _curve(series, ctx, points, n_curve, args, large, known)
         _, plot_note = write_figures(args.plot, lambda: write_evaluation_plots(result, series, ctx, args.plot,
                                                                                 reference, curve))
     goal_note = None

@@ -21,8 +21,9 @@ import mpmath
 
 from ..errors import InputError
 from ..series.expr import evaluate_expression
-from ._common import (check_plan_terms, with_input_notes, AT_HELP_RANGE, add_common_options, at_file, emit_json, expand_points, load_series, log,
-                      prepare_plot_dir, require_power_series, write_figures)
+from ._common import (check_plan_terms, with_input_notes, AT_HELP_RANGE, add_common_options, add_map_options, at_file,
+                      emit_json, expand_points, load_series, log, map_options, prepare_plot_dir,
+                      require_power_series, write_figures)
 
 HELP = "strong-coupling probe: fit the asymptotic form of the resummed function, with bands"
 DESCRIPTION = __doc__.split("\n\n", 1)[1].strip()
@@ -55,6 +56,7 @@ def add_arguments(parser) -> None:
     parser.add_argument("--max-band", default=None, metavar="REL",
                         help="largest relative band of a resummed value that the fit uses "
                              "(default 1e-4; a larger one lets less sharp values in)")
+    add_map_options(parser)
     add_common_options(parser)
 
 
@@ -93,7 +95,7 @@ def run(args) -> int:
         raise InputError(exc.bare, where="--method") from None
     series, ctx = load_series(args.file, args.dps)
     require_power_series(series, args.file, 6, "the strong-coupling probe (a resummation)")
-    check_plan_terms(series, ctx, args.method, args.file)
+    check_plan_terms(series, ctx, args.method, args.file, given=bool(args.singularity))
     couplings = None if not args.at else _couplings(args.at, ctx.work_dps)
     power = None if args.power is None else _number(args.power, ctx.work_dps, "--power")
     if isinstance(power, mpmath.mpc):
@@ -124,8 +126,9 @@ def run(args) -> int:
             raise InputError(f"write the term as {var}^P or '{var}^P log {var}' with P a whole number or a "
                              f"fraction (e.g. {var}^1=2, '{var}^-1/2=0.3'), got {label!r}", where="--expect")
         expected[label] = _number(value, ctx.work_dps, f"--expect {label}")
-    if args.no_verify:
-        extra["evaluate_options"] = {"verify": False}
+    known = map_options(args, ctx.work_dps)
+    if args.no_verify or known:
+        extra["evaluate_options"] = dict(known, **({"verify": False} if args.no_verify else {}))
     if args.plot is not None:
         try:
             from ..plots.evaluation import write_strong_plot

@@ -53,7 +53,8 @@ def test_round_trip_and_contract():
         assert r2.points[0].value.contains(mpmath.log(4) / 3)
     assert r2.to_dict()["points"][0]["value"] == d["points"][0]["value"]
     cd = r.contract_dict()
-    assert set(cd) == {"values", "warnings", "bands", "how"}
+    assert set(cd) == {"values", "warnings", "plan", "bands", "how"}
+    assert cd["plan"]["method"] == "pade" and cd["plan"]["map"] is None
     assert "not a proof" in cd["bands"] and "median of the three highest-order" in cd["how"]
     for row in cd["values"]:
         assert set(row) - {"terms_needed", "message", "variant"} == {"at", "value", "lo", "hi", "method", "digits",
