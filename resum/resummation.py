@@ -326,9 +326,16 @@ def _num(s: str):
 
 # ---------------------------------------------------------------------------- inputs
 def parse_points(points, dps: int) -> list:
-    """Numbers or strings (decimals or expressions such as ``"sqrt(2)/4"``) to mpmath numbers."""
+    """Numbers or strings (decimals or expressions such as ``"sqrt(2)/4"``) to mpmath numbers,
+    rounded at ``dps`` digits (a rational such as ``1/3`` is exact until then: rounded at the
+    ambient 15 digits it would move the point by 1e-17 relative)."""
     if isinstance(points, (str, int, float)) or not hasattr(points, "__iter__"):
         points = [points]
+    with mpmath.workdps(dps):
+        return _parse_points(points, dps)
+
+
+def _parse_points(points, dps: int) -> list:
     out = []
     for k, p in enumerate(points):
         if isinstance(p, str):

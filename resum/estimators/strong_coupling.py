@@ -367,9 +367,9 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
             dp = (v1.error / abs(v1.value) + v2.error / abs(v2.value)) / abs(mpmath.log(g2 / g1))
             secants.append((gm, ps, dp))
         if leading_power is not None:
-            from ..resummation import _to_mp
-            p = leading_power
-            given_p = _to_mp(p) if not isinstance(p, str) else parse_points([p], ctx.work_dps)[0]
+            # (at the working precision: a Fraction such as 1/3 rounded at 15 digits would move
+            # every power g^p by 1e-17 relative)
+            given_p = parse_points([leading_power], ctx.work_dps)[0]
         else:
             given_p = None
         # for the spacing given, or for each candidate spacing in turn: the leading power (the

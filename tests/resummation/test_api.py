@@ -1,5 +1,6 @@
 """Public API, JSON round trip, input errors and the command line."""
 import re
+from fractions import Fraction
 import json
 import math
 
@@ -192,3 +193,18 @@ def test_a_refusal_is_worded_in_the_series_variable():
     assert not p.success and p.value is None
     assert p.message.startswith("v = 50") and "|v| <" in p.message and "|x|" not in p.message
     assert "|v| <" in r.diagnostics["why"] and "|x|" not in r.diagnostics["why"]
+
+
+def test_rational_points_keep_every_digit():
+    """A point given as a rational ("1/3" or Fraction(1, 3)) is rounded at the working precision,
+    not at mpmath's ambient 15 digits (which moved it by 1e-17 and the value out of its band):
+    log(1+x)/x from 40 exact terms at x = 1/3 holds 3 log(4/3) (closed form, mpmath) within a
+    band of 30 digits."""
+    s = Series([Fraction((-1) ** n, n + 1) for n in range(40)])
+    r = evaluate(s, ["1/3", Fraction(1, 3)], Context(dps=30), method="pade", verify=False)
+    with workdps(50):
+        truth = 3 * mpmath.log(mpmath.mpf(4) / 3)
+        for p in r.points:
+            assert abs(p.at - mpmath.mpf(1) / 3) < mpmath.mpf(10) ** -45
+            assert p.value.contains(truth)
+            assert p.value.error < mpmath.mpf(10) ** -28
