@@ -369,6 +369,7 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
         if leading_power is not None:
             # (at the working precision: a Fraction such as 1/3 rounded at 15 digits would move
             # every power g^p by 1e-17 relative)
+            from ..resummation import parse_points
             given_p = parse_points([leading_power], ctx.work_dps)[0]
         else:
             given_p = None
