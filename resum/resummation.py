@@ -568,8 +568,14 @@ class _Plan:
     boundary: Any = None                 # pade inside a suspected natural boundary: its radius band
 
 
+def _on_laplace_ray(t) -> bool:
+    """``t`` lies on the positive real axis of the Borel plane (to 1e-6 relative), the path of
+    the Laplace integral: a map from it would cut the path, lateral sums go round it."""
+    return mpmath.re(t) > 0 and abs(mpmath.im(t)) < 1e-6 * abs(t)
+
+
 def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map, alpha,
-          lateral, large_x_power, use_analysis, warnings, analysis=None) -> _Plan:
+          lateral, large_x_power, use_analysis, warnings, analysis=None, borel_singularities=None) -> _Plan:
     """Choose the method and its parameters (map, Borel parameter)."""
     an = None
     deg = polynomial_degree(c)
@@ -601,7 +607,14 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
         tm = borel_map
         A = None
         in_u = False
-        if tm is None or tm == "auto":
+        given = ""
+        if borel_singularities and (tm is None or tm == "auto"):
+            pts = [mpmath.mpmathify(t) for t in borel_singularities]
+            on_ray = [t for t in pts if _on_laplace_ray(t)]
+            tm = None if on_ray else choose_map(pts)
+            given = "; Borel singular points given: t = " + ", ".join(point_text(t, 12) for t in pts) + (
+                " (on the Laplace ray: no map of the Borel plane, lateral sums)" if on_ray else "")
+        elif tm is None or tm == "auto":
             lo = getattr(an, "methods", {}).get("large-order") if an is not None else None
             in_u = lo is not None and (lo.diagnostics or {}).get("stride", 1) > 1
             if an is not None and getattr(an, "borel_singularity", None) is not None and not in_u:
@@ -610,7 +623,7 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
                 # (the analysis' A of a series in u = x^k refers to u; the Borel plane here is x's)
                 A = _borel_singularity(c, b)
             tm = None
-            if A is not None and not (mpmath.re(A) > 0 and abs(mpmath.im(A)) < 1e-6 * abs(A)):
+            if A is not None and not _on_laplace_ray(A):
                 tm = RayMap(A)
         if method == "auto":
             m = "borel-conformal-pade" if tm is not None else "borel-pade"
@@ -618,11 +631,13 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
             m = method
         if m == "borel-conformal-pade" and tm is None:
             raise InputError("borel-conformal-pade needs a map of the Borel plane: no singularity off the "
-                             "positive axis was found; give borel_map or use borel-pade", where="method")
+                             "positive axis was found" + (" among those given" if given else "") +
+                             "; give its singular points off that axis (--borel-singularity T) or use "
+                             "borel-pade", where="method")
         if m == "borel-pade":
             tm = None
         why = ("factorial growth" if factorial else "requested") + (
-            f"; nearest Borel singularity t = {_a_text(None if in_u else an, A)}" if A is not None else "") + (
+            f"; nearest Borel singularity t = {_a_text(None if in_u else an, A)}" if A is not None else "") + given + (
             f"; Borel-Le Roy transform with b = {mpmath.nstr(b, 8)}" if b != 0 else "")
         plan = _Plan(m, tm, b, alpha, lateral, why, input_digits=series.digits)
         eq = (_follow_borel_equation(series, c, ctx)
@@ -637,6 +652,9 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
                          equation_shape=equation_shape(eq))
         return plan
     # convergent family
+    if borel_singularities:
+        warnings.append("the Borel-plane singular points given are not used: the series is resummed "
+                        "without a Borel transform (its coefficients do not grow factorially)")
     if borel_b is not None and borel_b != 0:
         warnings.append(f"the Borel-Le Roy parameter b = {mpmath.nstr(borel_b, 8)} is not used: the series is "
                         "resummed without a Borel transform (its coefficients do not grow factorially)")
@@ -1307,7 +1325,8 @@ def _in_variable(text, var: str):
 
 def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str = "auto",
              verify: bool = True, *, cmap: Optional[ConformalMap] = None, singularities=None,
-             borel_b=None, borel_map=None, alpha=None, large_x_power=None, lateral: str = "auto",
+             borel_b=None, borel_map=None, borel_singularities=None, alpha=None, large_x_power=None,
+             lateral: str = "auto",
              n_orders: Optional[int] = None, use_analysis: bool = True,
              work_dps: Optional[int] = None, analysis=None, progress=None) -> EvaluationResult:
     """Resummed values of ``series`` at ``points``, with bands.
@@ -1339,6 +1358,10 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
         Borel-Le Roy parameter (default 0).
     borel_map : ConformalMap or "auto", optional
         Map of the Borel plane for ``borel-conformal-pade``.
+    borel_singularities : sequence, optional
+        Singular points of the Borel transform (numbers; the instanton action ``A`` and its
+        kin) to map the Borel plane from instead of the one the analysis finds; one on the
+        positive axis means no map and lateral sums.
     alpha, large_x_power : number, optional
         Rim factor ``(1 - w/w_inf)^alpha`` in the mapped variable, or the
         expected power ``p`` of ``f ~ x^p`` at large ``x`` from which alpha is set.
@@ -1412,7 +1435,7 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
         plan = _plan(method, c, xs, series, ctx, cmap=cmap, singularities=singularities,
                      borel_b=borel_b, borel_map=borel_map, alpha=alpha, lateral=lateral,
                      large_x_power=large_x_power, use_analysis=use_analysis, warnings=warnings,
-                     analysis=analysis)
+                     analysis=analysis, borel_singularities=borel_singularities)
         loss = {}
         extra = _reexpansion_guard(plan, c, series, wd, loss) if work_dps is None else 0
         reexp_warning = None    # index of the warning below: dropped if no point used a map

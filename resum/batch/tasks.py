@@ -336,20 +336,23 @@ def _points_arg(vals):
 
 
 def _known(opts, dps: int = 30) -> dict:
-    """The keywords of :func:`resum.resummation.evaluate` from a task's ``singularities`` (a list
-    of numbers or expression strings, complex allowed) and ``borel_b``; InputError naming the key."""
+    """The keywords of :func:`resum.resummation.evaluate` from a task's ``singularities`` and
+    ``borel_singularities`` (lists of numbers or expression strings, complex allowed) and
+    ``borel_b``; InputError naming the key."""
     from ..resummation import borel_parameter, singular_points
     text = lambda v: repr(v) if isinstance(v, float) else v   # noqa: E731  (a TOML float's digits)
     kw = {}
-    if "singularities" in opts:
-        vals = opts["singularities"]
+    for key in ("singularities", "borel_singularities"):
+        if key not in opts:
+            continue
+        vals = opts[key]
         if not isinstance(vals, list) or not vals:
-            raise InputError("singularities: expected a non-empty list of numbers or expression strings")
+            raise InputError(f"{key}: expected a non-empty list of numbers or expression strings")
         try:
-            kw["singularities"] = singular_points([text(v) for v in vals], dps)
+            kw[key] = singular_points([text(v) for v in vals], dps)
         except InputError as exc:
             k = int(exc.where.split()[-1]) - 1 if (exc.where or "").startswith("point ") else 0
-            raise InputError(exc.bare, where=f"singularities[{k}]") from None
+            raise InputError(exc.bare, where=f"{key}[{k}]") from None
     if "borel_b" in opts:
         try:
             kw["borel_b"] = borel_parameter(text(opts["borel_b"]), dps)
@@ -581,11 +584,13 @@ TASKS = {
     "evaluate": TaskDef("evaluate", "resummed values at given couplings (goal_digits: "
                         "regenerate the series with the terms projected to reach them)",
                         {"at": "numbers", "method": "str", "verify": "bool", "goal_digits": "number",
-                         "max_terms": "int", "singularities": "raw", "borel_b": "raw"}, _run_evaluate, required=("at",), wants_rebuild=True),
+                         "max_terms": "int", "singularities": "raw", "borel_singularities": "raw",
+                         "borel_b": "raw"}, _run_evaluate, required=("at",), wants_rebuild=True),
     "strong": TaskDef("strong", "strong-coupling probe",
                       {"couplings": "numbers", "method": "str", "leading_power": "number",
                        "log_terms": "bool", "n_terms_fit": "ints", "max_rel_band": "number",
-                       "spacing": "raw", "singularities": "raw", "borel_b": "raw",
+                       "spacing": "raw", "singularities": "raw", "borel_singularities": "raw",
+                       "borel_b": "raw",
                        "resummed": "bool", "from_truth": "bool", "truth_dps": "int"},
                       _run_strong),
     "truth": TaskDef("truth", "finite-coupling ground truth from the source",

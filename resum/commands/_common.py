@@ -320,29 +320,38 @@ def expand_points(texts, dps: int, where: str = "--at") -> list:
 
 
 def add_map_options(parser) -> None:
-    """``--singularity X`` (repeat) and ``--borel-b B``: what the user knows of the function,
-    given to the resummation instead of (or on top of) what the analysis finds."""
+    """``--singularity X``, ``--borel-singularity T`` (repeat) and ``--borel-b B``: what the user
+    knows of the function, given to the resummation instead of what the analysis finds."""
     parser.add_argument("--singularity", action="append", default=None, metavar="X",
                         help="a singular point of the function in the file's expansion variable (as "
                              "'resum analyze' reports them: for a series in x = g^2, x, e.g. -1/16), "
                              "decimal or expression, complex as 1+2*I; repeat for more points. The "
                              "conformal map is built from these instead of the analysis' points")
+    parser.add_argument("--borel-singularity", action="append", default=None, metavar="T",
+                        help="a singular point of the Borel transform (for c_n ~ A^-n n!: t = A, the "
+                             "instanton action), decimal or expression; repeat for more. The Borel plane "
+                             "is mapped from these instead of the analysis' estimate; one on the positive "
+                             "axis means lateral sums, no map")
     parser.add_argument("--borel-b", default=None, metavar="B",
                         help="Borel-Le Roy parameter b > -1 of the Borel methods: B(t) = sum c_n t^n / "
                              "Gamma(n + 1 + b) (default 0)")
 
 
 def map_options(args, dps: int) -> dict:
-    """The keywords of :func:`resum.resummation.evaluate` that ``--singularity`` and ``--borel-b``
-    give, each value refused (naming its option) before any work."""
+    """The keywords of :func:`resum.resummation.evaluate` that ``--singularity``,
+    ``--borel-singularity`` and ``--borel-b`` give, each value refused (naming its option) before
+    any work."""
     from ..resummation import borel_parameter, singular_points
     out = {}
-    if args.singularity:
+    for opt, key in (("singularity", "singularities"), ("borel_singularity", "borel_singularities")):
+        texts = getattr(args, opt)
+        if not texts:
+            continue
         try:
-            out["singularities"] = singular_points(args.singularity, dps)
+            out[key] = singular_points(texts, dps)
         except InputError as exc:
             k = int(exc.where.split()[-1]) - 1 if (exc.where or "").startswith("point ") else 0
-            raise InputError(exc.bare, where=f"--singularity {args.singularity[k][:40]}") from None
+            raise InputError(exc.bare, where=f"--{opt.replace('_', '-')} {texts[k][:40]}") from None
     if args.borel_b is not None:
         try:
             out["borel_b"] = borel_parameter(args.borel_b, dps)

@@ -1,6 +1,6 @@
 """What the user knows, given on the command line: singular points to build the conformal map from
-(``--singularity``) and the Borel-Le Roy parameter (``--borel-b``), in ``evaluate``, ``strong``
-and the family spec's tasks.
+(``--singularity``), the Borel transform's singular points (``--borel-singularity``) and the
+Borel-Le Roy parameter (``--borel-b``), in ``evaluate``, ``strong`` and the family spec's tasks.
 
 The CLI runs in process via main(argv)."""
 import json
@@ -80,6 +80,34 @@ def test_borel_le_roy_parameter_is_used(tmp_path, capsys):
     assert float(row["digits"]) >= 8
 
 
+def test_given_borel_singularity_maps_the_borel_plane(tmp_path, capsys):
+    """Euler's series sum (-1)^n n! x^n (Borel transform 1/(1 + t)) from 30 exact terms with the
+    Borel-plane point t = -1 given: the Borel plane is mapped from it, and the value at x = 1/2
+    holds e^(1/x) E1(1/x)/x (classic closed form, from memory; E1 from mpmath). The same series
+    with all signs positive and t = 1 given (on the Laplace ray): no map, lateral sums, whose
+    average is e^(-1/x) Ei(1/x)/x and whose ambiguity is pi e^(-1/x)/x (mpmath's ei; the
+    principal value and the half-residue of 1/(1 - t), from memory)."""
+    f = write_series(Series([(-1) ** n * int(mpmath.factorial(n)) for n in range(30)]), tmp_path / "e.json")
+    code, out, _ = _run(capsys, ["evaluate", str(f), "--at", "1/2", "--method", "borel-conformal-pade",
+                                 "--borel-singularity", "-1", "--json", "--no-verify"])
+    doc = json.loads(out)
+    assert code == 0 and doc["plan"]["map"] == {"kind": "ray", "x0": "-1.0"}
+    assert "Borel singular points given" in doc["plan"]["why"]
+    row = doc["values"][0]
+    with workdps(50):
+        assert mpmath.mpf(row["lo"]) <= 2 * mpmath.exp(2) * mpmath.e1(2) <= mpmath.mpf(row["hi"])
+    g = write_series(Series([int(mpmath.factorial(n)) for n in range(30)]), tmp_path / "p.json")
+    code, out, _ = _run(capsys, ["evaluate", str(g), "--at", "1/4", "--borel-singularity", "1", "--json",
+                                 "--no-verify"])
+    doc = json.loads(out)
+    assert code == 0 and doc["plan"]["method"] == "borel-pade" and "lateral sums" in doc["plan"]["why"]
+    row = doc["values"][0]
+    with workdps(50):
+        x = mpmath.mpf(1) / 4
+        assert mpmath.mpf(row["lo"]) <= mpmath.exp(-1 / x) * mpmath.ei(1 / x) / x <= mpmath.mpf(row["hi"])
+        assert mpmath.mpf(row["im_lo"]) <= mpmath.pi * mpmath.exp(-1 / x) / x <= mpmath.mpf(row["im_hi"])
+
+
 def test_points_not_used_are_said(tmp_path, capsys):
     """A factorially divergent series is resummed in its Borel plane: singular points given for
     the variable's plane are not used, and a warning says so (as does b for a convergent one)."""
@@ -114,6 +142,7 @@ def test_strong_takes_the_singular_points(tmp_path, capsys):
     ("evaluate", ["--singularity", "nan"], "--singularity nan"),
     ("evaluate", ["--singularity", "-1", "--singularity", "-1.0"], "--singularity -1.0"),
     ("evaluate", ["--borel-b", "-1"], "--borel-b"),
+    ("evaluate", ["--borel-singularity", "0"], "--borel-singularity 0"),
     ("evaluate", ["--borel-b", "1+I"], "--borel-b"),
     ("strong", ["--singularity", "0"], "--singularity 0"),
 ])
