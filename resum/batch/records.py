@@ -7,6 +7,7 @@ Layout of ``DIR``::
     DIR/points/p00000.json ...   one record per point, written atomically
     DIR/summary.csv      one row per recorded point (flattened)
     DIR/summary.json     the same rows plus counts
+    DIR/summary.tex      the same rows as a LaTeX table, each band as value(error)
     DIR/plots/           family figures (PNG and PDF)
 
 Each record is written to a temporary file in ``DIR/points`` and renamed
@@ -38,7 +39,7 @@ from .spec import FamilySpec, spec_digest, tomllib
 __all__ = ["RunFolder", "flatten_record", "summary_rows", "RUN_FORMAT"]
 
 RUN_FORMAT = "resum-family-run/1"
-_TOP_FILES = ("spec.toml", "run.json", "summary.json", "summary.csv")
+_TOP_FILES = ("spec.toml", "run.json", "summary.json", "summary.csv", "summary.tex")
 _RECORD = re.compile(r"^p\d+\.json$")
 
 
@@ -183,8 +184,10 @@ class RunFolder:
 
     # -------------------------------------------------------------- summary
     def write_summary(self, spec: FamilySpec) -> dict:
+        from ..report.latex import family_table_tex
         recs = self.records()
-        rows = summary_rows(recs)
+        columns, names = _param_columns_of(recs)
+        rows = [flatten_record(r, columns=columns) for r in recs]
         counts = {"points": spec.n_points, "recorded": len(recs),
                   "ok": sum(r["status"] == "ok" for r in recs),
                   "failed": sum(r["status"] != "ok" for r in recs)}
@@ -193,6 +196,20 @@ class RunFolder:
             {"format": "resum-family-summary/1", "study": spec.name, "spec_digest": spec.digest,
              "counts": counts, "bands": SUMMARY_BAND_NOTE, "rows": rows}))
         atomic_write_text(self.path / "summary.csv", rows_to_csv(rows))
+        # the table shows a parameter as the spec wrote it (pi/8, not 0.392699081698724)
+        texts = {ax.name: ax.texts for ax in spec.axes if any(ax.texts)}
+        tex_rows = []
+        for rec, row in zip(recs, rows):
+            row = dict(row)
+            for n, tx in texts.items():
+                i = (rec.get("axis_index") or {}).get(n)
+                if isinstance(i, int) and 0 <= i < len(tx) and tx[i] and columns.get(n) in row:
+                    row[columns[n]] = tx[i]
+            tex_rows.append(row)
+        atomic_write_text(self.path / "summary.tex", family_table_tex(
+            tex_rows, [columns[n] for n in names], title=spec.name, note=SUMMARY_BAND_NOTE.replace(
+                "The strings carry the digits the band supports plus three guard digits.",
+                "Written with the digits the band supports.")))
         return counts
 
 
@@ -373,17 +390,23 @@ def _result_fields(rec: dict, n_sing: int) -> dict:
     return row
 
 
-def summary_rows(records: Iterable[dict]) -> list:
-    """The summary table's rows; a parameter's column is the same in every row (decided over
-    the result columns of all records, see :func:`param_columns`)."""
-    records = list(records)
+def _param_columns_of(records: list):
+    """``(columns, names)``: the parameters' column names over all ``records`` (see
+    :func:`param_columns`) and the parameter names in table order."""
     taken, names = set(), []
     for r in records:
         taken.update(_result_fields(r, 2))
         for k in r.get("axes", sorted(r.get("labels", {}))):
             if k not in names:
                 names.append(k)
-    columns = param_columns(names, taken)
+    return param_columns(names, taken), names
+
+
+def summary_rows(records: Iterable[dict]) -> list:
+    """The summary table's rows; a parameter's column is the same in every row (decided over
+    the result columns of all records, see :func:`param_columns`)."""
+    records = list(records)
+    columns, _ = _param_columns_of(records)
     return [flatten_record(r, columns=columns) for r in records]
 
 
