@@ -566,6 +566,27 @@ class _Plan:
     alpha_from_w: Any = None             # alpha read from the series: used only where |w| >= this
     reach: Any = None                    # pade for poles: |x| below which the poles are resolved
     boundary: Any = None                 # pade inside a suspected natural boundary: its radius band
+    strong_terms: Any = None             # conformal: large-x terms [(power in x, coefficient)] for two-point
+
+
+def _strong_in_x(terms, cpl, dps):
+    """Strong-coupling terms ``{power: coefficient}`` in the points' variable (the coupling
+    ``g`` when ``x = scale g^k`` is declared) as ``[(power in x, coefficient)]``, checked
+    (:func:`~resum.estimators.resum_twopoint.check_strong_terms`); None for none."""
+    if not terms:
+        return None
+    from .estimators.resum_twopoint import check_strong_terms
+    out = []
+    with mpmath.workdps(dps):
+        for P, b in (terms.items() if isinstance(terms, dict) else terms):
+            P = parse_points([P], dps)[0]
+            b = parse_points([b], dps)[0]
+            if cpl is None:
+                out.append((P, b))
+            else:               # g^P = (x/scale)^(P/k)
+                k = mpmath.mpf(cpl.power)
+                out.append((P / k, b * mpmath.mpmathify(cpl.scale) ** (-P / k)))
+        return check_strong_terms(out)
 
 
 def _on_laplace_ray(t) -> bool:
@@ -575,7 +596,8 @@ def _on_laplace_ray(t) -> bool:
 
 
 def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map, alpha,
-          lateral, large_x_power, use_analysis, warnings, analysis=None, borel_singularities=None) -> _Plan:
+          lateral, large_x_power, use_analysis, warnings, analysis=None, borel_singularities=None,
+          strong_terms=None) -> _Plan:
     """Choose the method and its parameters (map, Borel parameter)."""
     an = None
     deg = polynomial_degree(c)
@@ -730,9 +752,10 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
                           reach=reach)
         elif chosen is not None:
             a, note, from_w = _rim_alpha(chosen, alpha, large_x_power, c, ctx, series.digits)
+            st, st_note = _strong_for(chosen, strong_terms)
             other = _Plan("conformal-pade", chosen, alpha=a, alpha_from_w=from_w,
-                          why=f"finite radius; map{given}: {chosen.describe()}{note}",
-                          singularities=_locations(sings))
+                          why=f"finite radius; map{given}: {chosen.describe()}{note}{st_note}",
+                          singularities=_locations(sings), strong_terms=st)
         else:
             other = _Plan("pade", why="finite radius; no map could be chosen")
         eq = _follow_equation(series, c, ctx, an)
@@ -753,8 +776,20 @@ def _plan(method, c, xs, series, ctx, *, cmap, singularities, borel_b, borel_map
                          "(--singularity X; from Python, evaluate(..., singularities=[...]) or cmap=...)",
                          where="method")
     a, note, from_w = _rim_alpha(chosen, alpha, large_x_power, c, ctx, series.digits)
-    return _Plan(method, chosen, alpha=a, alpha_from_w=from_w, why=f"map{given}: {chosen.describe()}{note}",
-                 singularities=_locations(sings))
+    st, st_note = _strong_for(chosen, strong_terms) if method == "conformal-pade" else (None, "")
+    return _Plan(method, chosen, alpha=a, alpha_from_w=from_w,
+                 why=f"map{given}: {chosen.describe()}{note}{st_note}",
+                 singularities=_locations(sings), strong_terms=st)
+
+
+def _strong_for(cmap, strong_terms):
+    """``(terms, note)``: the large-x terms for the two-point variant where ``cmap`` admits it
+    (a ray map cut along the negative axis), else ``(None, "")``."""
+    from .estimators.resum_conformal import twopoint_map
+    if not strong_terms or not twopoint_map(cmap):
+        return None, ""
+    return strong_terms, (f"; with {len(strong_terms)} strong-coupling term(s) given, two-point approximants "
+                          "(the series at w = 0, those terms at w = 1) compete per point")
 
 
 def _partial_sums_settle(c, xs) -> bool:
@@ -1180,7 +1215,8 @@ def _run_conformal(plan: _Plan, c, xs, dps, n_orders, target):
                 outs[j] = oj
             diag = dict(d, **diag)
         return outs, diag
-    kw = {"variants": "quadratic" if plan.method == "conformal-quadratic" else "both"}
+    kw = {"variants": "quadratic" if plan.method == "conformal-quadratic" else "both",
+          "strong_terms": plan.strong_terms}
     star, cross = _star_points(plan.cmap, xs)
     if not cross:
         return conformal_evaluate(c, xs, plan.cmap, dps, alpha=plan.alpha,
@@ -1326,7 +1362,7 @@ def _in_variable(text, var: str):
 def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str = "auto",
              verify: bool = True, *, cmap: Optional[ConformalMap] = None, singularities=None,
              borel_b=None, borel_map=None, borel_singularities=None, alpha=None, large_x_power=None,
-             lateral: str = "auto",
+             strong_terms=None, lateral: str = "auto",
              n_orders: Optional[int] = None, use_analysis: bool = True,
              work_dps: Optional[int] = None, analysis=None, progress=None) -> EvaluationResult:
     """Resummed values of ``series`` at ``points``, with bands.
@@ -1358,6 +1394,13 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
         Borel-Le Roy parameter (default 0).
     borel_map : ConformalMap or "auto", optional
         Map of the Borel plane for ``borel-conformal-pade``.
+    strong_terms : dict, optional
+        Terms of the function's expansion at large coupling that are known, ``{power:
+        coefficient}`` with powers in the variable of ``points`` (the coupling when the series
+        declares one): every term from the leading power down to the last one given, spaced by 1
+        in ``g`` for ``x = g^2`` (by 1/2 in ``x``). With a conformal plan whose cut runs along the
+        negative axis, two-point approximants match the series at 0 and these terms at infinity,
+        as a variant chosen per point by its band (:mod:`resum.estimators.resum_twopoint`).
     borel_singularities : sequence, optional
         Singular points of the Borel transform (numbers; the instanton action ``A`` and its
         kin) to map the Borel plane from instead of the one the analysis finds; one on the
@@ -1435,7 +1478,12 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
         plan = _plan(method, c, xs, series, ctx, cmap=cmap, singularities=singularities,
                      borel_b=borel_b, borel_map=borel_map, alpha=alpha, lateral=lateral,
                      large_x_power=large_x_power, use_analysis=use_analysis, warnings=warnings,
-                     analysis=analysis, borel_singularities=borel_singularities)
+                     analysis=analysis, borel_singularities=borel_singularities,
+                     strong_terms=_strong_in_x(strong_terms, cpl, wd))
+        if strong_terms and not (plan.strong_terms or (plan.fallback is not None and plan.fallback.strong_terms)):
+            warnings.append("the strong-coupling terms given are not used: they need the conformal-Padé "
+                            "method with one cut along the negative axis (the plan: "
+                            f"{plan.method}; {plan.why[:120]})")
         loss = {}
         extra = _reexpansion_guard(plan, c, series, wd, loss) if work_dps is None else 0
         reexp_warning = None    # index of the warning below: dropped if no point used a map

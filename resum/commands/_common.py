@@ -358,3 +358,28 @@ def map_options(args, dps: int) -> dict:
         except InputError as exc:
             raise InputError(exc.bare, where="--borel-b") from None
     return out
+
+
+def power_key(label: str) -> str:
+    """The key a power label names: spaces normalised, and the printed form of a fractional
+    power taken too (``g^(1/3)`` is ``g^1/3``)."""
+    import re
+    return re.sub(r"\^\((-?\d+(?:/\d+)?)\)", r"^\1", " ".join(label.split()))
+
+
+def power_term(item: str, series: Series, option: str, logs: bool = False):
+    """``(label, power, value text)`` from ``LABEL=VALUE`` with LABEL a power of the series'
+    coupling (or variable), ``g^1``, ``g^-1/2`` or ``g^(1/3)`` (with ``logs``, also ``g^P log g``);
+    ``power`` the exponent as text. InputError naming ``option`` otherwise."""
+    import re
+    label, sep, value = item.partition("=")
+    var = series.coupling.symbol if series.coupling is not None else series.variable
+    if not sep or not label.strip() or not value.strip():
+        raise InputError(f"write {option} as LABEL=VALUE (e.g. {var}^1=2), got {item!r}", where=option)
+    label = power_key(label)
+    m = re.fullmatch(r"([A-Za-z_]\w*)\^(-?\d+(?:/\d+)?)( log ([A-Za-z_]\w*))?", label)
+    if m is None or m.group(1) != var or (m.group(4) is not None and (m.group(4) != var or not logs)):
+        form = f"{var}^P or '{var}^P log {var}'" if logs else f"{var}^P"
+        raise InputError(f"write the term as {form} with P a whole number or a fraction (e.g. {var}^1=2, "
+                         f"'{var}^-1/2=0.3'), got {label!r}", where=option)
+    return label, m.group(2), value.strip()

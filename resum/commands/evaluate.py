@@ -21,8 +21,8 @@ import sys
 from ..errors import InputError
 from ..results import point_text
 from ._common import (with_input_notes, AT_HELP_RANGE, add_common_options, add_map_options, at_file, emit_json,
-                      expand_points, load_series, log, map_options, prepare_plot_dir, require_power_series,
-                      check_plan_terms, stage_log, write_figures)
+                      expand_points, load_series, log, map_options, power_term, prepare_plot_dir,
+                      require_power_series, check_plan_terms, stage_log, write_figures)
 
 MIN_TERMS = 6       # resum.resummation.evaluate refuses fewer terms
 
@@ -65,6 +65,11 @@ def add_arguments(parser) -> None:
                         help="with --goal: never more terms than N (default 3 x the terms in FILE)")
     parser.add_argument("--no-verify", action="store_true",
                         help="skip the reruns at higher precision and with fewer terms (faster, less safe)")
+    parser.add_argument("--strong-term", action="append", default=None, metavar="LABEL=VALUE",
+                        help="a known term of the expansion at large coupling, e.g. 'g^1=2' or "
+                             "'g^0=-3*log(2)/(2*pi)'; repeat for each term from the leading power down "
+                             "(consecutive powers, zeros included). Conformal-Padé then also runs two-point "
+                             "approximants matching these at infinity, chosen per point by its band")
     add_map_options(parser)
     add_common_options(parser)
 
@@ -179,6 +184,8 @@ def run(args) -> int:
         except InputError as exc:
             raise InputError(exc.bare, where="--large-power") from None
     known = map_options(args, ctx.work_dps)
+    if args.strong_term:
+        known["strong_terms"] = _strong_terms(args.strong_term, series, ctx)
     goal, max_terms, rebuild = _goal_options(args, series, ctx)
     n_curve = _curve_count(args.curve)     # None: the default, chosen from the method below
     if args.curve is not None and args.plot is None:
@@ -240,6 +247,27 @@ def run(args) -> int:
     for w in list(result.warnings) + [f for f in failed if f != plot_note]:     # plot_note: logged
         log(f"warning: {w}")
     return 0 if result.success and not plot_note and not goal_note else 1
+
+
+def _strong_terms(items, series, ctx) -> dict:
+    """``--strong-term`` items as ``{power: value}`` (texts), each label and value checked, and
+    the set checked (consecutive powers from the leading one) before any work."""
+    from ..resummation import _strong_in_x, parse_points
+    terms = {}
+    for item in items:
+        label, power, value = power_term(item, series, "--strong-term")
+        if power in terms:
+            raise InputError(f"the power {label} is given twice; give each term once", where="--strong-term")
+        try:
+            parse_points([value], ctx.work_dps)
+        except InputError as exc:
+            raise InputError(exc.bare, where=f"--strong-term {label}") from None
+        terms[power] = value
+    try:
+        _strong_in_x(terms, series.coupling, ctx.work_dps)
+    except InputError as exc:
+        raise InputError(exc.bare, where="--strong-term") from None
+    return terms
 
 
 def _goal_options(args, series, ctx):

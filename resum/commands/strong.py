@@ -15,14 +15,13 @@ the fitted coefficients are compared with values the user supplies.
 """
 from __future__ import annotations
 
-import re
 
 import mpmath
 
 from ..errors import InputError
 from ..series.expr import evaluate_expression
 from ._common import (check_plan_terms, with_input_notes, AT_HELP_RANGE, add_common_options, add_map_options, at_file,
-                      emit_json, expand_points, load_series, log, map_options, prepare_plot_dir,
+                      emit_json, expand_points, load_series, log, map_options, power_term, prepare_plot_dir,
                       require_power_series, write_figures)
 
 HELP = "strong-coupling probe: fit the asymptotic form of the resummed function, with bands"
@@ -116,15 +115,7 @@ def run(args) -> int:
         extra["max_rel_band"] = band
     expected = {}
     for item in args.expect:
-        label, sep, value = item.partition("=")
-        if not sep or not label.strip():
-            raise InputError(f"write --expect as LABEL=VALUE (e.g. g^1=2), got {item!r}", where="--expect")
-        label = _expect_key(label)
-        var = series.coupling.symbol if series.coupling is not None else series.variable
-        m = re.fullmatch(r"([A-Za-z_]\w*)\^(-?\d+(?:/\d+)?)( log ([A-Za-z_]\w*))?", label)
-        if m is None or m.group(1) != var or (m.group(4) is not None and m.group(4) != var):
-            raise InputError(f"write the term as {var}^P or '{var}^P log {var}' with P a whole number or a "
-                             f"fraction (e.g. {var}^1=2, '{var}^-1/2=0.3'), got {label!r}", where="--expect")
+        label, _, value = power_term(item, series, "--expect", logs=True)
         expected[label] = _number(value, ctx.work_dps, f"--expect {label}")
     known = map_options(args, ctx.work_dps)
     if args.no_verify or known:
@@ -166,13 +157,6 @@ def _shown(label: str) -> str:
     if "/" in power:
         power = f"({power})"
     return f"{head}^{power}{space}{tail}"
-
-
-def _expect_key(label: str) -> str:
-    """The coefficient key an ``--expect`` label names: spaces normalised, and the printed form
-    of a fractional power taken too (``g^(1/3)`` is ``g^1/3``)."""
-    label = " ".join(label.split())
-    return re.sub(r"\^\((-?\d+(?:/\d+)?)\)", r"^\1", label)
 
 
 def _render(res) -> str:

@@ -306,9 +306,18 @@ def off_cut_step(cmap, x_of, a):
     return None
 
 
+def twopoint_map(cmap) -> bool:
+    """Whether the two-point variant applies to ``cmap``: a ray map whose cut runs along the
+    negative real axis (:mod:`resum.estimators.resum_twopoint`)."""
+    if not isinstance(cmap, RayMap):
+        return False
+    x0 = mpmath.mpmathify(cmap.x0)
+    return not isinstance(x0, mpmath.mpc) and x0 < 0 and cmap.rim_point() == 1
+
+
 def conformal_evaluate(c: Sequence, xs: Sequence, cmap: ConformalMap, dps: int, *, alpha=None,
                        n_orders: int = 7, offsets: Sequence[int] = (0,), safety=4,
-                       variants: str = "both", target_digits=None):
+                       variants: str = "both", target_digits=None, strong_terms=None):
     """Conformal-map Padé values with bands at the points ``xs`` (expansion variable).
 
     ``variants``: "direct" (Padé of the mapped function), "derivative" (Padé
@@ -331,6 +340,12 @@ def conformal_evaluate(c: Sequence, xs: Sequence, cmap: ConformalMap, dps: int, 
     two digits (studies/accuracy/README.md); it is not in the default because
     elsewhere its narrower bands were not always honest (tests/resummation:
     log(1+x)/x near the rim of the disk).
+
+    ``strong_terms``: terms ``[(power, coefficient)]`` of the large-x expansion that the caller
+    knows (powers in ``x``, spaced by 1/2 from the leading one); with a ray map whose cut runs
+    along the negative axis, "both" and "all" then also run the two-point approximants
+    (:mod:`resum.estimators.resum_twopoint`: the series at ``w = 0``, these terms at ``w = 1``) as
+    the variant "two-point", chosen per point like the others.
     """
     if variants not in ("both", "all", "direct", "derivative", "quadratic"):
         raise ValueError(f"variants must be 'both', 'all', 'direct', 'derivative' or 'quadratic', "
@@ -386,6 +401,17 @@ def conformal_evaluate(c: Sequence, xs: Sequence, cmap: ConformalMap, dps: int, 
                                          post=lambda i, v: post(idx[i], v), safety=safety)
         named.append(("quadratic", spread(qsub)))
         diag = dict(diag, quadratic=qdiag)
+    if strong_terms and variants in ("both", "all") and twopoint_map(cmap) and len(cw) >= 8 and idx:
+        from .resum_twopoint import rim_coefficients, twopoint_evaluate
+        p0, h1 = rim_coefficients(strong_terms, cmap.x0)
+        h0 = _times_rim(cf, 2 * p0, rim)
+        # (as for the quadratic systems: the digits asked plus 20 in the unknowns)
+        tdps = dps if target_digits is None else min(dps, int(target_digits) + 20)
+        tsub, tdiag = twopoint_evaluate(h0, h1, [ws[j] for j in idx], tdps, n_orders=n_orders,
+                                        post=lambda i, v: v / (1 - ws[idx[i]] / rim) ** (2 * p0),
+                                        safety=safety)
+        named.append(("two-point", spread(tsub)))
+        diag = dict(diag, two_point=tdiag)
     if variants in ("derivative", "quadratic"):
         named = [(n, o) for n, o in named if n == variants] or [(variants, [None] * len(ws))]
         why = (f"the {variants} variant needs at least {12 if variants == 'quadratic' else 8} terms"

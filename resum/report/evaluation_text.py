@@ -207,6 +207,16 @@ def _render(result, title, reference):
                      "= 0 of the mapped function were tried as well (the root that equals the series at 0 followed "
                      "to the point); chosen because their band was narrower, and widened to cover the Padé band "
                      "if the two bands did not overlap.")
+    two = [p for p in result.points if p.diagnostics.get("variant") == "two-point"]
+    if two:
+        lines.append("")
+        lines.append("Two-point variant at " + ", ".join(point_text(p.at, 12) for p in two) + ": the "
+                     "approximants match the series at w = 0 and the strong-coupling terms given at w = 1 "
+                     "(the image of infinity); chosen because their band was narrower. Their band also covers "
+                     "the change when the last term given is left out (" + ", ".join(
+                         str(p.diagnostics.get("strong_truncation")) for p in two) + "); it trusts the terms "
+                     "given, and cannot see exponentially small corrections at strong coupling beyond what the "
+                     "series carries.")
     reach = [p for p in result.points if p.diagnostics.get("variant_centre_covered")]
     if reach:
         lines.append("")
