@@ -112,7 +112,7 @@ def row(name, n, at, p, tv, plain=None, truth_digits=45):
             e2 = abs(plain.value.value - tv)
             pd = f"{float(-mpmath.log10(e2 / abs(tv))):.1f}" if e2 else "99"
         meth = p.method + (f" ({p.diagnostics['variant']})"
-                           if p.diagnostics.get("variant") in ("derivative", "quadratic") else "")
+                           if p.diagnostics.get("variant") in ("derivative", "quadratic", "two-point") else "")
         return [name, n, at, meth, dig_txt, f"{claim:.1f}", ratio_txt, "yes" if inside else "NO", pd]
 
 
@@ -149,6 +149,15 @@ def goal_rows(cache, ctx, verify, t0):
         json.dump({"head": head, "rows": rows}, fh, indent=1)
 
 
+#: Strong-coupling terms of the kernel family where they are known (``--strong-terms``): at a = 0
+#: from the closed form (2/pi^2) log cosh(2 pi g) = (4/pi) g - 2 log2/pi^2 + exponentially small
+#: (every power of 1/g after the constant vanishes; five terms given); at a = pi/4 the cusp
+#: anomalous dimension's 2 g - 3 ln2/(2 pi) - K/(8 pi^2 g) (Frolov and Tseytlin, hep-th/0204226;
+#: Roiban and Tseytlin, arXiv:0709.0681; K Catalan's constant).
+STRONG_TERMS = {"0": {"1": "4/pi", "0": "-2*log(2)/pi^2", "-1": "0", "-2": "0", "-3": "0"},
+                "pi/4": {"1": "2", "0": "-3*log(2)/(2*pi)", "-1": "-catalan/(8*pi^2)"}}
+
+
 def main(argv=None):
     ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     ap.add_argument("--quick", action="store_true", help="fewer cases")
@@ -156,6 +165,10 @@ def main(argv=None):
     ap.add_argument("--quadratic", action="store_true",
                     help="also BES rows by method conformal-quadratic with the strong-coupling power given")
     ap.add_argument("--bes-only", action="store_true", help="only the BES family rows")
+    ap.add_argument("--strong-terms", action="store_true",
+                    help="also BES rows at a = 0 and pi/4 with the known strong-coupling terms given "
+                         "(two-point approximants): a = 0 from the closed form, pi/4 the published "
+                         "2 g - 3 ln2/(2 pi) - K/(8 pi^2 g)")
     ap.add_argument("--goal", action="store_true",
                     help="only the BES goal rows: from 100 loops, evaluate_with_goal asks for 10 digits "
                          "at g = 5 and 6 at g = 20 and regenerates the series with the loops it projects")
@@ -200,6 +213,8 @@ def main(argv=None):
             if args.quadratic:
                 run(f"bes a={a} p=1/2 quad", s, 100, g, tv, None, td, large_x_power=mpmath.mpf(1) / 2,
                     method="conformal-quadratic")
+            if args.strong_terms and a in STRONG_TERMS:
+                run(f"bes a={a} +strong", s, 100, g, tv, None, td, strong_terms=STRONG_TERMS[a])
     head = ["case", "terms", "at", "method", "digits", "claimed", "band/err", "inside", "plain digits"]
     w = [max(len(str(r[i])) for r in rows + [head]) for i in range(len(head))]
     print("  ".join(h.ljust(k) for h, k in zip(head, w)))
