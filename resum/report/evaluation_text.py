@@ -191,32 +191,13 @@ def _render(result, title, reference):
         lines.append("  ".join(c.ljust(w) for c, w in zip(r, widths)).rstrip())
         if k == 0:
             lines.append("  ".join("-" * w for w in widths))
-    deriv = [p for p in result.points if p.diagnostics.get("variant") == "derivative"]
-    if deriv:
-        lines.append("")
-        lines.append("Derivative variant at " + ", ".join(point_text(p.at, 12) for p in deriv) + ": there the "
-                     "approximants resum f' in the mapped variable and integrate it from 0 (exactly, by partial "
-                     "fractions); chosen because its band was narrower than that of the approximants to f itself, "
-                     "and widened to cover their band if the two bands did not overlap.")
-    quad = [p for p in result.points if p.diagnostics.get("variant") == "quadratic"
-            and p.method == "conformal-pade"]
-    if quad:
-        lines.append("")
-        lines.append("Quadratic variant at " + ", ".join(point_text(p.at, 12) for p in quad) + ": near the rim "
-                     "of the mapped disk, with the growth at large x known, quadratic approximants P + Q f + R f^2 "
-                     "= 0 of the mapped function were tried as well (the root that equals the series at 0 followed "
-                     "to the point); chosen because their band was narrower, and widened to cover the Padé band "
-                     "if the two bands did not overlap.")
-    two = [p for p in result.points if p.diagnostics.get("variant") == "two-point"]
-    if two:
-        lines.append("")
-        lines.append("Two-point variant at " + ", ".join(point_text(p.at, 12) for p in two) + ": the "
-                     "approximants match the series at w = 0 and the strong-coupling terms given at w = 1 "
-                     "(the image of infinity); chosen because their band was narrower. Their band also covers "
-                     "the change when the last term given is left out (" + ", ".join(
-                         str(p.diagnostics.get("strong_truncation")) for p in two) + "); it trusts the terms "
-                     "given, and cannot see exponentially small corrections at strong coupling beyond what the "
-                     "series carries.")
+    for name, text in _variant_notes(result):
+        pts = [p for p in result.points if p.diagnostics.get("variant") == name
+               and (name != "quadratic" or p.method == "conformal-pade")]
+        if pts:
+            lines.append("")
+            lines.append(f"{name.capitalize()} variant at " + ", ".join(point_text(p.at, 12) for p in pts)
+                         + ": " + text(pts))
     reach = [p for p in result.points if p.diagnostics.get("variant_centre_covered")]
     if reach:
         lines.append("")
@@ -305,3 +286,22 @@ def band_meanings(result) -> list:
     if methods - {"ode", "borel-ode"}:
         texts.append(BAND_MEANING)
     return texts
+
+
+def _variant_notes(result):
+    """``(variant, text(points))`` for the paragraphs that say why a variant of the
+    approximants was kept at some points."""
+    return [
+        ("derivative", lambda pts: "there the approximants resum f' in the mapped variable and integrate "
+         "it from 0 (exactly, by partial fractions); chosen because its band was narrower than that of "
+         "the approximants to f itself, and widened to cover their band if the two bands did not overlap."),
+        ("quadratic", lambda pts: "near the rim of the mapped disk, with the growth at large x known, "
+         "quadratic approximants P + Q f + R f^2 = 0 of the mapped function were tried as well (the root "
+         "that equals the series at 0 followed to the point); chosen because their band was narrower, and "
+         "widened to cover the Padé band if the two bands did not overlap."),
+        ("two-point", lambda pts: "the approximants match the series at w = 0 and the strong-coupling terms "
+         "given at w = 1 (the image of infinity); chosen because their band was narrower. Their band also "
+         "covers the change when the last term given is left out (" + ", ".join(
+             str(p.diagnostics.get("strong_truncation")) for p in pts) + "); it trusts the terms given, and "
+         "cannot see exponentially small corrections at strong coupling beyond what the series carries."),
+    ]
