@@ -358,7 +358,33 @@ def _known(opts, dps: int = 30) -> dict:
             kw["borel_b"] = borel_parameter(text(opts["borel_b"]), dps)
         except InputError as exc:
             raise InputError(exc.bare, where="borel_b") from None
+    if "strong_terms" in opts:
+        kw["strong_terms"] = _strong_table(opts["strong_terms"], dps)
     return kw
+
+
+def _strong_table(table, dps: int) -> dict:
+    """A task's ``strong_terms`` table, ``{"g^1" = 2, "g^0" = "-3*log(2)/(2*pi)"}`` (labels: a
+    power of the coupling, P a whole number or a fraction), as ``{power: value}`` for
+    :func:`resum.resummation.evaluate`; the powers' spacing is checked when the series is known."""
+    import re
+    from ..resummation import parse_points
+    if not isinstance(table, dict) or not table:
+        raise InputError("strong_terms: expected a table such as {\"g^1\" = 2, \"g^0\" = \"-3*log(2)/(2*pi)\"}")
+    out = {}
+    for label, v in table.items():
+        m = re.fullmatch(r"\s*[A-Za-z_]\w*\s*\^\s*\(?(-?\d+(?:/\d+)?)\)?\s*", str(label))
+        if m is None:
+            raise InputError(f"strong_terms: write each key as a power of the coupling such as \"g^1\" or "
+                             f"\"g^-1/2\", got {label!r}")
+        if isinstance(v, bool) or not isinstance(v, (int, float, str)):
+            raise InputError(f"strong_terms.{label}: expected a number or an expression string")
+        try:
+            parse_points([repr(v) if isinstance(v, float) else v], dps)
+        except InputError as exc:
+            raise InputError(exc.bare, where=f"strong_terms.{label}") from None
+        out[m.group(1)] = repr(v) if isinstance(v, float) else v
+    return out
 
 
 def _run_evaluate(series, params, ctx, opts, source, rebuild=None):
@@ -585,7 +611,7 @@ TASKS = {
                         "regenerate the series with the terms projected to reach them)",
                         {"at": "numbers", "method": "str", "verify": "bool", "goal_digits": "number",
                          "max_terms": "int", "singularities": "raw", "borel_singularities": "raw",
-                         "borel_b": "raw"}, _run_evaluate, required=("at",), wants_rebuild=True),
+                         "borel_b": "raw", "strong_terms": "raw"}, _run_evaluate, required=("at",), wants_rebuild=True),
     "strong": TaskDef("strong", "strong-coupling probe",
                       {"couplings": "numbers", "method": "str", "leading_power": "number",
                        "log_terms": "bool", "n_terms_fit": "ints", "max_rel_band": "number",

@@ -88,3 +88,24 @@ def test_strong_terms_on_the_command_line(tmp_path, capsys):
         assert main(args + bad) == 2
         err = capsys.readouterr().err
         assert len(err.strip().splitlines()) == 1 and where in err and "Traceback" not in err
+
+
+def test_family_spec_takes_strong_terms(tmp_path, capsys):
+    """The spec's evaluate task takes strong_terms = {"g^1" = ..., "g^0" = ...} (checked before any
+    work: a key that is no power is refused, naming it); each point's value at g = 20 then comes
+    from the two-point variant and holds the closed form."""
+    spec = tmp_path / "s.toml"
+    body = ('[study]\nname = "t"\nsource = "bes"\ndps = 30\n[fixed]\nangle = 0\ndps = 60\n'
+            '[axes]\nloops = { values = [30, 40] }\n[tasks.evaluate]\nat = [20]\nverify = false\n')
+    spec.write_text(body + 'strong_terms = { "g^1" = "4/pi", "gg" = 1 }\n')
+    assert main(["scan", str(spec), "-o", str(tmp_path / "bad"), "--jobs", "1"]) == 2
+    assert "strong_terms" in capsys.readouterr().err
+    spec.write_text(body + 'strong_terms = { "g^1" = "4/pi", "g^0" = "-2*log(2)/pi^2", "g^-1" = 0 }\n')
+    assert main(["scan", str(spec), "-o", str(tmp_path / "out"), "--jobs", "1"]) == 0, capsys.readouterr().err
+    recs = sorted((tmp_path / "out" / "points").glob("*.json"))
+    assert len(recs) == 2
+    for p in recs:
+        row = json.loads(p.read_text())["tasks"]["evaluate"]["values"][0]
+        assert row["variant"] == "two-point"
+        with workdps(50):
+            assert mpf(row["lo"]) <= _truth(20) <= mpf(row["hi"])
