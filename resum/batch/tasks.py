@@ -367,14 +367,14 @@ def _strong_table(table, dps: int) -> dict:
     """A task's ``strong_terms`` table, ``{"g^1" = 2, "g^0" = "-3*log(2)/(2*pi)"}`` (labels: a
     power of the coupling, P a whole number or a fraction), as ``{power: value}`` for
     :func:`resum.resummation.evaluate`; the powers' spacing is checked when the series is known."""
-    import re
+    from ..estimators.strong_coupling import label_power, power_key
     from ..resummation import parse_points
     if not isinstance(table, dict) or not table:
         raise InputError("strong_terms: expected a table such as {\"g^1\" = 2, \"g^0\" = \"-3*log(2)/(2*pi)\"}")
     out = {}
     for label, v in table.items():
-        m = re.fullmatch(r"\s*[A-Za-z_]\w*\s*\^\s*\(?(-?\d+(?:/\d+)?)\)?\s*", str(label))
-        if m is None:
+        lp = label_power(power_key(label))
+        if lp is None or lp[1] or not str(label).strip()[:1].isalpha():
             raise InputError(f"strong_terms: write each key as a power of the coupling such as \"g^1\" or "
                              f"\"g^-1/2\", got {label!r}")
         if isinstance(v, bool) or not isinstance(v, (int, float, str)):
@@ -383,7 +383,7 @@ def _strong_table(table, dps: int) -> dict:
             parse_points([repr(v) if isinstance(v, float) else v], dps)
         except InputError as exc:
             raise InputError(exc.bare, where=f"strong_terms.{label}") from None
-        out[m.group(1)] = repr(v) if isinstance(v, float) else v
+        out[str(lp[0])] = repr(v) if isinstance(v, float) else v
     return out
 
 

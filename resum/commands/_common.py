@@ -360,18 +360,12 @@ def map_options(args, dps: int) -> dict:
     return out
 
 
-def power_key(label: str) -> str:
-    """The key a power label names: spaces normalised, and the printed form of a fractional
-    power taken too (``g^(1/3)`` is ``g^1/3``)."""
-    import re
-    return re.sub(r"\^\((-?\d+(?:/\d+)?)\)", r"^\1", " ".join(label.split()))
-
-
 def power_term(item: str, series: Series, option: str, logs: bool = False):
     """``(label, power, value text)`` from ``LABEL=VALUE`` with LABEL a power of the series'
     coupling (or variable), ``g^1``, ``g^-1/2`` or ``g^(1/3)`` (with ``logs``, also ``g^P log g``);
     ``power`` the exponent as text. InputError naming ``option`` otherwise."""
     import re
+    from ..estimators.strong_coupling import power_key
     label, sep, value = item.partition("=")
     var = series.coupling.symbol if series.coupling is not None else series.variable
     if not sep or not label.strip() or not value.strip():

@@ -45,6 +45,8 @@ from dataclasses import dataclass, field
 from fractions import Fraction
 from typing import Optional, Sequence
 
+import re
+
 import mpmath
 
 from ..context import Context, checked_context, workdps
@@ -175,6 +177,12 @@ def _label(power, log, var="g"):
     p = Fraction(power).limit_denominator(1000) if not isinstance(power, mpmath.mpf) else power
     txt = str(p) if not isinstance(p, mpmath.mpf) else mpmath.nstr(p, 8)
     return f"{var}^{txt}" + (f" log {var}" if log else "")
+
+
+def power_key(label: str) -> str:
+    """The key a power label names: spaces normalised, and the printed form of a fractional
+    power taken too (``g^(1/3)`` is ``g^1/3``)."""
+    return re.sub(r"\^\((-?\d+(?:/\d+)?)\)", r"^\1", " ".join(str(label).split()))
 
 
 def label_power(label):

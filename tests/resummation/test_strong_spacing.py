@@ -182,7 +182,7 @@ def test_a_spacing_whose_power_is_no_simple_fraction_is_not_chosen():
 def test_printed_labels_and_expect_keys_of_fractional_powers():
     # common practice, no source: g^1/3 reads as (g^1)/3, so the text puts the power in
     # parentheses; --expect takes either form for the same coefficient
-    from resum.commands._common import power_key as _expect_key
+    from resum.estimators.strong_coupling import power_key as _expect_key
     from resum.commands.strong import _shown
     assert _shown("g^1/3") == "g^(1/3)" and _shown("g^-1/3 log g") == "g^(-1/3) log g"
     assert _shown("g^1") == "g^1" and _shown("g^-2 log g") == "g^-2 log g"
