@@ -203,14 +203,12 @@ def twopoint_evaluate(h0: Sequence, h1: Sequence, ws: Sequence, dps: int, *, n_o
     ns = [o[0] for o in orders]
     table, singular = _values(h0, h1, ws, dps, orders, post)
     outs = outcomes_from_table(table, ns, safety=safety)
-    fewer = None
-    if len(h1) >= 1:
-        top = orders[:4]
-        fewer, _ = _values(h0, h1[:-1], ws, dps, top, post)
+    # the top approximants again without the last term given (check_strong_terms: at least one)
+    fewer, _ = _values(h0, h1[:-1], ws, dps, orders[:4], post)
     for j, o in enumerate(outs):
         o.info["orders"] = [f"[{n}+{len(h1)}]" for n in ns]
         o.info["values"] = [None if v is None else mpmath.nstr(v, 45) for v in table[j]]
-        if not o.ok or o.re is None or fewer is None:
+        if not o.ok or o.re is None:
             continue
         alt = sorted((v for v in fewer[j] if v is not None), key=lambda v: mpmath.re(v))
         if not alt:
