@@ -367,19 +367,28 @@ def _parse_points(points, dps: int) -> list:
     return out
 
 
-def singular_points(points, dps: int) -> list:
+def singular_points(points, dps: int, name=None) -> list:
     """Singular points a user gives to build the map from (numbers or expression strings,
-    complex allowed) as mpmath numbers; each refused, naming its position, unless finite, other
-    than 0 (the expansion point, where the function is regular) and given once."""
-    out = parse_points(points, dps)
+    complex allowed) as mpmath numbers; each refused unless finite, other than 0 (the expansion
+    point, where the function is regular) and given once, the error naming it by ``name(k)``
+    (default ``"point k+1"``; the command line names the option and its text instead)."""
+    name = name or (lambda k: f"point {k + 1}")
     tol = mpmath.mpf(10) ** (10 - dps)
-    for k, z in enumerate(out):
+    out = []
+    for k, p in enumerate(points):
+        try:
+            z = parse_points([p], dps)[0]
+        except InputError as exc:
+            raise InputError(exc.bare, where=name(k)) from None
         if z == 0:
             raise InputError("a singular point must be other than 0: the series is expanded about 0, "
-                             "where the function is regular", where=f"point {k + 1}")
-        if any(mpmath.almosteq(z, u, rel_eps=tol) for u in out[:k]):
+                             "where the function is regular", where=name(k))
+        if any(mpmath.almosteq(z, u, rel_eps=tol) for u in out):
             raise InputError(f"the singular point {mpmath.nstr(z, 12)} is given twice; give each point "
-                             "once", where=f"point {k + 1}")
+                             "once", where=name(k))
+        out.append(z)
+    if not out:
+        raise InputError("no singular point given; pass at least one", where=name(0))
     return out
 
 

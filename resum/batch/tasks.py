@@ -335,12 +335,17 @@ def _points_arg(vals):
     return list(vals)
 
 
+def _toml_text(v):
+    """A TOML value for the expression reader: a float as the digits it was written with."""
+    return repr(v) if isinstance(v, float) else v
+
+
 def _known(opts, dps: int = 30) -> dict:
     """The keywords of :func:`resum.resummation.evaluate` from a task's ``singularities`` and
     ``borel_singularities`` (lists of numbers or expression strings, complex allowed) and
     ``borel_b``; InputError naming the key."""
     from ..resummation import borel_parameter, singular_points
-    text = lambda v: repr(v) if isinstance(v, float) else v   # noqa: E731  (a TOML float's digits)
+    text = _toml_text
     kw = {}
     for key in ("singularities", "borel_singularities"):
         if key not in opts:
@@ -348,11 +353,7 @@ def _known(opts, dps: int = 30) -> dict:
         vals = opts[key]
         if not isinstance(vals, list) or not vals:
             raise InputError(f"{key}: expected a non-empty list of numbers or expression strings")
-        try:
-            kw[key] = singular_points([text(v) for v in vals], dps)
-        except InputError as exc:
-            k = int(exc.where.split()[-1]) - 1 if (exc.where or "").startswith("point ") else 0
-            raise InputError(exc.bare, where=f"{key}[{k}]") from None
+        kw[key] = singular_points([text(v) for v in vals], dps, name=lambda k, key=key: f"{key}[{k}]")
     if "borel_b" in opts:
         try:
             kw["borel_b"] = borel_parameter(text(opts["borel_b"]), dps)
@@ -380,10 +381,10 @@ def _strong_table(table, dps: int) -> dict:
         if isinstance(v, bool) or not isinstance(v, (int, float, str)):
             raise InputError(f"strong_terms.{label}: expected a number or an expression string")
         try:
-            parse_points([repr(v) if isinstance(v, float) else v], dps)
+            parse_points([_toml_text(v)], dps)
         except InputError as exc:
             raise InputError(exc.bare, where=f"strong_terms.{label}") from None
-        out[str(lp[0])] = repr(v) if isinstance(v, float) else v
+        out[str(lp[0])] = _toml_text(v)
     return out
 
 

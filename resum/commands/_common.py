@@ -347,11 +347,8 @@ def map_options(args, dps: int) -> dict:
         texts = getattr(args, opt)
         if not texts:
             continue
-        try:
-            out[key] = singular_points(texts, dps)
-        except InputError as exc:
-            k = int(exc.where.split()[-1]) - 1 if (exc.where or "").startswith("point ") else 0
-            raise InputError(exc.bare, where=f"--{opt.replace('_', '-')} {texts[k][:40]}") from None
+        out[key] = singular_points(texts, dps,
+                                   name=lambda k, o=opt, t=texts: f"--{o.replace('_', '-')} {t[k][:40]}")
     if args.borel_b is not None:
         try:
             out["borel_b"] = borel_parameter(args.borel_b, dps)
