@@ -9,7 +9,9 @@ Grammar (our own; no ``eval``, no attribute access, bounded size)::
     atom   := number | constant | function "(" expr ")" | "(" expr ")"
 
 numbers: ``3``, ``44/45`` (as ``44 / 45``), ``-1.25``, ``6.02e23``, ``2.5j``
-(imaginary); constants: ``pi``, ``catalan``, ``euler_gamma``, ``I`` (the
+(imaginary), ``1.0D-05`` (Fortran's exponent letter), ``1.23*^-5`` and precision
+marks as computer-algebra output writes them (``0.5`30``: 30 significant digits;
+``1.5``20``: 20 digits after the point; ``0.1``` alone: a double); constants: ``pi``, ``catalan``, ``euler_gamma``, ``I`` (the
 imaginary unit); functions: ``zeta``, ``log``, ``sqrt``, ``exp``, ``sin``,
 ``cos``, ``gamma``.
 
@@ -48,7 +50,7 @@ MAX_ARG_MAG = 4096         # |argument| of exp, sin, cos, gamma, zeta below 2^40
 _SHOW = 60                 # characters of an expression quoted in a message
 
 _TOKEN = re.compile(r"""
-    (?P<num>(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?[jJ]?)
+    (?P<num>(\d+\.?\d*|\.\d+)(`{1,2}(\d+\.?\d*|\.\d+)?)?([eEdD][+-]?\d+|\*\^[+-]?\d+)?[jJ]?)
   | (?P<name>[A-Za-z_][A-Za-z_0-9]*)
   | (?P<op>\*\*|[-+*/^(),])
   | (?P<ws>\s+)
@@ -132,8 +134,43 @@ def exact_to_text(v) -> str:
     return int_to_decimal(int(v))
 
 
+#: one number literal: mantissa, an optional precision mark (`p: p significant digits; ``a:
+#: a digits after the decimal point; a lone `: a double, 15 digits), an optional exponent
+#: (e, or the d of Fortran double-precision constants, or *^ as computer-algebra output
+#: writes it) and an optional j for an imaginary number
+_LITERAL = re.compile(r"(?P<mant>\d+\.?\d*|\.\d+)(?P<mark>`{1,2})?(?P<prec>\d+\.?\d*|\.\d+)?"
+                      r"(?:(?:[eEdD]|\*\^)(?P<exp>[+-]?\d+))?(?P<imag>[jJ])?", re.ASCII)
+MACHINE_DIGITS = 15        # digits of a number marked with a lone ` (a double)
+
+
+def _plain(lit: str):
+    """``(text, digits)``: a literal rewritten with a plain ``e`` exponent and no mark, and
+    the significant digits its precision mark declares (None without a mark)."""
+    m = _LITERAL.fullmatch(lit)
+    if m is None:                   # not produced by the tokenizer; leave it to mpmath
+        return lit, None
+    text = m["mant"] + (f"e{m['exp']}" if m["exp"] is not None else "")
+    if not m["mark"]:
+        return text, None
+    if m["prec"] is None:
+        if len(m["mark"]) == 2:
+            raise InputError(f"the accuracy mark in {lit!r} has no number of digits after it")
+        return text, MACHINE_DIGITS
+    p = float(m["prec"])
+    if len(m["mark"]) == 1:
+        return text, max(1, int(p))
+    # accuracy: digits after the decimal point, so significant digits = a + log10|x|
+    with workdps(30):
+        x = abs(mpmath.mpf(text))
+        d = p + (float(mpmath.log10(x)) if x else 0)
+    return text, max(1, int(d))
+
+
 def _sig_digits(lit: str) -> int:
-    mant = re.split(r"[eE]", lit.rstrip("jJ"))[0].replace(".", "").lstrip("0")
+    text, marked = _plain(lit.rstrip("jJ"))
+    if marked is not None:
+        return marked
+    mant = re.split(r"[eE]", text)[0].replace(".", "").lstrip("0")
     return max(1, len(mant))
 
 
@@ -246,11 +283,11 @@ class _Parser:
         if kind == "num":
             if text[-1] in "jJ":
                 self._note_digits(text)
-                return mpmath.mpc(0, self._decimal(text[:-1]))
+                return mpmath.mpc(0, self._decimal(_plain(text[:-1])[0]))
             if re.fullmatch(r"\d+", text, re.ASCII):
                 return _bounded(decimal_to_int(text))
             self._note_digits(text)
-            return self._decimal(text)
+            return self._decimal(_plain(text)[0])
         if kind == "name":
             if text in _CONSTANTS:
                 return _CONSTANTS[text]()

@@ -160,7 +160,7 @@ def _parse_coefficient(text, where, dps, exact_decimals):
     low = t.lower()
     if low in ("nan", "+nan", "-nan", "inf", "+inf", "-inf", "infinity", "-infinity"):
         raise InputError(f"coefficient {t!r} is not finite; give a finite number", where=where)
-    if exact_decimals and re.fullmatch(r"[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?", t):
+    if exact_decimals and re.fullmatch(r"[-+]?(\d+\.?\d*|\.\d+)([eEdD][-+]?\d+)?", t):
         try:
             return _exact_decimal(t), None
         except InputError as e:
@@ -187,7 +187,7 @@ def _parse_dps(declared, ctx):
 
 
 def _exact_decimal(t):
-    m = re.fullmatch(r"([-+]?)(\d*)\.?(\d*)(?:[eE]([-+]?\d+))?", t, re.ASCII)
+    m = re.fullmatch(r"([-+]?)(\d*)\.?(\d*)(?:[eEdD]([-+]?\d+))?", t, re.ASCII)
     exp = int(m.group(4) or 0) - len(m.group(3))
     if abs(exp) > MAX_DIGITS:
         raise InputError(f"exponent of {t[:40]!r} too large for an exact value (limit {MAX_DIGITS})")

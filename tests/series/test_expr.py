@@ -141,3 +141,43 @@ def test_inexact_numbers_far_beyond_the_exact_size_limit_are_refused(text, size)
     v = ev("1e300000").value                                  # inside the bound: kept
     with workdps(30):
         assert abs(v / mpmath.mpf(10) ** 300000 - 1) < mpmath.mpf(10) ** -15
+
+
+# Number forms as other programs write them (syntax from memory): Fortran double-precision
+# constants take d/D for the exponent letter (ISO/IEC 1539, "real literal constant");
+# computer-algebra output writes 1.23*^-5 for 1.23e-5 and marks a number's precision with a
+# backtick, `30 meaning 30 significant digits, ``20 meaning 20 digits after the decimal point,
+# a lone ` a machine double. Reference values: mpmath's own reading of the plain decimal.
+@pytest.mark.parametrize("text, plain, digits", [
+    ("1.0D-05", "1.0e-05", 2),
+    ("2.5d3", "2.5e3", 2),
+    ("-6.25D+002", "-6.25e2", 3),
+    ("1.23*^-5", "1.23e-5", 3),
+    ("0.5`30", "0.5", 30),
+    ("3`20", "3", 20),
+    ("0.333333333333333333333333333333333333333`30.", "0.333333333333333333333333333333333333333", 30),
+    ("1.2345678901234567890`18.5*^2", "123.45678901234567890", 18),
+    ("0.1`", "0.1", 15),
+    ("1.5``20*^-3", "0.0015", 17),          # 20 + log10(0.0015) = 17.2
+])
+def test_foreign_number_forms(text, plain, digits):
+    v = ev(text, dps=50)
+    assert not v.exact
+    assert v.digits == digits
+    with workdps(80):
+        assert _agree(v.value, mpmath.mpf(plain), 55)
+
+
+def test_foreign_number_forms_inside_expressions():
+    # the digits of the least precise literal are what the expression carries
+    v = ev("2.0`40*pi - 1.5D0", dps=50)
+    assert v.digits == 2
+    with workdps(70):
+        assert abs(v.value - (2 * mpmath.pi - mpmath.mpf("1.5"))) < mpmath.mpf(10) ** -48
+    assert ev("2.5`25j").value == mpmath.mpc(0, 2.5)
+
+
+@pytest.mark.parametrize("bad", ["1``", "2*^x", "1.0D", "1.0`x", "1.0`30`"])
+def test_foreign_number_forms_malformed(bad):
+    with pytest.raises(InputError):
+        ev(bad)

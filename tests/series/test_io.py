@@ -319,3 +319,19 @@ def test_csv_content_under_another_extension_is_read_as_csv(tmp_path, name):
     p.write_text("# name: cc\nOrder, Coefficient\n0,1\n1,1/2\n3,5\n")
     s = read_series(p)
     assert s.coefficients == (1, Fraction(1, 2), 0, 5) and s.name == "cc"
+
+
+def test_marked_numbers_set_the_digits_carried(tmp_path):
+    # coefficients as computer-algebra output marks them (`40: 40 significant digits; syntax
+    # from memory) carry the digits their marks declare, not the digits they show
+    p = tmp_path / "marked.txt"
+    p.write_text("1`40\n-0.5`40\n0.333333333333333333333333333333333333333333`40*^-1\n")
+    s = read_series(p, Context(dps=30))
+    assert s.digits == 40 and s.n_terms == 3
+    with workdps(60):
+        assert abs(s.coefficients[2] - mpmath.mpf(1) / 30) < mpmath.mpf(10) ** -42
+    # a Fortran double-precision constant (d exponent) in a CSV row
+    q = tmp_path / "fortran.csv"
+    q.write_text("order,coefficient\n0,1.0D0\n1,-2.5D-01\n")
+    t = read_series(q)
+    assert t.digits == 2 and t.coefficients[1] == mpmath.mpf("-0.25")
