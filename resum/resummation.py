@@ -589,13 +589,30 @@ def _strong_in_x(terms, cpl, dps):
     with mpmath.workdps(dps):
         for P, b in (terms.items() if isinstance(terms, dict) else terms):
             P = parse_points([P], dps)[0]
+            u = _coefficient_uncertainty(b, dps)
             b = parse_points([b], dps)[0]
             if cpl is None:
-                out.append((P, b))
+                out.append((P, b, u))
             else:               # g^P = (x/scale)^(P/k)
                 k = mpmath.mpf(cpl.power)
-                out.append((P / k, b * mpmath.mpmathify(cpl.scale) ** (-P / k)))
+                f = mpmath.mpmathify(cpl.scale) ** (-P / k)
+                out.append((P / k, b * f, u * abs(f)))
         return check_strong_terms(out)
+
+
+def _coefficient_uncertainty(b, dps):
+    """Half a unit in the last digit of a coefficient written with a decimal (text, or a float:
+    ``repr`` digits), relative to its size; 0 for an exact one (integer, fraction, expression
+    without decimals, mpf)."""
+    if isinstance(b, float):
+        b = repr(b)
+    if not isinstance(b, str):
+        return mpmath.mpf(0)
+    from .series.expr import evaluate_expression
+    v = evaluate_expression(b.strip(), dps)
+    if v.exact or v.digits is None:
+        return mpmath.mpf(0)
+    return abs(_to_mp(v.value)) * mpmath.mpf(10) ** (1 - v.digits) / 2
 
 
 def _on_laplace_ray(t) -> bool:
@@ -1590,6 +1607,11 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
                 o.reason = _in_variable(o.reason, series.variable)
             pdiag = dict(o.info)
             pdiag.pop("method", None)        # a fallback point's method: PointResult.method
+            if o.info.get("strong_terms_conflict"):
+                names = ", ".join(f"{k} ({v} half-widths)" for k, v in o.info["strong_terms_conflict"].items())
+                warnings.append(f"at {point_text(a)}: the two-point value (strong-coupling terms given) lay "
+                                f"outside the band of the approximants without them: {names}; its band was "
+                                "widened to cover theirs. Check the terms given")
             if o.info.get("rim_layer"):
                 rl = o.info["rim_layer"]
                 warnings.append(f"at {point_text(a)}: the point lies closer to the rim of the mapped disk "

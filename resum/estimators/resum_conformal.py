@@ -199,6 +199,23 @@ def derivative_evaluate(cw: Sequence, ws: Sequence, dps: int, *, gamma: int = 0,
 #: from 3 to 24 times its error, no band there having missed
 COVER_CENTRE_RATIO = 30
 
+#: variants that use information the others lack (the strong-coupling terms the user gave): where
+#: one of them has the narrowest band, the others' values do not widen it
+INFORMED = frozenset({"two-point"})
+
+#: ... unless an informed pick lies further than this many half-widths outside another variant's
+#: band: then the terms given and the series disagree, and the pick's band covers the other's.
+#: Measured on (2/pi^2) log cosh(2 pi sqrt(x)) from 60 terms with 3 terms at infinity, x = 62.5
+#: and 6250: right terms put the two-point value 0.1-1.4 half-widths from the others (the
+#: derivative variant's own band short there); the leading coefficient 1e-4 too large, 3.7
+INFORMED_CONFLICT = 2
+
+
+def _informed(name, outcome) -> bool:
+    """Whether a variant's outcome used the terms at infinity (by its list's name, or, for a
+    list of earlier picks, by the variant recorded in it)."""
+    return name in INFORMED or outcome.info.get("variant") in INFORMED
+
 
 def _choose(variants, cover_centres: bool = False):
     """Per point: of the variants ``[(name, outcomes)]`` (an outcome may be None where a
@@ -223,6 +240,16 @@ def _choose(variants, cover_centres: bool = False):
                 continue
             others[n] = mpmath.nstr(other.re.error, 5)
             dv = abs(other.re.value - re.value)
+            if _informed(name, pick) and not _informed(n, other) and dv <= INFORMED_CONFLICT * other.re.error:
+                # the pick knows what the other does not (terms at infinity): a difference within
+                # the other's band (doubled) is the other's error as much as the pick's, and is
+                # only recorded; beyond it the terms given and the series disagree, and the rule
+                # below covers the other's band
+                if dv > re.error:
+                    pick.info.setdefault("uninformed_variants_differ", {})[n] = mpmath.nstr(dv, 5)
+                continue
+            if _informed(name, pick) and not _informed(n, other) and dv > re.error + other.re.error:
+                pick.info.setdefault("strong_terms_conflict", {})[n] = mpmath.nstr(dv / other.re.error, 3)
             if dv > re.error + other.re.error:
                 # cover the other variant's whole band, not only its value: at a = 3 pi/8, g = 2 of
                 # the kernel family from 120 loops the derivative variant settled 1.4e-17 from the
@@ -239,6 +266,12 @@ def _choose(variants, cover_centres: bool = False):
                 if di > im.error + other.im.error:
                     h = di + other.im.error
                     im = Estimate(im.value, min(im.lower, im.value - h), max(im.upper, im.value + h))
+        if not _informed(name, pick):
+            # an informed variant that lost here may have found the terms given at odds with the
+            # series: keep that finding (the caller warns)
+            for n, other in good:
+                if other is not pick and other.info.get("strong_terms_conflict"):
+                    pick.info["strong_terms_conflict"] = other.info["strong_terms_conflict"]
         pick = PointOutcome(re, im, pick.ok, pick.reason, pick.info)
         if others:
             pick.info["other_variant_bands"] = others
@@ -402,14 +435,15 @@ def conformal_evaluate(c: Sequence, xs: Sequence, cmap: ConformalMap, dps: int, 
         named.append(("quadratic", spread(qsub)))
         diag = dict(diag, quadratic=qdiag)
     if strong_terms and variants in ("both", "all") and twopoint_map(cmap) and len(cw) >= 8 and idx:
-        from .resum_twopoint import rim_coefficients, twopoint_evaluate
+        from .resum_twopoint import rim_coefficients, shifted_rim_coefficients, twopoint_evaluate
         p0, h1 = rim_coefficients(strong_terms, cmap.x0)
+        h1_moved = shifted_rim_coefficients(strong_terms, cmap.x0)
         h0 = _times_rim(cf, 2 * p0, rim)
         # (as for the quadratic systems: the digits asked plus 20 in the unknowns)
         tdps = dps if target_digits is None else min(dps, int(target_digits) + 20)
         tsub, tdiag = twopoint_evaluate(h0, h1, [ws[j] for j in idx], tdps, n_orders=n_orders,
                                         post=lambda i, v: v / (1 - ws[idx[i]] / rim) ** (2 * p0),
-                                        safety=safety)
+                                        safety=safety, h1_moved=h1_moved)
         named.append(("two-point", spread(tsub)))
         diag = dict(diag, two_point=tdiag)
     if variants in ("derivative", "quadratic"):

@@ -54,17 +54,22 @@ from ..results import Estimate
 from ..transforms._arb import arb_to_mp, flint_precision, to_arb
 from .resum_band import PointOutcome, candidate_orders, outcomes_from_table
 
-__all__ = ["check_strong_terms", "rim_coefficients", "twopoint_fit", "twopoint_evaluate"]
+__all__ = ["check_strong_terms", "rim_coefficients", "shifted_rim_coefficients", "twopoint_fit",
+           "twopoint_evaluate"]
 
 
 def check_strong_terms(terms) -> list:
-    """``[(power, coefficient)]`` (powers in the expansion variable) sorted from the leading
-    power down, checked: real powers spaced by exactly 1/2 from the leading one, with twice the
-    leading power an integer; InputError naming what is wrong otherwise."""
-    out = sorted(((mpmath.mpmathify(q), mpmath.mpmathify(b)) for q, b in terms), key=lambda t: -t[0])
+    """``[(power, coefficient, uncertainty)]`` (powers in the expansion variable) sorted from the
+    leading power down, checked: real powers spaced by exactly 1/2 from the leading one, with
+    twice the leading power an integer; InputError naming what is wrong otherwise. An item may be
+    ``(power, coefficient)`` (an exact coefficient: uncertainty 0) or carry the coefficient's
+    uncertainty third (for a decimal, half a unit in its last digit)."""
+    out = sorted(((mpmath.mpmathify(t[0]), mpmath.mpmathify(t[1]),
+                   abs(mpmath.mpmathify(t[2])) if len(t) > 2 else mpmath.mpf(0)) for t in terms),
+                 key=lambda t: -t[0])
     if not out:
         raise InputError("no strong-coupling terms given", where="strong_terms")
-    for q, b in out:
+    for q, b, _ in out:
         if isinstance(q, mpmath.mpc) or isinstance(b, mpmath.mpc):
             raise InputError("strong-coupling powers and coefficients must be real", where="strong_terms")
     p0 = out[0][0]
@@ -72,7 +77,7 @@ def check_strong_terms(terms) -> list:
         raise InputError(f"the leading power {mpmath.nstr(p0, 8)} (in the expansion variable) is not a "
                          "multiple of 1/2: the two-point approximant needs f ~ x^p0 with 2 p0 a whole "
                          "number (for x = g^2: a whole power of g)", where="strong_terms")
-    for j, (q, _) in enumerate(out):
+    for j, (q, _, _) in enumerate(out):
         if abs(q - (p0 - mpmath.mpf(j) / 2)) > mpmath.mpf(10) ** -20:
             raise InputError("give every term from the leading power down to the last one, each power "
                              "1/2 below the one before in the expansion variable (1 below it in g for "
@@ -89,7 +94,7 @@ def rim_coefficients(terms, x0):
     n1 = len(terms)
     h1 = [mpmath.mpf(0)] * n1
     base = -4 * mpmath.mpmathify(x0)
-    for j, (_, b) in enumerate(terms):
+    for j, (_, b, _) in enumerate(terms):
         q = p0 - mpmath.mpf(j) / 2
         lead = b * base ** q
         for r in range(n1 - j):         # (1 - eps)^q = sum_r binomial(q, r) (-eps)^r
@@ -188,8 +193,21 @@ def _values(h0, h1, ws, dps, orders, post):
     return table, singular
 
 
+def shifted_rim_coefficients(terms, x0) -> list:
+    """For each term whose coefficient carries an uncertainty, the rim coefficients with that
+    coefficient moved by it (:func:`rim_coefficients`); ``[]`` when every term is exact."""
+    terms = check_strong_terms(terms)
+    out = []
+    for j, (q, b, u) in enumerate(terms):
+        if u:
+            moved = list(terms)
+            moved[j] = (q, b + u, 0)
+            out.append(rim_coefficients(moved, x0)[1])
+    return out
+
+
 def twopoint_evaluate(h0: Sequence, h1: Sequence, ws: Sequence, dps: int, *, n_orders: int = 7,
-                      post: Optional[Callable] = None, safety=4):
+                      post: Optional[Callable] = None, safety=4, h1_moved: Sequence = ()):
     """Two-point values with bands at the disk points ``ws``.
 
     ``h0``: coefficients of ``H`` at ``w = 0``; ``h1``: its first coefficients in ``eps = 1 - w``
@@ -197,7 +215,8 @@ def twopoint_evaluate(h0: Sequence, h1: Sequence, ws: Sequence, dps: int, *, n_o
     ``j``. Candidates: the weak-coupling term counts of
     :func:`~resum.estimators.resum_band.candidate_orders`, each with every term at ``w = 1``; the
     band of each point is widened to cover the median change when the last term at ``w = 1`` is
-    left out. Returns (outcomes, diagnostics)."""
+    left out, and by the sum of the median changes when each uncertain term is moved by its
+    uncertainty (``h1_moved``: :func:`shifted_rim_coefficients`). Returns (outcomes, diagnostics)."""
     post = post or (lambda j, v: v)
     orders = [o for o in candidate_orders(len(h0), n_orders) if o[0] >= 2]
     ns = [o[0] for o in orders]
@@ -205,6 +224,7 @@ def twopoint_evaluate(h0: Sequence, h1: Sequence, ws: Sequence, dps: int, *, n_o
     outs = outcomes_from_table(table, ns, safety=safety)
     # the top approximants again without the last term given (check_strong_terms: at least one)
     fewer, _ = _values(h0, h1[:-1], ws, dps, orders[:4], post)
+    moved = [_values(h0, hm, ws, dps, orders[:4], post)[0] for hm in h1_moved]
     for j, o in enumerate(outs):
         o.info["orders"] = [f"[{n}+{len(h1)}]" for n in ns]
         o.info["values"] = [None if v is None else mpmath.nstr(v, 45) for v in table[j]]
@@ -217,6 +237,16 @@ def twopoint_evaluate(h0: Sequence, h1: Sequence, ws: Sequence, dps: int, *, n_o
         o.info["strong_truncation"] = mpmath.nstr(dv, 5)
         if dv > o.re.error:
             re = Estimate(o.re.value, min(o.re.lower, o.re.value - dv), max(o.re.upper, o.re.value + dv))
+            o = outs[j] = PointOutcome(re, o.im, o.ok, o.reason, o.info)
+        if moved:
+            # the terms' own uncertainty: each moved by it, the changes added
+            du = mpmath.mpf(0)
+            for tab in moved:
+                alt = sorted((v for v in tab[j] if v is not None), key=lambda v: mpmath.re(v))
+                if alt:
+                    du += abs(mpmath.re(alt[len(alt) // 2]) - o.re.value)
+            o.info["strong_terms_uncertainty"] = mpmath.nstr(du, 5)
+            re = Estimate(o.re.value, o.re.lower - du, o.re.upper + du)
             outs[j] = PointOutcome(re, o.im, o.ok, o.reason, o.info)
     return outs, {"n_singular_systems": singular, "n_strong_terms": len(h1),
                   "orders": [list(o[:1]) for o in orders]}

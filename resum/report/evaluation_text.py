@@ -302,6 +302,11 @@ def _variant_notes(result):
         ("two-point", lambda pts: "the approximants match the series at w = 0 and the strong-coupling terms "
          "given at w = 1 (the image of infinity); chosen because their band was narrower. Their band also "
          "covers the change when the last term given is left out (" + ", ".join(
-             str(p.diagnostics.get("strong_truncation")) for p in pts) + "); it trusts the terms given, and "
+             str(p.diagnostics.get("strong_truncation")) for p in pts) + ")" + (
+             "" if not any(p.diagnostics.get("strong_terms_uncertainty") for p in pts) else
+             " and the change when each term written as a decimal moves by half a unit in its last digit ("
+             + ", ".join(str(p.diagnostics.get("strong_terms_uncertainty")) for p in pts) + ")")
+         + "; the approximants that do not use the terms widen it only where they disagree by more than "
+         "twice their own band. It trusts exact terms, and "
          "cannot see exponentially small corrections at strong coupling beyond what the series carries."),
     ]

@@ -109,3 +109,35 @@ def test_family_spec_takes_strong_terms(tmp_path, capsys):
         assert row["variant"] == "two-point"
         with workdps(50):
             assert mpf(row["lo"]) <= _truth(20) <= mpf(row["hi"])
+
+
+def test_decimal_strong_terms_carry_their_digits():
+    """Terms written as decimals carry the digits they show (half a unit in the last one): 4/pi
+    and -2 log2/pi^2 to 6 digits move the value at g = 20 by about 1e-6 relative, and the band
+    (the same terms moved by that uncertainty) covers it; to 12 digits the band is narrower."""
+    s = _logcosh_series()
+    t = _truth(20)
+    six = evaluate(s, ["20"], Context(dps=30), strong_terms={"1": "1.27324", "0": "-0.140461"}).points[0]
+    twelve = evaluate(s, ["20"], Context(dps=30),
+                      strong_terms={"1": "1.27323954474", "0": "-0.140460958400"}).points[0]
+    for p in (six, twelve):
+        assert p.diagnostics["variant"] == "two-point"
+        assert p.value.contains(t)
+        assert float(p.diagnostics["strong_terms_uncertainty"]) > 0
+    u6, u12 = (float(p.diagnostics["strong_terms_uncertainty"]) for p in (six, twelve))
+    assert u6 > 1e4 * u12 and six.value.error >= u6 and six.value.error > 5 * twelve.value.error
+    assert _digits(six.value, t) < 8              # the terms' digits, not the series', limit it
+
+
+def test_strong_terms_at_odds_with_the_series_are_flagged():
+    """A leading coefficient 1e-4 too large (4/pi * 1.0001, three terms, 60 terms of the series)
+    puts the two-point value at g = sqrt(6250) (x = 6250) 3.7 half-widths outside the band of
+    the approximants that do not use it: the result says so, and the band kept holds the truth.
+    (At g = 20 the wrong term scatters the two-point approximants instead, and their band loses
+    to the others'.)"""
+    s = _logcosh_series()
+    r = evaluate(s, ["sqrt(6250)"], Context(dps=30),
+                 strong_terms={"1": "4/pi*10001/10000", "0": "-2*log(2)/pi^2", "-1": "0"})
+    with workdps(50):
+        assert r.points[0].value.contains(_truth(mpmath.sqrt(6250)))
+    assert any("Check the terms given" in w for w in r.warnings)
