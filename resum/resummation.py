@@ -589,7 +589,10 @@ def _strong_in_x(terms, cpl, dps):
     with mpmath.workdps(dps):
         for P, b in (terms.items() if isinstance(terms, dict) else terms):
             P = parse_points([P], dps)[0]
-            u = _coefficient_uncertainty(b, dps)
+            if isinstance(b, Estimate):          # a coefficient with its uncertainty
+                u, b = b.error, b.value
+            else:
+                u = _coefficient_uncertainty(b, dps)
             b = parse_points([b], dps)[0]
             if cpl is None:
                 out.append((P, b, u))
@@ -1427,6 +1430,9 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
         in ``g`` for ``x = g^2`` (by 1/2 in ``x``). With a conformal plan whose cut runs along the
         negative axis, two-point approximants match the series at 0 and these terms at infinity,
         as a variant chosen per point by its band (:mod:`resum.estimators.resum_twopoint`).
+        A coefficient given as text with a decimal carries the digits it shows, a float its
+        ``repr`` digits, an :class:`~resum.results.Estimate` its band; their uncertainty widens
+        the band. Integers, fractions, exact expressions and mpf values are taken as exact.
     borel_singularities : sequence, optional
         Singular points of the Borel transform (numbers; the instanton action ``A`` and its
         kin) to map the Borel plane from instead of the one the analysis finds; one on the

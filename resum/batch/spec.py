@@ -634,7 +634,8 @@ class _Validator:
                                    f"unknown option {ok!r} of task {k!r}; allowed: "
                                    f"{', '.join(sorted(TASKS[k].options)) or 'none'}")
             try:
-                tasks[k] = validate_task(k, opts, dps, src_name, source)
+                tasks[k] = validate_task(k, opts, dps, src_name, source,
+                                         names={a.name: a.values[0] for a in axes})
             except InputError as exc:
                 raise exc.at(self.where(f"tasks.{k}")) from None
 

@@ -130,8 +130,9 @@ def _check_kind(key, val, kind, dps):
     raise AssertionError(kind)
 
 
-def validate_task(name: str, opts: dict, dps: int, source_name: str, source) -> dict:
-    """Check a task's options; returns them converted (numbers parsed)."""
+def validate_task(name: str, opts: dict, dps: int, source_name: str, source, names=None) -> dict:
+    """Check a task's options; returns them converted (numbers parsed). ``names``: the family's
+    parameters at one point (their first values), which expressions in ``strong_terms`` may use."""
     td = TASKS[name]
     out = {}
     for k, kind in td.options.items():
@@ -141,7 +142,9 @@ def validate_task(name: str, opts: dict, dps: int, source_name: str, source) -> 
         if k not in out:
             raise InputError(f"task {name!r} needs option {k!r}")
     check = _CHECKS.get(name)
-    if check:
+    if check is _check_evaluate:
+        check(out, source_name, source, names=names)
+    elif check:
         check(out, source_name, source)
     if out.get("goal_digits") is not None and float(out["goal_digits"]) > dps:
         # a band is never narrower than the digits the study works at: the goal could not be met
@@ -335,15 +338,29 @@ def _points_arg(vals):
     return list(vals)
 
 
+def _number_params(params) -> dict:
+    """The parameters of a point that are numbers (names an expression may use)."""
+    out = {}
+    for k, v in (params or {}).items():
+        if isinstance(v, bool):
+            continue
+        if isinstance(v, (int, Fraction, mpmath.mpf)):
+            out[k] = v
+        elif isinstance(v, float):
+            out[k] = mpmath.mpf(repr(v))
+    return out
+
+
 def _toml_text(v):
     """A TOML value for the expression reader: a float as the digits it was written with."""
     return repr(v) if isinstance(v, float) else v
 
 
-def _known(opts, dps: int = 30) -> dict:
+def _known(opts, dps: int = 30, names=None) -> dict:
     """The keywords of :func:`resum.resummation.evaluate` from a task's ``singularities`` and
-    ``borel_singularities`` (lists of numbers or expression strings, complex allowed) and
-    ``borel_b``; InputError naming the key."""
+    ``borel_singularities`` (lists of numbers or expression strings, complex allowed),
+    ``borel_b`` and ``strong_terms`` (whose expressions may name the family's parameters:
+    ``names``, the point's values); InputError naming the key."""
     from ..resummation import borel_parameter, singular_points
     text = _toml_text
     kw = {}
@@ -360,16 +377,20 @@ def _known(opts, dps: int = 30) -> dict:
         except InputError as exc:
             raise InputError(exc.bare, where="borel_b") from None
     if "strong_terms" in opts:
-        kw["strong_terms"] = _strong_table(opts["strong_terms"], dps)
+        kw["strong_terms"] = _strong_table(opts["strong_terms"], dps, names)
     return kw
 
 
-def _strong_table(table, dps: int) -> dict:
+def _strong_table(table, dps: int, names=None) -> dict:
     """A task's ``strong_terms`` table, ``{"g^1" = 2, "g^0" = "-3*log(2)/(2*pi)"}`` (labels: a
     power of the coupling, P a whole number or a fraction), as ``{power: value}`` for
-    :func:`resum.resummation.evaluate`; the powers' spacing is checked when the series is known."""
+    :func:`resum.resummation.evaluate`; the powers' spacing is checked when the series is known.
+    A value may name the family's parameters (``"8*angle/(pi*sin(2*angle))"``), bound to the
+    point's values in ``names``: it is then evaluated here, and a decimal in it makes the value an
+    Estimate with half a unit in its last digit."""
     from ..estimators.strong_coupling import label_power, power_key
     from ..resummation import parse_points
+    from ..series.expr import evaluate_expression
     if not isinstance(table, dict) or not table:
         raise InputError("strong_terms: expected a table such as {\"g^1\" = 2, \"g^0\" = \"-3*log(2)/(2*pi)\"}")
     out = {}
@@ -381,6 +402,17 @@ def _strong_table(table, dps: int) -> dict:
         if isinstance(v, bool) or not isinstance(v, (int, float, str)):
             raise InputError(f"strong_terms.{label}: expected a number or an expression string")
         try:
+            if isinstance(v, str) and names:
+                with mpmath.workdps(dps):
+                    e = evaluate_expression(v, dps, names=names)
+                    val = e.value if isinstance(e.value, (int, Fraction)) else mpmath.mpmathify(e.value)
+                    if isinstance(val, mpmath.mpc):
+                        raise InputError("a strong-coupling coefficient must be real")
+                    if e.digits is not None:
+                        u = abs(val) * mpmath.mpf(10) ** (1 - e.digits) / 2
+                        val = Estimate(mpmath.mpf(val), val - u, val + u)
+                out[str(lp[0])] = val
+                continue
             parse_points([_toml_text(v)], dps)
         except InputError as exc:
             raise InputError(exc.bare, where=f"strong_terms.{label}") from None
@@ -391,7 +423,7 @@ def _strong_table(table, dps: int) -> dict:
 def _run_evaluate(series, params, ctx, opts, source, rebuild=None):
     from ..resummation import evaluate, evaluate_with_goal
     kw = {"method": opts.get("method", "auto"), "verify": opts.get("verify", True)}
-    kw.update(_known(opts, ctx.work_dps))
+    kw.update(_known(opts, ctx.work_dps, names=_number_params(params)))
     if opts.get("goal_digits") is None or rebuild is None:
         return _result_json(evaluate(series, _points_arg(opts["at"]), ctx=ctx, **kw))
     res, search, _ = evaluate_with_goal(series, _points_arg(opts["at"]), float(opts["goal_digits"]),
@@ -582,9 +614,9 @@ def _check_truth_task(opts, source_name, source):
         raise InputError("dps out of range; use 5..1000")
 
 
-def _check_evaluate(opts, source_name, source):
+def _check_evaluate(opts, source_name, source, names=None):
     _check_module("resummation", "evaluate")(opts, source_name, source)
-    _known(opts)
+    _known(opts, names=names)
     if opts.get("goal_digits") is not None:
         g = opts["goal_digits"]
         if not 0 < float(g) <= 1000:

@@ -175,9 +175,10 @@ def _sig_digits(lit: str) -> int:
 
 
 class _Parser:
-    def __init__(self, text: str, dps: int):
+    def __init__(self, text: str, dps: int, names=None):
         self.text = text
         self.dps = dps
+        self.names = names or {}
         self.tokens = []
         pos = 0
         while pos < len(text):
@@ -298,7 +299,9 @@ class _Parser:
                 self.depth -= 1
                 self.take(")")
                 return self._call(text, arg)
-            valid = ", ".join(sorted(_CONSTANTS) + [f + "()" for f in sorted(_FUNCTIONS)])
+            if text in self.names:
+                return self.names[text]
+            valid = ", ".join(sorted(self.names) + sorted(_CONSTANTS) + [f + "()" for f in sorted(_FUNCTIONS)])
             raise InputError(f"unknown name {_show(text)} in {_show(self.text)}; known: {valid}")
         if text == "(":
             self._enter()
@@ -365,8 +368,12 @@ def _mp(v):
     return mpmath.mpmathify(v)
 
 
-def evaluate_expression(text: str, dps: int = 30) -> ExprValue:
+def evaluate_expression(text: str, dps: int = 30, names=None) -> ExprValue:
     """Evaluate a coefficient expression at ``dps`` working digits.
+
+    ``names`` binds further names to numbers (a family's parameters at one point: an int or
+    Fraction stays exact, anything else is a number at the working precision); the built-in
+    constants and functions keep their meaning.
 
     Raises :class:`resum.errors.InputError` with a one-line reason for
     anything it refuses (unknown names, bad syntax, over-long or over-deep
@@ -381,7 +388,10 @@ def evaluate_expression(text: str, dps: int = 30) -> ExprValue:
                   default=0)
     work = max(dps, longest) + 10     # arithmetic on long literals keeps all their digits
     with workdps(work):
-        p = _Parser(text, work)
+        bound = {}
+        for k, v in (names or {}).items():
+            bound[k] = v if isinstance(v, (int, Fraction)) and not isinstance(v, bool) else _mp(v)
+        p = _Parser(text, work, bound)
         try:
             v = p.parse()
         except (ZeroDivisionError, OverflowError, ValueError) as exc:
@@ -391,6 +401,8 @@ def evaluate_expression(text: str, dps: int = 30) -> ExprValue:
         if isinstance(v, Fraction) and v.denominator == 1:
             v = int(v)
         exact = isinstance(v, (int, Fraction)) and p.digits is None
+        # (a name bound to a number at the working precision makes the value inexact but carries
+        # no digits of its own: the parameter is taken as the point it names)
         if not exact:
             v = _mp(v)
             if isinstance(v, mpmath.mpc) and v.imag == 0:

@@ -141,3 +141,35 @@ def test_strong_terms_at_odds_with_the_series_are_flagged():
     with workdps(50):
         assert r.points[0].value.contains(_truth(mpmath.sqrt(6250)))
     assert any("Check the terms given" in w for w in r.warnings)
+
+
+def test_family_strong_terms_may_name_the_parameters(tmp_path, capsys):
+    """A spec's strong_terms may be expressions in the family's parameters, evaluated per point:
+    over the angle a in {0, pi/4} of the kernel family (60 loops), terms that equal the closed
+    form's (4/pi, -2 log2/pi^2, 0) at a = 0 and the cusp's published 2, -3 ln2/(2 pi), -K/(8 pi^2)
+    at a = pi/4 (Frolov and Tseytlin, hep-th/0204226; Roiban and Tseytlin, arXiv:0709.0681),
+    written as lines in a; each point's value at g = 20 is then two-point and holds its truth
+    (a = 0: the closed form; a = pi/4: the source's finite-coupling solver, an independent
+    computation). A misspelt name is refused before any work, the parameters named."""
+    from resum.sources.bes import finite_coupling
+    spec = tmp_path / "s.toml"
+    body = ('[study]\nname = "t"\nsource = "bes"\ndps = 30\n[fixed]\nloops = 60\ndps = 60\n'
+            '[axes]\nangle = { values = [0, "pi/4"] }\n[tasks.evaluate]\nat = [20]\nverify = false\n')
+    spec.write_text(body + 'strong_terms = { "g^1" = "4/pi + (2 - 4/pi)*4*angel/pi" }\n')
+    assert main(["scan", str(spec), "-o", str(tmp_path / "bad"), "--jobs", "1"]) == 2
+    err = capsys.readouterr().err
+    assert "angel" in err and "angle" in err
+    spec.write_text(body + 'strong_terms = { "g^1" = "4/pi + (2 - 4/pi)*4*angle/pi", '
+                           '"g^0" = "-2*log(2)/pi^2 + (2*log(2)/pi^2 - 3*log(2)/(2*pi))*4*angle/pi", '
+                           '"g^-1" = "-catalan/(8*pi^2)*4*angle/pi" }\n')
+    assert main(["scan", str(spec), "-o", str(tmp_path / "out"), "--jobs", "1"]) == 0, capsys.readouterr().err
+    recs = [json.loads(p.read_text()) for p in sorted((tmp_path / "out" / "points").glob("*.json"))]
+    assert len(recs) == 2
+    with workdps(40):
+        truths = {"0": _truth(20), "pi/4": finite_coupling(20, "pi/4", digits=20).value.value}
+    for rec in recs:
+        a = "0" if mpf(rec["params"]["angle"]) == 0 else "pi/4"
+        row = rec["tasks"]["evaluate"]["values"][0]
+        assert row["variant"] == "two-point"
+        with workdps(40):
+            assert mpf(row["lo"]) <= truths[a] <= mpf(row["hi"]), (a, row)

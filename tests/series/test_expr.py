@@ -181,3 +181,18 @@ def test_foreign_number_forms_inside_expressions():
 def test_foreign_number_forms_malformed(bad):
     with pytest.raises(InputError):
         ev(bad)
+
+
+def test_names_bind_parameters():
+    # a family's parameter in an expression: an exact value stays exact; a number is taken as the
+    # point it names (no digits of its own); built-in names keep their meaning; an unknown name
+    # is refused with the bound ones listed. Reference: mpmath.
+    assert ev("2*k + 1", names={"k": 3}).value == 7 and ev("2*k + 1", names={"k": 3}).exact
+    with workdps(60):
+        a = mpmath.pi / 8
+        v = ev("8*a/(pi*sin(2*a))", dps=50, names={"a": a})
+        assert not v.exact and v.digits is None
+        assert _agree(v.value, mpmath.sqrt(2), 45)
+    assert ev("pi", names={"pi": 3}).value != 3
+    with pytest.raises(InputError, match="known: angle"):
+        ev("angel + 1", names={"angle": 1})
