@@ -265,6 +265,24 @@ def format_value_error(value, lower, upper, max_digits: int = 60) -> str:
 # Estimate
 # ----------------------------------------------------------------------------
 
+_VALUE_ERROR = re.compile(r"\s*([+-]?)(\d+)(?:\.(\d*))?\((\d+)\)(?:[eE]([+-]?\d+))?\s*", re.ASCII)
+
+
+def parse_value_error(text: str, dps: int = 30):
+    """The band written as value(error), the notation :class:`Estimate` prints (``2.000(10)``:
+    2.000 +- 0.010; ``-1.2345(10)e-7``), as an Estimate; None when ``text`` is not in it."""
+    m = _VALUE_ERROR.fullmatch(text) if isinstance(text, str) else None
+    if m is None:
+        return None
+    sign, whole, frac, err, exp = m.groups()
+    frac = frac or ""
+    e10 = int(exp or 0) - len(frac)
+    with mpmath.workdps(max(dps, len(whole) + len(frac) + 10)):
+        v = mpmath.mpf(int(sign + whole + frac)) * mpmath.mpf(10) ** e10
+        u = mpmath.mpf(int(err)) * mpmath.mpf(10) ** e10
+        return Estimate(v, v - u, v + u)
+
+
 @dataclass(frozen=True)
 class Estimate:
     """A real value with a band ``lower <= value <= upper``.

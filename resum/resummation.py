@@ -60,6 +60,7 @@ from __future__ import annotations
 import math
 import time
 from dataclasses import dataclass, field, replace
+from fractions import Fraction
 from typing import Any, Optional
 
 import mpmath
@@ -589,11 +590,9 @@ def _strong_in_x(terms, cpl, dps):
     with mpmath.workdps(dps):
         for P, b in (terms.items() if isinstance(terms, dict) else terms):
             P = parse_points([P], dps)[0]
-            if isinstance(b, Estimate):          # a coefficient with its uncertainty
-                u, b = b.error, b.value
-            else:
-                u = _coefficient_uncertainty(b, dps)
-            b = parse_points([b], dps)[0]
+            b = strong_coefficient(b, dps)
+            u = b.error if isinstance(b, Estimate) else mpmath.mpf(0)
+            b = _to_mp(b.value if isinstance(b, Estimate) else b)
             if cpl is None:
                 out.append((P, b, u))
             else:               # g^P = (x/scale)^(P/k)
@@ -603,19 +602,43 @@ def _strong_in_x(terms, cpl, dps):
         return check_strong_terms(out)
 
 
-def _coefficient_uncertainty(b, dps):
-    """Half a unit in the last digit of a coefficient written with a decimal (text, or a float:
-    ``repr`` digits), relative to its size; 0 for an exact one (integer, fraction, expression
-    without decimals, mpf)."""
-    if isinstance(b, float):
-        b = repr(b)
-    if not isinstance(b, str):
-        return mpmath.mpf(0)
+def strong_coefficient(b, dps: int, names=None):
+    """A known strong-coupling coefficient as a number (exact: an integer, fraction, expression
+    without decimals, mpf) or an :class:`Estimate` (uncertain): text in the value(error) notation
+    resum prints (``2.000(10)``, ``-1.2345(10)e-7``) is that band; an expression with a decimal
+    carries half a unit in the last of the digits its least precise decimal shows, relative to
+    its size; a float is a double (15 digits). ``names`` binds a family's parameters. Real values only;
+    InputError otherwise."""
+    from .results import parse_value_error
     from .series.expr import evaluate_expression
-    v = evaluate_expression(b.strip(), dps)
-    if v.exact or v.digits is None:
-        return mpmath.mpf(0)
-    return abs(_to_mp(v.value)) * mpmath.mpf(10) ** (1 - v.digits) / 2
+    if isinstance(b, Estimate):
+        return b
+    if isinstance(b, bool):
+        raise InputError("a strong-coupling coefficient must be a number, not true/false")
+    if isinstance(b, float):
+        # a double: 15 significant digits, as a JSON number among a file's coefficients
+        if not math.isfinite(b):
+            raise InputError(f"a strong-coupling coefficient must be finite, got {b!r}")
+        v = mpmath.mpf(b)
+        u = abs(v) * mpmath.mpf(10) ** -15 / 2
+        return Estimate(v, v - u, v + u) if u else v
+    if not isinstance(b, str):
+        v = mpmath.mpmathify(b) if not isinstance(b, (int, Fraction)) else b
+    else:
+        band = parse_value_error(b, dps)
+        if band is not None:
+            return band
+        e = evaluate_expression(b.strip(), dps, names=names)
+        v = e.value
+        if e.digits is not None and not e.exact:
+            v = _to_mp(v)
+            if isinstance(v, mpmath.mpc):
+                raise InputError(f"a strong-coupling coefficient must be real, got {b.strip()!r}")
+            u = abs(v) * mpmath.mpf(10) ** (1 - e.digits) / 2
+            return Estimate(v, v - u, v + u)
+    if isinstance(v, mpmath.mpc):
+        raise InputError(f"a strong-coupling coefficient must be real, got {b!r}")
+    return v
 
 
 def _on_laplace_ray(t) -> bool:
@@ -1430,9 +1453,9 @@ def evaluate(series: Series, points, ctx: Optional[Context] = None, method: str 
         in ``g`` for ``x = g^2`` (by 1/2 in ``x``). With a conformal plan whose cut runs along the
         negative axis, two-point approximants match the series at 0 and these terms at infinity,
         as a variant chosen per point by its band (:mod:`resum.estimators.resum_twopoint`).
-        A coefficient given as text with a decimal carries the digits it shows, a float its
-        ``repr`` digits, an :class:`~resum.results.Estimate` its band; their uncertainty widens
-        the band. Integers, fractions, exact expressions and mpf values are taken as exact.
+        A coefficient given as text with a decimal carries the digits it shows, text such as
+        ``"2.000(10)"`` that band, a float 15 digits, an :class:`~resum.results.Estimate` its
+        band; their uncertainty widens the band (:func:`strong_coefficient`). Integers, fractions, exact expressions and mpf values are taken as exact.
     borel_singularities : sequence, optional
         Singular points of the Borel transform (numbers; the instanton action ``A`` and its
         kin) to map the Borel plane from instead of the one the analysis finds; one on the

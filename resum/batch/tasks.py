@@ -386,11 +386,11 @@ def _strong_table(table, dps: int, names=None) -> dict:
     power of the coupling, P a whole number or a fraction), as ``{power: value}`` for
     :func:`resum.resummation.evaluate`; the powers' spacing is checked when the series is known.
     A value may name the family's parameters (``"8*angle/(pi*sin(2*angle))"``), bound to the
-    point's values in ``names``: it is then evaluated here, and a decimal in it makes the value an
-    Estimate with half a unit in its last digit."""
+    point's values in ``names``: it is then evaluated here
+    (:func:`resum.resummation.strong_coefficient`: value(error) text or a decimal make it an
+    Estimate)."""
     from ..estimators.strong_coupling import label_power, power_key
-    from ..resummation import parse_points
-    from ..series.expr import evaluate_expression
+    from ..resummation import strong_coefficient
     if not isinstance(table, dict) or not table:
         raise InputError("strong_terms: expected a table such as {\"g^1\" = 2, \"g^0\" = \"-3*log(2)/(2*pi)\"}")
     out = {}
@@ -402,21 +402,12 @@ def _strong_table(table, dps: int, names=None) -> dict:
         if isinstance(v, bool) or not isinstance(v, (int, float, str)):
             raise InputError(f"strong_terms.{label}: expected a number or an expression string")
         try:
-            if isinstance(v, str) and names:
-                with mpmath.workdps(dps):
-                    e = evaluate_expression(v, dps, names=names)
-                    val = e.value if isinstance(e.value, (int, Fraction)) else mpmath.mpmathify(e.value)
-                    if isinstance(val, mpmath.mpc):
-                        raise InputError("a strong-coupling coefficient must be real")
-                    if e.digits is not None:
-                        u = abs(val) * mpmath.mpf(10) ** (1 - e.digits) / 2
-                        val = Estimate(mpmath.mpf(val), val - u, val + u)
-                out[str(lp[0])] = val
-                continue
-            parse_points([_toml_text(v)], dps)
+            with mpmath.workdps(dps):
+                val = strong_coefficient(_toml_text(v), dps, names=names)
         except InputError as exc:
             raise InputError(exc.bare, where=f"strong_terms.{label}") from None
-        out[str(lp[0])] = _toml_text(v)
+        # with parameters bound, the value of this point; without, the text (checked) as written
+        out[str(lp[0])] = val if names else _toml_text(v)
     return out
 
 

@@ -252,14 +252,14 @@ def run(args) -> int:
 def _strong_terms(items, series, ctx) -> dict:
     """``--strong-term`` items as ``{power: value}`` (texts), each label and value checked, and
     the set checked (consecutive powers from the leading one) before any work."""
-    from ..resummation import _strong_in_x, parse_points
+    from ..resummation import _strong_in_x, strong_coefficient
     terms = {}
     for item in items:
         label, power, value = power_term(item, series, "--strong-term")
         if power in terms:
             raise InputError(f"the power {label} is given twice; give each term once", where="--strong-term")
         try:
-            parse_points([value], ctx.work_dps)
+            strong_coefficient(value, ctx.work_dps)
         except InputError as exc:
             raise InputError(exc.bare, where=f"--strong-term {label}") from None
         terms[power] = value

@@ -173,3 +173,28 @@ def test_family_strong_terms_may_name_the_parameters(tmp_path, capsys):
         assert row["variant"] == "two-point"
         with workdps(40):
             assert mpf(row["lo"]) <= truths[a] <= mpf(row["hi"]), (a, row)
+
+
+def test_strong_terms_as_value_error(tmp_path, capsys):
+    """A term in the value(error) notation resum prints (what `resum strong` reports, e.g. a
+    fitted coefficient) is that band: 4/pi and -2 log2/pi^2 given as 1.273240(1) and
+    -0.1404610(1) on the command line give a two-point value at g = 20 whose band holds the
+    closed form and is at least the change the terms' errors make. (With errors of 5e-4 the
+    two-point band is wider than the series' own, and the direct variant is kept.)"""
+    from resum.results import Estimate, parse_value_error
+    f = write_series(_logcosh_series(), tmp_path / "lc.json")
+    assert main(["evaluate", str(f), "--at", "20", "--json", "--strong-term", "g^1=1.273240(1)",
+                 "--strong-term", "g^0=-0.1404610(1)"]) == 0
+    row = json.loads(capsys.readouterr().out)["values"][0]
+    assert row["variant"] == "two-point"
+    with workdps(50):
+        assert mpf(row["lo"]) <= _truth(20) <= mpf(row["hi"])
+        # the terms' errors alone move F(20) = (4/pi) 20 - ... by about 20 * 1e-6 = 2e-5
+        assert mpf(row["hi"]) - mpf(row["lo"]) > mpf("2e-5")
+    # the notation read back is the band printed (common practice, no source)
+    with workdps(30):
+        e = Estimate(mpf("-1.23456e-7"), mpf("-1.23466e-7"), mpf("-1.23446e-7"))
+        back = parse_value_error(str(e))
+        assert back is not None and abs(back.value - e.value) < mpf("1e-20")
+        assert abs(back.error - e.error) <= mpf("1e-12")
+    assert parse_value_error("1.5") is None and parse_value_error("4/pi") is None
