@@ -58,6 +58,7 @@ from .context import DEFAULT, Context, checked_context
 from .errors import InputError, check_flag
 from .estimators import METHODS, get_method, validate_methods  # noqa: F401  (METHODS re-exported)
 from .estimators._common import MIN_TERMS, classify_kind, prepare
+from .estimators.cut_scan import CutPoint
 from .series.core import Series
 from .results import (JSON_BAND_NOTE, Estimate, MethodResult, Provenance, Singularity, Status, _jsonable,
                       band_digits, point_text, sig_text)
@@ -121,6 +122,7 @@ class AnalysisResult:
     diagnostics: dict = field(default_factory=dict)
     provenance: Optional[Provenance] = None
     natural_boundary: Optional[Estimate] = None
+    beyond: tuple = ()
 
     def to_dict(self) -> dict:
         est = lambda e: None if e is None else e.to_dict()  # noqa: E731
@@ -131,7 +133,8 @@ class AnalysisResult:
                 "methods": {k: v.to_dict() for k, v in self.methods.items()},
                 "warnings": list(self.warnings), "diagnostics": _jsonable(self.diagnostics),
                 "provenance": None if self.provenance is None else self.provenance.to_dict(),
-                "natural_boundary": est(self.natural_boundary)}
+                "natural_boundary": est(self.natural_boundary),
+                "beyond": [p.to_dict() for p in self.beyond]}
 
     @classmethod
     def from_dict(cls, d: dict) -> "AnalysisResult":
@@ -142,7 +145,7 @@ class AnalysisResult:
                    {k: MethodResult.from_dict(v) for k, v in d.get("methods", {}).items()},
                    tuple(d.get("warnings", [])), dict(d.get("diagnostics", {})),
                    None if d.get("provenance") is None else Provenance.from_dict(d["provenance"]),
-                   est("natural_boundary"))
+                   est("natural_boundary"), tuple(CutPoint.from_dict(p) for p in d.get("beyond", [])))
 
     def contract_dict(self) -> dict:
         """The stable JSON contract: radius, singularities, warnings (plus extra keys).
@@ -197,6 +200,8 @@ class AnalysisResult:
               if (m.diagnostics or {}).get("exact_equation") and m.diagnostics.get("equation")]
         if eq:
             out["equation"] = str(eq[0])
+        if self.beyond:
+            out["beyond"] = [p.to_dict() for p in self.beyond]
         if self.natural_boundary is not None:
             nb = self.natural_boundary.to_dict()
             out["natural_boundary"] = {"radius": nb, "radius_text": str(Estimate.from_dict(nb)),
@@ -1028,6 +1033,9 @@ def analyze(series, ctx: Optional[Context] = None, methods=None, verify: bool = 
     prep = prepare(series, ctx)          # input errors surface here
     with ctx.working():
         result = _analyze(series, ctx, names, verify, prep, progress)
+        beyond = _beyond(series, ctx, result, progress)
+        if beyond:
+            result = replace(result, beyond=tuple(beyond))
     if series.digits is not None and series.digits < ctx.dps:
         # the command line refuses this (--dps above the digits the file carries); from Python the
         # analysis runs with its noise floors at the series' digits, and says so
@@ -1038,6 +1046,42 @@ def analyze(series, ctx: Optional[Context] = None, methods=None, verify: bool = 
                                            "Series(..., digits=N) if they are known better)",)
                          + tuple(result.warnings))
     return result
+
+
+#: the scan of the cut beyond the nearest singularity needs at least this many terms
+BEYOND_MIN_TERMS = 30
+
+
+def _beyond(series, ctx, result, progress=None) -> list:
+    """Singular points further along the cut of the nearest singularity
+    (:mod:`resum.estimators.cut_scan`), when that singularity is real and every one reported lies
+    on its ray, the series real and long enough; ``[]`` otherwise (and when the scan fails)."""
+    from .estimators.cut_scan import scan_cut
+    if result.growth != "finite radius" or not result.singularities or result.natural_boundary is not None:
+        return []
+    c = list(series.coefficients)
+    if series.start != 0 or len(c) < BEYOND_MIN_TERMS:
+        return []
+    if any(isinstance(v, mpmath.mpc) and mpmath.im(v) != 0 for v in c):
+        return []
+    s0 = result.singularities[0]
+    x0 = mpmath.re(mpmath.mpmathify(s0.location))
+    if x0 == 0 or abs(mpmath.im(mpmath.mpmathify(s0.location))) > 1e-8 * abs(x0):
+        return []
+    for s in result.singularities:
+        z = mpmath.mpmathify(s.location)
+        if abs(mpmath.im(z)) > 1e-8 * abs(z) or mpmath.sign(mpmath.re(z)) != mpmath.sign(x0):
+            return []                 # another point off the ray: the map from x0 alone is not valid
+    if progress:
+        progress(f"scanning the cut from {point_text(x0, 8)} for singular points beyond it")
+    try:
+        # (30 digits place the poles and zeros far more finely than any band this scan reports)
+        pts = scan_cut(c, x0, min(ctx.dps, 30), input_digits=series.digits)
+    except (ValueError, ArithmeticError, ZeroDivisionError):
+        return []
+    if progress:
+        progress(f"cut scanned: {len(pts)} point(s) beyond the nearest")
+    return pts
 
 
 def _warn_complex_exponents(sings, results, warnings):

@@ -15,6 +15,7 @@ would cover a point wherever it sat inside its panel is put beside it.
 * :func:`plot_radius` -- radius of convergence (analysis and/or ratio estimate);
 * :func:`plot_band_digits` -- digits supported by the radius band;
 * :func:`plot_singularity_locations` -- real and imaginary parts of the nearest singularities;
+* :func:`plot_beyond` -- the nearest singular point and those further along its cut;
 * :func:`plot_exponents` -- their exponents;
 * :func:`plot_borel` -- distance of the nearest Borel-plane singularity;
 * :func:`plot_borel_exponent` -- the Gamma-function shift b of the large-order growth;
@@ -392,6 +393,41 @@ def plot_exponents(records, x=None, ax=None, n=2):
             return _band(s[k].get("exponent")) if len(s) > k else None
         _draw(ax, _series(records, x, get, "analyze"), f"singularity {k + 1}", "o")
     return _finish(ax, x, "exponent")
+
+
+def _beyond(r):
+    a = _task(r, "analyze")
+    return [p for p in ((a or {}).get("beyond") or []) if isinstance(p, dict)]
+
+
+def _distance(b):
+    """(|v|, lo, hi) of a band on one side of 0."""
+    if b is None:
+        return None
+    v, lo, hi = b
+    if v < 0:
+        return -v, -hi, -lo
+    return b
+
+
+def plot_beyond(records, x=None, ax=None, n=5):
+    """Distance from 0 of the nearest singularity and of the points found further along its cut
+    (:mod:`resum.estimators.cut_scan`) against ``x``, on a log scale; the k-th point beyond is
+    the k-th found at that parameter, so no line joins them."""
+    x = family_x(records, x)
+    ax = _ax(ax)
+
+    def nearest(r):
+        s = _sings(r)
+        return _distance(_sing_part(s[0], "re")) if s and _beyond(r) else None
+    _draw(ax, _series(records, x, nearest, "analyze"), "nearest", "s", lines=False)
+    for k in range(n):
+        def get(r, k=k):
+            b = _beyond(r)
+            return _distance(_band(b[k].get("x"))) if len(b) > k else None
+        _draw(ax, _series(records, x, get), f"beyond {k + 1}", "o", lines=False)
+    ax.set_yscale("log")
+    return _finish(ax, x, "|singular point| on the cut (expansion variable)")
 
 
 def plot_borel_exponent(records, x=None, ax=None):
@@ -778,6 +814,10 @@ def write_family_plots(records, outdir, x=None, title="") -> list:
         plot_exponents(records, x, a2)
         a1.set_xlabel("")
         save(fig, "singularities")
+    if any(_beyond(r) for r in records):
+        fig, ax = plt.subplots(figsize=(6.4, 4.4))
+        plot_beyond(records, x, ax)
+        save(fig, "beyond")
     if _has(records, _get_borel_analysis) or _has(records, _get_borel_ratio):
         if _has(records, _get_borel_exponent):
             fig, (ax, a2) = plt.subplots(2, 1, figsize=(6.4, 6.4), sharex=True)

@@ -120,6 +120,16 @@ def _render(r, title):
             lines.append(f"     {_KIND_TEXT.get(s.kind, s.kind)}, {_theta(s)}")
             if s.note:
                 lines.append(f"     ({s.note})")
+    beyond = getattr(r, "beyond", ())
+    if beyond:
+        x0 = r.singularities[0] if r.singularities else None
+        lines.append("")
+        lines.append(f"further along the cut from {var}_c = {_loc(x0) if x0 is not None else '?'} (read through the "
+                     f"conformal map of that cut: where the Padé approximants of the mapped derivative put a pole, "
+                     f"or start a string of poles and zeros, on the rim; an estimate):")
+        for p in beyond:
+            lines.append(f"  {var} = {p.x}   {p.kind}" + (f" ({p.elements} poles and zeros in its string)"
+                                                         if p.elements > 1 else ""))
     lines.append("")
     lines.append("methods:")
     for name, m in r.methods.items():
