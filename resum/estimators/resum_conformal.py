@@ -222,7 +222,10 @@ def _choose(variants, cover_centres: bool = False):
     variant was not run), the one with the narrowest band (the first on a tie), widened to
     cover the band of every other variant whose band does not overlap it; with
     ``cover_centres``, also to reach the value of every other variant whose band is at most
-    :data:`COVER_CENTRE_RATIO` times wider."""
+    :data:`COVER_CENTRE_RATIO` times wider. A pick that used the strong-coupling terms
+    (:data:`INFORMED`) is widened by the others only where it lies more than
+    :data:`INFORMED_CONFLICT` of their half-widths from them (recorded as
+    ``strong_terms_conflict``, which the caller turns into a warning)."""
     out = []
     for j in range(len(variants[0][1])):
         good = [(n, o[j]) for n, o in variants
