@@ -3,8 +3,17 @@ import os
 os.environ.setdefault("MPLBACKEND", "Agg")
 
 import faulthandler
+import signal
 
 import pytest
+
+# A run started in the background by a shell without job control (`cmd &`) inherits SIGINT
+# ignored, and Python then installs no KeyboardInterrupt handler, in this process or in the
+# `resum` processes the tests start: the tests of Ctrl-C (tests/cli/test_interrupt.py,
+# tests/test_parallel.py) would see no Ctrl-C at all. They test what a terminal delivers, so
+# the run gets the handler an interactive Python has.
+if signal.getsignal(signal.SIGINT) == signal.SIG_IGN:
+    signal.signal(signal.SIGINT, signal.default_int_handler)
 
 
 @pytest.fixture(autouse=True)
