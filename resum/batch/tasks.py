@@ -142,10 +142,8 @@ def validate_task(name: str, opts: dict, dps: int, source_name: str, source, nam
         if k not in out:
             raise InputError(f"task {name!r} needs option {k!r}")
     check = _CHECKS.get(name)
-    if check is _check_evaluate:
+    if check:
         check(out, source_name, source, names=names)
-    elif check:
-        check(out, source_name, source)
     if out.get("goal_digits") is not None and float(out["goal_digits"]) > dps:
         # a band is never narrower than the digits the study works at: the goal could not be met
         raise InputError(f"goal_digits = {float(out['goal_digits']):g} is more than the study's dps = {dps}; "
@@ -554,7 +552,7 @@ def _check_truth(opts, source_name, source):
 
 
 def _check_module(mod, name):
-    def check(opts, source_name, source):
+    def check(opts, source_name, source, names=None):
         import importlib
         try:
             m = importlib.import_module(f"resum.{mod}")
@@ -572,7 +570,7 @@ def _check_module(mod, name):
     return check
 
 
-def _check_strong(opts, source_name, source):
+def _check_strong(opts, source_name, source, names=None):
     _check_module("resummation", "probe_strong_coupling")(opts, source_name, source)
     _known(opts)
     if opts.get("from_truth"):
@@ -599,7 +597,7 @@ def _check_strong(opts, source_name, source):
         raise InputError("couplings: the fit needs at least 4 distinct couplings")
 
 
-def _check_truth_task(opts, source_name, source):
+def _check_truth_task(opts, source_name, source, names=None):
     _check_truth(opts, source_name, source)
     if "dps" in opts and not 5 <= opts["dps"] <= 1000:
         raise InputError("dps out of range; use 5..1000")
@@ -619,7 +617,7 @@ def _check_evaluate(opts, source_name, source, names=None):
         raise InputError("max_terms must be at least 3")
 
 
-def _check_coefficients(opts, source_name, source):
+def _check_coefficients(opts, source_name, source, names=None):
     if opts.get("tail", 8) < 3:
         raise InputError("tail must be at least 3")
     if not 1 <= opts.get("order", 3) <= 8:
