@@ -49,12 +49,20 @@ MAX_EXACT_BITS = 1 << 20   # size of an exact intermediate (about 315 000 decima
 MAX_ARG_MAG = 4096         # |argument| of exp, sin, cos, gamma, zeta below 2^4096 (about 10^1233)
 _SHOW = 60                 # characters of an expression quoted in a message
 
+#: one number literal: mantissa, an optional precision mark (`p: p significant digits; ``a:
+#: a digits after the decimal point; a lone `: a double, 15 digits), an optional exponent
+#: (e, or the d of Fortran double-precision constants, or *^ as computer-algebra output
+#: writes it) and an optional j for an imaginary number; the tokenizer reads numbers with it
+_LITERAL_RE = (r"(?P<mant>\d+\.?\d*|\.\d+)(?P<mark>`{1,2})?(?P<prec>\d+\.?\d*|\.\d+)?"
+               r"(?:(?:[eEdD]|\*\^)(?P<exp>[+-]?\d+))?(?P<imag>[jJ])?")
+_LITERAL = re.compile(_LITERAL_RE, re.ASCII)
+
 _TOKEN = re.compile(r"""
-    (?P<num>(\d+\.?\d*|\.\d+)(`{1,2}(\d+\.?\d*|\.\d+)?)?([eEdD][+-]?\d+|\*\^[+-]?\d+)?[jJ]?)
+    (?P<num>{lit})
   | (?P<name>[A-Za-z_][A-Za-z_0-9]*)
   | (?P<op>\*\*|[-+*/^(),])
   | (?P<ws>\s+)
-""", re.VERBOSE | re.ASCII)
+""".format(lit=_LITERAL_RE), re.VERBOSE | re.ASCII)
 
 _CONSTANTS = {
     "pi": lambda: mpmath.pi,
@@ -134,12 +142,6 @@ def exact_to_text(v) -> str:
     return int_to_decimal(int(v))
 
 
-#: one number literal: mantissa, an optional precision mark (`p: p significant digits; ``a:
-#: a digits after the decimal point; a lone `: a double, 15 digits), an optional exponent
-#: (e, or the d of Fortran double-precision constants, or *^ as computer-algebra output
-#: writes it) and an optional j for an imaginary number
-_LITERAL = re.compile(r"(?P<mant>\d+\.?\d*|\.\d+)(?P<mark>`{1,2})?(?P<prec>\d+\.?\d*|\.\d+)?"
-                      r"(?:(?:[eEdD]|\*\^)(?P<exp>[+-]?\d+))?(?P<imag>[jJ])?", re.ASCII)
 MACHINE_DIGITS = 15        # digits of a number marked with a lone ` (a double)
 
 
