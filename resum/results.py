@@ -265,7 +265,7 @@ def format_value_error(value, lower, upper, max_digits: int = 60) -> str:
 # Estimate
 # ----------------------------------------------------------------------------
 
-_VALUE_ERROR = re.compile(r"\s*([+-]?)(\d+)(?:\.(\d*))?\((\d+)\)(?:[eE]([+-]?\d+))?\s*", re.ASCII)
+_VALUE_ERROR = re.compile(r"\s*([+-]?)(\d*)(?:\.(\d*))?\((\d+)\)(?:[eE]([+-]?\d+))?\s*", re.ASCII)
 
 
 def parse_value_error(text: str, dps: int = 30):
@@ -276,6 +276,8 @@ def parse_value_error(text: str, dps: int = 30):
         return None
     sign, whole, frac, err, exp = m.groups()
     frac = frac or ""
+    if not whole + frac:
+        return None
     e10 = int(exp or 0) - len(frac)
     with mpmath.workdps(max(dps, len(whole) + len(frac) + 10)):
         v = mpmath.mpf(int(sign + whole + frac)) * mpmath.mpf(10) ** e10

@@ -198,3 +198,6 @@ def test_strong_terms_as_value_error(tmp_path, capsys):
         assert back is not None and abs(back.value - e.value) < mpf("1e-20")
         assert abs(back.error - e.error) <= mpf("1e-12")
     assert parse_value_error("1.5") is None and parse_value_error("4/pi") is None
+    assert parse_value_error("(3)") is None
+    with workdps(30):
+        assert parse_value_error("-.5(1)").error == mpf("0.1")
