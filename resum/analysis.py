@@ -47,6 +47,7 @@ entire-like growth (reported, without singularities).
 """
 from __future__ import annotations
 
+import math
 import time
 from dataclasses import dataclass, field, replace
 from typing import Optional
@@ -1060,16 +1061,23 @@ def _beyond(series, ctx, result, progress=None) -> list:
     if result.growth != "finite radius" or not result.singularities or result.natural_boundary is not None:
         return []
     c = list(series.coefficients)
-    if series.start != 0 or len(c) < BEYOND_MIN_TERMS:
+    if series.start != 0 or any(isinstance(v, mpmath.mpc) and mpmath.im(v) != 0 for v in c):
         return []
-    if any(isinstance(v, mpmath.mpc) and mpmath.im(v) != 0 for v in c):
+    # a series in powers of x^k (every k-th coefficient non-zero) is scanned in u = x^k, where
+    # its k-fold symmetric singular points are one
+    k = 0
+    for j, v in enumerate(c):
+        if j and v != 0:
+            k = math.gcd(k, j)
+    k = max(k, 1)
+    c = c[::k]
+    if len(c) < BEYOND_MIN_TERMS:
         return []
-    s0 = result.singularities[0]
-    x0 = mpmath.re(mpmath.mpmathify(s0.location))
-    if x0 == 0 or abs(mpmath.im(mpmath.mpmathify(s0.location))) > 1e-8 * abs(x0):
+    us = [mpmath.mpmathify(s.location) ** k for s in result.singularities]
+    x0 = mpmath.re(us[0])
+    if x0 == 0:
         return []
-    for s in result.singularities:
-        z = mpmath.mpmathify(s.location)
+    for z in us:
         if abs(mpmath.im(z)) > 1e-8 * abs(z) or mpmath.sign(mpmath.re(z)) != mpmath.sign(x0):
             return []                 # another point off the ray: the map from x0 alone is not valid
     if progress:
@@ -1081,7 +1089,7 @@ def _beyond(series, ctx, result, progress=None) -> list:
         return []
     if progress:
         progress(f"cut scanned: {len(pts)} point(s) beyond the nearest")
-    return pts
+    return [replace(p, power=k) for p in pts] if k > 1 else pts
 
 
 def _warn_complex_exponents(sings, results, warnings):

@@ -61,7 +61,9 @@ N_ORDERS = 3
 class CutPoint:
     """A singular point on the cut beyond the nearest one.
 
-    ``x``: location (a band on the cut's ray; real for a cut along the negative axis);
+    ``x``: location (a band on the cut's ray; real for a cut along the negative axis), of
+    ``x^power`` where the series runs in powers of ``x^power`` (only every power-th coefficient
+    non-zero: the scan ran in that variable);
     ``kind``: ``"pole or logarithm"`` (an isolated pole of the mapped derivative on the circle)
     or ``"branch point"`` (a string of poles and zeros starting at the circle); ``theta``: its
     angle on the unit circle of ``w``; ``elements``: poles and zeros in its string (highest
@@ -72,15 +74,16 @@ class CutPoint:
     theta: float
     elements: int
     offset: float
+    power: int = 1
 
     def to_dict(self) -> dict:
-        return {"x": self.x.to_dict(), "x_text": str(self.x), "kind": self.kind,
+        return {"x": self.x.to_dict(), "x_text": str(self.x), "kind": self.kind, "power": self.power,
                 "theta": f"{self.theta:.6g}", "elements": self.elements, "offset": f"{self.offset:.3g}"}
 
     @classmethod
     def from_dict(cls, d: dict) -> "CutPoint":
         return cls(Estimate.from_dict(d["x"]), str(d["kind"]), float(d["theta"]), int(d["elements"]),
-                   float(d["offset"]))
+                   float(d["offset"]), int(d.get("power", 1)))
 
 
 def _elements(d: Sequence, L: int, M: int, dps: int, input_digits):

@@ -123,13 +123,17 @@ def _render(r, title):
     beyond = getattr(r, "beyond", ())
     if beyond:
         x0 = r.singularities[0] if r.singularities else None
+        k = beyond[0].power
+        start = (f"{var}_c = {_loc(x0)}" if k == 1 else
+                 f"the nearest singularities (the series runs in {var}^{k}, scanned in that variable)")
         lines.append("")
-        lines.append(f"further along the cut from {var}_c = {_loc(x0) if x0 is not None else '?'} (read through the "
+        lines.append(f"further along the cut from {start if x0 is not None else '?'} (read through the "
                      f"conformal map of that cut: where the Padé approximants of the mapped derivative put a pole, "
                      f"or start a string of poles and zeros, on the rim; an estimate):")
         for p in beyond:
-            lines.append(f"  {var} = {p.x}   {p.kind}" + (f" ({p.elements} poles and zeros in its string)"
-                                                         if p.elements > 1 else ""))
+            at = var if p.power == 1 else f"{var}^{p.power}"
+            lines.append(f"  {at} = {p.x}   {p.kind}" + (f" ({p.elements} poles and zeros in its string)"
+                                                        if p.elements > 1 else ""))
     lines.append("")
     lines.append("methods:")
     for name, m in r.methods.items():

@@ -100,3 +100,15 @@ def test_analyze_reports_the_points_beyond():
     assert d["beyond"] and {"x", "x_text", "kind"} <= set(d["beyond"][0])
     back = type(r).from_dict(r.to_dict())
     assert [str(p.x) for p in back.beyond] == [str(p.x) for p in r.beyond]
+
+
+def test_analyze_scans_a_series_in_a_power_of_its_variable():
+    """The same function as a series in g (x = g^2: every odd coefficient zero): its nearest
+    singular points are the pair g = +-i/4, and the scan runs in g^2 (power 2), finding -9/16."""
+    c = []
+    for v in _logcosh(50):
+        c += [v, 0]
+    r = analyze(Series(c, digits=110, variable="g"), Context(dps=40), verify=False)
+    assert r.beyond and all(p.power == 2 for p in r.beyond)
+    assert any(p.x.contains(mpmath.mpf(-9) / 16) for p in r.beyond)
+    assert r.contract_dict()["beyond"][0]["power"] == 2
