@@ -427,7 +427,7 @@ def plot_beyond(records, x=None, ax=None, n=5):
             return _distance(_band(b[k].get("x"))) if len(b) > k else None
         _draw(ax, _series(records, x, get), f"beyond {k + 1}", "o", lines=False)
     ax.set_yscale("log")
-    return _finish(ax, x, "|singular point| on the cut (expansion variable)")
+    return _finish(ax, x, "|singular point| on the cut (in the variable scanned)")
 
 
 def plot_borel_exponent(records, x=None, ax=None):
