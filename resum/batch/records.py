@@ -281,8 +281,10 @@ def _values_fields(prefix, values, row):
 _RESULT_COLUMNS = {"key", "index", "status", "error", "seconds", "n_terms", "ratio_growth",
                    "ratio_status", "analyze_status", "analyze_growth", "truth_status"}
 _RESULT_FAMILIES = re.compile(r"^((radius|ratio_radius|ratio_borel_distance|borel_A|borel_b)"
-                              r"(_lo|_hi)?|sing\d+_.*|strong_(resummed|truth)_.*|(value|truth)(_im)?@.*)$")
+                              r"(_lo|_hi)?|sing\d+_.*|beyond\d+.*|strong_(resummed|truth)_.*|(value|truth)(_im)?@.*)$")
 PARAM_PREFIX = "param_"
+#: columns for this many points beyond the nearest singularity (analyze's "beyond")
+N_BEYOND = 3
 
 
 def param_columns(names, taken=()) -> dict:
@@ -352,6 +354,12 @@ def _result_fields(rec: dict, n_sing: int) -> dict:
         _est("borel_b", borel.get("b", an.get("borel_exponent")), row)
         for i, s in enumerate((an.get("singularities") or [])[:n_sing]):
             _sing_fields(f"sing{i + 1}", s, row)
+        # singular points further along the nearest one's cut (in x^power), the nearest few
+        for i, p in enumerate([p for p in (an.get("beyond") or []) if isinstance(p, dict)][:N_BEYOND]):
+            _est(f"beyond{i + 1}", p.get("x"), row)
+            row[f"beyond{i + 1}_kind"] = p.get("kind", "")
+            if str(p.get("power", 1)) != "1":
+                row[f"beyond{i + 1}_power"] = p["power"]
     ev = tasks.get("evaluate")
     if isinstance(ev, dict):
         _values_fields("value", ev.get("values"), row)
