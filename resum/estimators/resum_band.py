@@ -204,6 +204,22 @@ class RationalIntegrator:
                 pref = (-rb) ** self.gamma
                 self.principal = [(self.gamma - k, pref * h[k]) for k in range(self.gamma)]
 
+    def inner_terms(self, w, margin=0.005, imag_min=0.02):
+        """``sum |res log(1 - w/p)|`` over the poles ``p`` strictly inside the unit disk
+        (``|p| < 1 - margin``) and off the real axis (``|Im p| > imag_min``): what such poles add
+        to the value at ``w``. For a function analytic in the mapped disk they stand for nothing
+        it has (a singular point on the rim the approximant does not resolve, drawn as a pole
+        with a zero beside it), so their terms measure an error the spread of the approximants
+        need not show."""
+        if not self.ok:
+            return mpmath.mpf(0)
+        wm = mpmath.mpmathify(w)
+        tot = mpmath.mpf(0)
+        for pm, res in zip(self.poles_mp, self.residues):
+            if abs(pm) < 1 - margin and abs(mpmath.im(pm)) > imag_min:
+                tot += abs(acb_to_mp(res) * mpmath.log(1 - wm / pm))
+        return tot
+
     def __call__(self, w):
         if not self.ok:
             return None

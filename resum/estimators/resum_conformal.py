@@ -172,6 +172,7 @@ def derivative_evaluate(cw: Sequence, ws: Sequence, dps: int, *, gamma: int = 0,
     d = _times_rim([(k + 1) * cw[k + 1] for k in range(len(cw) - 1)], gamma, rim)
     orders = candidate_orders(len(d), n_orders, offsets)
     table = [[None] * len(orders) for _ in ws]
+    inner = [[None] * len(orders) for _ in ws]
     fits, singular = fit_candidates(d, orders, dps)
     for i, r in fits:
         integ = RationalIntegrator(r, dps, rim=rim, gamma=gamma, pole_tol=pole_tol)
@@ -181,11 +182,21 @@ def derivative_evaluate(cw: Sequence, ws: Sequence, dps: int, *, gamma: int = 0,
             v = integ(w)
             if v is not None:
                 table[j][i] = cw[0] + v
+                inner[j][i] = integ.inner_terms(w)
     ns = [o[0] + 1 for o in orders]          # terms of f used: one more than of f'
     outs = outcomes_from_table(table, ns, safety=safety)
     for j, o in enumerate(outs):
         o.info["orders"] = [f"[{L}/{M}]'" for _, L, M in orders]
         o.info["values"] = [None if v is None else mpmath.nstr(v, 45) for v in table[j]]
+        # poles inside the disk, off the axis, in the approximants that make the value: their
+        # terms are an error the spread may not show (the median over the three, as the value)
+        top = [t for t, v in zip(inner[j], table[j]) if v is not None and t is not None][:3]
+        if o.ok and o.re is not None and top:
+            a = sorted(top)[len(top) // 2]
+            if a > o.re.error:
+                o.info["inner_poles"] = mpmath.nstr(a, 5)
+                outs[j] = PointOutcome(Estimate(o.re.value, min(o.re.lower, o.re.value - a),
+                                                max(o.re.upper, o.re.value + a)), o.im, o.ok, o.reason, o.info)
     return outs, {"n_singular_systems": singular, "orders": [list(o) for o in orders]}
 
 

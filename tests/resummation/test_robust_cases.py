@@ -213,7 +213,13 @@ def test_rerun_that_supports_no_digit_is_covered():
         assert p.value.contains(truth)
     # no relative digit is claimed: either no result or an absolute "zero to within" statement
     assert not p.success or "absolute" in p.diagnostics
-    assert any("supports no digit here; band widened to cover it" in w for w in r.warnings)
+    # the rerun's band is covered whole, or the main band is within RERUN_WIDER of it (since the
+    # derivative variant's band covers what poles inside the disk add, the direct variant is
+    # kept here, with a band of 1.3e-4 against the rerun's 4.9e-4, and no widening is due)
+    from resum.resummation import RERUN_WIDER
+    rerun = mpmath.mpf(p.diagnostics["verification"]["higher precision band"])
+    assert (any("supports no digit here; band widened to cover it" in w for w in r.warnings)
+            or RERUN_WIDER * p.value.error >= rerun)
 
 
 def test_point_beyond_a_vertical_cut_of_the_pair_map_gets_radial_cuts():
