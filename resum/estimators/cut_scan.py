@@ -152,13 +152,13 @@ def scan_cut(coeffs: Sequence, x0, dps: int, *, input_digits: Optional[float] = 
     m = len(d) - 1
     orders = [(m - m // 2 - 2 * j, m // 2 - j) for j in range(N_ORDERS)]
     theta_min = max(0.03, 4.0 / n)
-    found = []
+    found = []                                   # per order: its strings near the circle
     for L, M in orders:
         els = _elements(d, L, M, dps, input_digits)
         if els is None:
             return []
-        found.append((_strings(els, theta_min), els))
-    top = found[0][0]
+        found.append(_strings(els, theta_min))
+    top = found[0]
     sign = cmap.rim_point()                      # w of x = infinity (1 for a real x0 < 0)
     out = []
     with mpmath.workdps(dps):
@@ -166,7 +166,7 @@ def scan_cut(coeffs: Sequence, x0, dps: int, *, input_digits: Optional[float] = 
             if abs(th) > mpmath.pi - max(X0_ANGLE, BAND_FACTOR * off):
                 continue                         # x0 itself (w = -sign) and its string
             offs, spread = [off], 0.0
-            for low, _ in found[1:]:
+            for low in found[1:]:
                 match = [t for t in low if abs(t[0] - th) < max(BAND_FACTOR * max(off, t[1]), 0.005)]
                 if not match:
                     break
