@@ -38,8 +38,15 @@ import numpy as np
 __all__ = ["refined_roots", "roots"]
 
 #: Aberth sweeps before giving up (degree 100 needed 11-34 on the
-#: conformal-Padé denominators measured)
+#: conformal-Padé denominators measured) ...
 MAX_SWEEPS = 50
+#: ... unless roots are still settling: the sweeps go on (up to :data:`MAX_SWEEPS_SETTLING`)
+#: while some root stopped moving in the last :data:`STALL_SWEEPS` sweeps. On the Padé
+#: denominators of a 200-term series with a branch point (poles crowding along its cut, the
+#: double-precision seeds poor) 80 sweeps were needed: 0.27 s against 0.14 s wasted plus 0.35 s
+#: for ``acb_poly.roots``, at degree 100 and 730 bits
+MAX_SWEEPS_SETTLING = 200
+STALL_SWEEPS = 25
 #: relative size of an Aberth correction below which a root stops moving (double precision)
 SWEEP_TOL = 1e-13
 #: bits of the Aberth stage (the Newton quotients only need a few correct digits)
@@ -98,7 +105,9 @@ def _aberth(mid, dmid, zc: np.ndarray, bits: int, top: int):
     :data:`SWEEP_TOL` of it (the others keep using its value). Returns ``(roots, bits)``, or
     ``(None, bits)``."""
     active = np.arange(len(zc))
-    for _ in range(MAX_SWEEPS):
+    last_settled, sweep = 0, 0
+    while sweep < MAX_SWEEPS or (sweep < MAX_SWEEPS_SETTLING and sweep - last_settled < STALL_SWEEPS):
+        sweep += 1
         flint.ctx.prec = bits
         z = [flint.acb(complex(zc[i])) for i in active]
         pv = mid.evaluate(z, algorithm="iter")
@@ -120,18 +129,58 @@ def _aberth(mid, dmid, zc: np.ndarray, bits: int, top: int):
         if not np.all(np.isfinite(w)):
             return None, bits
         zc[active] = zc[active] - w
-        rel = np.abs(w) / np.maximum(np.abs(zc[active]), 1e-300)
-        active = active[rel >= SWEEP_TOL]
+        if not np.all(np.isfinite(zc[active])):
+            return None, bits
+        with np.errstate(over="ignore"):        # a huge step is simply still moving
+            rel = np.abs(w) / np.maximum(np.abs(zc[active]), 1e-300)
+        moving = active[rel >= SWEEP_TOL]
+        if len(moving) < len(active):
+            last_settled = sweep
+        active = moving
         if len(active) == 0:
             return zc, bits
     return None, bits
 
 
-def refined_roots(poly, prec: int, tol) -> Optional[list]:
+def _warm_seeds(mid, cold: np.ndarray, seeds, prec: int) -> np.ndarray:
+    """Starting values from the roots of a neighbouring polynomial (``seeds``, complex): all of
+    them when there are as many as roots; when fewer, completed by the double-precision seeds
+    farthest from them; when more, those with the smallest Newton step on ``mid`` kept."""
+    n = len(cold)
+    warm = np.array([complex(v) for v in seeds], dtype=complex)
+    warm = warm[np.isfinite(warm)]
+    if len(warm) > n:
+        old = flint.ctx.prec
+        flint.ctx.prec = min(prec, SWEEP_BITS)
+        try:
+            dmid = mid.derivative()
+            pts = [flint.acb(complex(v)) for v in warm]
+            steps = []
+            for v, a, b in zip(warm, mid.evaluate(pts, algorithm="iter"), dmid.evaluate(pts, algorithm="iter")):
+                try:
+                    steps.append(abs(_to_complex(a / b)) / max(abs(v), 1e-300))
+                except ZeroDivisionError:
+                    steps.append(math.inf)
+        finally:
+            flint.ctx.prec = old
+        warm = warm[np.argsort(np.nan_to_num(np.array(steps), nan=math.inf))[:n]]
+    elif len(warm) < n:
+        far = np.min(np.abs(cold[:, None] - warm[None, :]), axis=1) if len(warm) else np.zeros(n)
+        warm = np.concatenate([warm, cold[np.argsort(-far)[:n - len(warm)]]])
+    # Aberth needs distinct starting values
+    d = np.abs(warm[:, None] - warm[None, :])
+    np.fill_diagonal(d, np.inf)
+    return cold if np.any(d <= 1e-12 * np.maximum(np.abs(warm)[:, None], 1e-300)) else warm
+
+
+def refined_roots(poly, prec: int, tol, seeds=None) -> Optional[list]:
     """Every root of the midpoint polynomial of ``poly`` (an ``acb_poly`` of degree >= 1) as an
     ``acb`` ball of radius at most ``tol`` (``tol`` a float or an ``arb``),
     computed at ``prec`` bits; None when the fast path cannot prove it (see the module
-    docstring)."""
+    docstring). ``seeds``: roots of a neighbouring polynomial (for example the next Padé
+    approximant of a table), used as starting values of the sweeps: on the denominators of a
+    200-term series' Padé table the sweeps then took 0.02-0.08 s instead of 0.2-0.3 s (degree 100,
+    730 bits); a failure from them is retried from the usual seeds."""
     coeffs = poly.coeffs()
     n = len(coeffs) - 1
     if n < 1:
@@ -144,10 +193,15 @@ def refined_roots(poly, prec: int, tol) -> Optional[list]:
             return None
         mid = flint.acb_poly(mids)
         dmid = mid.derivative()
-        zc = _seeds(mids)
-        if zc is None:
+        cold = _seeds(mids)
+        if cold is None:
             return None
-        zc, bits = _aberth(mid, dmid, zc, min(prec, SWEEP_BITS), prec)
+        zc = None
+        if seeds is not None and len(seeds):
+            zc, bits = _aberth(mid, dmid, _warm_seeds(mid, cold.copy(), seeds, prec),
+                               min(prec, SWEEP_BITS), prec)
+        if zc is None:
+            zc, bits = _aberth(mid, dmid, cold, min(prec, SWEEP_BITS), prec)
         if zc is None:
             return None
         # separated in doubles (the product below is taken there)
@@ -227,9 +281,10 @@ def refined_roots(poly, prec: int, tol) -> Optional[list]:
         flint.ctx.prec = old
 
 
-def roots(poly, prec: int, tol, maxprec: int) -> list:
+def roots(poly, prec: int, tol, maxprec: int, seeds=None) -> list:
     """The roots of ``poly``'s midpoint polynomial as balls of radius at most ``tol``: by
-    :func:`refined_roots`, else by ``acb_poly.roots(tol, maxprec)`` (which raises ValueError
-    when it cannot isolate them, as for multiple roots)."""
-    out = refined_roots(poly, prec, tol)
+    :func:`refined_roots` (``seeds``: starting values, see there), else by
+    ``acb_poly.roots(tol, maxprec)`` (which raises ValueError when it cannot isolate them, as
+    for multiple roots)."""
+    out = refined_roots(poly, prec, tol, seeds)
     return out if out is not None else poly.roots(tol=tol, maxprec=maxprec)

@@ -197,8 +197,11 @@ def polyder(p):
     return [k * p[k] for k in range(1, len(p))]
 
 
-def poly_roots(p, dps: int, tol_digits: Optional[int] = None):
+def poly_roots(p, dps: int, tol_digits: Optional[int] = None, seeds=None):
     """All complex roots of the polynomial ``p`` (coefficients low to high).
+
+    ``seeds``: roots of a neighbouring polynomial (the previous approximant of a table), as
+    starting values of the fast path; they change its speed, not its result.
 
     Trailing zero coefficients are dropped and exact zero roots split off.
     The coefficients are taken at ``dps + 10`` digits; the roots are refined to
@@ -218,7 +221,7 @@ def poly_roots(p, dps: int, tol_digits: Optional[int] = None):
     while z0 < len(p) - 1 and p[z0] == 0:
         z0 += 1
     if z0:
-        rest = poly_roots(p[z0:], dps, tol_digits)
+        rest = poly_roots(p[z0:], dps, tol_digits, seeds)
         return None if rest is None else [mpmath.mpc(0)] * z0 + rest
     if len(p) <= 1:
         return []
@@ -228,7 +231,10 @@ def poly_roots(p, dps: int, tol_digits: Optional[int] = None):
             # an exact polynomial: isolate and refine its roots
             poly = flint.acb_poly([flint.acb(c.real.mid(), c.imag.mid()) for c in poly.coeffs()])
             tol = flint.arb(10) ** (-(dps if tol_digits is None else min(dps, tol_digits)))
-            rts = ball_roots(poly, flint.ctx.prec, tol, 8 * (dps + 10) * 4)
+            warm = None
+            if seeds:
+                warm = [complex(z) for z in seeds if z != 0 and mpmath.isfinite(abs(z))]
+            rts = ball_roots(poly, flint.ctx.prec, tol, 8 * (dps + 10) * 4, warm)
             return [_from_ball(r) for r in rts]
         except (ValueError, ArithmeticError):
             pass

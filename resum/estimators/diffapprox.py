@@ -474,6 +474,7 @@ def estimate_diffapprox(series, ctx=None, order=1, count=16, max_radius_factor=2
                 levels = []
         floor_level = max(N // 2, 4 * (K + 1) + 1)
         probed = False
+        last_roots = None
         tried = 0
         n_singular = 0
         fits = {}
@@ -538,7 +539,8 @@ def estimate_diffapprox(series, ctx=None, order=1, count=16, max_radius_factor=2
                         break
                     continue
                 Q, err = fit
-                roots = poly_roots(Q[K], prep.dps)
+                roots = poly_roots(Q[K], prep.dps, seeds=last_roots)
+                last_roots = roots or last_roots
                 if not roots:
                     skipped.append((L, tuple(Ms)))
                     continue

@@ -138,10 +138,14 @@ def pade_ensemble(c, dps: int, digits: int, count: int = 10, max_rel_err=None, o
                 good = (t - M, M, pq)
             if good is not None:
                 solved.append(good)
+    last_poles = last_zeros = None
     for L, M, pq in solved:
         p, q, err = pq
-        poles = poly_roots(q, dps)
-        zeros = poly_roots(p, dps)
+        # neighbouring approximants share most poles and zeros: theirs start the root finder
+        poles = poly_roots(q, dps, seeds=last_poles)
+        zeros = poly_roots(p, dps, seeds=last_zeros)
+        last_poles = poles or last_poles
+        last_zeros = zeros or last_zeros
         if poles is None or zeros is None:
             skipped.append((L, M))
             continue
