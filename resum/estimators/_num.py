@@ -119,18 +119,18 @@ def solve(rows, rhs, dps: int):
     large relative error and is not a reason: callers test such fits by their
     residual).
 
-    How: an approximate LU solve in FLINT (midpoints, partial pivoting) at
-    ``dps + 10`` digits, and a second one, 64 bits higher, of the system whose
+    How: two approximate LU solves in FLINT (midpoints, partial pivoting) at
+    ``dps + 10`` digits, the second of the system whose
     data (each distinct coefficient object once, so a Toeplitz-like matrix
     keeps its structure) are moved by one unit in their ``dps``-th digit, with
     signs from a fixed pseudo-random sequence; ``|x1_i - x2_i| / |x1_i|`` is
     the estimate (the condition number times the data's last digit, plus the
-    first run's rounding, ten digits below it). A matrix that is singular in
+    two runs' rounding, ten digits below it). A matrix that is singular in
     exact arithmetic (a series obeying a lower-order equation exactly) is
     regular once rounded, and its two solutions then differ completely.
     Until 5 December 2026 this was FLINT's certified solve (``arb_mat.solve``,
     ball radii as the error): at 200 unknowns and 220 digits it took 1.1 s
-    against 0.55 s now, and it was 60 % of ``analyze`` on a 200-term series at
+    against 0.5 s now, and it was 60 % of ``analyze`` on a 200-term series at
     210 digits (the differential approximants solve ~50 such systems); its
     radii could also be far too pessimistic (a 185 x 185 system at 225 digits:
     relative radius 1e9, actual error 5e-94 against its own solve at 300 and
@@ -158,15 +158,11 @@ def solve(rows, rhs, dps: int):
 
         pa = [pair(v) for v in flat]
         pb = [pair(v) for v in rhs]
-        prec = flint.ctx.prec
         try:
             x1 = mat(n, n, [t[0] for t in pa]).solve(mat(n, 1, [t[0] for t in pb]), algorithm="approx")
-            flint.ctx.prec = prec + 64
             x2 = mat(n, n, [t[1] for t in pa]).solve(mat(n, 1, [t[1] for t in pb]), algorithm="approx")
         except ZeroDivisionError:
             return None
-        finally:
-            flint.ctx.prec = prec
         v1 = [_from_ball(x1[i, 0]) for i in range(n)]
         v2 = [_from_ball(x2[i, 0]) for i in range(n)]
         if not all(mpmath.isfinite(abs(v)) for v in v1 + v2):
