@@ -108,6 +108,10 @@ def lu_solve(A, b):
         raise ZeroDivisionError(f"singular linear system ({e})") from None
 
 
+#: above this many unknowns :func:`solve` estimates the error instead of certifying it
+CERTIFIED_MAX = 120
+
+
 def solve(rows, rhs, dps: int):
     """Solve the square system ``rows @ x = rhs`` at ``dps`` digits.
 
@@ -119,27 +123,58 @@ def solve(rows, rhs, dps: int):
     large relative error and is not a reason: callers test such fits by their
     residual).
 
-    How: two approximate LU solves in FLINT (midpoints, partial pivoting) at
-    ``dps + 10`` digits, the second of the system whose
-    data (each distinct coefficient object once, so a Toeplitz-like matrix
+    Up to :data:`CERTIFIED_MAX` unknowns: FLINT's certified solve
+    (``arb_mat.solve``, preconditioned), ``rel_err`` the largest relative ball
+    radius, ``None`` when it cannot certify the system. Above: two approximate
+    LU solves in FLINT (midpoints, partial pivoting) at ``dps + 10`` digits,
+    the second of the system whose data (each distinct coefficient object once, so a Toeplitz-like matrix
     keeps its structure) are moved by one unit in their ``dps``-th digit, with
     signs from a fixed pseudo-random sequence; ``|x1_i - x2_i| / |x1_i|`` is
     the estimate (the condition number times the data's last digit, plus the
     two runs' rounding, ten digits below it). A matrix that is singular in
     exact arithmetic (a series obeying a lower-order equation exactly) is
     regular once rounded, and its two solutions then differ completely.
-    Until 5 December 2026 this was FLINT's certified solve (``arb_mat.solve``,
-    ball radii as the error): at 200 unknowns and 220 digits it took 1.1 s
-    against 0.5 s now, and it was 60 % of ``analyze`` on a 200-term series at
-    210 digits (the differential approximants solve ~50 such systems); its
-    radii could also be far too pessimistic (a 185 x 185 system at 225 digits:
+    Why two ways: at 200 unknowns and 220 digits the certified solve takes
+    1.1 s against 0.5 s, and it was 60 % of ``analyze`` on a 200-term series
+    at 210 digits (the differential approximants solve ~50 such systems); its
+    radii can also be far too pessimistic (a 185 x 185 system at 225 digits:
     relative radius 1e9, actual error 5e-94 against its own solve at 300 and
     400 digits). Two cheaper estimates were tried and dropped: one step of
     iterative refinement and a rerun at higher precision on the same data;
     both stay small on a matrix that is singular before rounding. An
     estimate, not a bound: the estimators only use it to drop approximants
-    that kept fewer than a third of the digits.
+    that kept fewer than a third of the digits. Used for every size, it let
+    in second-order approximants of 60-term kernel series at 40 digits that
+    the certified radii had kept out, whose exponents (2.45(3) at a = 7 pi/24)
+    then contradicted the ratios (studies/bes_angles: four angles "methods
+    disagree" instead of none); below :data:`CERTIFIED_MAX` the certified
+    solve stays, and the studies' series (up to 120 terms) are analysed as
+    before.
     """
+    n = len(rows)
+    if n > CERTIFIED_MAX:
+        return _solve_estimated(rows, rhs, dps)
+    flat = [v for r in rows for v in r]
+    cplx = _is_complex(flat) or _is_complex(rhs)
+    with workdps(dps + 10), flint_dps(dps + 10):
+        if cplx:
+            A = flint.acb_mat(n, n, _to_balls(flat, True))
+            b = flint.acb_mat(n, 1, _to_balls(rhs, True))
+        else:
+            A = flint.arb_mat(n, n, _to_balls(flat, False))
+            b = flint.arb_mat(n, 1, _to_balls(rhs, False))
+        try:
+            x = A.solve(b)
+        except ZeroDivisionError:
+            return None
+        entries = [x[i, 0] for i in range(n)]
+        out = [_from_ball(e) for e in entries]
+        err = max((_rel_rad(e) for e in entries if _from_ball(e) != 0), default=0.0)
+    return out, err
+
+
+def _solve_estimated(rows, rhs, dps: int):
+    """:func:`solve` above :data:`CERTIFIED_MAX` unknowns (see there)."""
     n = len(rows)
     flat = [v for r in rows for v in r]
     cplx = _is_complex(flat) or _is_complex(rhs)
