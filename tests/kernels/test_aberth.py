@@ -88,3 +88,47 @@ def test_wilkinson_polynomial_roots_or_none():
         assert got == list(range(1, 21))
         assert all(r.contains(flint.acb(k)) for r, k in zip(sorted(rts, key=lambda r: float(r.real.mid())),
                                                               range(1, 21)))
+
+
+@pytest.mark.parametrize("shift", [0, 1, -1])
+def test_warm_seeds_from_a_neighbouring_approximant_give_the_same_nodes(shift):
+    # the Gauss-Legendre poles of [n-1/n] of log(1+x)/x (reference as above: mpmath's nodes),
+    # found from the roots of the neighbouring denominator [n-2/n-1 + shift] as seeds: more, as
+    # many and fewer seeds than roots all end at the same certified roots
+    n = 12
+    c = [Fraction((-1) ** k, k + 1) for k in range(2 * n + 2)]
+    prec = 700
+    tol = flint.arb(2) ** -600
+    q = pade(c, n - 1, n, 60).q
+    m = n - 1 + shift
+    seeds = [complex(float(r.real.mid()), float(r.imag.mid()))
+             for r in refined_roots(_acb_poly(pade(c, m - 1, m, 60).q, prec), prec, tol)]
+    assert len(seeds) == m
+    rts = refined_roots(_acb_poly(q, prec), prec, tol, seeds=seeds)
+    assert rts is not None and len(rts) == n
+    with mpmath.workdps(200):
+        nodes = mpmath.calculus.quadrature.GaussLegendre(mpmath.mp).calc_nodes(3, mpmath.mp.prec)
+        want = sorted(-2 / (1 + x) for x, _ in nodes)
+        got = sorted(mpmath.mpf(r.real.mid().str(190, radius=False)) for r in rts)
+        for g, w in zip(got, want):
+            assert abs(g - w) < mpmath.mpf(10) ** -170 * abs(w)
+
+
+def test_useless_seeds_fall_back_to_the_usual_start():
+    # seeds that coincide (Aberth needs distinct starting values) or sit far from every root:
+    # the same roots as without seeds (reference: Arb's isolation, as in the random test)
+    rnd = random.Random(7)
+    prec = 300
+    flint.ctx.prec = prec
+    try:
+        p = flint.acb_poly.from_roots([flint.acb(rnd.uniform(-1, 1), rnd.uniform(-1, 1)) for _ in range(30)])
+        p = flint.acb_poly([c.mid() for c in p.coeffs()])
+        tol = flint.arb(2) ** -200
+        ref = p.roots(tol=tol, maxprec=4 * prec)
+        for seeds in ([0.5 + 0.5j] * 30, [1e6 * (k + 1) for k in range(30)]):
+            got = refined_roots(p, prec, tol, seeds=seeds)
+            assert got is not None and len(got) == 30
+            for f in got:
+                assert sum(1 for r in ref if f.overlaps(r)) == 1
+    finally:
+        flint.ctx.prec = 53
