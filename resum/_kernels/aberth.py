@@ -142,7 +142,7 @@ def _aberth(mid, dmid, zc: np.ndarray, bits: int, top: int):
     return None, bits
 
 
-def _warm_seeds(mid, cold: np.ndarray, seeds, prec: int) -> np.ndarray:
+def _warm_seeds(mid, dmid, cold: np.ndarray, seeds, prec: int) -> np.ndarray:
     """Starting values from the roots of a neighbouring polynomial (``seeds``, complex): all of
     them when there are as many as roots; when fewer, completed by the double-precision seeds
     farthest from them; when more, those with the smallest Newton step on ``mid`` kept."""
@@ -153,10 +153,11 @@ def _warm_seeds(mid, cold: np.ndarray, seeds, prec: int) -> np.ndarray:
         old = flint.ctx.prec
         flint.ctx.prec = min(prec, SWEEP_BITS)
         try:
-            dmid = mid.derivative()
             pts = [flint.acb(complex(v)) for v in warm]
             steps = []
-            for v, a, b in zip(warm, mid.evaluate(pts, algorithm="iter"), dmid.evaluate(pts, algorithm="iter")):
+            vals = mid.evaluate(pts, algorithm="iter")
+            ders = dmid.evaluate(pts, algorithm="iter")
+            for v, a, b in zip(warm, vals, ders):
                 try:
                     steps.append(abs(_to_complex(a / b)) / max(abs(v), 1e-300))
                 except ZeroDivisionError:
@@ -198,7 +199,7 @@ def refined_roots(poly, prec: int, tol, seeds=None) -> Optional[list]:
             return None
         zc = None
         if seeds is not None and len(seeds):
-            zc, bits = _aberth(mid, dmid, _warm_seeds(mid, cold.copy(), seeds, prec),
+            zc, bits = _aberth(mid, dmid, _warm_seeds(mid, dmid, cold.copy(), seeds, prec),
                                min(prec, SWEEP_BITS), prec)
         if zc is None:
             zc, bits = _aberth(mid, dmid, cold, min(prec, SWEEP_BITS), prec)

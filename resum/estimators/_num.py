@@ -127,9 +127,9 @@ def solve(rows, rhs, dps: int):
     (``arb_mat.solve``, preconditioned), ``rel_err`` the largest relative ball
     radius, ``None`` when it cannot certify the system. Above: two approximate
     LU solves in FLINT (midpoints, partial pivoting) at ``dps + 10`` digits,
-    the second of the system whose data (each distinct coefficient object once, so a Toeplitz-like matrix
-    keeps its structure) are moved by one unit in their ``dps``-th digit, with
-    signs from a fixed pseudo-random sequence; ``|x1_i - x2_i| / |x1_i|`` is
+    the second of the system whose data (each distinct coefficient object
+    once, so a Toeplitz-like matrix keeps its structure) are moved by one unit
+    in their ``dps``-th digit, with signs from a fixed pseudo-random sequence; ``|x1_i - x2_i| / |x1_i|`` is
     the estimate (the condition number times the data's last digit, plus the
     two runs' rounding, ten digits below it). A matrix that is singular in
     exact arithmetic (a series obeying a lower-order equation exactly) is
