@@ -129,8 +129,8 @@ def solve(rows, rhs, dps: int):
     LU solves in FLINT (midpoints, partial pivoting) at ``dps + 10`` digits,
     the second of the system whose data (each distinct coefficient object
     once, so a Toeplitz-like matrix keeps its structure) are moved by one unit
-    in their ``dps``-th digit, with signs from a fixed pseudo-random sequence; ``|x1_i - x2_i| / |x1_i|`` is
-    the estimate (the condition number times the data's last digit, plus the
+    in their ``dps``-th digit, with signs from a fixed pseudo-random
+    sequence; ``|x1_i - x2_i| / |x1_i|`` is the estimate (the condition number times the data's last digit, plus the
     two runs' rounding, ten digits below it). A matrix that is singular in
     exact arithmetic (a series obeying a lower-order equation exactly) is
     regular once rounded, and its two solutions then differ completely.
@@ -180,22 +180,20 @@ def _solve_estimated(rows, rhs, dps: int):
     cplx = _is_complex(flat) or _is_complex(rhs)
     with workdps(dps + 10), flint_dps(dps + 10):
         mat = flint.acb_mat if cplx else flint.arb_mat
-        balls = {}              # id -> (ball, perturbed ball, value kept alive)
+        # _to_balls converts each distinct coefficient object once and hands back the same ball
+        # for it everywhere: each distinct ball is moved once, in order of first appearance
+        balls = _to_balls(flat + list(rhs), cplx)
         rng = random.Random(len(flat))
         step = flint.arb(10) ** (-int(dps))
-
-        def pair(v):
-            hit = balls.get(id(v))
-            if hit is None:
-                ball = _to_balls([v], cplx)[0]
-                hit = balls[id(v)] = (ball, ball * (1 + step if rng.random() < 0.5 else 1 - step), v)
-            return hit
-
-        pa = [pair(v) for v in flat]
-        pb = [pair(v) for v in rhs]
+        moved = {}
+        for bl in balls:
+            if id(bl) not in moved:
+                moved[id(bl)] = bl * (1 + step if rng.random() < 0.5 else 1 - step)
+        shifted = [moved[id(bl)] for bl in balls]
+        nn = n * n
         try:
-            x1 = mat(n, n, [t[0] for t in pa]).solve(mat(n, 1, [t[0] for t in pb]), algorithm="approx")
-            x2 = mat(n, n, [t[1] for t in pa]).solve(mat(n, 1, [t[1] for t in pb]), algorithm="approx")
+            x1 = mat(n, n, balls[:nn]).solve(mat(n, 1, balls[nn:]), algorithm="approx")
+            x2 = mat(n, n, shifted[:nn]).solve(mat(n, 1, shifted[nn:]), algorithm="approx")
         except ZeroDivisionError:
             return None
         v1 = [_from_ball(x1[i, 0]) for i in range(n)]
