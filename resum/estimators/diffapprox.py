@@ -58,7 +58,7 @@ import mpmath
 from ..results import Status
 from ..uncertainty.ensemble import SAFETY
 from ._common import failed, finish, prepare
-from ._num import poly_roots, polyder, polyval_many, solve
+from ._num import CERTIFIED_MAX, hermite_pade, poly_roots, polyder, polyval_many, solve
 from .pade_sing import clusters_to_singularities
 from .ratio import classify_growth
 
@@ -74,18 +74,25 @@ def _deriv_coeffs(c, K):
     return out
 
 
-def fit_diffapprox(D, K, L, Ms, dps, lead=0):
+def fit_diffapprox(D, K, L, Ms, dps, lead=0, max_err=None):
     """Polynomials ``Q_0..Q_K`` of the approximant ``(L; Ms)`` (P eliminated).
 
     Uses the equations for the coefficients of ``x^n``, ``n = L+1 .. L+S``
     with ``S = sum(M_j + 1) - 1 - lead`` unknowns. ``Q_K`` is normalised by
     ``Q_K(x) = x^lead + ...`` (``lead > 0``: the equation has a regular singular
     point at the origin, as for generating functions ``(1 - sqrt(...))/x``).
-    Returns ``(Q, rel_err)`` or None.
+    Returns ``(Q, rel_err)`` or None. Above :data:`CERTIFIED_MAX` unknowns (with ``lead = 0``)
+    the order-basis recursion solves it (:func:`_fit_structured`), and the dense solve only
+    when that keeps fewer digits than ``max_err`` asks (default ``10^-(dps/3)``, the
+    estimators' rule).
     """
     S = sum(M + 1 for M in Ms) - 1 - lead
     if lead > Ms[K]:
         return None
+    if lead == 0 and S > CERTIFIED_MAX:
+        fit = _fit_structured(D, K, L, Ms, dps)
+        if fit is not None and fit[1] <= (10.0 ** -max(10, dps / 3) if max_err is None else max_err):
+            return fit
     unknowns = [(j, i) for j in range(K + 1) for i in range(Ms[j] + 1) if not (j == K and i <= lead)]
     rows, rhs = [], []
     for n in range(L + 1, L + S + 1):
@@ -101,6 +108,28 @@ def fit_diffapprox(D, K, L, Ms, dps, lead=0):
     Q[K][lead] = mpmath.mpf(1)
     for (j, i), v in zip(unknowns, x):
         Q[j][i] = v
+    return Q, err
+
+
+def _fit_structured(D, K, L, Ms, dps):
+    """:func:`fit_diffapprox` for ``lead = 0`` by the order-basis recursion
+    (:func:`resum.estimators._num.hermite_pade` on ``1, f, f', ...``): O(N^2) where the dense
+    system costs O(N^3). None when the recursion cannot give the form; the caller falls back to the dense
+    solve also when it keeps too few digits (it does not pivot across degrees, and a
+    near-singular leading block costs it digits that the dense solve keeps). Used above
+    :data:`CERTIFIED_MAX` unknowns, where the dense solve's error is an estimate of the same
+    kind; below it the certified solve stays."""
+    sigma = L + sum(M + 1 for M in Ms)
+    if any(len(D[j]) < sigma for j in range(K + 1)):
+        return None
+    ones = [1] + [0] * (sigma - 1)
+    got = hermite_pade([ones] + [D[j][:sigma] for j in range(K + 1)], [L] + list(Ms), dps,
+                       normalize=(1 + K, 0))
+    if got is None:
+        return None
+    forms, err = got
+    Q = forms[1:]
+    Q[K][0] = mpmath.mpf(1)
     return Q, err
 
 
@@ -484,7 +513,7 @@ def estimate_diffapprox(series, ctx=None, order=1, count=16, max_radius_factor=2
             key = (L, tuple(Ms))
             if key not in fits:
                 tried += 1
-                fits[key] = fit_diffapprox(D, K, L, Ms, prep.dps)
+                fits[key] = fit_diffapprox(D, K, L, Ms, prep.dps, max_err=max_err)
                 if fits[key] is None:
                     n_singular += 1
             return fits[key]
