@@ -202,16 +202,23 @@ def _solve_estimated(rows, rhs, dps: int):
         v2 = [_from_ball(x2[i, 0]) for i in range(n)]
         if not all(mpmath.isfinite(abs(v)) for v in v1 + v2):
             return None
-        diffs = [abs(a - c) for a, c in zip(v1, v2)]
-        top = max(abs(a) for a in v1) if v1 else 0
-        if top == 0 or not max(diffs) < top / 2:
-            return None
-        err = 0.0
-        for dlt, a in zip(diffs, v1):
-            if a != 0:
-                e = dlt / abs(a)
-                err = max(err, float(e) if e < 1e300 else float("inf"))
-    return v1, err
+        err = _two_run_error(v1, v2)
+    return None if err is None else (v1, err)
+
+
+def _two_run_error(v1, v2):
+    """Largest relative change of an entry between two solutions of the same system (the
+    second on data moved in their last digit), or None when normwise no digit agrees."""
+    diffs = [abs(a - c) for a, c in zip(v1, v2)]
+    top = max(abs(a) for a in v1) if v1 else 0
+    if top == 0 or not max(diffs) < top / 2:
+        return None
+    err = 0.0
+    for dlt, a in zip(diffs, v1):
+        if a != 0:
+            e = dlt / abs(a)
+            err = max(err, float(e) if e < 1e300 else float("inf"))
+    return err
 
 
 def hermite_pade(series, degrees, dps: int, normalize=None):
@@ -275,15 +282,9 @@ def hermite_pade(series, degrees, dps: int, normalize=None):
         n1, n2 = flat1[k], flat2[k]
         flat1 = [v / n1 for v in flat1]
         flat2 = [v / n2 for v in flat2]
-        diffs = [abs(a - b) for a, b in zip(flat1, flat2)]
-        top = max(abs(a) for a in flat1)
-        if not max(diffs) < top / 2:
+        err = _two_run_error(flat1, flat2)
+        if err is None:
             return None
-        err = 0.0
-        for dlt, a in zip(diffs, flat1):
-            if a != 0:
-                e = dlt / abs(a)
-                err = max(err, float(e) if e < 1e300 else float("inf"))
         out, pos = [], 0
         for d in degrees:
             out.append(flat1[pos:pos + d + 1])
