@@ -491,7 +491,9 @@ def estimate_diffapprox(series, ctx=None, order=1, count=16, max_radius_factor=2
         D = _deriv_coeffs(c, K)
         N = len(c)
         if N > 100:
-            count = min(count, 10)     # each approximant costs O(N^3): fewer for long series
+            # fewer for long series: a dense solve costs O(N^3). Above CERTIFIED_MAX unknowns the
+            # order basis costs O(N^2), but the count stays, so verdicts do not move with the solver
+            count = min(count, 10)
         max_err = 10.0 ** -max(10, prep.digits / 3)   # approximants must keep a third of the digits
         ens, skipped, table = [], [], []
         # highest orders first; a degenerate (exactly D-finite) or ill-conditioned top of the
