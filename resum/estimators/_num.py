@@ -29,8 +29,8 @@ import mpmath
 from .._kernels.aberth import roots as ball_roots
 from ..context import workdps
 
-__all__ = ["flint_dps", "solve", "poly_roots", "pade_coeffs", "polyval", "polyval_many", "polyder", "root_digits", "hermite_pade",
-           "nearest_distances"]
+__all__ = ["flint_dps", "solve", "poly_roots", "pade_coeffs", "polyval", "polyval_many", "polyder",
+           "root_digits", "hermite_pade", "nearest_distances"]
 
 
 @contextlib.contextmanager
@@ -248,9 +248,9 @@ def hermite_pade(series, degrees, dps: int, normalize=None):
     Error estimate as in :func:`solve` above :data:`CERTIFIED_MAX`: a second run on data moved
     by one unit in their ``dps``-th digit (pseudo-random signs, fixed), the largest relative
     change of an entry. An estimate, not a bound; the recursion has no pivoting across degrees,
-    so a near-singular leading block costs it digits that LU with partial pivoting keeps: the
-    caller (:func:`fit_hermite_pade` users) falls back to :func:`solve` when too few digits are
-    left.
+    so a near-singular leading block costs it digits that LU with partial pivoting keeps: its
+    caller (``resum.estimators.diffapprox.fit_diffapprox``) falls back to :func:`solve` when
+    too few digits are left.
     """
     m = len(series)
     sigma = sum(d + 1 for d in degrees) - 1
@@ -411,9 +411,10 @@ def root_digits(rel_err, dps: int) -> int:
     """Digits worth asking of the roots of a polynomial whose coefficients carry the relative
     error ``rel_err`` (the estimate a fit returns): those digits plus
     :data:`ROOT_SPARE_DIGITS`, at most ``dps``, at least 20. Digits beyond them describe the
-    rounding of the fit, not the approximant; refining them cost most of the root finding (the
-    Padé denominators of a 200-term series given to 210 digits carry 86-108 digits, and root
-    finding was 70 % of the log-derivative estimator)."""
+    rounding of the fit, not the approximant (the Padé numerators of a 200-term series given to
+    210 digits carry 86-108 digits). Used for the Padé zeros, which are only paired with poles;
+    a genuine pole can be better determined than the normwise error of its denominator says,
+    so the poles keep the working digits."""
     if not rel_err or not math.isfinite(rel_err) or rel_err <= 0:
         return dps
     return int(min(dps, max(20, math.floor(-math.log10(rel_err)) + ROOT_SPARE_DIGITS)))

@@ -123,8 +123,8 @@ FALLBACK_SPAN = 1e6
 def _fit_structured(D, K, L, Ms, dps):
     """:func:`fit_diffapprox` for ``lead = 0`` by the order-basis recursion
     (:func:`resum.estimators._num.hermite_pade` on ``1, f, f', ...``): O(N^2) where the dense
-    system costs O(N^3). None when the recursion cannot give the form; the caller falls back to the dense
-    solve also when it keeps too few digits (it does not pivot across degrees, and a
+    system costs O(N^3). None when the recursion cannot give the form; the caller falls back to
+    the dense solve also when it keeps too few digits (it does not pivot across degrees, and a
     near-singular leading block costs it digits that the dense solve keeps). Used above
     :data:`CERTIFIED_MAX` unknowns, where the dense solve's error is an estimate of the same
     kind; below it the certified solve stays."""
