@@ -18,6 +18,8 @@ coefficients (or roots), against a reference computed independently:
 * roots: resum's certified roots of the same polynomial at 3x the digits.
 * double precision Padé: the exact Padé coefficients of exp(x) (closed form,
   Baker and Graves-Morris, "Padé Approximants", 2nd ed., CUP 1996, sec. 1.2).
+* differential approximants (``--only da``): the dense system solved by FLINT
+  at 2 dps + 100 digits, on the same rounded input.
 
 Baselines are run with a time cap: a case whose predicted baseline time
 (extrapolated as N^3 dps^1.6 from the smallest case measured) exceeds
@@ -349,6 +351,94 @@ def study_fp():
     return tab
 
 
+def _da_series(n, dps):
+    """f = (1 - x)^(-1/3) + (1 + 2x)^(1/2) to ``n`` terms, exact rationals rounded to ``dps``
+    digits: two algebraic branch points (radius 1/2), and, being a sum of two functions with
+    different exponents, no first-order linear equation with polynomial coefficients, so the
+    first-order approximant tables are regular (common practice, no source)."""
+    from fractions import Fraction
+    a, b, out = Fraction(1), Fraction(1), []
+    for k in range(n):
+        if k:
+            a *= Fraction(3 * k - 2, 3 * k)                 # (1 - x)^(-1/3)
+            b *= Fraction(2 * (3 - 2 * k), 2 * k)           # (1 + 2x)^(1/2): binom(1/2, k) 2^k
+        out.append(a + b)
+    with workdps(dps):
+        return [mpmath.mpf(v.numerator) / v.denominator for v in out]
+
+
+def _da_system(D, L, M):
+    """The dense system of the first-order approximant (L; M, M), Q_1(0) = 1 (as in
+    resum.estimators.diffapprox.fit_diffapprox)."""
+    unknowns = [(j, i) for j in range(2) for i in range(M + 1) if not (j == 1 and i == 0)]
+    S = len(unknowns)
+    rows = [[D[j][n - i] if n - i >= 0 else 0 for j, i in unknowns] for n in range(L + 1, L + S + 1)]
+    rhs = [-D[1][n] for n in range(L + 1, L + S + 1)]
+    return rows, rhs
+
+
+def _ratio(r):
+    return f"{r:.0f}x" if r >= 10 else f"{r:.1f}x"
+
+
+def study_da(cases, cap):
+    """Linear solves of the differential approximants: resum's order basis against dense LU."""
+    from resum.estimators import diffapprox
+    from resum.estimators._num import hermite_pade
+    tab = Table("First-order differential approximant (0; M, M) of (1-x)^(-1/3) + (1+2x)^(1/2): "
+                "resum's order-basis recursion (two runs, for its error estimate) against one dense "
+                "LU solve of the same system at the same precision (FLINT arb_mat.solve, approximate; "
+                "mpmath.lu_solve). Digits correct normwise against FLINT's dense solve at "
+                "2 dps + 100 digits on the same (rounded) input",
+                ["unknowns", "dps", "resum", "claimed", "digits", "FLINT dense LU", "digits",
+                 "mpmath.lu_solve", "digits", "speed-up vs FLINT", "vs mpmath"])
+    rate = None
+    for unknowns, dps in cases:
+        M = unknowns // 2
+        n = 2 * M + 3
+        c = _da_series(n, dps)
+        with workdps(dps + 10):
+            D = diffapprox._deriv_coeffs(c, 1)
+        sigma = 2 * M + 2
+        ones = [1] + [0] * (sigma - 1)
+        t_r, got = timed(lambda: hermite_pade([ones, D[0][:sigma], D[1][:sigma]], [0, M, M], dps,
+                                              normalize=(2, 0)), repeat=2)
+        with workdps(dps + 10):          # the negated right-hand side must not round
+            rows, rhs = _da_system(D, 0, M)
+        ref_dps = 2 * dps + 100
+        with workdps(ref_dps), fb.flint_prec(fb.prec_for_dps(ref_dps)):
+            A = flint.arb_mat([[fb.mpf_to_arb(mpmath.mpf(v)) for v in r] for r in rows])
+            b = flint.arb_mat([[fb.mpf_to_arb(mpmath.mpf(v))] for v in rhs])
+            xr = A.solve(b, algorithm="approx")
+            ref = [fb.arb_to_mpf(xr[i, 0]) for i in range(len(rows))]
+        if got is None:
+            d_r, claim = None, None
+        else:
+            forms, err = got
+            mine = forms[1] + forms[2][1:]
+            d_r, claim = digits(mine, ref), -math.log10(err) if err > 0 else math.inf
+        with workdps(dps + 10), fb.flint_prec(fb.prec_for_dps(dps + 10)):
+            A = flint.arb_mat([[fb.mpf_to_arb(mpmath.mpf(v)) for v in r] for r in rows])
+            b = flint.arb_mat([[fb.mpf_to_arb(mpmath.mpf(v))] for v in rhs])
+            t_f, xf = timed(lambda: A.solve(b, algorithm="approx"), repeat=2)
+            d_f = digits([fb.arb_to_mpf(xf[i, 0]) for i in range(len(rows))], ref)
+        pred = None if rate is None else rate * len(rows) ** 3 * dps ** 1.6
+        if pred is not None and pred > cap:
+            t_m = d_m = None
+            vs_m = f"skipped (cap: predicted {pred:.0f} s)"
+        else:
+            def run_m():
+                with workdps(dps + 10):
+                    return mpmath.lu_solve(mpmath.matrix(rows), mpmath.matrix(rhs))
+            t_m, xm = timed(run_m)
+            d_m = digits(list(xm), ref)
+            rate = max(rate or 0, t_m / (len(rows) ** 3 * dps ** 1.6))
+            vs_m = _ratio(t_m / t_r)
+        tab.add(len(rows), dps, fmt_t(t_r), fmt_d(claim), fmt_d(d_r), fmt_t(t_f), fmt_d(d_f),
+                fmt_t(t_m), fmt_d(d_m), _ratio(t_f / t_r), vs_m)
+    return tab
+
+
 def study_pipeline(dps):
     """analyze / evaluate on a 200-term series, if those modules exist."""
     tab = Table(f"Pipeline on a 200-term series at {dps} digits (with verification)",
@@ -401,7 +491,7 @@ def main(argv=None):
     ap.add_argument("--cap", type=float, default=120.0, help="baseline time cap in seconds")
     ap.add_argument("--out", default=str(HERE / "out"), help="folder for performance.txt")
     ap.add_argument("--pipeline", action="store_true", help="also time analyze/evaluate")
-    ap.add_argument("--only", choices=["pade", "matched", "table", "roots", "fp", "pipeline"],
+    ap.add_argument("--only", choices=["pade", "matched", "table", "roots", "fp", "da", "pipeline"],
                     help="run one table only")
     args = ap.parse_args(argv)
     sizes = (25, 50) if args.quick else (25, 50, 100, 200)
@@ -425,6 +515,10 @@ def main(argv=None):
     if want("fp"):
         print("double precision", flush=True)
         tables.append(study_fp())
+    if want("da"):
+        print("differential approximants", flush=True)
+        tables.append(study_da([(61, 60)] if args.quick else [(121, 100), (161, 150), (199, 210)],
+                               args.cap))
     if args.pipeline or args.only == "pipeline":
         print("pipeline", flush=True)
         tables.append(study_pipeline(30))

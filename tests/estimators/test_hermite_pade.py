@@ -5,6 +5,7 @@ library)."""
 import math
 
 import mpmath
+import pytest
 
 from resum.estimators import _num, diffapprox
 from resum.estimators._num import CERTIFIED_MAX, hermite_pade
@@ -41,32 +42,35 @@ def test_degenerate_table_is_refused():
     assert hermite_pade([one, f, df], [3, 4, 4], 30) is None
 
 
-def _series(N, dps):
-    # f = (1 - x)^(-1/3) + (1 + 2x)^(1/2): two algebraic branch points; a sum of two functions
-    # with different exponents obeys no first-order linear equation with polynomial
-    # coefficients, so the first-order table is not degenerate (a product of powers would be:
-    # f'/f rational) (common practice, no source)
+def _series(N, dps, terms):
+    # f = (1 - x)^(-1/3) + (1 + 2x)^(1/2) [+ (1 - x/3)^(1/5)]: algebraic branch points; a sum of
+    # k functions with different exponents, each obeying a first-order equation, obeys an
+    # equation of order k and none of lower order with polynomial coefficients, so the tables of
+    # order k - 1 are not degenerate (a product of powers would be: f'/f rational)
+    # (common practice, no source)
     with mpmath.workdps(dps + 20):
-        third = mpmath.mpf(1) / 3
-        return mpmath.taylor(lambda x: (1 - x) ** (-third) + (1 + 2 * x) ** 0.5, 0, N - 1)
+        parts = [lambda x: (1 - x) ** (-mpmath.mpf(1) / 3), lambda x: (1 + 2 * x) ** 0.5,
+                 lambda x: (1 - x / 3) ** (mpmath.mpf(1) / 5)][:terms]
+        return mpmath.taylor(lambda x: sum(p(x) for p in parts), 0, N - 1)
 
 
-def test_first_order_approximant_above_certified_size_matches_mpmath_lu():
-    # 123 unknowns (> CERTIFIED_MAX): fit_diffapprox takes the order-basis path; reference: the
-    # same dense system solved by mpmath.lu_solve at twice the digits (the system loses about 65
-    # of them, so the reference keeps 175)
-    K, L, Ms, dps = 1, 2, [61, 62], 120
+@pytest.mark.parametrize("K, L, Ms, dps", [(1, 2, [61, 62], 120), (2, 1, [40, 41, 41], 160)])
+def test_approximant_above_certified_size_matches_mpmath_lu(K, L, Ms, dps):
+    # more than CERTIFIED_MAX unknowns: fit_diffapprox takes the order-basis path; reference:
+    # the same dense system solved by mpmath.lu_solve at twice the digits (the systems lose
+    # about 65 (first order) and 90 (second order) of them, far fewer than the reference has)
     S = sum(M + 1 for M in Ms) - 1
     assert S > CERTIFIED_MAX
-    N = L + S + 2
+    N = L + S + 2 + K
     with mpmath.workdps(dps):
-        c = [mpmath.mpf(v) for v in _series(N, dps)]
+        c = [mpmath.mpf(v) for v in _series(N, dps, K + 1)]
         D = diffapprox._deriv_coeffs(c, K)
     calls = []
     real_solve = diffapprox.solve
     diffapprox.solve = lambda *a: calls.append(1) or real_solve(*a)
     try:
-        Q, err = diffapprox.fit_diffapprox(D, K, L, Ms, dps)
+        with mpmath.workdps(dps):
+            Q, err = diffapprox.fit_diffapprox(D, K, L, Ms, dps)
     finally:
         diffapprox.solve = real_solve
     assert not calls                      # no dense solve was needed
@@ -78,7 +82,7 @@ def test_first_order_approximant_above_certified_size_matches_mpmath_lu():
         ref = {u: x[k] for k, u in enumerate(unknowns)}
         top = max(abs(v) for v in ref.values())
         actual = max(abs(Q[j][i] - ref[(j, i)]) for j, i in unknowns) / top
-    # the error estimate (for data carrying 120 digits) covers the actual normwise error, and
+    # the error estimate (for data carrying dps digits) covers the actual normwise error, and
     # the fit keeps at least a third of the digits
     assert actual <= err < 10.0 ** (-dps / 3)
     assert Q[K][0] == 1
