@@ -30,7 +30,7 @@ from .._kernels.aberth import roots as ball_roots
 from ..context import workdps
 
 __all__ = ["flint_dps", "solve", "poly_roots", "pade_coeffs", "polyval", "polyval_many", "polyder",
-           "root_digits", "hermite_pade", "nearest_distances"]
+           "hermite_pade", "nearest_distances"]
 
 
 @contextlib.contextmanager
@@ -402,23 +402,6 @@ def nearest_distances(zs, ws):
 
 def polyder(p):
     return [k * p[k] for k in range(1, len(p))]
-
-
-#: digits asked of roots beyond those their polynomial's coefficients carry (see :func:`root_digits`)
-ROOT_SPARE_DIGITS = 10
-
-
-def root_digits(rel_err, dps: int) -> int:
-    """Digits worth asking of the roots of a polynomial whose coefficients carry the relative
-    error ``rel_err`` (the estimate a fit returns): those digits plus
-    :data:`ROOT_SPARE_DIGITS`, at most ``dps``, at least 20. Digits beyond them describe the
-    rounding of the fit, not the approximant (the Padé numerators of a 200-term series given to
-    210 digits carry 86-108 digits). Used for the Padé zeros, which are only paired with poles;
-    a genuine pole can be better determined than the normwise error of its denominator says,
-    so the poles keep the working digits."""
-    if not rel_err or not math.isfinite(rel_err) or rel_err <= 0:
-        return dps
-    return int(min(dps, max(20, math.floor(-math.log10(rel_err)) + ROOT_SPARE_DIGITS)))
 
 
 def poly_roots(p, dps: int, tol_digits: Optional[int] = None, seeds=None):

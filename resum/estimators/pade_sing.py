@@ -47,7 +47,7 @@ import mpmath
 from ..results import Estimate, Singularity, Status
 from ..uncertainty.ensemble import SAFETY, cluster_points, robust_center
 from ._common import classify_kind, complex_exponent_note, failed, finish, prepare
-from ._num import nearest_distances, pade_coeffs, poly_roots, polyder, polyval_many, root_digits
+from ._num import nearest_distances, pade_coeffs, poly_roots, polyder, polyval_many
 from .ratio import classify_growth
 
 __all__ = ["estimate_pade", "pade_ensemble", "table_orders", "clusters_to_singularities"]
@@ -142,10 +142,8 @@ def pade_ensemble(c, dps: int, digits: int, count: int = 10, max_rel_err=None, o
     for L, M, pq in solved:
         p, q, err = pq
         # neighbouring approximants share most poles and zeros: theirs start the root finder
-        # the zeros only pair with poles (doublets at a relative distance of 1e-8 at most) and
-        # mark cuts: the digits the approximant carries are plenty for them
         poles = poly_roots(q, dps, seeds=last_poles)
-        zeros = poly_roots(p, dps, root_digits(err, dps), seeds=last_zeros)
+        zeros = poly_roots(p, dps, seeds=last_zeros)
         last_poles = poles or last_poles
         last_zeros = zeros or last_zeros
         if poles is None or zeros is None:

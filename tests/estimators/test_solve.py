@@ -64,25 +64,3 @@ def test_large_systems_take_the_estimated_path(monkeypatch):
     rows, rhs = _toeplitz_log1p(CERTIFIED_MAX + 1, 30)
     assert solve(rows, rhs, 30) is None and called == [CERTIFIED_MAX + 1]
 
-
-def test_roots_to_the_digits_the_denominator_carries():
-    # The Padé poles are refined to root_digits(rel_err): the digits the denominator carries plus
-    # ROOT_SPARE_DIGITS, fewer than the working digits. Reference: mpmath.polyroots on the same
-    # denominator at three times the digits (reference library).
-    n, dps = 20, 80
-    with mpmath.workdps(dps):
-        c = [mpmath.mpf((-1) ** k) / (k + 1) for k in range(2 * n + 1)]
-    p, q, err = _num.pade_coeffs(c, n, n, dps)
-    td = _num.root_digits(err, dps)
-    # log(1+x)/x loses about 1.5 digits per unit of M (common practice, no source): at M = 20
-    # the denominator keeps 40-75 of its 80 digits, so fewer digits are asked of its roots
-    assert 40 + _num.ROOT_SPARE_DIGITS <= td < dps
-    got = _num.poly_roots(q, dps, td)
-    with mpmath.workdps(3 * dps):
-        ref = mpmath.polyroots(list(reversed(q)), maxsteps=400, extraprec=6 * dps)
-    assert len(got) == len(ref) == n
-    for z in got:
-        assert min(abs(z - r) for r in ref) <= mpmath.mpf(10) ** (1 - td)
-    assert _num.root_digits(None, dps) == dps
-    assert _num.root_digits(1e-300, dps) == dps
-    assert _num.root_digits(0.5, dps) == 20
