@@ -63,4 +63,3 @@ def test_large_systems_take_the_estimated_path(monkeypatch):
     monkeypatch.setattr(_num, "_solve_estimated", lambda *a: called.append(len(a[0])) or None)
     rows, rhs = _toeplitz_log1p(CERTIFIED_MAX + 1, 30)
     assert solve(rows, rhs, 30) is None and called == [CERTIFIED_MAX + 1]
-
