@@ -58,7 +58,8 @@ import mpmath
 from ..results import Status
 from ..uncertainty.ensemble import SAFETY
 from ._common import failed, finish, prepare
-from ._num import CERTIFIED_MAX, hermite_pade, poly_roots, polyder, polyval_many, solve
+from .._kernels.hermite import hermite_pade
+from ._num import CERTIFIED_MAX, poly_roots, polyder, polyval_many, solve
 from .pade_sing import clusters_to_singularities
 from .ratio import classify_growth
 
@@ -122,7 +123,7 @@ FALLBACK_SPAN = 1e6
 
 def _fit_structured(D, K, L, Ms, dps):
     """:func:`fit_diffapprox` for ``lead = 0`` by the order-basis recursion
-    (:func:`resum.estimators._num.hermite_pade` on ``1, f, f', ...``): O(N^2) where the dense
+    (:func:`resum._kernels.hermite.hermite_pade` on ``1, f, f', ...``): O(N^2) where the dense
     system costs O(N^3). None when the recursion cannot give the form; the caller falls back to
     the dense solve also when it keeps too few digits (it does not pivot across degrees, and a
     near-singular leading block costs it digits that the dense solve keeps). Used above

@@ -384,7 +384,7 @@ def _ratio(r):
 def study_da(cases, cap):
     """Linear solves of the differential approximants: resum's order basis against dense LU."""
     from resum.estimators import diffapprox
-    from resum.estimators._num import hermite_pade
+    from resum._kernels.hermite import hermite_pade
     tab = Table("First-order differential approximant (0; M, M) of (1-x)^(-1/3) + (1+2x)^(1/2): "
                 "resum's order-basis recursion (two runs, for its error estimate) against one dense "
                 "LU solve of the same system at the same precision (FLINT arb_mat.solve, approximate; "

@@ -1,4 +1,4 @@
-"""The order-basis (sigma-basis) solver of Hermite-Padé forms, resum.estimators._num.hermite_pade,
+"""The order-basis (sigma-basis) solver of Hermite-Padé forms, resum._kernels.hermite.hermite_pade,
 and its use by the differential approximants above CERTIFIED_MAX unknowns: against a closed form
 (the Padé approximants of exp) and against mpmath's LU solve of the dense system (reference
 library)."""
@@ -7,8 +7,9 @@ import math
 import mpmath
 import pytest
 
-from resum.estimators import _num, diffapprox
-from resum.estimators._num import CERTIFIED_MAX, hermite_pade
+from resum._kernels.hermite import hermite_pade
+from resum.estimators import diffapprox
+from resum.estimators._num import CERTIFIED_MAX
 
 
 def test_pade_of_exp_matches_the_closed_form():
