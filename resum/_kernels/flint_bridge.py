@@ -42,6 +42,16 @@ def prec_for_dps(dps: int) -> int:
     return int(dps * _LOG2_10) + 8
 
 
+def flint_dps(dps: int):
+    """:func:`flint_prec` for ``dps`` decimal digits as python-flint converts them
+    (``flint.ctx.dps``), as a context manager."""
+    old = flint.ctx.prec
+    flint.ctx.dps = int(dps)
+    bits = flint.ctx.prec
+    flint.ctx.prec = old
+    return flint_prec(bits)
+
+
 @contextlib.contextmanager
 def flint_prec(bits: int):
     """Set python-flint's working precision to ``bits`` for a block, then restore it."""

@@ -19,7 +19,6 @@ True
 """
 from __future__ import annotations
 
-import contextlib
 import random
 
 import flint
@@ -28,16 +27,6 @@ import mpmath
 from . import flint_bridge as fb
 
 __all__ = ["hermite_pade", "two_run_error"]
-
-
-@contextlib.contextmanager
-def _flint_dps(dps: int):
-    old = flint.ctx.prec
-    flint.ctx.dps = int(dps)
-    try:
-        yield
-    finally:
-        flint.ctx.prec = old
 
 
 def two_run_error(v1, v2):
@@ -93,7 +82,7 @@ def hermite_pade(series, degrees, dps: int, normalize=None):
     if m < 2 or sigma < 1 or any(len(f) < sigma for f in series):
         return None
     cplx = any(isinstance(v, mpmath.mpc) and v.imag != 0 for f in series for v in f[:sigma])
-    with mpmath.workdps(dps + 10), _flint_dps(dps + 10):
+    with mpmath.workdps(dps + 10), fb.flint_dps(dps + 10):
         if cplx:
             conv = fb.to_acb
         else:

@@ -17,7 +17,6 @@ singular or a ball is too wide to say anything at the requested precision.
 """
 from __future__ import annotations
 
-import contextlib
 import math
 import random
 
@@ -27,22 +26,12 @@ import flint
 import mpmath
 
 from .._kernels.aberth import roots as ball_roots
+from .._kernels.flint_bridge import flint_dps
 from .._kernels.hermite import two_run_error
 from ..context import workdps
 
 __all__ = ["flint_dps", "solve", "poly_roots", "pade_coeffs", "polyval", "polyval_many", "polyder",
            "nearest_distances"]
-
-
-@contextlib.contextmanager
-def flint_dps(dps: int):
-    """Set python-flint's working precision to ``dps`` digits for a block."""
-    old = flint.ctx.prec
-    flint.ctx.dps = int(dps)
-    try:
-        yield
-    finally:
-        flint.ctx.prec = old
 
 
 def _is_complex(xs) -> bool:
