@@ -130,6 +130,7 @@ import flint
 import gmpy2
 import mpmath
 
+from . import arb_inplace as _ip
 from . import flint_bridge as fb
 
 __all__ = ["PadeApprox", "pade", "pade_table", "guard_digits_for_pade", "pade_fp"]
@@ -781,6 +782,93 @@ def _norm_inf(pol):
     return m
 
 
+#: Below this, ``arf_abs_bound_lt_2exp_si`` is reporting an exact zero.
+_EXACT_ZERO = -(1 << 40)
+
+
+class _Fallback(Exception):
+    """The in-place kernel met a case it leaves to the python-flint loop."""
+
+
+#: Fewest steps for which the in-place kernel pays for its set-up.
+_INPLACE_MIN_STEPS = 12
+
+
+def _cf_coefficients_inplace(g, nsteps, tol, final_bits, ar):
+    """:func:`_cf_coefficients` on real balls, in place (:mod:`.arb_inplace`):
+    the same Arb operations at the same precisions, so the same d_k bit for bit.
+
+    It covers the normal steps only. Where the loop of :func:`_cf_coefficients`
+    would look closer (``u_k(0)`` containing zero, or within a few bits of the
+    tolerance times the terms that cancelled to form it: a possible block or
+    termination), and at exact zeros that python-flint would strip from a
+    polynomial's length, it raises :class:`_Fallback` and the caller runs that
+    loop from the start. The test here is looser than the loop's by a factor 8
+    (exponent bounds), so it never passes a step the loop would have stopped at."""
+    lib = _ip.lib
+    start_bits = flint.ctx.prec
+    if final_bits is None or final_bits >= start_bits:
+        final_bits = start_bits
+    n = len(g)
+    if n < 2:
+        raise _Fallback
+    mid_only = ar is _MID
+    bound = lib.arf_abs_bound_lt_2exp_si
+    e_tol = bound(_ip.addr(tol if isinstance(tol, flint.arb) else fb.to_arb(tol)))
+    V = _ip.Vec.of(g)                       # v_1 = g
+    if lib.arb_contains_zero(V[0]):
+        raise _Fallback
+    U = _ip.Vec.of(g[1:], neg=True)         # u_1 = (g0 - g)/x
+    D = _ip.Vec(nsteps)
+    if mid_only:
+        t1, t2 = _ip.Vec(1), _ip.Vec(1)
+    e_cheap = max(bound(V[i]) for i in range(n))
+    # exponent bounds carried from step to step instead of asked again: v_k = u_(k-1), so
+    # |v_k(0)| and |v_k[1]| are the previous step's |u(0)| and |u[1]|
+    e_v0, e_v1 = bound(V[0]), bound(V[1])
+    if e_v1 < _EXACT_ZERO:
+        raise _Fallback
+    S = _ip.ARB_SIZE
+    pv, pu, pd = V.p, U.p, D.p          # addresses of v_k(0), u_k(0), d_k
+    span = start_bits - final_bits
+    mul, sub, div = lib._arb_vec_scalar_mul, lib._arb_vec_sub, lib.arb_div
+    getmid, has_zero = lib.arb_get_mid_arb, lib.arb_contains_zero
+    bits = start_bits
+    for k in range(1, nsteps + 1):
+        if span:
+            bits = final_bits + (span * (nsteps - k)) // max(nsteps, 1)
+            bits = min(start_bits, -(-bits // 64) * 64)
+        e_u0 = bound(pu)
+        if e_u0 < e_tol + e_cheap + 3 or (not mid_only and has_zero(pu)):
+            raise _Fallback
+        if mid_only:
+            getmid(t1.p, pu)
+            getmid(t2.p, pv)
+            div(pd, t1.p, t2.p, bits)
+            getmid(pd, pd)
+        else:
+            div(pd, pu, pv, bits)
+        if k == nsteps:
+            break
+        valid = n - 1 - k
+        if valid < 1:
+            raise _Fallback
+        e_u1 = bound(pu + S)
+        if e_u1 < _EXACT_ZERO:          # an exact zero: leave it to the loop
+            raise _Fallback
+        # |d_k| < 2^(e_u0 - e_v0 + 1), and a bit each for the roundings of d_k and d_k v_k[1]
+        e_cheap = max(e_u0 - e_v0 + e_v1 + 3, e_u1)
+        w = pv + S
+        mul(w, w, valid, pd, bits)
+        sub(w, w, pu + S, valid, bits)
+        # u_{k+1} = w (in v's vector, one place up), v_{k+1} = u_k
+        pv, pu = pu, w
+        e_v0, e_v1 = e_u0, e_u1
+        pd += S
+    flint.ctx.prec = bits
+    return D.to_list(0, nsteps), None
+
+
 def _cf_coefficients(g, nsteps, tol, cplx, final_bits=None, ar=None):
     """d_1..d_nsteps of the corresponding fraction of g (list of numbers of
     the backend ``ar``, default Arb balls; g[0] != 0).
@@ -798,6 +886,12 @@ def _cf_coefficients(g, nsteps, tol, cplx, final_bits=None, ar=None):
     (setting it costs a few microseconds)."""
     ar = ar or _BALL
     start_bits = ar.get_prec()
+    if (not cplx and ar is not _MPFR and _ip.available() and nsteps >= _INPLACE_MIN_STEPS
+            and all(isinstance(x, flint.arb) for x in g)):
+        try:
+            return _cf_coefficients_inplace(g, nsteps, tol, final_bits, ar)
+        except _Fallback:
+            flint.ctx.prec = start_bits
     if final_bits is None or final_bits >= start_bits:
         final_bits = start_bits
     P = ar.poly(cplx)
@@ -864,11 +958,52 @@ def _poly_small(pol, thr):
     return True
 
 
+def _denominators_inplace(d, want):
+    """:func:`_denominators` on real balls, in place, at the current flint
+    precision: the same Arb operations (``arb_mul``, ``arb_add``, and
+    ``arb_set_round`` where python-flint's polynomial sum copies a tail), so the
+    same B_k bit for bit."""
+    lib = _ip.lib
+    bits = flint.ctx.prec
+    top = max(want)
+    size = top // 2 + 2
+    Bm, B, T, S = _ip.Vec(size), _ip.Vec(size), _ip.Vec(size), _ip.Vec(size)
+    dv = _ip.Vec.of(d[:top])
+    lib.arb_set_si(Bm[0], 1)
+    lib.arb_set_si(B[0], 1)
+    lm = lb = 1
+    out = {}
+    mul, add, setr = lib._arb_vec_scalar_mul, lib._arb_vec_add, lib.arb_set_round
+    P = flint.arb_poly
+    if 0 in want:
+        out[0] = P(B.to_list(0, lb))
+    for k in range(1, top + 1):
+        # T = B + x d_k Bm: coefficient 0 is B's (plus an exact zero), then the sums
+        mul(S[0], Bm[0], lm, dv[k - 1], bits)
+        setr(T[0], B[0], bits)
+        both = min(lb - 1, lm)
+        add(T[1], B[1], S[0], both, bits)
+        for i in range(both + 1, lb):
+            setr(T[i], B[i], bits)
+        for i in range(both, lm):
+            setr(T[i + 1], S[i], bits)
+        lt = max(lb, lm + 1)
+        Bm, B, T = B, T, Bm
+        lm, lb = lb, lt
+        if k in want:
+            out[k] = P(B.to_list(0, lb))
+    return out
+
+
 def _denominators(d, cplx, want, ar=None):
     """Denominators B_k of the convergents, for k in ``want``:
     ``B_k = B_{k-1} + d_k x B_{k-2}``, ``B_{-1} = B_0 = 1``; the convergent
     A_k/B_k is the staircase entry and its numerator is the truncation of
     ``g B_k`` (computed by the caller with one product). O(k) per step."""
+    if (not cplx and (ar or _BALL) is not _MPFR and _ip.available() and want
+            and max(want) >= _INPLACE_MIN_STEPS and max(want) <= len(d)
+            and all(isinstance(x, flint.arb) and x != 0 for x in d[:max(want)])):
+        return _denominators_inplace(d, want)
     P = (ar or _BALL).poly(cplx)
     Bm, B = P([1]), P([1])
     out = {}
