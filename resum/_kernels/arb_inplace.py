@@ -25,6 +25,7 @@ from __future__ import annotations
 
 import ctypes
 import os
+import types
 
 import flint
 
@@ -54,7 +55,7 @@ _SIGS = {
     "arf_get_d": ([_VP, ctypes.c_int], ctypes.c_double),
 }
 
-lib = None          # the loaded library (None if unavailable)
+lib = None          # the declared functions of the loaded library (None if unavailable)
 _OFFSET = None      # byte offset of the arb_struct inside a python-flint arb object
 
 
@@ -113,7 +114,9 @@ def _load():
     finally:
         h._arb_vec_clear(v, 3)
     if ok:
-        lib = h
+        # only the declared functions: an undeclared one would be called with 32-bit int
+        # arguments and crash the interpreter, so it must fail as a missing attribute instead
+        lib = types.SimpleNamespace(**{name: getattr(h, name) for name in _SIGS})
     else:                       # pragma: no cover
         _OFFSET = None
 

@@ -977,21 +977,24 @@ def _denominators_inplace(d, want):
     P = flint.arb_poly
     if 0 in want:
         out[0] = P(B.to_list(0, lb))
+    Z = _ip.ARB_SIZE
+    pm, pb, pt, ps, pd = Bm.p, B.p, T.p, S.p, dv.p
+    vecs = {pm: Bm, pb: B, pt: T}
     for k in range(1, top + 1):
         # T = B + x d_k Bm: coefficient 0 is B's (plus an exact zero), then the sums
-        mul(S[0], Bm[0], lm, dv[k - 1], bits)
-        setr(T[0], B[0], bits)
+        mul(ps, pm, lm, pd, bits)
+        setr(pt, pb, bits)
         both = min(lb - 1, lm)
-        add(T[1], B[1], S[0], both, bits)
+        add(pt + Z, pb + Z, ps, both, bits)
         for i in range(both + 1, lb):
-            setr(T[i], B[i], bits)
+            setr(pt + i * Z, pb + i * Z, bits)
         for i in range(both, lm):
-            setr(T[i + 1], S[i], bits)
-        lt = max(lb, lm + 1)
-        Bm, B, T = B, T, Bm
-        lm, lb = lb, lt
+            setr(pt + (i + 1) * Z, ps + i * Z, bits)
+        pm, pb, pt = pb, pt, pm
+        lm, lb = lb, max(lb, lm + 1)
+        pd += Z
         if k in want:
-            out[k] = P(B.to_list(0, lb))
+            out[k] = P(vecs[pb].to_list(0, lb))
     return out
 
 
