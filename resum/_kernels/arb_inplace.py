@@ -88,8 +88,10 @@ def _load():
     except (OSError, AttributeError):
         return
     # where the arb_struct sits in python-flint's object: after the object header (and a
-    # vtable pointer, if the class has one); confirmed on three values, read and written
-    probes = (3.0, -0.75, 2.0 ** 70)
+    # vtable pointer, if the class has one); confirmed on three values, read and written.
+    # The probes have small exponents: read at a wrong offset, a large exponent would be
+    # taken for a limb count and the next word for a pointer
+    probes = (3.0, -0.75, 5.0)
     for off in (16, 24, 32):
         try:
             if all(h.arf_get_d(id(x) + off, 0) == v for v, x in ((v, flint.arb(v)) for v in probes)):
