@@ -60,16 +60,19 @@ _OFFSET = None      # byte offset of the arb_struct inside a python-flint arb ob
 
 
 def _flint_path():
+    """The one FLINT library mapped into this process (None if none, or if two copies are:
+    then which one python-flint uses is not known)."""
+    found = set()
     try:
         with open("/proc/self/maps") as fh:
             for line in fh:
                 path = line.split()[-1] if line.strip() else ""
                 name = os.path.basename(path)
                 if name.startswith("libflint") and ".so" in name and os.path.exists(path):
-                    return path
+                    found.add(path)
     except OSError:
         return None
-    return None
+    return found.pop() if len(found) == 1 else None
 
 
 def _load():
@@ -129,7 +132,8 @@ def available() -> bool:
 
 
 def addr(x) -> int:
-    """Address of the arb_struct inside a python-flint ``arb``."""
+    """Address of the arb_struct inside a python-flint ``arb``. Keep a reference to ``x``
+    while the address is in use: ``addr(make_ball())`` points into freed memory."""
     return id(x) + _OFFSET
 
 

@@ -821,7 +821,8 @@ def _cf_coefficients_inplace(g, nsteps, tol, final_bits, ar):
         raise _Fallback
     mid_only = ar is _MID
     bound = lib.arf_abs_bound_lt_2exp_si
-    e_tol = bound(_ip.addr(tol if isinstance(tol, flint.arb) else fb.to_arb(tol)))
+    tol_ball = tol if isinstance(tol, flint.arb) else fb.to_arb(tol)    # alive while read
+    e_tol = bound(_ip.addr(tol_ball))
     V = _ip.Vec.of(g)                       # v_1 = g
     if lib.arb_contains_zero(V[0]):
         raise _Fallback
