@@ -257,6 +257,34 @@ def study_matched(cases):
     return tab
 
 
+def study_inplace(cases):
+    """The in-place recursion (resum._kernels.arb_inplace) against the python-flint polynomial
+    loop it replaces, same call, same numbers (checked here): an internal comparison."""
+    from resum._kernels import arb_inplace
+    tab = Table("[N/N] of log(1+x)/x with the recursion in place (FLINT's vector functions through "
+                "ctypes) and on python-flint polynomials (the fallback); min of 12 calls each",
+                ["N", "dps asked", "check", "in place", "python-flint loop", "ratio", "same result"])
+    if not arb_inplace.available():
+        tab.add("-", "-", "-", "not available here", "-", "-", "-")
+        return tab
+    lib = arb_inplace.lib
+    for N, dps in cases:
+        c = series_log(2 * N + 1, dps)
+        for check in ("ball", "residual"):
+            out = {}
+            for label in ("in place", "loop"):
+                arb_inplace.lib = lib if label == "in place" else None
+                try:
+                    t, r = timed(lambda: pade(c, N, N, dps, check=check), repeat=12)
+                finally:
+                    arb_inplace.lib = lib
+                out[label] = (t, r)
+            (t1, r1), (t2, r2) = out["in place"], out["loop"]
+            same = r1.p == r2.p and r1.q == r2.q and r1.digits == r2.digits
+            tab.add(N, dps, check, fmt_t(t1), fmt_t(t2), f"{t2 / t1:.2f}x", "yes" if same else "NO")
+    return tab
+
+
 def study_table(N, dps):
     tab = Table(f"Near-diagonal table (offsets -2..2, all orders up to [{N}/{N}]) at {dps} digits "
                 f"vs one mpmath.pade [{N}/{N}]",
@@ -491,7 +519,8 @@ def main(argv=None):
     ap.add_argument("--cap", type=float, default=120.0, help="baseline time cap in seconds")
     ap.add_argument("--out", default=str(HERE / "out"), help="folder for performance.txt")
     ap.add_argument("--pipeline", action="store_true", help="also time analyze/evaluate")
-    ap.add_argument("--only", choices=["pade", "matched", "table", "roots", "fp", "da", "pipeline"],
+    ap.add_argument("--only", choices=["pade", "matched", "inplace", "table", "roots", "fp", "da",
+                                       "pipeline"],
                     help="run one table only")
     args = ap.parse_args(argv)
     sizes = (25, 50) if args.quick else (25, 50, 100, 200)
@@ -505,6 +534,10 @@ def main(argv=None):
     if want("matched"):
         print("matched", flush=True)
         tables.append(study_matched([(50, 100)] if args.quick else [(50, 300), (100, 300), (100, 100)]))
+    if want("inplace"):
+        print("in place", flush=True)
+        tables.append(study_inplace([(50, 100)] if args.quick else [(50, 100), (100, 156), (100, 300),
+                                                                     (200, 100)]))
     if want("table"):
         print("table", flush=True)
         tables.append(study_table(50 if args.quick else 100, 100 if args.quick else 300))
