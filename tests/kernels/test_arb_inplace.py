@@ -96,3 +96,21 @@ def test_pade_same_with_and_without_and_matches_mpmath(check, monkeypatch):
         err = max(abs(a - b) for a, b in zip(fast.q, qref)) / max(abs(b) for b in qref)
     assert fast.digits >= dps
     assert err < mpmath.mpf(10) ** -dps
+
+
+def test_only_declared_functions_are_reachable():
+    # an undeclared C function would be called with 32-bit int arguments (a crash): the handle
+    # must not offer one
+    assert hasattr(arb_inplace.lib, "_arb_vec_scalar_mul")
+    with pytest.raises(AttributeError):
+        arb_inplace.lib.arb_rel_accuracy_bits
+
+
+def test_environment_variable_turns_it_off():
+    import subprocess
+    import sys
+    code = "from resum._kernels import arb_inplace as a; print(a.available())"
+    env = dict(__import__("os").environ, RESUM_NO_CTYPES="1")
+    out = subprocess.run([sys.executable, "-c", code], env=env, capture_output=True, text=True,
+                         check=True).stdout.strip()
+    assert out == "False"
