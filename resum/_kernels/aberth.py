@@ -6,7 +6,10 @@ rising precision, and an inclusion test that proves each root isolated.
 polynomial whose coefficients are the midpoints of ``poly``'s (as ``acb_poly.roots`` does with
 an exact polynomial), each of radius at most ``tol`` (absolute, as for ``acb_poly.roots``), or
 None when any stage fails (clustered or multiple roots, a starting value that does not
-converge): the caller then uses ``acb_poly.roots``, which isolates from scratch.
+converge): the caller then uses ``acb_poly.roots``, which isolates from scratch. Where only the inclusion
+discs come out too wide (the roots converged, but ``|p(z_i)|`` is rounding at the bits used and
+clustered roots magnify it), Newton steps at more bits and a new test come first
+(:data:`INCLUSION_RETRIES`).
 
 Why: on the Padé denominators of the conformal-Padé tables (degree about 100, coefficients at
 640 bits, roots to 2^-629), ``acb_poly.roots`` took 85-130 ms per polynomial and root finding was
@@ -51,6 +54,9 @@ STALL_SWEEPS = 25
 SWEEP_TOL = 1e-13
 #: bits of the Aberth stage (the Newton quotients only need a few correct digits)
 SWEEP_BITS = 128
+#: rounds of Newton steps at more bits when the inclusion discs come out wider than the
+#: tolerance (or touch) before the caller's fallback isolates from scratch
+INCLUSION_RETRIES = 2
 
 
 def _to_complex(x) -> complex:
@@ -221,76 +227,113 @@ def refined_roots(poly, prec: int, tol, seeds=None) -> Optional[list]:
         need = int(-float((want.mid()).log()) / math.log(2)) + 20 if want > 0 else prec
         need, top = min(max(need, 64), 4 * prec), 4 * prec
         bits = max(bits // 2, 40)      # the Aberth stage's bits gave quotients with digits to spare
-        active = list(range(n))
-        prev = {}                       # the size of each root's last step
-        for _ in range(60):
-            bits = min(need, 2 * bits + 20) if bits < need else bits
-            flint.ctx.prec = bits
-            pts = [z[i] for i in active]
-            pv = mid.evaluate(pts, algorithm="iter")
-            dv = dmid.evaluate(pts, algorithm="iter")
-            still, noisy = [], False
-            for i, a, b in zip(active, pv, dv):
-                try:
-                    si = a / b
-                except ZeroDivisionError:
-                    return None
-                size = abs(si)
-                clear = _clear(si)
-                if clear:                            # a step that is mostly rounding is not taken
-                    z[i] = (z[i] - si).mid()
-                # quadratic convergence: the step after this one would be about K size^2, with
-                # K = size / (last size)^2; when that is far below the tolerance, at the full
-                # bits, the root is done without one more evaluation (the inclusion test below
-                # checks it; measured on Padé denominators of degree 100 at 730 bits: three
-                # evaluations instead of four)
-                last = prev.get(i)
-                prev[i] = size.mid()
-                done_early = (clear and bits >= need and last is not None and last > 0
-                              and size.mid() ** 3 <= want * last ** 2 / 1024)
-                if not done_early and (bits < need or size.mid() + size.rad() > want):
-                    still.append(i)
-                    noisy = noisy or size.rad() > want / 2
-            active = still
-            if not active:
-                break
-            if bits >= need and noisy:
-                if need >= top:
-                    return None
-                need = min(top, 2 * need)
-        else:
-            return None
-        # the inclusion test above the precision the steps needed (its rounding enters the radii)
-        prec = bits + 64
-        # inclusion discs |z - z_i| <= n |W_i|, doubled for the double-precision product
-        flint.ctx.prec = prec
-        pv = mid.evaluate(z, algorithm="iter")
-        zc = np.array([_to_complex(v) for v in z])
-        sep = np.abs(zc[:, None] - zc[None, :])
-        np.fill_diagonal(sep, 1.0)
-        with np.errstate(divide="ignore", invalid="ignore"):   # roots that met: -inf, refused below
-            logprod = np.sum(np.log(sep), axis=1)
-        if not np.all(np.isfinite(logprod)):
-            return None
-        lc = abs(mids[n])
-        out = []
-        rads = []
-        for zi, v, lp in zip(z, pv, logprod):
-            a = abs(v)
-            up = a.mid() + a.rad()
-            r = 2 * n * up / lc * flint.arb(-float(lp)).exp()
-            r = r.mid() + r.rad()
-            if not r <= lim:
+        for attempt in range(INCLUSION_RETRIES + 1):
+            got = _newton(mid, dmid, z, bits, need, top, want)
+            if got is None:
                 return None
-            rads.append(float(r) if r > 0 else 0.0)
-            out.append((zi, r))
-        rr = np.array(rads)
-        np.fill_diagonal(sep, np.inf)
-        if np.any(sep <= 2 * (rr[:, None] + rr[None, :])):
-            return None
-        return [flint.acb(flint.arb(zi.real.mid(), r), flint.arb(zi.imag.mid(), r)) for zi, r in out]
+            bits, need = got
+            res = _inclusion(mid, z, n, bits + 64, abs(mids[n]), lim)
+            if isinstance(res, list):
+                return res
+            # the discs are too wide for the tolerance (or touch): |p(z_i)| is rounding at these
+            # bits, and clustered roots multiply it by the product over their neighbours. More
+            # bits shrink it; the roots are already close, so one or two Newton steps at the
+            # higher precision suffice (on the 200-loop kernel series' Pade denominators, roots
+            # to 1e-225: 16 of 128 calls, which went to acb_poly.roots at about 0.1 s each)
+            if res is None or need >= top:
+                return None
+            need = min(top, need + int(res) + 64)
+        return None
     finally:
         flint.ctx.prec = old
+
+
+def _newton(mid, dmid, z, bits, need, top, want):
+    """Newton steps on every root in ``z`` (updated in place) at rising precision, up to
+    ``need`` bits (raised, up to ``top``, while a step is mostly rounding). Returns the final
+    ``(bits, need)``, or None."""
+    n = len(z)
+    active = list(range(n))
+    prev = {}                       # the size of each root's last step
+    for _ in range(60):
+        bits = min(need, 2 * bits + 20) if bits < need else bits
+        flint.ctx.prec = bits
+        pts = [z[i] for i in active]
+        pv = mid.evaluate(pts, algorithm="iter")
+        dv = dmid.evaluate(pts, algorithm="iter")
+        still, noisy = [], False
+        for i, a, b in zip(active, pv, dv):
+            try:
+                si = a / b
+            except ZeroDivisionError:
+                return None
+            size = abs(si)
+            clear = _clear(si)
+            if clear:                            # a step that is mostly rounding is not taken
+                z[i] = (z[i] - si).mid()
+            # quadratic convergence: the step after this one would be about K size^2, with
+            # K = size / (last size)^2; when that is far below the tolerance, at the full
+            # bits, the root is done without one more evaluation (the inclusion test below
+            # checks it; measured on Padé denominators of degree 100 at 730 bits: three
+            # evaluations instead of four)
+            last = prev.get(i)
+            prev[i] = size.mid()
+            done_early = (clear and bits >= need and last is not None and last > 0
+                          and size.mid() ** 3 <= want * last ** 2 / 1024)
+            if not done_early and (bits < need or size.mid() + size.rad() > want):
+                still.append(i)
+                noisy = noisy or size.rad() > want / 2
+        active = still
+        if not active:
+            return bits, need
+        if bits >= need and noisy:
+            if need >= top:
+                return None
+            need = min(top, 2 * need)
+    return None
+
+
+def _inclusion(mid, z, n, prec, lc, lim):
+    """The inclusion test of the module docstring at ``prec`` bits: the roots as balls of
+    radius at most ``lim`` (a list), or, when a disc is wider than ``lim`` or two discs
+    touch, the bits by which the widest disc misses (a float; None when the roots met or a
+    value is not finite)."""
+    # the inclusion test above the precision the steps needed (its rounding enters the radii)
+    # inclusion discs |z - z_i| <= n |W_i|, doubled for the double-precision product
+    flint.ctx.prec = prec
+    pv = mid.evaluate(z, algorithm="iter")
+    zc = np.array([_to_complex(v) for v in z])
+    sep = np.abs(zc[:, None] - zc[None, :])
+    np.fill_diagonal(sep, 1.0)
+    with np.errstate(divide="ignore", invalid="ignore"):   # roots that met: -inf, refused below
+        logprod = np.sum(np.log(sep), axis=1)
+    if not np.all(np.isfinite(logprod)):
+        return None
+    out = []
+    rads = []
+    wide = 0.0
+    for zi, v, lp in zip(z, pv, logprod):
+        a = abs(v)
+        up = a.mid() + a.rad()
+        r = 2 * n * up / lc * flint.arb(-float(lp)).exp()
+        r = r.mid() + r.rad()
+        if not r <= lim:
+            if not (r.is_finite() and r > 0):
+                return None
+            wide = max(wide, float((r / lim).log()) / math.log(2))
+        rads.append(float(r) if r > 0 else 0.0)
+        out.append((zi, r))
+    if wide > 0:
+        return wide
+    rr = np.array(rads)
+    np.fill_diagonal(sep, np.inf)
+    touch = sep <= 2 * (rr[:, None] + rr[None, :])
+    if np.any(touch):
+        # by how much the discs would have to shrink for the closest pair to part
+        with np.errstate(divide="ignore"):
+            ratio = np.max(np.where(touch, 2 * (rr[:, None] + rr[None, :]) / sep, 0))
+        return max(1.0, math.log2(ratio)) if np.isfinite(ratio) else None
+    return [flint.acb(flint.arb(zi.real.mid(), r), flint.arb(zi.imag.mid(), r)) for zi, r in out]
 
 
 def roots(poly, prec: int, tol, maxprec: int, seeds=None) -> list:

@@ -132,3 +132,28 @@ def test_useless_seeds_fall_back_to_the_usual_start():
                 assert sum(1 for r in ref if f.overlaps(r)) == 1
     finally:
         flint.ctx.prec = 53
+
+
+def test_wide_inclusion_discs_get_more_bits_before_the_fallback(monkeypatch):
+    # ten roots on a line 0.1 apart, asked to 2^-180 at 200 bits: the first inclusion discs are
+    # wider than that (the product over close neighbours magnifies |p(z_i)|); without the
+    # retries the fast path gives up, with them it proves every root. Reference: Arb's own
+    # isolation of the same midpoint polynomial (acb_poly.roots)
+    import resum._kernels.aberth as aberth
+    prec = 200
+    flint.ctx.prec = prec
+    try:
+        rts = [flint.acb(1 + k * flint.arb("0.1"), flint.arb(k) / 70) for k in range(10)]
+        p = flint.acb_poly([c.mid() for c in flint.acb_poly.from_roots(rts).coeffs()])
+        tol = flint.arb(2) ** -180
+        monkeypatch.setattr(aberth, "INCLUSION_RETRIES", 0)
+        assert refined_roots(p, prec, tol) is None
+        monkeypatch.setattr(aberth, "INCLUSION_RETRIES", 2)
+        got = refined_roots(p, prec, tol)
+        assert got is not None and len(got) == 10
+        ref = p.roots(tol=tol, maxprec=4 * prec)
+        for f in got:
+            assert f.real.rad() <= tol and f.imag.rad() <= tol
+            assert sum(1 for r in ref if f.overlaps(r)) == 1
+    finally:
+        flint.ctx.prec = 53
