@@ -29,7 +29,7 @@ import types
 
 import flint
 
-__all__ = ["available", "Vec", "lib", "addr", "to_arb", "bound_log2", "contains_zero"]
+__all__ = ["available", "Vec", "lib", "addr", "to_arb"]
 
 #: sizeof(arb_struct) on 64-bit platforms: arf (exponent, size, two limbs) + mag (exponent, limb)
 ARB_SIZE = 48
@@ -142,16 +142,6 @@ def to_arb(p: int):
     y = flint.arb()
     lib.arb_set(id(y) + _OFFSET, p)
     return y
-
-
-def bound_log2(p: int) -> int:
-    """``e`` with ``|mid| < 2^e`` (tight to one unit) for the ball at ``p``; a very
-    negative number for a zero midpoint."""
-    return lib.arf_abs_bound_lt_2exp_si(p)
-
-
-def contains_zero(p: int) -> bool:
-    return bool(lib.arb_contains_zero(p))
 
 
 class Vec:

@@ -793,6 +793,13 @@ def _norm_inf(pol):
 _EXACT_ZERO = -(1 << 40)
 
 
+def _scheduled_bits(k, nsteps, start_bits, final_bits):
+    """Working bits at step ``k`` of the recursion: from ``start_bits`` down to ``final_bits``
+    linearly, rounded up to whole 64-bit limbs (see :func:`_cf_coefficients`)."""
+    bits = final_bits + ((start_bits - final_bits) * (nsteps - k)) // max(nsteps, 1)
+    return min(start_bits, -(-bits // 64) * 64)
+
+
 class _Fallback(Exception):
     """The in-place kernel met a case it leaves to the python-flint loop."""
 
@@ -844,8 +851,7 @@ def _cf_coefficients_inplace(g, nsteps, tol, final_bits, ar):
     bits = start_bits
     for k in range(1, nsteps + 1):
         if span:
-            bits = final_bits + (span * (nsteps - k)) // max(nsteps, 1)
-            bits = min(start_bits, -(-bits // 64) * 64)
+            bits = _scheduled_bits(k, nsteps, start_bits, final_bits)
         e_u0 = bound(pu)
         if e_u0 < e_tol + e_cheap + 3 or (not mid_only and has_zero(pu)):
             raise _Fallback
@@ -920,8 +926,7 @@ def _cf_coefficients(g, nsteps, tol, cplx, final_bits=None, ar=None):
     span = start_bits - final_bits
     for k in range(1, nsteps + 1):
         if span:
-            bits = final_bits + (span * (nsteps - k)) // max(nsteps, 1)
-            bits = min(start_bits, -(-bits // 64) * 64)
+            bits = _scheduled_bits(k, nsteps, start_bits, final_bits)
             if bits != cur_bits:
                 ar.set_prec(bits)
                 cur_bits = bits
