@@ -227,7 +227,7 @@ def refined_roots(poly, prec: int, tol, seeds=None) -> Optional[list]:
         need = int(-float((want.mid()).log()) / math.log(2)) + 20 if want > 0 else prec
         need, top = min(max(need, 64), 4 * prec), 4 * prec
         bits = max(bits // 2, 40)      # the Aberth stage's bits gave quotients with digits to spare
-        for attempt in range(INCLUSION_RETRIES + 1):
+        for _ in range(INCLUSION_RETRIES + 1):
             got = _newton(mid, dmid, z, bits, need, top, want)
             if got is None:
                 return None

@@ -991,10 +991,10 @@ def _denominators_inplace(d, want):
     if 0 in want:
         out[0] = P(B.to_list(0, lb))
     Z = _ip.ARB_SIZE
-    pm, pb, pt, ps, pd = Bm.p, B.p, T.p, S.p, dv.p
-    vecs = {pm: Bm, pb: B, pt: T}
+    ps, pd = S.p, dv.p
     for k in range(1, top + 1):
         # T = B + x d_k Bm: coefficient 0 is B's (plus an exact zero), then the sums
+        pm, pb, pt = Bm.p, B.p, T.p
         mul(ps, pm, lm, pd, bits)
         setr(pt, pb, bits)
         both = min(lb - 1, lm)
@@ -1003,11 +1003,11 @@ def _denominators_inplace(d, want):
             setr(pt + i * Z, pb + i * Z, bits)
         for i in range(both, lm):
             setr(pt + (i + 1) * Z, ps + i * Z, bits)
-        pm, pb, pt = pb, pt, pm
+        Bm, B, T = B, T, Bm
         lm, lb = lb, max(lb, lm + 1)
         pd += Z
         if k in want:
-            out[k] = P(vecs[pb].to_list(0, lb))
+            out[k] = P(B.to_list(0, lb))
     return out
 
 
