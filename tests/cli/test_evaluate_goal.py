@@ -104,3 +104,19 @@ def test_goal_beyond_the_files_digits_names_the_command_that_gives_them(tmp_path
     doc = json.loads(capsys.readouterr().out)
     _holds_closed_form(doc, 1)
     assert float(doc["values"][0]["digits"]) >= 25
+
+
+def test_no_round_that_the_projection_says_cannot_reach_the_goal(tmp_path, capsys):
+    # angle 0, 30 loops, g = 8 asked to 20 digits: the projection needs far more than the 36
+    # terms allowed, and 5 more terms are too few to try; one evaluation, the reason given
+    # (truth: the closed form above, mpmath)
+    f = tmp_path / "a0.json"
+    assert main(["generate", "bes", "--angle", "0", "--loops", "30", "--dps", "40", "-o", str(f)]) == 0
+    capsys.readouterr()
+    code = main(["evaluate", str(f), "--at", "8", "--goal", "20", "--max-terms", "36", "--no-verify", "--json"])
+    doc = json.loads(capsys.readouterr().out)
+    assert code == 1
+    search = doc["order_search"]
+    assert search["reached"] is False and len(search["rounds"]) == 1
+    assert "would not reach it" in search["note"] and "max_terms = 36" in search["note"]
+    _holds_closed_form(doc, 8)
