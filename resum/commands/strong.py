@@ -10,7 +10,9 @@ resummed values within their bands with the fewest terms, the largest (the
 report says which and why; when none matches, 1). The quartic oscillator's
 levels go as g^(1/3) (e0 + e1 g^(-2/3) + ...): from 40 orders the first
 excited level's g^(1/3) coefficient comes out 3.800(4) with S = 2/3 (the
-level of p^2 + x^4 is 3.79967), and 3.86(5) with S = 1. With ``--expect``
+level of p^2 + x^4 is 3.79967), and 3.86(5) with S = 1. Where no fit of the powers
+matches the values over all trusted couplings, fits with an exponentially small term
+``A e^(-kappa g)`` are tried and kept if one matches (``--exponential``). With ``--expect``
 the fitted coefficients are compared with values the user supplies.
 """
 from __future__ import annotations
@@ -42,6 +44,10 @@ def add_arguments(parser) -> None:
                              "whose fits over all trusted couplings match the resummed values within "
                              "their bands with the fewest terms, the largest)")
     parser.add_argument("--logs", action="store_true", help="also fit g^(p - k S) log g terms")
+    parser.add_argument("--exponential", default="auto", metavar="WHEN",
+                        help="exponentially small terms A e^(-kappa g) (+ A' e^(-kappa g)/g), kappa "
+                             "fitted: auto (default: where no fit of the powers alone matches the "
+                             "values over all trusted couplings and one with them does), always, never")
     parser.add_argument("--expect", action="append", default=[], metavar="LABEL=VALUE",
                         help="expected coefficient to compare with, e.g. 'g^1=2', "
                              "'g^0=-3*log(2)/(2*pi)' or 'g^(1/3)=3.8' (repeat)")
@@ -107,6 +113,11 @@ def run(args) -> int:
         except InputError as exc:
             raise InputError(exc.bare.replace("'auto'", "auto"), where="--spacing") from None
         extra["spacing"] = args.spacing.strip()
+    from ..estimators.strong_coupling import EXPONENTIAL_CHOICES
+    if args.exponential not in EXPONENTIAL_CHOICES:
+        raise InputError(f"give one of {', '.join(EXPONENTIAL_CHOICES)}, got {args.exponential!r}",
+                         where="--exponential")
+    extra["exponential"] = args.exponential
     if args.max_band is not None:
         band = _number(args.max_band, ctx.work_dps, "--max-band")
         if isinstance(band, mpmath.mpc) or not 0 < band < 1:
@@ -179,6 +190,11 @@ def _render(res) -> str:
             if cmp:
                 tail = f"   expected {cmp.get('expected')}: {'inside' if cmp.get('inside') else 'OUTSIDE'} the band"
             lines.append(f"  {_shown(label):>14}  {e}{tail}")
+    exp = res.diagnostics.get("exponential")
+    if isinstance(exp, dict) and exp.get("kappa") is not None:
+        terms = " and A' e^(-kappa {0})/{0}".format(res.variable) if 2 in exp.get("terms", []) else ""
+        lines.append(f"  plus A e^(-kappa {res.variable}){terms}: kappa = {exp['kappa']} = "
+                     f"{exp['kappa_over_pi']} pi   ({exp.get('n_fits')} fits)")
     for w in res.warnings:
         lines.append(f"warning: {w}")
     lines.append("The bands come from the spread over an ensemble of fits (numbers of terms and "

@@ -20,12 +20,24 @@ coefficient's value is the median over the ensemble, and its band is 3
 times the larger of the ensemble's central spread (16th to 84th percentile
 around the median) and the median least-squares standard error. Weights are 1/band, floored at a 1e-10 relative band.
 
+Exponentially small terms. Where no fit of the power form matches the values
+within their bands (chi2/dof above :data:`MATCH_CHI2`), the fits are repeated
+with ``A e^(-kappa g)`` (one term, or two with ``A' e^(-kappa g)/g``) added,
+``kappa`` found per fit by a search of the least-squares misfit
+(:func:`_ensemble_exp`); when one of those fits matches, they replace the power
+fits and ``kappa`` is reported with its band (``diagnostics["exponential"]``).
+Such terms arise where the strong-coupling expansion is asymptotic and its
+Borel transform has a singularity at ``kappa`` (common practice, no source):
+the angle-deformed kernel family at ``a = 0`` has exactly
+``(2/pi^2) log(1 + e^(-4 pi g))`` beyond its two power terms.
+``exponential="always"`` adds them in any case, ``"never"`` never.
+
 What the bands mean: the coefficient bands measure how much the fitted
 numbers move when the truncation of the asymptotic form and the fitting
 window change, given the resummed values and their bands. They do not
 account for terms the form leaves out entirely (exponentially small
-corrections, unexpected logs); comparing ``log_terms`` on/off and the
-reported ``trusted_up_to`` coupling tells how far to rely on them.
+corrections beyond the one fitted, unexpected logs); comparing ``log_terms``
+on/off and the reported ``trusted_up_to`` coupling tells how far to rely on them.
 
 >>> from resum.series import Series, Coupling
 >>> from resum.context import Context, workdps
@@ -41,12 +53,14 @@ reported ``trusted_up_to`` coupling tells how far to rely on them.
 """
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass, field
 from fractions import Fraction
 from typing import Optional, Sequence
 
 import re
 
+import flint
 import mpmath
 
 from ..context import Context, checked_context, workdps
@@ -158,6 +172,22 @@ MIN_SPACING, MAX_SPACING = Fraction(1, 1000), 100
 #: g^(-2/3) + ...)), 1/2, 1/3
 AUTO_SPACINGS = (Fraction(2), Fraction(1), Fraction(2, 3), Fraction(1, 2), Fraction(1, 3))
 
+#: exponentially small terms (:func:`_ensemble_exp`): how many, ``e^(-kappa g) g^-j`` for
+#: ``j < n``; the range searched for ``kappa g_min`` (the smallest coupling of the fit's window)
+#: on a log grid of EXP_GRID points, refined by EXP_REFINE golden-section steps; a fit whose best
+#: kappa lies at an end of the range has no exponential to fit and is dropped
+EXP_TERMS = (1, 2)
+EXP_RANGE = (0.05, 80.0)
+EXP_GRID = 40
+EXP_REFINE = 24
+#: exponential fits whose chi2/dof exceed this are left out of the coefficients' ensemble (the
+#: power fits they replace all missed by far more: kernel family at a = 3 pi/8, 100 loops, g = 1
+#: to 8, chi2/dof 1.5e6 at best; with the exponential 0.02 to 600, and the g^1 coefficient of
+#: the fits below this 4.2442-4.2452 against 4.2426, of those above it down to 4.229)
+EXP_KEEP_CHI2 = 100 * 4
+#: what exponential= accepts
+EXPONENTIAL_CHOICES = ("auto", "always", "never")
+
 
 def simple_rational(x, band, max_den: int = 6):
     """The simplest fraction ``k/q`` (``q <= max_den``) inside ``[x - band, x + band]``, or None."""
@@ -255,7 +285,8 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
                           method: str = "auto", leading_power=None, log_terms: bool = False,
                           n_terms_fit: Sequence[int] = (3, 4, 5, 6), expected: Optional[dict] = None,
                           max_rel_band=mpmath.mpf("1e-4"), evaluate_options: Optional[dict] = None,
-                          values: Optional[Sequence] = None, spacing=None) -> StrongCouplingResult:
+                          values: Optional[Sequence] = None, spacing=None,
+                          exponential="auto") -> StrongCouplingResult:
     """Fit the strong-coupling form ``sum_k a_k g^(p - k S)`` of a resummed series.
 
     Parameters
@@ -295,6 +326,13 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
         Use these values at ``couplings`` instead of resumming (for example
         from a finite-coupling evaluator); the series is then only used for
         its name.
+    exponential : {"auto", "always", "never"}
+        Exponentially small terms ``A e^(-kappa g) (+ A' e^(-kappa g)/g)`` in the form:
+        "auto" (default) tries them where no power fit matches the values within their
+        bands and keeps them when one of those fits does; "always" keeps them; "never"
+        leaves them out. When kept, ``diagnostics["exponential"]`` holds ``kappa`` (an
+        Estimate: median and 3 x the central spread over the fits kept) and how it was
+        obtained.
 
     Returns
     -------
@@ -311,6 +349,11 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
     except (TypeError, ValueError):
         n_terms_fit = ()
     spacing_given = _spacing_arg(spacing, ctx.work_dps)
+    if exponential is True or exponential is False:
+        exponential = "always" if exponential else "never"
+    if exponential not in EXPONENTIAL_CHOICES:
+        raise InputError(f"must be one of {', '.join(EXPONENTIAL_CHOICES)}, got {exponential!r}",
+                         where="exponential")
     if not n_terms_fit or min(n_terms_fit) < 1:
         raise InputError("must list whole numbers >= 1 such as (3, 4, 5), got "
                          f"{n_terms_fit_given!r}", where="n_terms_fit")
@@ -413,6 +456,22 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
                                         diagnostics={"spacing_trials": spacing_trials},
                                         spacing=spacing_out,
                                         spacing_source=spacing_source)
+        exp_info = None
+        if exponential != "never":
+            # tried where no power fit over all the trusted couplings matches (a fit over the few
+            # largest couplings, with terms to match its points, says little), kept where an
+            # exponential one does
+            if exponential == "always" or not _matches_all(members):
+                exp_members = _ensemble_exp(trusted, p_mp, S, log_terms, n_terms_fit)
+                keep = [m for m in exp_members if m["dof"] > 0 and m["chi2"] / m["dof"] <= EXP_KEEP_CHI2]
+                if len(keep) >= 2 and (exponential == "always" or _matches_all(keep)):
+                    members = keep
+                    exp_info = _kappa_estimate(keep, var)
+                else:
+                    warnings.append(
+                        "exponentially small terms e^(-kappa " + var + ") were tried and do not help: "
+                        + (f"of {len(exp_members)} such fits, none matches the values within their bands"
+                           if exp_members else "no such fit could be made (too few sharp values)"))
         ok = members
         best = _best_ratio(members)
         mismatch = best is not None and best > GROSS_MISFIT
@@ -489,15 +548,20 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
             "how": "coefficients: median over fits (terms in the form, lowest coupling kept); "
                    "band = 3 x max(16-84 percentile spread over fits, median least-squares standard error)",
             "chi2_per_dof": [sig_text(m["chi2"] / m["dof"], 2) if m["dof"] else None for m in members]}
+        if exp_info is not None:
+            diag["exponential"] = exp_info
         prov = Provenance("strong-coupling", {"method": meth, "leading_power": None if leading_power is None
                                               else str(leading_power), "log_terms": log_terms,
                                               "n_terms_fit": list(n_terms_fit),
                                               "spacing": None if spacing_given is None
-                                              else _spacing_text(spacing_given)},
+                                              else _spacing_text(spacing_given),
+                                              "exponential": exponential},
                           n_terms=getattr(series, "n_terms", 0), dps=ctx.work_dps,
                           input_hash=series.input_hash() if hasattr(series, "input_hash") else "")
         done = (f"fitted {len(coeffs)} coefficients from {len(trusted)} couplings up to "
                 f"{var} = {mpmath.nstr(trusted_up_to, 6)}")
+        if exp_info is not None:
+            done += f", with an exponentially small term e^(-kappa {var}), kappa = {exp_info['kappa']}"
         if mismatch:
             done = "the asymptotic form does not fit the resummed values; " + done
         return StrongCouplingResult(not mismatch, Status.NOT_CONVERGED if mismatch else Status.CONVERGED,
@@ -639,6 +703,122 @@ def _ensemble(trusted, p_mp, S, log_terms, n_terms_fit) -> list:
             members.append({"K": K, "drop": drop, "basis": basis, "sol": sol, "se": se,
                             "chi2": chi2, "dof": dof, "g_min": win[0][0]})
     return members
+
+
+def _ensemble_exp(trusted, p_mp, S, log_terms, n_terms_fit) -> list:
+    """As :func:`_ensemble`, with ``n`` exponentially small terms ``e^(-kappa g) g^-j``
+    (``j < n``, ``n`` in :data:`EXP_TERMS`) added to the power form. Per fit, ``kappa`` minimises
+    the weighted misfit: a log grid of ``kappa g_min`` over :data:`EXP_RANGE`, refined by golden
+    section between the best grid point's neighbours (the search in FLINT's ball arithmetic by the
+    normal equations at 320 bits, the final fit as the power fits are made). A fit whose best
+    ``kappa`` lies at an end of the range is dropped. Members carry ``kappa`` and ``n_exp``; their
+    ``basis``, ``sol`` and ``se`` are those of the power terms, and ``dof`` counts ``kappa``."""
+    members = []
+    for K in n_terms_fit:
+        nb = K * (2 if log_terms else 1)
+        basis = []
+        for k in range(K):
+            basis.append((p_mp - k * S, False))
+            if log_terms:
+                basis.append((p_mp - k * S, True))
+        for n_exp in EXP_TERMS:
+            for drop in range(0, max(1, len(trusted) - nb - n_exp - 1)):
+                win = trusted[drop:]
+                if len(win) < nb + n_exp + 2:
+                    break
+                wts = [1 / max(v.error, abs(v.value) * mpmath.mpf(10) ** -10) for _, v in win]
+                prow = [[g ** pw * (mpmath.log(g) if lg else 1) for pw, lg in basis] for g, _ in win]
+                misfit = _misfit_arb(win, prow, wts, n_exp)
+                lo, hi = math.log(EXP_RANGE[0] / float(win[0][0])), math.log(EXP_RANGE[1] / float(win[0][0]))
+                ts = [lo + (hi - lo) * i / (EXP_GRID - 1) for i in range(EXP_GRID)]
+                chis = [misfit(math.exp(t)) for t in ts]
+                i = min(range(EXP_GRID), key=lambda k: chis[k])
+                if i in (0, EXP_GRID - 1) or not math.isfinite(chis[i]):
+                    continue
+                a, b = ts[i - 1], ts[i + 1]
+                r = (math.sqrt(5) - 1) / 2
+                c, d = b - r * (b - a), a + r * (b - a)
+                fc, fd = misfit(math.exp(c)), misfit(math.exp(d))
+                for _ in range(EXP_REFINE):
+                    if fc < fd:
+                        b, d, fd = d, c, fc
+                        c = b - r * (b - a)
+                        fc = misfit(math.exp(c))
+                    else:
+                        a, c, fc = c, d, fd
+                        d = a + r * (b - a)
+                        fd = misfit(math.exp(d))
+                kappa = mpmath.exp(mpmath.mpf((a + b) / 2))
+                rows = [pr + [mpmath.exp(-kappa * g) * g ** (-j) for j in range(n_exp)]
+                        for pr, (g, _) in zip(prow, win)]
+                try:
+                    sol, se, chi2 = _lstsq(rows, [v.value for _, v in win], wts)
+                except (ZeroDivisionError, ValueError):
+                    continue
+                members.append({"K": K, "drop": drop, "basis": basis, "sol": sol[:nb], "se": se[:nb],
+                                "chi2": chi2, "dof": len(win) - nb - n_exp - 1, "g_min": win[0][0],
+                                "kappa": kappa, "n_exp": n_exp})
+    return members
+
+
+def _misfit_arb(win, prow, wts, n_exp):
+    """``kappa -> chi2`` of the weighted least-squares fit of the power columns ``prow`` and
+    ``n_exp`` exponential columns to the values of ``win`` (normal equations, 320 bits; inf
+    where singular). Only the minimiser's position matters; the reported fit is redone in
+    mpmath."""
+    old = flint.ctx.prec
+    flint.ctx.prec = 320
+    try:
+        gs = [flint.arb(mpmath.nstr(g, 40)) for g, _ in win]
+        ws = [flint.arb(mpmath.nstr(w, 40)) for w in wts]
+        base = [[flint.arb(mpmath.nstr(x, 40)) * w for x in pr] for pr, w in zip(prow, ws)]
+        rhs = flint.arb_mat([[flint.arb(mpmath.nstr(v.value, 40)) * w] for (_, v), w in zip(win, ws)])
+    finally:
+        flint.ctx.prec = old
+
+    def chi2(kappa: float) -> float:
+        old = flint.ctx.prec
+        flint.ctx.prec = 320
+        try:
+            k = flint.arb(kappa)
+            rows = []
+            for g, w, b in zip(gs, ws, base):
+                e = (-k * g).exp() * w
+                rows.append(b + [e / g ** j for j in range(n_exp)])
+            A = flint.arb_mat(rows)
+            At = A.transpose()
+            sol = (At * A).solve(At * rhs, algorithm="approx")
+            res = A * sol - rhs
+            return float(sum((res[i, 0].mid() ** 2 for i in range(res.nrows())), flint.arb(0)))
+        except (ZeroDivisionError, ValueError):
+            return math.inf
+        finally:
+            flint.ctx.prec = old
+    return chi2
+
+
+def _kappa_estimate(members, var) -> dict:
+    """``kappa`` over the exponential fits kept: median, band 3 x the 16-84 percentile spread
+    (at least 1 % of the median)."""
+    ks = sorted(m["kappa"] for m in members)
+    med = ks[len(ks) // 2]
+    lo_q = ks[int(0.16 * (len(ks) - 1))]
+    hi_q = ks[int(mpmath.ceil(0.84 * (len(ks) - 1)))]
+    w = 3 * max(hi_q - med, med - lo_q, med / 100)
+    lo = max(med - w, mpmath.mpf(0))            # a decaying term: kappa > 0
+    est = Estimate(med, lo, med + w)
+    return {"kappa": est, "kappa_over_pi": Estimate(med / mpmath.pi, lo / mpmath.pi, (med + w) / mpmath.pi),
+            "n_fits": len(members),
+            "terms": sorted({m["n_exp"] for m in members}),
+            "how": f"A e^(-kappa {var}) (and A' e^(-kappa {var})/{var}) added to the power form; kappa per fit "
+                   "from a search of the weighted misfit; value: median over the fits kept (chi2/dof at most "
+                   f"{EXP_KEEP_CHI2}); band: 3 x their 16-84 percentile spread, at least 1 % of the value, cut at 0"}
+
+
+def _matches_all(members) -> bool:
+    """Whether some fit over all the trusted couplings (none dropped, a point to spare) matches
+    the values within their bands (chi2/dof at most :data:`MATCH_CHI2`)."""
+    return any(m["drop"] == 0 and m["dof"] > 0 and m["chi2"] / m["dof"] <= MATCH_CHI2 for m in members)
 
 
 def _best_ratio(members):

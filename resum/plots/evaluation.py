@@ -297,8 +297,10 @@ def plot_strong_fit(result, ax=None):
                 for pw, lg, est in terms:
                     s += est.value * g ** pw * (mpmath.log(g) if lg else 1)
                 return s / g ** p
+            exp_fitted = isinstance(result.diagnostics.get("exponential"), dict)
             ax.plot([float(g) for g in grid], [float(form(g)) for g in grid], "-", lw=1.2,
-                    label="fitted form / " + f"{var}^p")
+                    label="fitted form / " + f"{var}^p"
+                    + (" (its powers; the exponential term left out)" if exp_fitted else ""))
             from ..estimators.strong_coupling import leading_label
             e = result.coefficient(leading_label([lab for lab, _ in result.coefficients]))
             if e is not None:

@@ -97,3 +97,18 @@ def test_strong_plot_and_no_verify(tmp_path, capsys, monkeypatch):
     (tmp_path / "file").write_text("x")
     assert main(["strong", str(f), "--plot", str(tmp_path / "file")]) == 2
     assert "--plot" in capsys.readouterr().err
+
+
+def test_strong_exponential_option(tmp_path, capsys):
+    # a bad --exponential stops before any work with one line; 'never' is recorded in the
+    # provenance and leaves no exponential in the report (closed form at angle 0, as above)
+    f = tmp_path / "a0.json"
+    assert main(["generate", "bes", "--angle", "0", "--loops", "40", "--dps", "50", "-o", str(f)]) == 0
+    capsys.readouterr()
+    assert main(["strong", str(f), "--exponential", "sometimes"]) == 2
+    err = capsys.readouterr().err.strip().splitlines()
+    assert len(err) == 1 and "--exponential" in err[0] and "auto, always, never" in err[0]
+    main(["strong", str(f), "--exponential", "never", "--no-verify", "--json"])
+    doc = json.loads(capsys.readouterr().out)
+    assert doc["provenance"]["options"]["exponential"] == "never"
+    assert "exponential" not in doc["diagnostics"]
