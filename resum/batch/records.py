@@ -385,6 +385,9 @@ def _result_fields(rec: dict, n_sing: int) -> dict:
                 # the spec gives it): which form the coefficients belong to
                 row[f"strong_{kind}_spacing"] = d["spacing"]
             _est(f"strong_{kind}_power", d.get("leading_power"), row)
+            if d.get("kappa") is not None:
+                # the rate of an exponentially small term the fit kept (e^(-kappa g))
+                _est(f"strong_{kind}_kappa", d["kappa"], row)
             co = d.get("coefficients") or {}
             lead = leading_label(co)
             if lead is not None:

@@ -426,6 +426,8 @@ def _strong_json(res) -> dict:
     """Compact record of a StrongCouplingResult: coefficients as a label -> band table."""
     from ..estimators.strong_coupling import _spacing_str
     est = lambda e: None if e is None else e.to_dict()  # noqa: E731
+    exp = res.diagnostics.get("exponential")
+    kappa = {"kappa": exp["kappa"].to_dict()} if isinstance(exp, dict) and exp.get("kappa") is not None else {}
     return {"success": res.success, "status": res.status.value, "message": res.message,
             "variable": res.variable,
             "leading_power": est(res.leading_power), "power_source": res.power_source,
@@ -435,13 +437,13 @@ def _strong_json(res) -> dict:
             "trusted_up_to": None if res.trusted_up_to is None else num_to_str(res.trusted_up_to, 20),
             "couplings": [num_to_str(g, 20) for g in res.couplings],
             "values": [est(v) for v in res.values],
-            "warnings": list(res.warnings)}
+            "warnings": list(res.warnings), **kappa}
 
 
 def _run_strong(series, params, ctx, opts, source):
     from ..resummation import probe_strong_coupling
     kw = {k: opts[k] for k in ("couplings", "method", "leading_power", "log_terms",
-                               "max_rel_band", "spacing") if k in opts}
+                               "max_rel_band", "spacing", "exponential") if k in opts}
     if "n_terms_fit" in opts:
         kw["n_terms_fit"] = tuple(opts["n_terms_fit"])
     known = _known(opts, ctx.work_dps)
@@ -593,6 +595,11 @@ def _check_strong(opts, source_name, source, names=None):
     if "spacing" in opts:
         from ..estimators.strong_coupling import _spacing_arg
         _spacing_arg(opts["spacing"], 30)
+    if "exponential" in opts:
+        from ..estimators.strong_coupling import EXPONENTIAL_CHOICES
+        if opts["exponential"] not in EXPONENTIAL_CHOICES:
+            raise InputError(f"exponential must be one of {', '.join(EXPONENTIAL_CHOICES)}, got "
+                             f"{opts['exponential']!r}")
     if "couplings" in opts and isinstance(opts["couplings"], (list, tuple)) and len(set(map(str, opts["couplings"]))) < 4:
         raise InputError("couplings: the fit needs at least 4 distinct couplings")
 
@@ -637,8 +644,8 @@ TASKS = {
     "strong": TaskDef("strong", "strong-coupling probe",
                       {"couplings": "numbers", "method": "str", "leading_power": "number",
                        "log_terms": "bool", "n_terms_fit": "ints", "max_rel_band": "number",
-                       "spacing": "raw", "singularities": "raw", "borel_singularities": "raw",
-                       "borel_b": "raw",
+                       "spacing": "raw", "exponential": "str", "singularities": "raw",
+                       "borel_singularities": "raw", "borel_b": "raw",
                        "resummed": "bool", "from_truth": "bool", "truth_dps": "int"},
                       _run_strong),
     "truth": TaskDef("truth", "finite-coupling ground truth from the source",

@@ -191,6 +191,8 @@ def test_truth_task_needs_an_evaluator():
     ('\n[tasks.strong]\nspacing = 0\n', ["tasks.strong", "spacing", "above 0"]),
     ('\n[tasks.strong]\nspacing = "-2/3"\n', ["tasks.strong", "spacing", "above 0"]),
     ('\n[tasks.strong]\nspacing = "abc"\n', ["tasks.strong", "spacing:", "'abc'", "or 'auto'"]),
+    ('\n[tasks.strong]\nexponential = "often"\n', ["tasks.strong", "exponential", "auto, always, never",
+                                                     "'often'"]),
 ])
 def test_unknown_methods_and_missing_options(extra, words):
     with pytest.raises(InputError) as err:
