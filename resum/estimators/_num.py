@@ -255,6 +255,20 @@ def polyder(p):
     return [k * p[k] for k in range(1, len(p))]
 
 
+def root_digits(rel_err, dps: int) -> int:
+    """Digits to which the roots of a polynomial whose coefficients carry the relative accuracy
+    ``rel_err`` are worth refining: those digits plus :data:`ROOT_DIGITS_MARGIN` (a simple root
+    moves by about the coefficients' relative change times its condition, and the estimators
+    compare roots across approximants far above that level), between 30 and ``dps``."""
+    if not rel_err or rel_err <= 0 or not math.isfinite(rel_err):
+        return dps
+    return int(min(dps, max(30, math.ceil(-math.log10(rel_err)) + ROOT_DIGITS_MARGIN)))
+
+
+#: digits beyond the coefficients' own accuracy to which :func:`root_digits` refines roots
+ROOT_DIGITS_MARGIN = 10
+
+
 def poly_roots(p, dps: int, tol_digits: Optional[int] = None, seeds=None):
     """All complex roots of the polynomial ``p`` (coefficients low to high).
 

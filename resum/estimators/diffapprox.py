@@ -59,7 +59,7 @@ from ..results import Status
 from ..uncertainty.ensemble import SAFETY
 from ._common import failed, finish, prepare
 from .._kernels.hermite import hermite_pade
-from ._num import CERTIFIED_MAX, poly_roots, polyder, polyval_many, solve
+from ._num import CERTIFIED_MAX, poly_roots, polyder, polyval_many, root_digits, solve
 from .pade_sing import clusters_to_singularities
 from .ratio import classify_growth
 
@@ -580,7 +580,7 @@ def estimate_diffapprox(series, ctx=None, order=1, count=16, max_radius_factor=2
                         break
                     continue
                 Q, err = fit
-                roots = poly_roots(Q[K], prep.dps, seeds=last_roots)
+                roots = poly_roots(Q[K], prep.dps, tol_digits=root_digits(err, prep.dps), seeds=last_roots)
                 last_roots = roots or last_roots
                 if not roots:
                     skipped.append((L, tuple(Ms)))

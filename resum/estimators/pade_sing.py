@@ -47,7 +47,7 @@ import mpmath
 from ..results import Estimate, Singularity, Status
 from ..uncertainty.ensemble import SAFETY, cluster_points, robust_center
 from ._common import classify_kind, complex_exponent_note, failed, finish, prepare
-from ._num import nearest_distances, pade_coeffs, poly_roots, polyder, polyval_many
+from ._num import nearest_distances, pade_coeffs, poly_roots, polyder, polyval_many, root_digits
 from .ratio import classify_growth
 
 __all__ = ["estimate_pade", "pade_ensemble", "table_orders", "clusters_to_singularities"]
@@ -142,8 +142,11 @@ def pade_ensemble(c, dps: int, digits: int, count: int = 10, max_rel_err=None, o
     for L, M, pq in solved:
         p, q, err = pq
         # neighbouring approximants share most poles and zeros: theirs start the root finder
-        poles = poly_roots(q, dps, seeds=last_poles)
-        zeros = poly_roots(p, dps, seeds=last_zeros)
+        # to the digits the coefficients carry (and a margin), not beyond: the Newton steps at
+        # the full working precision were the larger part of root finding on long series
+        rd = root_digits(err, dps)
+        poles = poly_roots(q, dps, tol_digits=rd, seeds=last_poles)
+        zeros = poly_roots(p, dps, tol_digits=rd, seeds=last_zeros)
         last_poles = poles or last_poles
         last_zeros = zeros or last_zeros
         if poles is None or zeros is None:
