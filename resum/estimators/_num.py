@@ -259,7 +259,11 @@ def root_digits(rel_err, dps: int) -> int:
     """Digits to which the roots of a polynomial whose coefficients carry the relative accuracy
     ``rel_err`` are worth refining: those digits plus :data:`ROOT_DIGITS_MARGIN` (a simple root
     moves by about the coefficients' relative change times its condition, and the estimators
-    compare roots across approximants far above that level), between 30 and ``dps``."""
+    compare roots across approximants far above that level), between 30 and ``dps``.
+
+    >>> root_digits(1e-50, 210), root_digits(1e-5, 210), root_digits(1e-300, 210), root_digits(0.0, 210)
+    (60, 30, 210, 210)
+    """
     if not rel_err or rel_err <= 0 or not math.isfinite(rel_err):
         return dps
     return int(min(dps, max(30, math.ceil(-math.log10(rel_err)) + ROOT_DIGITS_MARGIN)))
