@@ -262,7 +262,7 @@ def root_digits(rel_err, dps: int) -> int:
     compare roots across approximants far above that level), between 30 and ``dps``.
 
     >>> root_digits(1e-50, 210), root_digits(1e-5, 210), root_digits(1e-300, 210), root_digits(0.0, 210)
-    (60, 30, 210, 210)
+    (75, 30, 210, 210)
     """
     if not rel_err or rel_err <= 0 or not math.isfinite(rel_err):
         return dps
@@ -270,7 +270,7 @@ def root_digits(rel_err, dps: int) -> int:
 
 
 #: digits beyond the coefficients' own accuracy to which :func:`root_digits` refines roots
-ROOT_DIGITS_MARGIN = 10
+ROOT_DIGITS_MARGIN = 25
 
 
 def poly_roots(p, dps: int, tol_digits: Optional[int] = None, seeds=None):
