@@ -193,8 +193,14 @@ def _render(res) -> str:
     exp = res.diagnostics.get("exponential")
     if isinstance(exp, dict) and exp.get("kappa") is not None:
         terms = " and A' e^(-kappa {0})/{0}".format(res.variable) if 2 in exp.get("terms", []) else ""
-        lines.append(f"  plus A e^(-kappa {res.variable}){terms}: kappa = {exp['kappa']} = "
-                     f"{exp['kappa_over_pi']} pi   ({exp.get('n_fits')} fits)")
+        k = exp["kappa"]
+        if k.lower <= 0 or k.error > k.value / 2:
+            # the fits kept agree on the power terms but not on the rate: say so rather than
+            # print a band that reads as a measurement
+            kap = f"kappa not determined ({k}: the fits kept disagree on it)"
+        else:
+            kap = f"kappa = {k} = {exp['kappa_over_pi']} pi"
+        lines.append(f"  plus A e^(-kappa {res.variable}){terms}: {kap}   ({exp.get('n_fits')} fits)")
     for w in res.warnings:
         lines.append(f"warning: {w}")
     lines.append("The bands come from the spread over an ensemble of fits (numbers of terms and "

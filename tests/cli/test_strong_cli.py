@@ -112,3 +112,22 @@ def test_strong_exponential_option(tmp_path, capsys):
     doc = json.loads(capsys.readouterr().out)
     assert doc["provenance"]["options"]["exponential"] == "never"
     assert "exponential" not in doc["diagnostics"]
+
+
+def test_strong_reports_the_exponential_rate(tmp_path, capsys):
+    # resummed values of F_0 at g = 1 ... 3 see (2/pi^2) log(1 + e^(-4 pi g)) beyond the two
+    # powers (closed form above): the fit with e^(-kappa g) is kept and its kappa band holds 4 pi
+    f = tmp_path / "a0.json"
+    assert main(["generate", "bes", "--angle", "0", "--loops", "50", "--dps", "60", "-o", str(f)]) == 0
+    capsys.readouterr()
+    at = [a for g in ("1", "1.1", "1.2", "1.3", "1.4", "1.5", "1.6", "1.8", "2", "2.5", "3") for a in ("--at", g)]
+    assert main(["strong", str(f), *at, "--max-band", "1e-3", "--no-verify", "--json"]) == 0
+    doc = json.loads(capsys.readouterr().out)
+    kappa = doc["diagnostics"]["exponential"]["kappa"]
+    with workdps(30):
+        assert mpmath.mpf(kappa["lo"]) <= 4 * mpmath.pi <= mpmath.mpf(kappa["hi"])
+        lead = dict(doc["coefficients"])["g^1"]
+        assert mpmath.mpf(lead["lo"]) <= 4 / mpmath.pi <= mpmath.mpf(lead["hi"])
+    assert main(["strong", str(f), *at, "--max-band", "1e-3", "--no-verify"]) == 0
+    out = capsys.readouterr().out
+    assert "plus A e^(-kappa g)" in out and "kappa = " in out and " pi " in out
