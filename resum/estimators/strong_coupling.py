@@ -20,11 +20,13 @@ coefficient's value is the median over the ensemble, and its band is 3
 times the larger of the ensemble's central spread (16th to 84th percentile
 around the median) and the median least-squares standard error. Weights are 1/band, floored at a 1e-10 relative band.
 
-Exponentially small terms. Where no fit of the power form matches the values
-within their bands (chi2/dof above :data:`MATCH_CHI2`), the fits are repeated
+Exponentially small terms. Where no fit of the power form over all the trusted
+couplings matches the values within their bands (chi2/dof above
+:data:`MATCH_CHI2`), the fits are repeated
 with ``A e^(-kappa g)`` (one term, or two with ``A' e^(-kappa g)/g``) added,
 ``kappa`` found per fit by a search of the least-squares misfit
-(:func:`_ensemble_exp`); when one of those fits matches, they replace the power
+(:func:`_ensemble_exp`); when one of those fits over all the trusted couplings
+matches, they (those within :data:`EXP_KEEP_CHI2`) replace the power
 fits and ``kappa`` is reported with its band (``diagnostics["exponential"]``).
 Such terms arise where the strong-coupling expansion is asymptotic and its
 Borel transform has a singularity at ``kappa`` (common practice, no source):
@@ -184,7 +186,7 @@ EXP_REFINE = 24
 #: power fits they replace all missed by far more: kernel family at a = 3 pi/8, 100 loops, g = 1
 #: to 8, chi2/dof 1.5e6 at best; with the exponential 0.02 to 600, and the g^1 coefficient of
 #: the fits below this 4.2442-4.2452 against 4.2426, of those above it down to 4.229)
-EXP_KEEP_CHI2 = 100 * 4
+EXP_KEEP_CHI2 = 100 * MATCH_CHI2
 #: what exponential= accepts
 EXPONENTIAL_CHOICES = ("auto", "always", "never")
 
@@ -328,8 +330,9 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
         its name.
     exponential : {"auto", "always", "never"}
         Exponentially small terms ``A e^(-kappa g) (+ A' e^(-kappa g)/g)`` in the form:
-        "auto" (default) tries them where no power fit matches the values within their
-        bands and keeps them when one of those fits does; "always" keeps them; "never"
+        "auto" (default) tries them where no power fit over all the trusted couplings
+        matches the values within their bands and keeps them when one of those fits does;
+        "always" keeps them; "never"
         leaves them out. When kept, ``diagnostics["exponential"]`` holds ``kappa`` (an
         Estimate: median and 3 x the central spread over the fits kept) and how it was
         obtained.
