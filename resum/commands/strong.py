@@ -170,6 +170,22 @@ def _shown(label: str) -> str:
     return f"{head}^{power}{space}{tail}"
 
 
+def exponential_text(res):
+    """The exponentially small term the fit kept, as one line (``None`` when none was kept)."""
+    exp = res.diagnostics.get("exponential")
+    if not isinstance(exp, dict) or exp.get("kappa") is None:
+        return None
+    terms = " and A' e^(-kappa {0})/{0}".format(res.variable) if 2 in exp.get("terms", []) else ""
+    k = exp["kappa"]
+    if k.lower <= 0 or k.error > k.value / 2:
+        # the fits kept agree on the power terms but not on the rate: say so rather than print a
+        # band that reads as a measurement
+        kap = f"kappa not determined ({k}: the fits kept disagree on it)"
+    else:
+        kap = f"kappa = {k} = {exp['kappa_over_pi']} pi"
+    return f"plus A e^(-kappa {res.variable}){terms}: {kap}   ({exp.get('n_fits')} fits)"
+
+
 def _render(res) -> str:
     lines = [f"Strong-coupling probe in {res.variable}: {res.status.value}"
              + (f" ({res.message})" if res.message else "")]
@@ -190,17 +206,9 @@ def _render(res) -> str:
             if cmp:
                 tail = f"   expected {cmp.get('expected')}: {'inside' if cmp.get('inside') else 'OUTSIDE'} the band"
             lines.append(f"  {_shown(label):>14}  {e}{tail}")
-    exp = res.diagnostics.get("exponential")
-    if isinstance(exp, dict) and exp.get("kappa") is not None:
-        terms = " and A' e^(-kappa {0})/{0}".format(res.variable) if 2 in exp.get("terms", []) else ""
-        k = exp["kappa"]
-        if k.lower <= 0 or k.error > k.value / 2:
-            # the fits kept agree on the power terms but not on the rate: say so rather than
-            # print a band that reads as a measurement
-            kap = f"kappa not determined ({k}: the fits kept disagree on it)"
-        else:
-            kap = f"kappa = {k} = {exp['kappa_over_pi']} pi"
-        lines.append(f"  plus A e^(-kappa {res.variable}){terms}: {kap}   ({exp.get('n_fits')} fits)")
+    exp = exponential_text(res)
+    if exp:
+        lines.append(f"  {exp}")
     for w in res.warnings:
         lines.append(f"warning: {w}")
     lines.append("The bands come from the spread over an ensemble of fits (numbers of terms and "

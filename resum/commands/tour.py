@@ -191,7 +191,7 @@ def _report(series, ana, ev, rows, held, figures, seconds, strong=None) -> str:
 
 def _strong_lines(strong) -> list:
     from ..estimators.strong_coupling import leading_power_text
-    from .strong import _shown
+    from .strong import _shown, exponential_text
     lines = ["", "## Strong coupling", "",
              f"The resummed values at growing g (those whose band is below 1e-4 of the value, up to "
              f"g = {strong.trusted_up_to}) fitted by a g^p + b g^(p - S) + ...: {strong.status.value}.", ""]
@@ -201,6 +201,9 @@ def _strong_lines(strong) -> list:
         lines.append(f"- powers spaced by S = {strong.spacing}")
     for label, e in strong.coefficients:
         lines.append(f"- coefficient of {_shown(label)}: {e}")
+    exp = exponential_text(strong)
+    if exp:
+        lines.append(f"- {exp}")
     for w in strong.warnings:
         lines.append(f"- warning: {w}")
     lines += ["", "The coefficient bands come from the spread over an ensemble of fits (numbers of terms "
