@@ -443,7 +443,7 @@ def _strong_json(res) -> dict:
 def _run_strong(series, params, ctx, opts, source):
     from ..resummation import probe_strong_coupling
     kw = {k: opts[k] for k in ("couplings", "method", "leading_power", "log_terms",
-                               "max_rel_band", "spacing", "exponential") if k in opts}
+                               "max_rel_band", "spacing", "exponential", "kappa") if k in opts}
     if "n_terms_fit" in opts:
         kw["n_terms_fit"] = tuple(opts["n_terms_fit"])
     known = _known(opts, ctx.work_dps)
@@ -595,6 +595,15 @@ def _check_strong(opts, source_name, source, names=None):
     if "spacing" in opts:
         from ..estimators.strong_coupling import _spacing_arg
         _spacing_arg(opts["spacing"], 30)
+    if "kappa" in opts:
+        try:
+            ok = float(opts["kappa"]) > 0
+        except (TypeError, ValueError):
+            ok = False
+        if not ok:
+            raise InputError("kappa must be a positive number (the rate of the exponentially small term)")
+        if opts.get("exponential") == "never":
+            raise InputError("kappa is given but exponential = \"never\"; drop one of them")
     if "exponential" in opts:
         from ..estimators.strong_coupling import EXPONENTIAL_CHOICES
         if opts["exponential"] not in EXPONENTIAL_CHOICES:
@@ -644,7 +653,7 @@ TASKS = {
     "strong": TaskDef("strong", "strong-coupling probe",
                       {"couplings": "numbers", "method": "str", "leading_power": "number",
                        "log_terms": "bool", "n_terms_fit": "ints", "max_rel_band": "number",
-                       "spacing": "raw", "exponential": "str", "singularities": "raw",
+                       "spacing": "raw", "exponential": "str", "kappa": "number", "singularities": "raw",
                        "borel_singularities": "raw", "borel_b": "raw",
                        "resummed": "bool", "from_truth": "bool", "truth_dps": "int"},
                       _run_strong),

@@ -48,6 +48,9 @@ def add_arguments(parser) -> None:
                         help="exponentially small terms A e^(-kappa g) (+ A' e^(-kappa g)/g), kappa "
                              "fitted: auto (default: where no fit of the powers alone matches the "
                              "values over all trusted couplings and one with them does), always, never")
+    parser.add_argument("--kappa", default=None, metavar="K",
+                        help="the rate of the exponentially small term when it is known, e.g. '4*pi' "
+                             "(the fits then use it as given; implies --exponential always)")
     parser.add_argument("--expect", action="append", default=[], metavar="LABEL=VALUE",
                         help="expected coefficient to compare with, e.g. 'g^1=2', "
                              "'g^0=-3*log(2)/(2*pi)' or 'g^(1/3)=3.8' (repeat)")
@@ -118,6 +121,15 @@ def run(args) -> int:
         raise InputError(f"give one of {', '.join(EXPONENTIAL_CHOICES)}, got {args.exponential!r}",
                          where="--exponential")
     extra["exponential"] = args.exponential
+    if args.kappa is not None:
+        kap = _number(args.kappa, ctx.work_dps, "--kappa")
+        if isinstance(kap, mpmath.mpc) or not kap > 0:
+            raise InputError(f"give a positive number (the rate of e^(-kappa g)), got {args.kappa!r}",
+                             where="--kappa")
+        if args.exponential == "never":
+            raise InputError("--kappa gives the rate of an exponential term, --exponential never "
+                             "leaves it out; drop one of them", where="--kappa")
+        extra["kappa"] = kap
     if args.max_band is not None:
         band = _number(args.max_band, ctx.work_dps, "--max-band")
         if isinstance(band, mpmath.mpc) or not 0 < band < 1:
@@ -177,7 +189,9 @@ def exponential_text(res):
         return None
     terms = " and A' e^(-kappa {0})/{0}".format(res.variable) if 2 in exp.get("terms", []) else ""
     k = exp["kappa"]
-    if k.lower <= 0 or k.error > k.value / 2:
+    if exp.get("given"):
+        kap = f"kappa = {mpmath.nstr(k.value, 12)} = {mpmath.nstr(k.value / mpmath.pi, 12)} pi (given)"
+    elif k.lower <= 0 or k.error > k.value / 2:
         # the fits kept agree on the power terms but not on the rate: say so rather than print a
         # band that reads as a measurement
         kap = f"kappa not determined ({k}: the fits kept disagree on it)"

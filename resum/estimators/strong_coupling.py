@@ -288,7 +288,7 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
                           n_terms_fit: Sequence[int] = (3, 4, 5, 6), expected: Optional[dict] = None,
                           max_rel_band=mpmath.mpf("1e-4"), evaluate_options: Optional[dict] = None,
                           values: Optional[Sequence] = None, spacing=None,
-                          exponential="auto") -> StrongCouplingResult:
+                          exponential="auto", kappa=None) -> StrongCouplingResult:
     """Fit the strong-coupling form ``sum_k a_k g^(p - k S)`` of a resummed series.
 
     Parameters
@@ -336,6 +336,10 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
         leaves them out. When kept, ``diagnostics["exponential"]`` holds ``kappa`` (an
         Estimate: median and 3 x the central spread over the fits kept) and how it was
         obtained.
+    kappa : number, optional
+        The rate of the exponentially small term when it is known (an instanton action, a
+        mass gap): the fits then use it as given (linear least squares, no search), and
+        ``exponential`` must not be "never".
 
     Returns
     -------
@@ -357,6 +361,19 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
     if exponential not in EXPONENTIAL_CHOICES:
         raise InputError(f"must be one of {', '.join(EXPONENTIAL_CHOICES)}, got {exponential!r}",
                          where="exponential")
+    if kappa is not None:
+        if exponential == "never":
+            raise InputError("a rate kappa is given but exponential is 'never'; drop one of them",
+                             where="kappa")
+        from ..resummation import parse_points
+        try:
+            kappa = parse_points([kappa], ctx.work_dps)[0]
+        except InputError as exc:
+            raise InputError(exc.bare, where="kappa") from None
+        if isinstance(kappa, mpmath.mpc) or not kappa > 0:
+            raise InputError(f"the rate of e^(-kappa g) must be a positive number, got {mpmath.nstr(kappa, 8)}",
+                             where="kappa")
+        exponential = "always"
     if not n_terms_fit or min(n_terms_fit) < 1:
         raise InputError("must list whole numbers >= 1 such as (3, 4, 5), got "
                          f"{n_terms_fit_given!r}", where="n_terms_fit")
@@ -465,11 +482,11 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
             # largest couplings, with terms to match its points, says little), kept where an
             # exponential one does
             if exponential == "always" or not _matches_all(members):
-                exp_members = _ensemble_exp(trusted, p_mp, S, log_terms, n_terms_fit)
+                exp_members = _ensemble_exp(trusted, p_mp, S, log_terms, n_terms_fit, kappa)
                 keep = [m for m in exp_members if m["dof"] > 0 and m["chi2"] / m["dof"] <= EXP_KEEP_CHI2]
                 if len(keep) >= 2 and (exponential == "always" or _matches_all(keep)):
                     members = keep
-                    exp_info = _kappa_estimate(keep, var)
+                    exp_info = _kappa_estimate(keep, var, given=kappa is not None)
                 else:
                     warnings.append(
                         "exponentially small terms e^(-kappa " + var + ") were tried and do not help: "
@@ -558,13 +575,15 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
                                               "n_terms_fit": list(n_terms_fit),
                                               "spacing": None if spacing_given is None
                                               else _spacing_text(spacing_given),
-                                              "exponential": exponential},
+                                              "exponential": exponential,
+                                              "kappa": None if kappa is None else mpmath.nstr(kappa, 20)},
                           n_terms=getattr(series, "n_terms", 0), dps=ctx.work_dps,
                           input_hash=series.input_hash() if hasattr(series, "input_hash") else "")
         done = (f"fitted {len(coeffs)} coefficients from {len(trusted)} couplings up to "
                 f"{var} = {mpmath.nstr(trusted_up_to, 6)}")
         if exp_info is not None:
-            done += f", with an exponentially small term e^(-kappa {var}), kappa = {exp_info['kappa']}"
+            k_text = (f"{mpmath.nstr(kappa, 12)} (given)" if exp_info.get("given") else str(exp_info["kappa"]))
+            done += f", with an exponentially small term e^(-kappa {var}), kappa = {k_text}"
         if mismatch:
             done = "the asymptotic form does not fit the resummed values; " + done
         return StrongCouplingResult(not mismatch, Status.NOT_CONVERGED if mismatch else Status.CONVERGED,
@@ -708,14 +727,15 @@ def _ensemble(trusted, p_mp, S, log_terms, n_terms_fit) -> list:
     return members
 
 
-def _ensemble_exp(trusted, p_mp, S, log_terms, n_terms_fit) -> list:
+def _ensemble_exp(trusted, p_mp, S, log_terms, n_terms_fit, kappa_given=None) -> list:
     """As :func:`_ensemble`, with ``n`` exponentially small terms ``e^(-kappa g) g^-j``
     (``j < n``, ``n`` in :data:`EXP_TERMS`) added to the power form. Per fit, ``kappa`` minimises
     the weighted misfit: a log grid of ``kappa g_min`` over :data:`EXP_RANGE`, refined by golden
     section between the best grid point's neighbours (the search in FLINT's ball arithmetic by the
     normal equations at 320 bits, the final fit as the power fits are made). A fit whose best
     ``kappa`` lies at an end of the range is dropped. Members carry ``kappa`` and ``n_exp``; their
-    ``basis``, ``sol`` and ``se`` are those of the power terms, and ``dof`` counts ``kappa``."""
+    ``basis``, ``sol`` and ``se`` are those of the power terms, and ``dof`` counts ``kappa``.
+    With ``kappa_given`` every fit uses that rate (no search; ``dof`` does not count it)."""
     members = []
     for K in n_terms_fit:
         nb = K * (2 if log_terms else 1)
@@ -725,12 +745,25 @@ def _ensemble_exp(trusted, p_mp, S, log_terms, n_terms_fit) -> list:
             if log_terms:
                 basis.append((p_mp - k * S, True))
         for n_exp in EXP_TERMS:
-            for drop in range(0, max(1, len(trusted) - nb - n_exp - 1)):
+            free = 0 if kappa_given is not None else 1        # kappa itself, when searched
+            for drop in range(0, max(1, len(trusted) - nb - n_exp - free)):
                 win = trusted[drop:]
-                if len(win) < nb + n_exp + 2:
+                if len(win) < nb + n_exp + free + 1:
                     break
                 wts = [1 / max(v.error, abs(v.value) * mpmath.mpf(10) ** -10) for _, v in win]
                 prow = [[g ** pw * (mpmath.log(g) if lg else 1) for pw, lg in basis] for g, _ in win]
+                if kappa_given is not None:
+                    kappa = kappa_given
+                    rows = [pr + [mpmath.exp(-kappa * g) * g ** (-j) for j in range(n_exp)]
+                            for pr, (g, _) in zip(prow, win)]
+                    try:
+                        sol, se, chi2 = _lstsq(rows, [v.value for _, v in win], wts)
+                    except (ZeroDivisionError, ValueError):
+                        continue
+                    members.append({"K": K, "drop": drop, "basis": basis, "sol": sol[:nb], "se": se[:nb],
+                                    "chi2": chi2, "dof": len(win) - nb - n_exp, "g_min": win[0][0],
+                                    "kappa": kappa, "n_exp": n_exp})
+                    continue
                 misfit = _misfit_arb(win, prow, wts, n_exp)
                 lo, hi = math.log(EXP_RANGE[0] / float(win[0][0])), math.log(EXP_RANGE[1] / float(win[0][0]))
                 ts = [lo + (hi - lo) * i / (EXP_GRID - 1) for i in range(EXP_GRID)]
@@ -800,9 +833,16 @@ def _misfit_arb(win, prow, wts, n_exp):
     return chi2
 
 
-def _kappa_estimate(members, var) -> dict:
+def _kappa_estimate(members, var, given: bool = False) -> dict:
     """``kappa`` over the exponential fits kept: median, band 3 x the 16-84 percentile spread
-    (at least 1 % of the median)."""
+    (at least 1 % of the median); the rate itself, exact, when it was given."""
+    if given:
+        k = members[0]["kappa"]
+        return {"kappa": Estimate.exact(k), "kappa_over_pi": Estimate.exact(k / mpmath.pi), "given": True,
+                "n_fits": len(members), "terms": sorted({m["n_exp"] for m in members}),
+                "how": f"A e^(-kappa {var}) (and A' e^(-kappa {var})/{var}) added to the power form with "
+                       "kappa as given; fits with chi2/dof at most "
+                       f"{EXP_KEEP_CHI2} kept"}
     ks = sorted(m["kappa"] for m in members)
     med = ks[len(ks) // 2]
     lo_q = ks[int(0.16 * (len(ks) - 1))]

@@ -108,6 +108,10 @@ def test_strong_exponential_option(tmp_path, capsys):
     assert main(["strong", str(f), "--exponential", "sometimes"]) == 2
     err = capsys.readouterr().err.strip().splitlines()
     assert len(err) == 1 and "--exponential" in err[0] and "auto, always, never" in err[0]
+    for extra in (["--kappa", "-3"], ["--kappa", "pi", "--exponential", "never"], ["--kappa", "x"]):
+        assert main(["strong", str(f), *extra]) == 2
+        err = capsys.readouterr().err.strip().splitlines()
+        assert len(err) == 1 and "--kappa" in err[0] and "Traceback" not in err[0]
     main(["strong", str(f), "--exponential", "never", "--no-verify", "--json"])
     doc = json.loads(capsys.readouterr().out)
     assert doc["provenance"]["options"]["exponential"] == "never"

@@ -68,3 +68,24 @@ def test_powers_that_match_are_left_alone():
                               ctx=Context(dps=30), leading_power=mpmath.mpf(1) / 2, spacing=1)
     assert "exponential" not in r.diagnostics and not r.warnings
     assert r.coefficient("x^1/2").contains(1) and r.coefficient("x^-1/2").contains(mpmath.mpf(1) / 2)
+
+
+def test_a_given_rate_is_used_as_given():
+    # kappa = 4 pi, the closed form's own rate: the fits are linear, the rate is reported exact,
+    # and the coefficient bands still hold 4/pi and -2 ln2/pi^2
+    with mpmath.workdps(30):
+        c1, c0 = 4 / mpmath.pi, -2 * mpmath.log(2) / mpmath.pi ** 2
+    r = probe_strong_coupling(Series([0, 4, 1], name="log cosh values"), couplings=GS,
+                              values=_closed_form_values(), ctx=Context(dps=30), leading_power=1,
+                              kappa="4*pi")
+    ex = r.diagnostics["exponential"]
+    assert ex["given"] and ex["kappa"].error == 0
+    with mpmath.workdps(40):
+        assert abs(ex["kappa"].value - 4 * mpmath.pi) < mpmath.mpf(10) ** -25
+    assert r.coefficient("x^1").contains(c1) and r.coefficient("x^1").error < 1e-7
+    assert r.coefficient("x^0").contains(c0)
+    for bad, words in ((dict(kappa="-1"), "positive"), (dict(kappa="2", exponential="never"), "never")):
+        with pytest.raises(InputError) as err:
+            probe_strong_coupling(Series([0, 4, 1]), couplings=GS, values=_closed_form_values(),
+                                  ctx=Context(dps=30), leading_power=1, **bad)
+        assert "kappa" in str(err.value) and words in str(err.value)
