@@ -752,39 +752,9 @@ def _ensemble_exp(trusted, p_mp, S, log_terms, n_terms_fit, kappa_given=None) ->
                     break
                 wts = [1 / max(v.error, abs(v.value) * mpmath.mpf(10) ** -10) for _, v in win]
                 prow = [[g ** pw * (mpmath.log(g) if lg else 1) for pw, lg in basis] for g, _ in win]
-                if kappa_given is not None:
-                    kappa = kappa_given
-                    rows = [pr + [mpmath.exp(-kappa * g) * g ** (-j) for j in range(n_exp)]
-                            for pr, (g, _) in zip(prow, win)]
-                    try:
-                        sol, se, chi2 = _lstsq(rows, [v.value for _, v in win], wts)
-                    except (ZeroDivisionError, ValueError):
-                        continue
-                    members.append({"K": K, "drop": drop, "basis": basis, "sol": sol[:nb], "se": se[:nb],
-                                    "chi2": chi2, "dof": len(win) - nb - n_exp, "g_min": win[0][0],
-                                    "kappa": kappa, "n_exp": n_exp})
+                kappa = kappa_given if kappa_given is not None else _kappa_search(win, prow, wts, n_exp)
+                if kappa is None:
                     continue
-                misfit = _misfit_arb(win, prow, wts, n_exp)
-                lo, hi = math.log(EXP_RANGE[0] / float(win[0][0])), math.log(EXP_RANGE[1] / float(win[0][0]))
-                ts = [lo + (hi - lo) * i / (EXP_GRID - 1) for i in range(EXP_GRID)]
-                chis = [misfit(math.exp(t)) for t in ts]
-                i = min(range(EXP_GRID), key=lambda k: chis[k])
-                if i in (0, EXP_GRID - 1) or not math.isfinite(chis[i]):
-                    continue
-                a, b = ts[i - 1], ts[i + 1]
-                r = (math.sqrt(5) - 1) / 2
-                c, d = b - r * (b - a), a + r * (b - a)
-                fc, fd = misfit(math.exp(c)), misfit(math.exp(d))
-                for _ in range(EXP_REFINE):
-                    if fc < fd:
-                        b, d, fd = d, c, fc
-                        c = b - r * (b - a)
-                        fc = misfit(math.exp(c))
-                    else:
-                        a, c, fc = c, d, fd
-                        d = a + r * (b - a)
-                        fd = misfit(math.exp(d))
-                kappa = mpmath.exp(mpmath.mpf((a + b) / 2))
                 rows = [pr + [mpmath.exp(-kappa * g) * g ** (-j) for j in range(n_exp)]
                         for pr, (g, _) in zip(prow, win)]
                 try:
@@ -792,9 +762,35 @@ def _ensemble_exp(trusted, p_mp, S, log_terms, n_terms_fit, kappa_given=None) ->
                 except (ZeroDivisionError, ValueError):
                     continue
                 members.append({"K": K, "drop": drop, "basis": basis, "sol": sol[:nb], "se": se[:nb],
-                                "chi2": chi2, "dof": len(win) - nb - n_exp - 1, "g_min": win[0][0],
+                                "chi2": chi2, "dof": len(win) - nb - n_exp - free, "g_min": win[0][0],
                                 "kappa": kappa, "n_exp": n_exp})
     return members
+
+
+def _kappa_search(win, prow, wts, n_exp):
+    """The ``kappa`` minimising the weighted misfit of one fit (see :func:`_ensemble_exp`), or
+    None when the best grid point is an end of the range."""
+    misfit = _misfit_arb(win, prow, wts, n_exp)
+    lo, hi = math.log(EXP_RANGE[0] / float(win[0][0])), math.log(EXP_RANGE[1] / float(win[0][0]))
+    ts = [lo + (hi - lo) * i / (EXP_GRID - 1) for i in range(EXP_GRID)]
+    chis = [misfit(math.exp(t)) for t in ts]
+    i = min(range(EXP_GRID), key=lambda k: chis[k])
+    if i in (0, EXP_GRID - 1) or not math.isfinite(chis[i]):
+        return None
+    a, b = ts[i - 1], ts[i + 1]
+    r = (math.sqrt(5) - 1) / 2
+    c, d = b - r * (b - a), a + r * (b - a)
+    fc, fd = misfit(math.exp(c)), misfit(math.exp(d))
+    for _ in range(EXP_REFINE):
+        if fc < fd:
+            b, d, fd = d, c, fc
+            c = b - r * (b - a)
+            fc = misfit(math.exp(c))
+        else:
+            a, c, fc = c, d, fd
+            d = a + r * (b - a)
+            fd = misfit(math.exp(d))
+    return mpmath.exp(mpmath.mpf((a + b) / 2))
 
 
 def _misfit_arb(win, prow, wts, n_exp):
