@@ -34,6 +34,7 @@ import mpmath
 
 from ..results import Estimate
 from ..transforms.conformal import RayMap, pull_back
+from ._num import poly_roots
 
 __all__ = ["CutPoint", "scan_cut", "NEAR_RIM", "BAND_FACTOR"]
 
@@ -104,7 +105,6 @@ def _elements(d: Sequence, L: int, M: int, dps: int, input_digits):
     # the scan reads each root's angle and modulus in double precision: 20 digits are plenty
     # (the estimators' root finder, refined to them rather than to the working precision: the
     # kernel's isolation to dps digits took 0.47 s per polynomial of a 200-term series)
-    from ._num import poly_roots
     out = []
     for kind, coeffs in (("P", P.q), ("Z", P.p)):
         rts = poly_roots(list(coeffs), dps, tol_digits=ROOT_DIGITS) if len(coeffs) > 1 else []
