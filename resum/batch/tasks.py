@@ -595,20 +595,9 @@ def _check_strong(opts, source_name, source, names=None):
     if "spacing" in opts:
         from ..estimators.strong_coupling import _spacing_arg
         _spacing_arg(opts["spacing"], 30)
-    if "kappa" in opts:
-        try:
-            ok = float(opts["kappa"]) > 0
-        except (TypeError, ValueError):
-            ok = False
-        if not ok:
-            raise InputError("kappa must be a positive number (the rate of the exponentially small term)")
-        if opts.get("exponential") == "never":
-            raise InputError("kappa is given but exponential = \"never\"; drop one of them")
-    if "exponential" in opts:
-        from ..estimators.strong_coupling import EXPONENTIAL_CHOICES
-        if opts["exponential"] not in EXPONENTIAL_CHOICES:
-            raise InputError(f"exponential must be one of {', '.join(EXPONENTIAL_CHOICES)}, got "
-                             f"{opts['exponential']!r}")
+    if "exponential" in opts or "kappa" in opts:
+        from ..estimators.strong_coupling import exponential_options
+        exponential_options(opts.get("exponential", "auto"), opts.get("kappa"), 30)
     if "couplings" in opts and isinstance(opts["couplings"], (list, tuple)) and len(set(map(str, opts["couplings"]))) < 4:
         raise InputError("couplings: the fit needs at least 4 distinct couplings")
 

@@ -116,20 +116,13 @@ def run(args) -> int:
         except InputError as exc:
             raise InputError(exc.bare.replace("'auto'", "auto"), where="--spacing") from None
         extra["spacing"] = args.spacing.strip()
-    from ..estimators.strong_coupling import EXPONENTIAL_CHOICES
-    if args.exponential not in EXPONENTIAL_CHOICES:
-        raise InputError(f"give one of {', '.join(EXPONENTIAL_CHOICES)}, got {args.exponential!r}",
-                         where="--exponential")
-    extra["exponential"] = args.exponential
-    if args.kappa is not None:
-        kap = _number(args.kappa, ctx.work_dps, "--kappa")
-        if isinstance(kap, mpmath.mpc) or not kap > 0:
-            raise InputError(f"give a positive number (the rate of e^(-kappa g)), got {args.kappa!r}",
-                             where="--kappa")
-        if args.exponential == "never":
-            raise InputError("--kappa gives the rate of an exponential term, --exponential never "
-                             "leaves it out; drop one of them", where="--kappa")
-        extra["kappa"] = kap
+    from ..estimators.strong_coupling import exponential_options
+    try:
+        extra["exponential"], kappa = exponential_options(args.exponential, args.kappa, ctx.work_dps)
+    except InputError as exc:
+        raise InputError(exc.bare, where=f"--{exc.where}") from None
+    if kappa is not None:
+        extra["kappa"] = kappa
     if args.max_band is not None:
         band = _number(args.max_band, ctx.work_dps, "--max-band")
         if isinstance(band, mpmath.mpc) or not 0 < band < 1:

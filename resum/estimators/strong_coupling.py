@@ -356,24 +356,7 @@ def probe_strong_coupling(series, couplings: Optional[Sequence] = None, ctx: Opt
     except (TypeError, ValueError):
         n_terms_fit = ()
     spacing_given = _spacing_arg(spacing, ctx.work_dps)
-    if exponential is True or exponential is False:
-        exponential = "always" if exponential else "never"
-    if exponential not in EXPONENTIAL_CHOICES:
-        raise InputError(f"must be one of {', '.join(EXPONENTIAL_CHOICES)}, got {exponential!r}",
-                         where="exponential")
-    if kappa is not None:
-        if exponential == "never":
-            raise InputError("a rate kappa is given but exponential is 'never'; drop one of them",
-                             where="kappa")
-        from ..resummation import parse_points
-        try:
-            kappa = parse_points([kappa], ctx.work_dps)[0]
-        except InputError as exc:
-            raise InputError(exc.bare, where="kappa") from None
-        if isinstance(kappa, mpmath.mpc) or not kappa > 0:
-            raise InputError(f"the rate of e^(-kappa g) must be a positive number, got {mpmath.nstr(kappa, 8)}",
-                             where="kappa")
-        exponential = "always"
+    exponential, kappa = exponential_options(exponential, kappa, ctx.work_dps)
     if not n_terms_fit or min(n_terms_fit) < 1:
         raise InputError("must list whole numbers >= 1 such as (3, 4, 5), got "
                          f"{n_terms_fit_given!r}", where="n_terms_fit")
@@ -725,6 +708,33 @@ def _ensemble(trusted, p_mp, S, log_terms, n_terms_fit) -> list:
             members.append({"K": K, "drop": drop, "basis": basis, "sol": sol, "se": se,
                             "chi2": chi2, "dof": dof, "g_min": win[0][0]})
     return members
+
+
+def exponential_options(exponential, kappa, dps: int):
+    """``(exponential, kappa)`` checked and normalised as :func:`probe_strong_coupling` takes
+    them (the command line and family specs check theirs here too): ``exponential`` one of
+    :data:`EXPONENTIAL_CHOICES` (``True``/``False`` for "always"/"never"); ``kappa`` ``None`` or a
+    positive real number (an expression such as ``"4*pi"``), which makes it "always" and may not
+    come with "never". An :class:`InputError` naming the option otherwise."""
+    if exponential is True or exponential is False:
+        exponential = "always" if exponential else "never"
+    if exponential not in EXPONENTIAL_CHOICES:
+        raise InputError(f"must be one of {', '.join(EXPONENTIAL_CHOICES)}, got {exponential!r}",
+                         where="exponential")
+    if kappa is None:
+        return exponential, None
+    if exponential == "never":
+        raise InputError("a rate kappa is given but exponential is 'never'; drop one of them",
+                         where="kappa")
+    from ..resummation import parse_points
+    try:
+        kappa = parse_points([kappa], dps)[0]
+    except InputError as exc:
+        raise InputError(exc.bare, where="kappa") from None
+    if isinstance(kappa, mpmath.mpc) or not kappa > 0:
+        raise InputError(f"the rate of e^(-kappa g) must be a positive number, got {mpmath.nstr(kappa, 8)}",
+                         where="kappa")
+    return "always", kappa
 
 
 def _ensemble_exp(trusted, p_mp, S, log_terms, n_terms_fit, kappa_given=None) -> list:
