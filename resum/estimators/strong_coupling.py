@@ -690,16 +690,10 @@ def _ensemble(trusted, p_mp, S, log_terms, n_terms_fit) -> list:
             win = trusted[drop:]
             if len(win) < nb + 1:
                 break
-            basis = []
-            for k in range(K):
-                basis.append((p_mp - k * S, False))
-                if log_terms:
-                    basis.append((p_mp - k * S, True))
-            rows = [[g ** pw * (mpmath.log(g) if lg else 1) for pw, lg in basis] for g, _ in win]
+            basis = _basis(p_mp, S, K, log_terms)
+            rows = _rows(basis, win)
             rhs = [v.value for _, v in win]
-            # weights 1/band, but no point counts more than a 1e-10 relative band would:
-            # the truncated asymptotic form is itself only that good
-            wts = [1 / max(v.error, abs(v.value) * mpmath.mpf(10) ** -10) for _, v in win]
+            wts = _weights(win)
             try:
                 sol, se, chi2 = _lstsq(rows, rhs, wts)
             except (ZeroDivisionError, ValueError):
@@ -737,6 +731,28 @@ def exponential_options(exponential, kappa, dps: int):
     return "always", kappa
 
 
+def _basis(p_mp, S, K: int, log_terms: bool) -> list:
+    """``(power, log)`` of the form's first ``K`` powers ``p - k S`` (each also with ``log g``
+    after it when ``log_terms``)."""
+    out = []
+    for k in range(K):
+        out.append((p_mp - k * S, False))
+        if log_terms:
+            out.append((p_mp - k * S, True))
+    return out
+
+
+def _rows(basis, win) -> list:
+    """The power columns of a fit at the couplings of ``win``."""
+    return [[g ** pw * (mpmath.log(g) if lg else 1) for pw, lg in basis] for g, _ in win]
+
+
+def _weights(win) -> list:
+    """Fit weights 1/band, but no point counts more than a 1e-10 relative band would: the
+    truncated asymptotic form is itself only that good."""
+    return [1 / max(v.error, abs(v.value) * mpmath.mpf(10) ** -10) for _, v in win]
+
+
 def _ensemble_exp(trusted, p_mp, S, log_terms, n_terms_fit, kappa_given=None) -> list:
     """As :func:`_ensemble`, with ``n`` exponentially small terms ``e^(-kappa g) g^-j``
     (``j < n``, ``n`` in :data:`EXP_TERMS`) added to the power form. Per fit, ``kappa`` minimises
@@ -749,19 +765,15 @@ def _ensemble_exp(trusted, p_mp, S, log_terms, n_terms_fit, kappa_given=None) ->
     members = []
     for K in n_terms_fit:
         nb = K * (2 if log_terms else 1)
-        basis = []
-        for k in range(K):
-            basis.append((p_mp - k * S, False))
-            if log_terms:
-                basis.append((p_mp - k * S, True))
+        basis = _basis(p_mp, S, K, log_terms)
         for n_exp in EXP_TERMS:
             free = 0 if kappa_given is not None else 1        # kappa itself, when searched
             for drop in range(0, max(1, len(trusted) - nb - n_exp - free)):
                 win = trusted[drop:]
                 if len(win) < nb + n_exp + free + 1:
                     break
-                wts = [1 / max(v.error, abs(v.value) * mpmath.mpf(10) ** -10) for _, v in win]
-                prow = [[g ** pw * (mpmath.log(g) if lg else 1) for pw, lg in basis] for g, _ in win]
+                wts = _weights(win)
+                prow = _rows(basis, win)
                 kappa = kappa_given if kappa_given is not None else _kappa_search(win, prow, wts, n_exp)
                 if kappa is None:
                     continue
